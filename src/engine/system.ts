@@ -1,0 +1,158 @@
+// The validated speaker system in SI units: what every engine module consumes.
+// Built from a DesignDoc by `toSystem` (design/convert.ts); never edited in place.
+
+export interface Air {
+  /** Speed of sound, m/s. */
+  c: number;
+  /** Density, kg/m^3. */
+  rho: number;
+  temperatureC: number;
+  pressurePa: number;
+}
+
+export interface ThermalParams {
+  /** Coil to magnet, K/W. */
+  rtv: number;
+  /** Coil heat capacity, J/K. */
+  ctv: number;
+  /** Magnet to air, K/W. */
+  rtm: number;
+  /** Magnet heat capacity, J/K. */
+  ctm: number;
+  /** Temperature coefficient of the coil's resistance, 1/K (at 20 °C). */
+  alphaR: number;
+  material: 'copper' | 'aluminium';
+  /** Coil temperature rating, °C. */
+  coilMaxC: number;
+}
+
+export interface Driver {
+  fs: number;
+  qes: number;
+  qms: number;
+  qts: number;
+  /** m^3 */
+  vas: number;
+  /** ohm, cold */
+  re: number;
+  /** H */
+  le: number;
+  /** m^2 */
+  sd: number;
+  /** T·m */
+  bl: number;
+  /** kg */
+  mms: number;
+  /** m/N */
+  cms: number;
+  /** kg/s (N·s/m) */
+  rms: number;
+  /** m, one way */
+  xmax: number;
+  /** m, one way: the mechanical limit */
+  xlim: number;
+  /** W, thermal rating */
+  pe: number;
+  /** Relative polynomial coefficients in x in mm: Bl(x) = bl·(1 + c1·x + c2·x^2 + ...). Empty = linear. */
+  blRelPerMm: number[];
+  kmsRelPerMm: number[];
+  leRelPerMm: number[];
+  /** True where the polynomial was fitted from xmax/xlim rather than typed. */
+  nonlinearFitted: boolean;
+  thermal: ThermalParams;
+}
+
+export interface SealedBox {
+  type: 'sealed';
+  /** Effective acoustic volume (fill included), m^3. */
+  vb: number;
+  /** Net internal volume as entered, m^3. */
+  vbNet: number;
+  /** Parallel leakage/absorption resistance, Pa·s/m^3; Infinity = lossless. */
+  ral: number;
+  ql: number | null;
+}
+
+export interface VentedBox {
+  type: 'vented';
+  vb: number;
+  vbNet: number;
+  ral: number;
+  ql: number | null;
+  fb: number;
+  /** Total port area, m^2. */
+  sv: number;
+  portCount: number;
+  /** Area of one port, m^2. */
+  portArea: number;
+  /** Equivalent radius of one port (for end corrections), m. */
+  portRadius: number;
+  /** Physical length of one port, m (may be negative if the tuning is impossible; validation reports it). */
+  portLength: number;
+  /** Effective acoustic length (physical + end corrections), m. */
+  portLeff: number;
+  /** Acoustic mass of all ports together, kg/m^4. */
+  map: number;
+}
+
+export interface PassiveRadiatorBox {
+  type: 'passive-radiator';
+  vb: number;
+  vbNet: number;
+  ral: number;
+  ql: number | null;
+  /** Total radiating area of all radiators, m^2. */
+  sp: number;
+  count: number;
+  /** Mechanical values of all radiators together (count·m, count·k, count·r). */
+  mmp: number;
+  kmp: number;
+  rmp: number;
+  qmp: number | null;
+  xmax: number;
+  /** Free-air resonance of the radiator (the response notch), Hz. */
+  fp: number;
+  /** System tuning sqrt((Kmp + rho c^2 Sp^2 / Vb)/Mmp)/(2 pi), Hz. */
+  fb: number;
+}
+
+export type Box = SealedBox | VentedBox | PassiveRadiatorBox;
+
+export interface Amplifier {
+  /** Rated power into the nominal load, W. */
+  power: number;
+  load: number;
+  /** Output plus cable resistance, ohm. */
+  rs: number;
+  /** Rail: peak output voltage sqrt(2·P·Z), V. */
+  vPeak: number;
+  clip: 'hard' | 'soft';
+}
+
+export interface Crossover {
+  type: 'lr2' | 'lr4' | 'lr8' | 'none';
+  fx: number;
+}
+
+export type PlannedLevel = { mode: 'spl'; splDb: number } | { mode: 'volts'; voltsFs: number };
+
+export interface Listening {
+  distance: number;
+  space: 'full' | 'half' | 'quarter' | 'eighth';
+  /** Solid angle of radiation, sr: 4 pi full, 2 pi half, pi quarter, pi/2 eighth space. */
+  omega: number;
+  channels: 'pair' | 'mono-sum';
+  level: PlannedLevel;
+  /** Room-gain corner, Hz; 0 = none. */
+  roomGainHz: number;
+}
+
+export interface SpeakerSystem {
+  name: string;
+  air: Air;
+  driver: Driver;
+  box: Box;
+  amplifier: Amplifier;
+  crossover: Crossover;
+  listening: Listening;
+}
