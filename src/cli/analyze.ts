@@ -1,0 +1,132 @@
+// preheard analyze: the small-signal figures and curves of one design.
+import { analyze } from '../engine/response/analyze.ts';
+import type { Analysis } from '../engine/response/types.ts';
+import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
+import { formatIssue, loadDesignFile } from './design-file.ts';
+
+const HELP = `usage: preheard analyze <design.json> [--json] [--volts V]
+
+Small-signal analysis of a design: f3, box figures, sensitivity and the curves
+(SPL at the listening seat, excursion, impedance, group delay, port air speed, max SPL).
+
+  --volts V   drive voltage for the curves, V rms at the amplifier (default 2.83)
+  --json      print one JSON object instead of the table
+  --help      this text
+
+exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
+`;
+
+const round = (x: number, digits = 4) => (Number.isFinite(x) ? Number(x.toPrecision(digits)) : null);
+const list = (a: ArrayLike<number> | null) => (a ? Array.from(a, (x) => round(x, 5)) : null);
+
+export function analysisJson(a: Analysis) {
+  const { driver: d, box } = a.system;
+  const f = a.figures;
+  return {
+    name: a.system.name,
+    box_type: box.type,
+    driver: {
+      fs_hz: round(d.fs),
+      qes: round(d.qes),
+      qms: round(d.qms),
+      qts: round(d.qts),
+      vas_l: round(d.vas * 1000),
+      re_ohm: round(d.re),
+      le_mh: round(d.le * 1000),
+      bl_tm: round(d.bl),
+      mms_g: round(d.mms * 1000),
+      cms_mm_per_n: round(d.cms * 1000),
+      rms_kg_s: round(d.rms),
+      sd_cm2: round(d.sd * 1e4),
+      xmax_mm: round(d.xmax * 1000),
+      xlim_mm: round(d.xlim * 1000),
+      eta0_pct: round(f.eta0Pct),
+    },
+    vb_l: round(box.vbNet * 1000),
+    vb_effective_l: round(box.vb * 1000),
+    ...(f.fcHz !== null ? { fc_hz: round(f.fcHz), qtc: round(f.qtc!) } : {}),
+    ...(f.fbHz !== null ? { fb_hz: round(f.fbHz) } : {}),
+    ...(f.fpHz !== null ? { fp_hz: round(f.fpHz) } : {}),
+    ...(f.portLengthCm !== null ? { port_length_cm: round(f.portLengthCm), port_count: box.type === 'vented' ? box.portCount : 0 } : {}),
+    f3_hz: round(f.f3Hz),
+    f6_hz: round(f.f6Hz),
+    f10_hz: round(f.f10Hz),
+    sensitivity_db: round(f.sensitivityDb),
+    drive_v: a.driveV,
+    passband_spl_db: round(f.passbandSplDb),
+    peak_excursion_mm: round(f.peakExcursionMm),
+    peak_port_speed_m_s: f.peakPortSpeed === null ? null : round(f.peakPortSpeed),
+    z_min_ohm: round(f.zMinOhm),
+    planned_volts_rms: round(f.plannedVoltsRms),
+    spl_30_db: round(f.spl30Db),
+    spl_40_db: round(f.spl40Db),
+    spl_50_db: round(f.spl50Db),
+    group_delay_40_ms: round(f.groupDelay40Ms),
+    warnings: a.warnings.map((w) => ({ path: w.path, message: w.message })),
+    curves: {
+      freq_hz: list(a.curves.freqHz),
+      spl_db: list(a.curves.splDb),
+      cone_spl_db: list(a.curves.coneSplDb),
+      port_spl_db: list(a.curves.portSplDb),
+      excursion_mm: list(a.curves.excursionMm),
+      impedance_ohm: list(a.curves.impedanceOhm),
+      phase_deg: list(a.curves.phaseDeg),
+      group_delay_ms: list(a.curves.groupDelayMs),
+      port_air_speed_m_s: list(a.curves.portAirSpeed),
+      radiator_excursion_mm: list(a.curves.radiatorExcursionMm),
+      max_spl_db: list(a.curves.maxSplDb),
+      max_spl_limit: a.curves.maxSplLimit,
+    },
+  };
+}
+
+function table(a: Analysis): string {
+  const j = analysisJson(a);
+  const rows: [string, string][] = [
+    ['design', a.system.name],
+    ['box', `${j.box_type}, ${j.vb_l} l net (${j.vb_effective_l} l acoustic)`],
+    ['fs / Qts / Vas', `${j.driver.fs_hz} Hz / ${j.driver.qts} / ${j.driver.vas_l} l`],
+    ['Bl / Mms / Cms', `${j.driver.bl_tm} T·m / ${j.driver.mms_g} g / ${j.driver.cms_mm_per_n} mm/N`],
+  ];
+  if (j.fc_hz !== undefined) rows.push(['fc / Qtc', `${j.fc_hz} Hz / ${j.qtc}`]);
+  if (j.fb_hz !== undefined) rows.push(['fb', `${j.fb_hz} Hz`]);
+  if (j.fp_hz !== undefined) rows.push(['fp (radiator)', `${j.fp_hz} Hz`]);
+  if (j.port_length_cm !== undefined) rows.push(['port length', `${j.port_length_cm} cm each (${j.port_count} port${j.port_count === 1 ? '' : 's'})`]);
+  rows.push(
+    ['f3 / f6 / f10', `${j.f3_hz} / ${j.f6_hz} / ${j.f10_hz} Hz`],
+    ['eta0', `${j.driver.eta0_pct} %`],
+    ['sensitivity', `${j.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space)`],
+    [`at ${j.drive_v} V, ${a.system.listening.distance} m`, `passband ${j.passband_spl_db} dB; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB`],
+    ['peak excursion', `${j.peak_excursion_mm} mm at ${j.drive_v} V (Xmax ${j.driver.xmax_mm} mm)`],
+  );
+  if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${j.peak_port_speed_m_s} m/s at ${j.drive_v} V`]);
+  rows.push(['minimum impedance', `${j.z_min_ohm} ohm`], ['group delay at 40 Hz', `${j.group_delay_40_ms} ms`], ['planned level', `${j.planned_volts_rms} V rms`]);
+  const width = Math.max(...rows.map(([k]) => k.length));
+  const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
+  if (a.warnings.length) lines.push('', ...a.warnings.map(formatIssue));
+  return lines.join('\n') + '\n';
+}
+
+export const analyzeCommand: Command = {
+  name: 'analyze',
+  summary: 'small-signal figures and curves of a design',
+  run: (argv) =>
+    runGuarded('analyze', HELP, async () => {
+      const { values, positionals } = parseCommandArgs(argv, {
+        json: { type: 'boolean' },
+        volts: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      });
+      if (values.help) {
+        process.stdout.write(HELP);
+        return EXIT_OK;
+      }
+      if (positionals.length !== 1) throw new UsageError('expects exactly one design file');
+      const driveV = parseNumberOption(values.volts, '--volts', 0.001, 2000);
+      const { system, warnings } = await loadDesignFile(positionals[0]);
+      const a = analyze(system, { driveV });
+      a.warnings.unshift(...warnings);
+      process.stdout.write(values.json ? JSON.stringify(analysisJson(a)) + '\n' : table(a));
+      return EXIT_OK;
+    }),
+};

@@ -1,0 +1,64 @@
+import type { Air, PassiveRadiatorBox } from '../system.ts';
+import type { BoxDoc } from '../design/document.ts';
+import type { BoxKind } from './types.ts';
+import { boxCompliance, leakageResistance } from './common.ts';
+import { bulkModulus } from '../air.ts';
+import { fmt, warning, type Issue } from '../issues.ts';
+import { cx, inv } from '../complex.ts';
+
+type RadiatorDoc = Extract<BoxDoc, { type: 'passive-radiator' }>;
+
+export const passiveRadiator: BoxKind<RadiatorDoc, PassiveRadiatorBox> = {
+  type: 'passive-radiator',
+  label: 'Passive radiator',
+  build(doc, { air, driver }, path) {
+    const issues: Issue[] = [];
+    const r = doc.radiator;
+    const count = r.count ?? 1;
+    const vbNet = doc.vb_l / 1000;
+    const vb = vbNet;
+    const sp = count * r.sd_cm2 * 1e-4;
+    const mmp = (count * r.mmp_g) / 1000;
+    const kmp = count / (r.cmp_mm_per_n / 1000);
+    const fp = Math.sqrt(kmp / mmp) / (2 * Math.PI);
+    const qmp = r.qmp === undefined ? 20 : r.qmp;
+    const rmp = qmp === null ? 0 : (2 * Math.PI * fp * mmp) / qmp;
+    // Tuning with the box air spring added to the radiator's own (Small 1974; Hurlburt 2000).
+    const fb = Math.sqrt((kmp + (bulkModulus(air) * sp * sp) / vb) / mmp) / (2 * Math.PI);
+    const ql = doc.ql === undefined ? 7 : doc.ql;
+    const xmax = r.xmax_mm / 1000;
+    const radiatorDisplacement = sp * xmax;
+    const coneDisplacement = driver.sd * driver.xmax;
+    if (radiatorDisplacement < 1.5 * coneDisplacement) {
+      issues.push(
+        warning(
+          `${path}.radiator`,
+          `the radiators displace ${fmt(radiatorDisplacement * 1e6)} cm³ at their Xmax against the cone's ${fmt(coneDisplacement * 1e6)} cm³; ` +
+            'near fb they move more than the cone, so about twice the cone displacement is usual (common practice)',
+        ),
+      );
+    }
+    const box: PassiveRadiatorBox = {
+      type: 'passive-radiator',
+      vb,
+      vbNet,
+      ral: leakageResistance(ql, 2 * Math.PI * fb, boxCompliance(vb, air)),
+      ql,
+      sp,
+      count,
+      mmp,
+      kmp,
+      rmp,
+      qmp,
+      xmax,
+      fp,
+      fb,
+    };
+    return { box, issues };
+  },
+  // The radiator's mass-spring-damper in acoustic units: Z = j w Mmp/Sp^2 + Rmp/Sp^2 + Kmp/(j w Sp^2).
+  outletAdmittance(box: PassiveRadiatorBox, _air: Air, w: number) {
+    const s2 = box.sp * box.sp;
+    return inv(cx(box.rmp / s2, (w * box.mmp - box.kmp / w) / s2));
+  },
+};

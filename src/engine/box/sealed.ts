@@ -1,0 +1,34 @@
+import type { SealedBox } from '../system.ts';
+import type { BoxDoc } from '../design/document.ts';
+import type { BoxKind } from './types.ts';
+import { boxCompliance, leakageResistance } from './common.ts';
+import { qesWithSeries, totalQ } from '../driver.ts';
+
+type SealedDoc = Extract<BoxDoc, { type: 'sealed' }>;
+
+/**
+ * Fill raises the effective volume: the adiabatic-to-isothermal bound is 1.4x (Small 1972);
+ * practical heavy fill gives about +20% (common practice, no source). fill is 0..1.
+ */
+export const FILL_VOLUME_GAIN = 0.2;
+
+/** Small (1972): fc = fs·sqrt(1 + alpha), Qtc = Qts·sqrt(1 + alpha), with Qts including Rs. */
+export function sealedAlignment(fs: number, qts: number, vas: number, vb: number) {
+  const alpha = vas / vb;
+  return { alpha, fc: fs * Math.sqrt(1 + alpha), qtc: qts * Math.sqrt(1 + alpha) };
+}
+
+export const sealed: BoxKind<SealedDoc, SealedBox> = {
+  type: 'sealed',
+  label: 'Sealed',
+  build(doc, { air, driver, rs }) {
+    const vbNet = doc.vb_l / 1000;
+    const vb = vbNet * (1 + FILL_VOLUME_GAIN * (doc.fill ?? 0));
+    const ql = doc.ql ?? null;
+    const qts = totalQ(qesWithSeries(driver.qes, driver.re, rs), driver.qms);
+    const { fc } = sealedAlignment(driver.fs, qts, driver.vas, vb);
+    const ral = leakageResistance(ql, 2 * Math.PI * fc, boxCompliance(vb, air));
+    return { box: { type: 'sealed', vb, vbNet, ral, ql }, issues: [] };
+  },
+  outletAdmittance: () => null,
+};

@@ -1,0 +1,51 @@
+// Plausibility checks on a built system: warnings (and a few errors) with numbers.
+import type { SpeakerSystem } from '../system.ts';
+import { error, fmt, warning, type Issue } from '../issues.ts';
+import { respond } from '../response/frequency.ts';
+import { abs } from '../complex.ts';
+
+/**
+ * Rough volume a driver itself occupies, 0.35·Sd^1.5 (gives about 0.5 l for a 6.5 inch woofer and
+ * 3.7 l for a 12 inch; common practice, no source).
+ */
+export const estimatedDriverDisplacement = (sd: number): number => 0.35 * sd ** 1.5;
+
+export function plausibility(system: SpeakerSystem): Issue[] {
+  const out: Issue[] = [];
+  const { driver: d, box } = system;
+  const xmaxMm = d.xmax * 1000;
+  // Home bass drivers have a few mm of travel, large PA bass drivers about 25 mm (common practice, no source).
+  if (xmaxMm > 30) out.push(warning('driver.xmax_mm', `${fmt(xmaxMm)} mm is beyond even large PA bass drivers (about 25 mm); check the value`));
+  if (xmaxMm < 0.3 && d.sd > 30e-4) out.push(warning('driver.xmax_mm', `${fmt(xmaxMm)} mm is very little travel for a ${fmt(d.sd * 1e4)} cm² cone; check the value`));
+  if (d.fs < 10 || d.fs > 300) out.push(warning('driver.fs_hz', `${fmt(d.fs)} Hz is unusual for a bass driver (10 to 300 Hz)`));
+  if (d.qts > 1.5) out.push(warning('driver.qes', `Qts ${fmt(d.qts)} is very high; the box response will peak strongly`));
+  const displacement = estimatedDriverDisplacement(d.sd);
+  if (box.vbNet < displacement) {
+    out.push(error('box.vb_l', `${fmt(box.vbNet * 1000)} l is smaller than the driver's own displacement of about ${fmt(displacement * 1000)} l`));
+  } else if (box.vbNet < 3 * displacement) {
+    out.push(warning('box.vb_l', `${fmt(box.vbNet * 1000)} l is barely larger than the driver's own displacement of about ${fmt(displacement * 1000)} l`));
+  }
+  if (box.type !== 'sealed') {
+    const h = box.fb / d.fs;
+    if (h > 3 || h < 0.3) out.push(warning(box.type === 'vented' ? 'box.fb_hz' : 'box.radiator', `fb ${fmt(box.fb)} Hz is far from fs ${fmt(d.fs)} Hz (ratio ${fmt(h)})`));
+  }
+  if (box.type === 'vented') {
+    // Port air speed with the rated power into Re: over 10% of c the port is unusable.
+    const volts = Math.sqrt(d.pe * d.re);
+    let worst = 0;
+    let worstHz = 0;
+    for (let f = 10; f <= 300; f *= 1.02) {
+      const speed = (Math.SQRT2 * abs(respond(system, f, volts).outletFlow)) / box.sv;
+      if (speed > worst) [worst, worstHz] = [speed, f];
+    }
+    if (worst > 0.1 * system.air.c) {
+      out.push(
+        warning(
+          'box.ports',
+          `at the rated ${fmt(d.pe)} W the port air speed reaches ${fmt(worst)} m/s near ${fmt(worstHz)} Hz, over 10% of the speed of sound; use a larger port area`,
+        ),
+      );
+    }
+  }
+  return out;
+}

@@ -1,0 +1,76 @@
+// Reading a design: JSON text or value -> migrated -> schema-checked -> SI system -> plausibility.
+// Every problem is reported at once with its field path; nothing is half-loaded.
+import * as v from 'valibot';
+import { DESIGN_FORMAT, DESIGN_VERSION, type DesignDoc } from './document.ts';
+import { designSchema } from './schema.ts';
+import { toSystem } from './convert.ts';
+import { plausibility } from './checks.ts';
+import { error, type Issue } from '../issues.ts';
+import type { SpeakerSystem } from '../system.ts';
+
+export type ParseResult =
+  | { ok: true; design: DesignDoc; system: SpeakerSystem; warnings: Issue[] }
+  | { ok: false; errors: Issue[]; warnings: Issue[] };
+
+function pathOf(issue: v.BaseIssue<unknown>): string {
+  let out = '';
+  for (const item of issue.path ?? []) {
+    const key = item.key as string | number;
+    out += typeof key === 'number' ? `[${key}]` : out ? `.${key}` : String(key);
+  }
+  return out;
+}
+
+function shown(value: unknown): string {
+  const text = JSON.stringify(value);
+  return text === undefined ? String(value) : text.length > 60 ? `${text.slice(0, 57)}...` : text;
+}
+
+function schemaIssue(issue: v.BaseIssue<unknown>): Issue {
+  const path = pathOf(issue);
+  if (issue.type === 'strict_object' && issue.expected === 'never') return error(path, 'is not a field of this design format');
+  if (issue.input === undefined) return error(path, 'is required');
+  return error(path, `${issue.message}, got ${shown(issue.input)}`);
+}
+
+/** Brings older document versions up to the current one. Version 1 is the first; nothing to migrate yet. */
+export function migrate(raw: Record<string, unknown>): { doc: Record<string, unknown> } | { issue: Issue } {
+  const version = raw.version;
+  if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) {
+    return { issue: error('version', `must be a whole number (this app writes ${DESIGN_VERSION}), got ${shown(version)}`) };
+  }
+  if (version > DESIGN_VERSION) {
+    return { issue: error('version', `${version} is newer than this app understands (${DESIGN_VERSION}); update preheard`) };
+  }
+  return { doc: raw };
+}
+
+export function parseDesign(input: unknown): ParseResult {
+  let raw = input;
+  if (typeof input === 'string') {
+    try {
+      raw = JSON.parse(input);
+    } catch (e) {
+      return { ok: false, errors: [error('', `not valid JSON: ${(e as Error).message}`)], warnings: [] };
+    }
+  }
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) {
+    return { ok: false, errors: [error('', 'a design must be a JSON object')], warnings: [] };
+  }
+  const obj = raw as Record<string, unknown>;
+  if (obj.format !== DESIGN_FORMAT) {
+    return { ok: false, errors: [error('format', `must be "${DESIGN_FORMAT}", got ${shown(obj.format)}: this is not a preheard design`)], warnings: [] };
+  }
+  const migrated = migrate(obj);
+  if ('issue' in migrated) return { ok: false, errors: [migrated.issue], warnings: [] };
+  const parsed = v.safeParse(designSchema, migrated.doc, { abortEarly: false });
+  if (!parsed.success) return { ok: false, errors: parsed.issues.map(schemaIssue), warnings: [] };
+  const design = parsed.output as DesignDoc;
+  const built = toSystem(design);
+  const issues = [...built.issues];
+  if (built.system) issues.push(...plausibility(built.system));
+  const errors = issues.filter((i) => i.severity === 'error');
+  const warnings = issues.filter((i) => i.severity === 'warning');
+  if (!built.system || errors.length > 0) return { ok: false, errors, warnings };
+  return { ok: true, design, system: built.system, warnings };
+}

@@ -1,0 +1,73 @@
+// The small-signal lumped circuit solved at one frequency (Thiele 1971; Small 1972, 1973):
+//   e = (Re + Rs + jwLe)·i + Bl·v
+//   (jwMms + Rms + 1/(jwCms))·v = Bl·i + Sd·pb
+//   (jwCab + 1/Ral + Yo)·pb = -Sd·v          (Yo: port or radiator admittance; 0 for sealed)
+//   p(r) = jw·rho·(Sd·v + Yo·pb) / (Omega·r)  (far-field point source in solid angle Omega)
+// Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
+import type { SpeakerSystem } from '../system.ts';
+import { add, cx, div, inv, mul, scale, type Complex } from '../complex.ts';
+import { BOX_KINDS } from '../box/index.ts';
+import { boxCompliance } from '../box/common.ts';
+
+export interface PointResponse {
+  /** Pressure at the seat, Pa. */
+  pressure: Complex;
+  conePressure: Complex;
+  /** From the port or radiator; zero for a sealed box. */
+  outletPressure: Complex;
+  coneVelocity: Complex;
+  /** Cone displacement, m. */
+  excursion: Complex;
+  /** Volume velocity out through the port or radiator, m^3/s. */
+  outletFlow: Complex;
+  /** Box pressure, Pa. */
+  boxPressure: Complex;
+  current: Complex;
+  /** Driver terminal impedance, ohm (series resistance excluded). */
+  impedance: Complex;
+}
+
+/** Room or cabin gain: a 12 dB/octave rise below the corner (common practice, no source). */
+export function roomGain(f: number, cornerHz: number): number {
+  return cornerHz > 0 ? Math.sqrt(1 + (cornerHz / f) ** 4) : 1;
+}
+
+export function respond(system: SpeakerSystem, f: number, volts: number, withRoomGain = true): PointResponse {
+  const { air, driver: d, box, amplifier, listening } = system;
+  const w = 2 * Math.PI * f;
+  const jw = cx(0, w);
+  const ze = cx(d.re + amplifier.rs, w * d.le);
+  const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
+  const yo = BOX_KINDS[box.type].outletAdmittance(box, air, w) ?? cx(0);
+  const ybox = add(cx(1 / box.ral, w * boxCompliance(box.vb, air)), yo);
+  const zbox = inv(ybox);
+  const zmTotal = add(zm, scale(zbox, d.sd * d.sd));
+  const motional = div(cx(d.bl * d.bl), zmTotal);
+  const current = div(cx(volts), add(ze, motional));
+  const coneVelocity = div(scale(current, d.bl), zmTotal);
+  const boxPressure = scale(mul(coneVelocity, zbox), -d.sd);
+  const outletFlow = mul(yo, boxPressure);
+  const k = (air.rho * (withRoomGain ? roomGain(f, listening.roomGainHz) : 1)) / (listening.omega * listening.distance);
+  const conePressure = scale(mul(jw, scale(coneVelocity, d.sd)), k);
+  const outletPressure = scale(mul(jw, outletFlow), k);
+  return {
+    pressure: add(conePressure, outletPressure),
+    conePressure,
+    outletPressure,
+    coneVelocity,
+    excursion: div(coneVelocity, jw),
+    outletFlow,
+    boxPressure,
+    current,
+    impedance: add(cx(d.re, w * d.le), motional),
+  };
+}
+
+/**
+ * Passband pressure for `volts` rms well above resonance and below the Le corner:
+ * p = rho·Sd·Bl·e / ((Re + Rs)·Mms·Omega·r) — the level Small's reference efficiency predicts.
+ */
+export function passbandPressure(system: SpeakerSystem, volts: number, distance = system.listening.distance): number {
+  const { air, driver: d, amplifier, listening } = system;
+  return (air.rho * d.sd * d.bl * volts) / ((d.re + amplifier.rs) * d.mms * listening.omega * distance);
+}
