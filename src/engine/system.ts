@@ -68,7 +68,7 @@ export interface SealedBox {
   vb: number;
   /** Net internal volume as entered, m^3. */
   vbNet: number;
-  /** Parallel leakage/absorption resistance, Pa·s/m^3; Infinity = lossless. */
+  /** Parallel leakage resistance, Pa·s/m^3; Infinity = lossless. Leaked air radiates: net radiated volume velocity = Sd·v + Up + pb/Ral. */
   ral: number;
   ql: number | null;
 }

@@ -5,7 +5,7 @@ import type { SpeakerSystem } from '../system.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { respond } from '../response/frequency.ts';
-import { rolloffHz, PORT_SPEED_LIMIT } from '../response/analyze.ts';
+import { HALF_POWER_DB, rolloffHz, PORT_SPEED_LIMIT } from '../response/analyze.ts';
 import { abs } from '../complex.ts';
 
 export interface AlignmentSuggestion {
@@ -133,7 +133,7 @@ export function suggestAlignments(system: SpeakerSystem): AlignmentSuggestion[] 
   const out: AlignmentSuggestion[] = [];
   const analyseBox = (box: BoxDoc) => {
     const built = BOX_KINDS[box.type].build(box as never, { air: system.air, driver: d, rs: amplifier.rs }, 'box');
-    return built.box ? rolloffHz({ ...system, box: built.box }, 3) : NaN;
+    return built.box ? rolloffHz({ ...system, box: built.box }, HALF_POWER_DB) : NaN;
   };
   for (const t of SEALED_TARGETS) {
     if (t.qtc <= qts * 1.02) continue;

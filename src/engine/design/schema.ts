@@ -24,7 +24,7 @@ export const driverSchema = v.strictObject({
   name: v.optional(v.pipe(v.string(), v.maxLength(200))),
   fs_hz: v.optional(num(1, 2000, 'Hz')),
   qes: v.optional(num(0.02, 50)),
-  qms: v.optional(num(0.2, 200)),
+  qms: v.optional(num(0.2, 100000)),
   vas_l: v.optional(num(0.001, 20000, 'l')),
   re_ohm: num(0.1, 200, 'ohm'),
   le_mh: v.optional(num(0, 50, 'mH')),

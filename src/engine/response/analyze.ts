@@ -12,6 +12,8 @@ import { qesWithSeries, totalQ } from '../driver.ts';
 export const SENSITIVITY_VOLTS = 2.83;
 /** Peak port air speed above which port noise is likely: about 5% of c (common practice, no source). */
 export const PORT_SPEED_LIMIT = 17;
+/** "-3 dB" is the half-power point, 10·log10(2) = 3.0103 dB down, as in the published F3 tables. */
+export const HALF_POWER_DB = 10 * Math.log10(2);
 
 export interface AnalyzeOptions {
   /** Drive for the curves, V rms at the amplifier; default 2.83. */
@@ -177,7 +179,7 @@ function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, p
   const spl = (f: number) => splDb(abs(at(f).pressure));
   const sensitivitySystem = { ...system, listening: { ...system.listening, roomGainHz: 0 } };
   return {
-    f3Hz: rolloffHz(system, 3),
+    f3Hz: rolloffHz(system, HALF_POWER_DB),
     f6Hz: rolloffHz(system, 6),
     f10Hz: rolloffHz(system, 10),
     fcHz: sealed ? sealed.fc : null,

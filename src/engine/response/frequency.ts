@@ -2,7 +2,9 @@
 //   e = (Re + Rs + jwLe)·i + Bl·v
 //   (jwMms + Rms + 1/(jwCms))·v = Bl·i + Sd·pb
 //   (jwCab + 1/Ral + Yo)·pb = -Sd·v          (Yo: port or radiator admittance; 0 for sealed)
-//   p(r) = jw·rho·(Sd·v + Yo·pb) / (Omega·r)  (far-field point source in solid angle Omega)
+//   p(r) = jw·rho·(Sd·v + Yo·pb + pb/Ral) / (Omega·r)  (far-field point source in solid angle Omega)
+// Leaked air leaves the box too, so it radiates with the cone and port: the net radiated volume
+// velocity is the box's compression flow, -jwCab·pb, which gives Small's s^4/D(s) form (JAES 1973).
 // Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
 import type { SpeakerSystem } from '../system.ts';
 import { add, cx, div, inv, mul, scale, type Complex } from '../complex.ts';
@@ -50,8 +52,9 @@ export function respond(system: SpeakerSystem, f: number, volts: number, withRoo
   const k = (air.rho * (withRoomGain ? roomGain(f, listening.roomGainHz) : 1)) / (listening.omega * listening.distance);
   const conePressure = scale(mul(jw, scale(coneVelocity, d.sd)), k);
   const outletPressure = scale(mul(jw, outletFlow), k);
+  const leakPressure = scale(mul(jw, scale(boxPressure, 1 / box.ral)), k);
   return {
-    pressure: add(conePressure, outletPressure),
+    pressure: add(add(conePressure, outletPressure), leakPressure),
     conePressure,
     outletPressure,
     coneVelocity,
