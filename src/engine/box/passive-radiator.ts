@@ -59,6 +59,8 @@ export const passiveRadiator: BoxKind<RadiatorDoc, PassiveRadiatorBox> = {
   // The radiator's mass-spring-damper in acoustic units: Z = j w Mmp/Sp^2 + Rmp/Sp^2 + Kmp/(j w Sp^2).
   outletAdmittance(box: PassiveRadiatorBox, _air: Air, w: number) {
     const s2 = box.sp * box.sp;
-    return inv(cx(box.rmp / s2, (w * box.mmp - box.kmp / w) / s2));
+    // A part-per-billion resistance keeps a lossless radiator finite exactly at its resonance.
+    const r = Math.max(box.rmp, 1e-9 * w * box.mmp);
+    return inv(cx(r / s2, (w * box.mmp - box.kmp / w) / s2));
   },
 };

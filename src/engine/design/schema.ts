@@ -81,7 +81,7 @@ export const boxSchema = v.variant(
       radiator: v.strictObject({
         sd_cm2: num(0.5, 20000, 'cm²'),
         mmp_g: num(0.1, 50000, 'g'),
-        cmp_mm_per_n: num(0.0001, 100, 'mm/N'),
+        cmp_mm_per_n: num(0.0001, 1000, 'mm/N'),
         qmp: v.optional(v.nullable(num(0.5, 1000))),
         xmax_mm: num(0.1, 100, 'mm'),
         count: v.optional(int(1, 8)),
