@@ -1,0 +1,44 @@
+import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { parseDesign } from '../src/engine/design/validate.ts';
+import { analyze } from '../src/engine/response/analyze.ts';
+import { verdict, clock } from '../src/engine/verdict/verdict.ts';
+
+const load = (name: string) => {
+  const r = parseDesign(readFileSync(`public/examples/${name}.json`, 'utf8'));
+  if (!r.ok) throw new Error(name);
+  return analyze(r.system);
+};
+
+describe('plain-language verdict', () => {
+  const a = load('living-room-sealed');
+  const b = load('living-room-vented');
+
+  it('states f3 and the -6/-10 dB points with the computed numbers, and which goes deeper', () => {
+    const line = verdict(a, b).find((l) => l.id === 'extension')!.text;
+    expect(line).toContain(`${a.figures.f3Hz.toFixed(1)} Hz`);
+    expect(line).toContain(`${b.figures.f10Hz.toFixed(1)} Hz`);
+    expect(line).toMatch(/B reaches deeper/);
+  });
+
+  it('gives headroom only when a search ran, in the published-style sentence', () => {
+    expect(verdict(a, b).some((l) => l.id === 'headroom')).toBe(false);
+    const lines = verdict(a, b, ['A', 'B'], [
+      { cleanSplDb: 88, cleanVolts: 9, firstLimit: 'excursion', firstLimitS: 42.3 },
+      { cleanSplDb: 91.5, cleanVolts: 12, firstLimit: 'port-speed', firstLimitS: 17 },
+    ]);
+    expect(lines.find((l) => l.id === 'headroom')!.text).toBe(
+      'B plays this track 3.5 dB louder cleanly than A (91.5 against 88.0 dB at the seat); A first runs out of cone travel (Xmax) at 0:42, B first runs out of port air speed at 0:17.',
+    );
+  });
+
+  it('speaks of port noise only for the design with a port', () => {
+    const ports = verdict(a, b).filter((l) => l.id === 'port');
+    expect(ports).toHaveLength(1);
+    expect(ports[0].text).toMatch(/^B's port/);
+  });
+
+  it('formats track times as m:ss', () => {
+    expect(clock(125.9)).toBe('2:05');
+  });
+});
