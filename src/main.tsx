@@ -1,5 +1,15 @@
 import { render } from 'preact';
 import { App } from './ui/App.tsx';
+import { demoPair } from './ui/demo.ts';
+import { Autosave, indexedDbBackend } from './ui/persist.ts';
+import { Store } from './ui/store.ts';
 import './ui/styles.css';
 
-render(<App />, document.getElementById('app')!);
+const store = new Store(demoPair);
+const autosave = new Autosave(indexedDbBackend());
+// A reload restores exactly what was there; a storage failure leaves the demo pair and says so.
+const saved = await Promise.race([autosave.load(), new Promise<undefined>((r) => setTimeout(() => r(undefined), 3000))]);
+if (saved) store.dispatch({ type: 'restore', state: saved });
+autosave.attach(store);
+
+render(<App store={store} autosave={autosave} />, document.getElementById('app')!);

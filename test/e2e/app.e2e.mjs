@@ -1,22 +1,226 @@
-// The app in real headless chromium. Each test gets { context, server, offHost, state }.
+// The app in real headless chromium, in order: each test gets { context, server, offHost, state, origin }.
 import assert from 'node:assert/strict';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { ROOT, launchBrowser } from './harness.mjs';
 
-async function open(ctx) {
-  const page = ctx.context.pages()[0] ?? (await ctx.context.newPage());
-  const errors = [];
-  page.on('pageerror', (e) => errors.push(String(e)));
-  await page.goto(ctx.server.origin + '/');
-  return { page, errors };
+const SHOTS = join(ROOT, 'test', 'e2e', 'screenshots');
+const SCREENS = [
+  ['driver', 'Driver sheet'],
+  ['cabinet', 'Cabinet'],
+  ['drive', 'Drive & seat'],
+  ['curves', 'Curves'],
+];
+
+async function page(ctx) {
+  if (!ctx.state.page || ctx.state.page.isClosed()) {
+    const p = ctx.context.pages()[0] ?? (await ctx.context.newPage());
+    ctx.state.errors = [];
+    p.on('pageerror', (e) => ctx.state.errors.push(String(e)));
+    p.on('console', (m) => m.type() === 'error' && ctx.state.errors.push(m.text()));
+    ctx.state.page = p;
+  }
+  return ctx.state.page;
+}
+
+async function tab(p, label) {
+  await p.getByRole('tab', { name: label, exact: true }).click();
+  await p.waitForSelector(`[role=tab][aria-selected=true]:has-text("${label}")`);
+}
+
+async function drawsOf(p, chart) {
+  return Number((await p.getAttribute(`.glance [data-chart=${chart}]`, 'data-draws')) ?? '0');
+}
+
+async function waitSaved(p) {
+  await p.waitForSelector('[data-testid=save-status][data-state=saved]');
 }
 
 export const tests = [
   {
-    name: 'the page loads and renders',
+    name: 'opens on the demo pair with the first-run cautions',
     fn: async (ctx) => {
-      const { page, errors } = await open(ctx);
-      await page.waitForSelector('h1');
-      assert.equal(await page.title(), 'preheard');
-      assert.deepEqual(errors, []);
+      const p = await page(ctx);
+      await p.goto(ctx.server.origin + '/');
+      const dlg = p.getByRole('dialog', { name: 'Before you start' });
+      await dlg.waitFor();
+      const text = await dlg.innerText();
+      for (const word of ['hearing', 'estimate', 'mains', 'local codes']) assert.match(text, new RegExp(word, 'i'), `cautions mention ${word}`);
+      await dlg.getByRole('button', { name: 'I understand' }).click();
+      await dlg.waitFor({ state: 'detached' });
+      assert.equal(await p.title(), 'preheard');
+      const names = await p.locator('.pair-name').allInnerTexts();
+      assert.equal(names.length, 2);
+      assert.match(names[0], /sealed/i);
+      assert.match(names[1], /vented/i);
+      // The figure table shows an f3 for both designs, as text.
+      for (const s of ['a', 'b']) assert.match(await p.innerText(`.glance [data-testid=fig-${s}-f3]`), /^\d+(\.\d+)? Hz$/);
+      await p.getByRole('button', { name: 'Cautions' }).click();
+      await p.getByRole('dialog', { name: 'Before you start' }).getByRole('button', { name: 'Close' }).click();
+      assert.deepEqual(ctx.state.errors, []);
+    },
+  },
+  {
+    name: "changing A's box volume changes f3 in text and redraws the chart",
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await tab(p, 'Cabinet');
+      const f3 = p.locator('.glance [data-testid=fig-a-f3]');
+      const fc = p.locator('.glance [data-testid=fig-a-fc]');
+      const before = await f3.innerText();
+      const fcBefore = Number.parseFloat(await fc.innerText());
+      const draws0 = await drawsOf(p, 'spl');
+      const pixels0 = await p.locator('.glance [data-chart=spl] canvas').evaluate((c) => c.toDataURL());
+      const vb = p.getByLabel('Net volume Vb, design A');
+      const old = Number(await vb.inputValue());
+      ctx.state.newVb = String(Math.round(old * 2.5));
+      await vb.fill(ctx.state.newVb);
+      await p.waitForFunction((b) => document.querySelector('.glance [data-testid=fig-a-f3]')?.textContent !== b, before);
+      const after = await f3.innerText();
+      assert.match(after, /^\d+(\.\d+)? Hz$/);
+      // Small (1972): fc = fs·sqrt(1 + Vas/Vb) falls as the box grows (f3 moves with Qtc either way).
+      const fcAfter = Number.parseFloat(await fc.innerText());
+      assert.ok(fcAfter < fcBefore, `a larger sealed box lowers fc: ${fcBefore} -> ${fcAfter} Hz`);
+      assert.ok((await drawsOf(p, 'spl')) > draws0, 'the SPL chart redrew');
+      const pixels1 = await p.locator('.glance [data-chart=spl] canvas').evaluate((c) => c.toDataURL());
+      assert.notEqual(pixels1, pixels0, 'the SPL chart shows something different');
+      // The Cabinet sheet shows the same f3 beside the fields.
+      assert.equal(await p.innerText('[data-testid=f3-a]'), after);
+      await waitSaved(p);
+    },
+  },
+  {
+    name: 'a reload restores the edit exactly',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await p.reload();
+      await p.waitForSelector('[role=tab][aria-selected=true]:has-text("Cabinet")');
+      assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+      assert.equal(await p.locator('[role=dialog]').count(), 0, 'cautions stay dismissed');
+    },
+  },
+  {
+    name: 'a rejected entry stays on screen with its message; undo and redo',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await tab(p, 'Driver sheet');
+      const fs = p.getByLabel('Resonance fs, design B');
+      const good = await fs.inputValue();
+      await fs.fill('0.2');
+      const msg = p.locator(`#${await fs.getAttribute('aria-describedby')}`);
+      await msg.waitFor();
+      assert.match(await msg.innerText(), /from 1 to 2000/);
+      assert.equal(await fs.inputValue(), '0.2', 'the typed value is never silently replaced');
+      assert.equal(await fs.getAttribute('aria-invalid'), 'true');
+      await p.locator('body').click({ position: { x: 5, y: 5 } });
+      await p.getByRole('button', { name: 'Undo' }).click();
+      assert.equal(await fs.inputValue(), good);
+      await p.getByRole('button', { name: 'Redo' }).click();
+      assert.equal(await fs.inputValue(), '0.2');
+      await p.getByRole('button', { name: 'Undo' }).click();
+      assert.equal(await fs.inputValue(), good);
+      assert.equal(await p.locator('.badge-error').count(), 0);
+    },
+  },
+  {
+    name: 'importing a broken design file lists every problem and loads nothing',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      const nameA = await p.locator('.pair-name').first().innerText();
+      const broken = {
+        format: 'preheard-design',
+        version: 1,
+        name: 'Broken on purpose',
+        driver: { fs_hz: -5, qes: 0.4, qms: 3, vas_l: 20, re_ohm: 6, sd_cm2: 130, xmax_mm: 5, pe_w: 'lots' },
+        box: { type: 'vented', vb_l: 0, fb_hz: 40, ports: [] },
+        amplifier: { power_w: 100, load_ohm: 8 },
+        crossover: { type: 'lr4', fx_hz: 2000 },
+        listening: { distance_m: 3, space: 'half' },
+      };
+      await p.locator('[data-testid=import-file]').setInputFiles({ name: 'broken.preheard.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(broken)) });
+      const dlg = p.getByRole('dialog', { name: /broken\.preheard\.json was not imported/ });
+      await dlg.waitFor();
+      const items = await dlg.locator('[data-testid=problem-list] li.error').allInnerTexts();
+      const text = items.join('\n');
+      for (const path of ['driver.fs_hz', 'driver.pe_w', 'box.vb_l', 'box.ports']) assert.ok(text.includes(path), `lists ${path}: ${text}`);
+      assert.ok(items.length >= 4);
+      await dlg.getByRole('button', { name: 'Close' }).click();
+      assert.equal(await p.locator('.pair-name').first().innerText(), nameA, 'design A is unchanged');
+      // A file that is not JSON at all.
+      await p.locator('[data-testid=import-file]').setInputFiles({ name: 'notes.txt.json', mimeType: 'application/json', buffer: Buffer.from('{"format": "preheard-design",') });
+      const dlg2 = p.getByRole('dialog', { name: /was not imported/ });
+      await dlg2.waitFor();
+      assert.match(await dlg2.innerText(), /not valid JSON/);
+      await dlg2.getByRole('button', { name: 'Close' }).click();
+    },
+  },
+  {
+    name: 'a share link round-trips the design pair in a fresh browser',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await p.locator('.menu > summary').click();
+      await p.getByRole('menuitem', { name: 'Share link…' }).click();
+      const url = await p.locator('[data-testid=share-url]').inputValue();
+      assert.ok(url.startsWith(ctx.server.origin + '/#pair=1.'), url);
+      await p.getByRole('dialog', { name: 'Share link' }).getByRole('button', { name: 'Close' }).click();
+      const other = await launchBrowser(ctx.server.origin);
+      try {
+        const q = await other.context.newPage();
+        await q.goto(url);
+        await q.getByRole('dialog', { name: 'Before you start' }).getByRole('button', { name: 'I understand' }).click();
+        await tab(q, 'Cabinet');
+        assert.equal(await q.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+        assert.equal(await q.innerText('.glance [data-testid=fig-a-f3]'), await p.innerText('.glance [data-testid=fig-a-f3]'));
+        assert.equal(new URL(q.url()).hash, '', 'the fragment is cleared once read');
+        assert.deepEqual(other.offHost, []);
+      } finally {
+        await other.close();
+      }
+    },
+  },
+  {
+    name: 'screenshots of every screen at desktop and tablet widths',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      mkdirSync(SHOTS, { recursive: true });
+      for (const [w, h, tag] of [
+        [1440, 900, 'desktop'],
+        [820, 1180, 'tablet'],
+      ]) {
+        await p.setViewportSize({ width: w, height: h });
+        for (const [id, label] of SCREENS) {
+          await tab(p, label);
+          await p.waitForTimeout(150);
+          await p.screenshot({ path: join(SHOTS, `${tag}-${id}.png`), fullPage: false });
+        }
+      }
+      await p.setViewportSize({ width: 1440, height: 900 });
+      await p.locator('.theme select').selectOption('dark');
+      for (const [id, label] of [SCREENS[0], SCREENS[3]]) {
+        await tab(p, label);
+        await p.waitForTimeout(150);
+        await p.screenshot({ path: join(SHOTS, `desktop-dark-${id}.png`) });
+      }
+      await p.locator('.theme select').selectOption('auto');
+    },
+  },
+  {
+    name: 'with the server stopped, a reload comes from the service worker',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await p.evaluate(async () => {
+        await navigator.serviceWorker.ready;
+      });
+      await waitSaved(p);
+      await ctx.server.stop();
+      await p.reload();
+      await p.waitForSelector('[data-testid=fig-a-f3]');
+      assert.match(await p.innerText('[data-testid=fig-a-f3]'), /Hz/);
+      await tab(p, 'Curves');
+      await p.waitForSelector('[data-chart=spl] canvas');
+      await tab(p, 'Cabinet');
+      assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+      assert.deepEqual(ctx.state.errors.filter((e) => !/ERR_CONNECTION_REFUSED|Failed to load resource/.test(e)), []);
     },
   },
 ];

@@ -1,0 +1,264 @@
+// One log-frequency chart drawn by uPlot. Data changes are applied with setData (no rebuild);
+// the chart is rebuilt only when its series or the theme change.
+import { useEffect, useLayoutEffect, useRef } from 'preact/hooks';
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+import type { ChartSpec, Role } from './specs.ts';
+import { num } from '../format.ts';
+import { downloadBlob } from '../files.ts';
+
+export interface Palette {
+  a: string;
+  b: string;
+  reference: string;
+  limit: string;
+  axis: string;
+  grid: string;
+  text: string;
+  background: string;
+}
+
+export function readPalette(el: Element): Palette {
+  const cs = getComputedStyle(el);
+  const v = (name: string, fallback: string) => cs.getPropertyValue(name).trim() || fallback;
+  return {
+    a: v('--c-a', '#0d6e74'),
+    b: v('--c-b', '#c77d0a'),
+    reference: v('--c-ref', '#8a9296'),
+    limit: v('--c-limit', '#b3363a'),
+    axis: v('--c-axis', '#4a5357'),
+    grid: v('--c-grid', '#e3e7e8'),
+    text: v('--c-text', '#1c2326'),
+    background: v('--c-surface', '#ffffff'),
+  };
+}
+
+function stroke(role: Role, p: Palette): { stroke: string; dash?: number[]; width: number } {
+  switch (role) {
+    case 'a':
+      return { stroke: p.a, width: 2.25 };
+    case 'b':
+      return { stroke: p.b, width: 2.25 };
+    case 'a-aux':
+      return { stroke: p.a, width: 1.5, dash: [2, 3] };
+    case 'b-aux':
+      return { stroke: p.b, width: 1.5, dash: [2, 3] };
+    case 'reference':
+      return { stroke: p.reference, width: 1.5, dash: [6, 4] };
+    case 'limit':
+      return { stroke: p.limit, width: 1.25, dash: [4, 3] };
+    case 'limit-a':
+      return { stroke: p.a, width: 1.25, dash: [4, 3] };
+    case 'limit-b':
+      return { stroke: p.b, width: 1.25, dash: [4, 3] };
+  }
+}
+
+function hz(v: number): string {
+  return v >= 1000 ? `${num(v / 1000, 3)}k` : num(v, 3);
+}
+
+/** Frequency ticks labelled at 1-2-5 steps only, so a log axis stays readable. */
+function xTickLabels(_u: uPlot, splits: number[]): string[] {
+  return splits.map((v) => {
+    const lead = Math.round(v / 10 ** Math.floor(Math.log10(v) + 1e-9));
+    return lead === 1 || lead === 2 || lead === 5 ? hz(v) : '';
+  });
+}
+
+export function toData(spec: ChartSpec): uPlot.AlignedData {
+  const n = spec.freqHz.length;
+  const ys = spec.series.map((s) => (s.values ? (s.values as unknown as number[]) : (new Array(n).fill(null) as (number | null)[])));
+  return [spec.freqHz as unknown as number[], ...ys] as uPlot.AlignedData;
+}
+
+export function shapeKey(spec: ChartSpec): string {
+  return spec.series.map((s) => `${s.role}:${s.label}:${s.values ? 1 : 0}`).join('|') + `|${spec.yMin ?? ''}|${spec.yMax ?? ''}`;
+}
+
+function options(spec: ChartSpec, width: number, height: number, p: Palette, onDraw: () => void, syncKey: string): uPlot.Options {
+  const axisFont = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+  return {
+    width,
+    height,
+    pxAlign: false,
+    scales: {
+      x: { distr: 3, log: 10, time: false },
+      y: {
+        range: (_u, lo, hi) => {
+          let min = spec.yMin ?? lo;
+          let max = spec.yMax ?? hi;
+          if (spec.yMax === undefined && spec.yMin === undefined) {
+            const pad = Math.max((max - min) * 0.08, 1);
+            min -= pad;
+            max += pad;
+          } else if (spec.yMax === undefined) {
+            max = max + Math.max((max - min) * 0.08, 0.1);
+          }
+          if (!Number.isFinite(min) || !Number.isFinite(max) || min === max) return [0, 1];
+          return [min, max];
+        },
+      },
+    },
+    cursor: { sync: { key: syncKey }, points: { size: 7 }, drag: { x: false, y: false } },
+    legend: { live: true },
+    series: [
+      { label: 'Frequency', value: (_u, v) => (v == null ? '—' : `${num(v, 3)} Hz`) },
+      ...spec.series.map((s) => {
+        const st = stroke(s.role, p);
+        return {
+          label: s.label,
+          stroke: st.stroke,
+          width: st.width,
+          dash: st.dash,
+          points: { show: false },
+          value: (_u: uPlot, v: number | null, _si: number, idx: number | null) =>
+            v == null || !Number.isFinite(v) ? '—' : `${num(v, spec.digits)} ${spec.unit}${s.annotate && idx !== null ? ` · ${s.annotate(idx)}` : ''}`,
+        } satisfies uPlot.Series;
+      }),
+    ],
+    axes: [
+      {
+        stroke: p.axis,
+        font: axisFont,
+        grid: { stroke: p.grid, width: 1 },
+        ticks: { stroke: p.grid, width: 1 },
+        values: xTickLabels,
+        label: 'Frequency (Hz)',
+        labelFont: axisFont,
+        labelSize: 20,
+      },
+      {
+        stroke: p.axis,
+        font: axisFont,
+        grid: { stroke: p.grid, width: 1 },
+        ticks: { stroke: p.grid, width: 1 },
+        label: spec.unit,
+        labelFont: axisFont,
+        labelSize: 18,
+        size: 52,
+        values: (_u, splits) => splits.map((v) => num(v, 3)),
+      },
+    ],
+    hooks: { draw: [onDraw] },
+  };
+}
+
+export interface ChartProps {
+  spec: ChartSpec;
+  height: number;
+  theme: string;
+  syncKey?: string;
+  /** Offer PNG export of this chart. */
+  exportable?: boolean;
+}
+
+export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportable = true }: ChartProps) {
+  const host = useRef<HTMLDivElement>(null);
+  const plot = useRef<uPlot | null>(null);
+  const built = useRef<string>('');
+  const draws = useRef(0);
+  const specRef = useRef(spec);
+  specRef.current = spec;
+
+  // Build or rebuild when the series set or the theme changes; otherwise just set the data.
+  const key = `${shapeKey(spec)}#${theme}#${height}`;
+  // Layout effect: the redraw lands in the same task as the edit, not a frame later.
+  useLayoutEffect(() => {
+    const el = host.current;
+    if (!el || spec.series.length === 0) return;
+    if (plot.current && built.current === key) {
+      plot.current.setData(toData(spec));
+      return;
+    }
+    plot.current?.destroy();
+    const width = Math.max(200, el.clientWidth || 600);
+    const onDraw = () => {
+      draws.current++;
+      el.dataset.draws = String(draws.current);
+    };
+    plot.current = new uPlot(options(spec, width, height, readPalette(el), onDraw, syncKey), toData(spec), el);
+    built.current = key;
+  }, [spec, key]);
+
+  useEffect(() => {
+    const el = host.current;
+    if (!el || typeof ResizeObserver === 'undefined') return;
+    const ro = new ResizeObserver(() => {
+      const u = plot.current;
+      const w = Math.floor(el.clientWidth);
+      if (u && w > 0 && Math.abs(u.width - w) > 1) u.setSize({ width: w, height });
+    });
+    ro.observe(el);
+    return () => ro.disconnect();
+  }, [height]);
+
+  useEffect(
+    () => () => {
+      plot.current?.destroy();
+      plot.current = null;
+    },
+    [],
+  );
+
+  if (spec.series.length === 0) {
+    return (
+      <div class="chart-empty" style={{ height: `${height}px` }}>
+        {spec.empty ?? 'Nothing to show.'}
+      </div>
+    );
+  }
+  return (
+    <div class="chart">
+      <div class="chart-plot" ref={host} data-chart={spec.id} role="img" aria-label={`${spec.title}: ${spec.summary.join(' ')}`} />
+      {exportable ? (
+        <button type="button" class="small ghost chart-png" onClick={() => plot.current && exportPng(plot.current, specRef.current, readPalette(host.current!))}>
+          Save PNG
+        </button>
+      ) : null}
+    </div>
+  );
+}
+
+/** The chart as a PNG: title, the plot and a legend, on the theme's background. */
+export function exportPng(u: uPlot, spec: ChartSpec, p: Palette) {
+  const src = u.ctx.canvas;
+  const dpr = src.width / u.width || 1;
+  const pad = 16 * dpr;
+  const titleH = 28 * dpr;
+  const legendH = 26 * dpr;
+  const out = document.createElement('canvas');
+  out.width = src.width + 2 * pad;
+  out.height = src.height + titleH + legendH + 2 * pad;
+  const ctx = out.getContext('2d');
+  if (!ctx) return;
+  ctx.fillStyle = p.background;
+  ctx.fillRect(0, 0, out.width, out.height);
+  ctx.fillStyle = p.text;
+  ctx.font = `600 ${15 * dpr}px system-ui, sans-serif`;
+  ctx.textBaseline = 'top';
+  ctx.fillText(`${spec.title} (${spec.unit})`, pad, pad);
+  ctx.drawImage(src, pad, pad + titleH);
+  let x = pad;
+  const y = pad + titleH + src.height + 8 * dpr;
+  ctx.font = `${12 * dpr}px system-ui, sans-serif`;
+  for (const s of spec.series) {
+    if (!s.values) continue;
+    const st = stroke(s.role, p);
+    ctx.strokeStyle = st.stroke;
+    ctx.lineWidth = st.width * dpr;
+    ctx.setLineDash((st.dash ?? []).map((d) => d * dpr));
+    ctx.beginPath();
+    ctx.moveTo(x, y + 7 * dpr);
+    ctx.lineTo(x + 22 * dpr, y + 7 * dpr);
+    ctx.stroke();
+    ctx.setLineDash([]);
+    ctx.fillStyle = p.text;
+    ctx.fillText(s.label, x + 28 * dpr, y);
+    x += (40 + s.label.length * 7) * dpr;
+  }
+  ctx.fillStyle = p.axis;
+  ctx.textAlign = 'right';
+  ctx.fillText('preheard — model estimate', out.width - pad, y);
+  out.toBlob((blob) => blob && downloadBlob(blob, `preheard-${spec.id}.png`), 'image/png');
+}

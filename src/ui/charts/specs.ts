@@ -1,0 +1,242 @@
+// What each chart shows, built from the two analyses. Pure data: no DOM, no drawing, no physics.
+import type { Analysis, MaxSplLimit } from '../../engine/response/types.ts';
+import { PORT_SPEED_LIMIT } from '../engine.ts';
+import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
+import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
+
+export type Role = 'a' | 'b' | 'reference' | 'limit' | 'limit-a' | 'limit-b' | 'a-aux' | 'b-aux';
+
+export interface SeriesSpec {
+  label: string;
+  role: Role;
+  /** On the chart's own frequency grid; null = not available for this design. */
+  values: ArrayLike<number> | null;
+  /** Text beside the value in the hover readout (e.g. what limits max SPL). */
+  annotate?: (index: number) => string;
+}
+
+export interface ChartSpec {
+  id: ChartId;
+  title: string;
+  unit: string;
+  digits: number;
+  /** Fixed y range when the data would mislead otherwise. */
+  yMin?: number;
+  yMax?: number;
+  freqHz: Float64Array;
+  series: SeriesSpec[];
+  /** The chart's key numbers as sentences (screen readers, text-only users, the print). */
+  summary: string[];
+  /** Shown instead of the chart when there is nothing to plot. */
+  empty?: string;
+}
+
+export type ChartId = 'spl' | 'excursion' | 'impedance' | 'phase' | 'group-delay' | 'port-speed' | 'max-spl';
+
+export const CHART_IDS: ChartId[] = ['spl', 'excursion', 'impedance', 'phase', 'group-delay', 'port-speed', 'max-spl'];
+
+export type Pair = Record<Slot, Analysis | null>;
+
+const LIMIT_TEXT: Record<MaxSplLimit, string> = {
+  excursion: 'excursion',
+  thermal: 'coil power',
+  amplifier: 'amplifier',
+  radiator: 'radiator travel',
+};
+
+/** A or B's frequency grid (A's when both exist: the engine uses one grid for every design). */
+function grid(pair: Pair): Float64Array | null {
+  return pair.a?.curves.freqHz ?? pair.b?.curves.freqHz ?? null;
+}
+
+/** Values of a design's curve on the shared grid; a design on another grid is resampled by nearest log frequency. */
+function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | null): ArrayLike<number> | null {
+  if (!values) return null;
+  const f = an.curves.freqHz;
+  if (f === target || (f.length === target.length && f[0] === target[0] && f[f.length - 1] === target[target.length - 1])) return values;
+  const out = new Float64Array(target.length);
+  let j = 0;
+  for (let i = 0; i < target.length; i++) {
+    while (j < f.length - 1 && Math.abs(Math.log(f[j + 1] / target[i])) <= Math.abs(Math.log(f[j] / target[i]))) j++;
+    out[i] = values[j];
+  }
+  return out;
+}
+
+const constant = (n: number, v: number) => new Float64Array(n).fill(v);
+
+
+export function buildCharts(pair: Pair): ChartSpec[] {
+  const f = grid(pair);
+  if (!f) {
+    return CHART_IDS.map((id) => ({ id, title: TITLES[id], unit: '', digits: 3, freqHz: new Float64Array(0), series: [], summary: [], empty: 'Neither design is valid yet: fix the marked fields.' }));
+  }
+  const n = f.length;
+  const per = (pick: (a: Analysis) => ArrayLike<number> | null, extra?: Partial<SeriesSpec>): SeriesSpec[] =>
+    SLOTS.map((s) => {
+      const an = pair[s];
+      return { label: `${SLOT_LABEL[s]}`, role: s, values: an ? onGrid(f, an, pick(an)) : null, ...extra };
+    });
+  const present = SLOTS.filter((s) => pair[s] !== null) as Slot[];
+  const fig = (s: Slot) => pair[s]!.figures;
+  const sys = (s: Slot) => pair[s]!.system;
+
+  // SPL at the seat, with each design's ideal flat reference.
+  const spl: ChartSpec = {
+    id: 'spl',
+    title: TITLES.spl,
+    unit: 'dB',
+    digits: 3,
+    freqHz: f,
+    series: [...per((a) => a.curves.splDb), ...referenceSeries(pair, f)],
+    summary: present.map(
+      (s) =>
+        `${SLOT_LABEL[s]}: −3 dB at ${num(fig(s).f3Hz, 3)} Hz, −10 dB at ${num(fig(s).f10Hz, 3)} Hz; passband ${num(fig(s).passbandSplDb, 3)} dB at ${num(sys(s).listening.distance, 2)} m for ${num(pair[s]!.driveV, 3)} V.`,
+    ),
+  };
+
+  // Excursion at the planned level against the limits.
+  const exSeries = per((a) => a.curves.plannedExcursionMm);
+  for (const s of SLOTS) {
+    const an = pair[s];
+    if (an?.curves.radiatorExcursionMm) exSeries.push({ label: `${SLOT_LABEL[s]} radiator`, role: `${s}-aux` as Role, values: onGrid(f, an, an.curves.radiatorExcursionMm) });
+  }
+  exSeries.push(...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±'), ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±'));
+  const excursion: ChartSpec = {
+    id: 'excursion',
+    title: TITLES.excursion,
+    unit: 'mm',
+    digits: 3,
+    yMin: 0,
+    freqHz: f,
+    series: exSeries,
+    summary: present.map((s) => {
+      const pk = peakOf(pair[s]!.curves.plannedExcursionMm);
+      const xmax = sys(s).driver.xmax * K.mm;
+      return pk
+        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} mm at ${num(f[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
+        : `${SLOT_LABEL[s]}: no excursion data.`;
+    }),
+  };
+
+  const impedance: ChartSpec = {
+    id: 'impedance',
+    title: TITLES.impedance,
+    unit: 'Ω',
+    digits: 3,
+    yMin: 0,
+    freqHz: f,
+    series: per((a) => a.curves.impedanceOhm),
+    summary: present.map((s) => `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(sys(s).driver.re, 3)} Ω).`),
+  };
+
+  const phase: ChartSpec = {
+    id: 'phase',
+    title: TITLES.phase,
+    unit: '°',
+    digits: 3,
+    yMin: -90,
+    yMax: 90,
+    freqHz: f,
+    series: per((a) => a.curves.phaseDeg),
+    summary: present.map((s) => {
+      const c = pair[s]!.curves.phaseDeg;
+      let lo = Infinity;
+      let hi = -Infinity;
+      for (let i = 0; i < c.length; i++) {
+        lo = Math.min(lo, c[i]);
+        hi = Math.max(hi, c[i]);
+      }
+      return `${SLOT_LABEL[s]}: phase between ${num(lo, 3)}° and ${num(hi, 3)}°.`;
+    }),
+  };
+
+  const groupDelay: ChartSpec = {
+    id: 'group-delay',
+    title: TITLES['group-delay'],
+    unit: 'ms',
+    digits: 3,
+    freqHz: f,
+    series: per((a) => a.curves.groupDelayMs),
+    summary: present.map((s) => `${SLOT_LABEL[s]}: ${num(fig(s).groupDelay40Ms, 3)} ms at 40 Hz.`),
+  };
+
+  const anyPort = present.some((s) => pair[s]!.curves.plannedPortAirSpeed !== null);
+  const portSpeed: ChartSpec = {
+    id: 'port-speed',
+    title: TITLES['port-speed'],
+    unit: 'm/s',
+    digits: 3,
+    yMin: 0,
+    freqHz: f,
+    series: anyPort ? [...per((a) => a.curves.plannedPortAirSpeed), { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT) }] : [],
+    summary: present.map((s) => {
+      const pk = peakOf(pair[s]!.curves.plannedPortAirSpeed);
+      return pk
+        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} m/s at ${num(f[pk.index], 3)} Hz at the planned level (limit ${PORT_SPEED_LIMIT} m/s${pk.value > PORT_SPEED_LIMIT ? ', exceeded' : ''}).`
+        : `${SLOT_LABEL[s]}: no port.`;
+    }),
+    empty: anyPort ? undefined : 'Neither design has a port.',
+  };
+
+  const maxSpl: ChartSpec = {
+    id: 'max-spl',
+    title: TITLES['max-spl'],
+    unit: 'dB',
+    digits: 3,
+    freqHz: f,
+    series: SLOTS.map((s) => {
+      const an = pair[s];
+      const lim = an?.curves.maxSplLimit;
+      return {
+        label: SLOT_LABEL[s],
+        role: s,
+        values: an ? onGrid(f, an, an.curves.maxSplDb) : null,
+        annotate: lim && an && an.curves.freqHz.length === n ? (i: number) => LIMIT_TEXT[lim[i]] ?? '' : undefined,
+      };
+    }),
+    summary: present.map((s) => {
+      const c = pair[s]!.curves;
+      const i40 = nearest(f, 40);
+      const i100 = nearest(f, 100);
+      return `${SLOT_LABEL[s]}: ${num(c.maxSplDb[i40], 3)} dB at 40 Hz (${LIMIT_TEXT[c.maxSplLimit[i40]]}), ${num(c.maxSplDb[i100], 3)} dB at 100 Hz (${LIMIT_TEXT[c.maxSplLimit[i100]]}).`;
+    }),
+  };
+
+  return [spl, excursion, impedance, phase, groupDelay, portSpeed, maxSpl];
+}
+
+export const TITLES: Record<ChartId, string> = {
+  spl: 'SPL at the seat',
+  excursion: 'Cone excursion at the planned level',
+  impedance: 'Impedance magnitude',
+  phase: 'Impedance phase',
+  'group-delay': 'Group delay',
+  'port-speed': 'Port air speed at the planned level',
+  'max-spl': 'Maximum SPL at the seat',
+};
+
+function nearest(f: Float64Array, hz: number) {
+  let best = 0;
+  for (let i = 0; i < f.length; i++) if (Math.abs(Math.log(f[i] / hz)) < Math.abs(Math.log(f[best] / hz))) best = i;
+  return best;
+}
+
+function referenceSeries(pair: Pair, f: Float64Array): SeriesSpec[] {
+  const refs = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: onGrid(f, pair[s]!, pair[s]!.curves.referenceSplDb)! }));
+  if (refs.length === 2 && sameValues(refs[0].v, refs[1].v)) return [{ label: 'ideal', role: 'reference', values: refs[0].v }];
+  return refs.map((r) => ({ label: `${SLOT_LABEL[r.s]} ideal`, role: 'reference' as Role, values: r.v }));
+}
+
+function limitLines(pair: Pair, n: number, pick: (a: Analysis) => number, label: string): SeriesSpec[] {
+  const vals = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: pick(pair[s]!) }));
+  if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role: 'limit', values: constant(n, vals[0].v) }];
+  return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `limit-${x.s}` as Role, values: constant(n, x.v) }));
+}
+
+function sameValues(a: ArrayLike<number>, b: ArrayLike<number>) {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (Math.abs(a[i] - b[i]) > 1e-9) return false;
+  return true;
+}
+

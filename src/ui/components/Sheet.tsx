@@ -1,0 +1,219 @@
+// The side-by-side sheet: one row per quantity, one column per design (A, B).
+import type { ComponentChildren, VNode } from 'preact';
+import type { Analysis } from '../../engine/response/types.ts';
+import type { SpeakerSystem } from '../../engine/system.ts';
+import { useApp } from '../context.ts';
+import { getAt, pathMatches } from '../paths.ts';
+import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
+import { num } from '../format.ts';
+import { NumberField } from './NumberField.tsx';
+
+export function Sheet(p: { title: string; id: string; children: ComponentChildren; intro?: ComponentChildren }) {
+  const { state } = useApp();
+  return (
+    <section class="sheet" aria-labelledby={`${p.id}-h`}>
+      <h2 id={`${p.id}-h`}>{p.title}</h2>
+      {p.intro ? <p class="sheet-intro">{p.intro}</p> : null}
+      <div class="sheet-grid" role="table" aria-label={p.title}>
+        <div class="sheet-head" role="row">
+          <span role="columnheader" class="qty">Quantity</span>
+          {SLOTS.map((s) => (
+            <span role="columnheader" class={`slot-head slot-${s}`}>
+              <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {state.designs[s].name}
+            </span>
+          ))}
+        </div>
+        {p.children}
+      </div>
+    </section>
+  );
+}
+
+export function Group(p: { title: string; children: ComponentChildren; note?: string }) {
+  return (
+    <>
+      <div class="sheet-group" role="row">
+        <span role="cell">{p.title}</span>
+        {p.note ? <span role="cell" class="group-note">{p.note}</span> : null}
+      </div>
+      {p.children}
+    </>
+  );
+}
+
+export function Row(p: { label: string; symbol?: string; hint?: string; cell: (slot: Slot) => VNode | string | null }) {
+  return (
+    <div class="sheet-row" role="row">
+      <span class="qty" role="rowheader">
+        <span class="qty-label">{p.label}</span>
+        {p.symbol ? <span class="qty-sym">{p.symbol}</span> : null}
+        {p.hint ? <span class="qty-hint">{p.hint}</span> : null}
+      </span>
+      {SLOTS.map((s) => (
+        <div role="cell" class={`cell cell-${s}`}>
+          {p.cell(s) ?? <span class="na">not used</span>}
+        </div>
+      ))}
+    </div>
+  );
+}
+
+/** System and analysis behind a slot: the current one, or the last valid one while the edit is rejected. */
+export function useModel(slot: Slot): { system: SpeakerSystem | null; analysis: Analysis | null; stale: boolean } {
+  const { derived } = useApp();
+  const d = derived[slot];
+  const system = d.parse.ok ? d.parse.system : (d.analysis?.system ?? null);
+  return { system, analysis: d.analysis, stale: d.stale };
+}
+
+export function fieldId(slot: Slot, path: string) {
+  return `f-${slot}-${path.replace(/[^a-z0-9]+/gi, '-')}`;
+}
+
+export interface NumProps {
+  slot: Slot;
+  path: string;
+  label: string;
+  unit?: string;
+  step?: number;
+  min?: number;
+  max?: number;
+  /** The value the model uses, in the display unit (from the engine's SI system). */
+  model?: (system: SpeakerSystem, analysis: Analysis | null) => number | null;
+  modelDigits?: number;
+  placeholder?: string;
+}
+
+/** A numeric design field bound to the store, with the engine's messages and the model's value. */
+export function Num(p: NumProps) {
+  const { state, derived, dispatch } = useApp();
+  const value = getAt(state.designs[p.slot], p.path);
+  const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path));
+  const m = useModel(p.slot);
+  const modelValue = p.model && m.system ? p.model(m.system, m.analysis) : null;
+  const typed = typeof value === 'number';
+  return (
+    <div class="num">
+      <NumberField
+        id={fieldId(p.slot, p.path)}
+        label={`${p.label}, design ${SLOT_LABEL[p.slot]}`}
+        value={value}
+        unit={p.unit}
+        step={p.step}
+        min={p.min}
+        max={p.max}
+        issues={issues}
+        placeholder={p.placeholder ?? (modelValue !== null && !typed ? num(modelValue, p.modelDigits ?? 3) : undefined)}
+        onCommit={(v) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v })}
+      />
+      {modelValue !== null ? (
+        <span class={`model${m.stale ? ' stale' : ''}`} title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}>
+          <span class="model-tag">{typed ? 'model' : 'derived'}</span> {num(modelValue, p.modelDigits ?? 3)}
+          {p.unit ? ` ${p.unit}` : ''}
+        </span>
+      ) : null}
+    </div>
+  );
+}
+
+/** A derived quantity: engine output only. */
+export function Out(p: { value: number | null | undefined; unit?: string; digits?: number; stale?: boolean; note?: string }) {
+  return (
+    <output class={`out${p.stale ? ' stale' : ''}`}>
+      {num(p.value, p.digits ?? 3)}
+      {p.unit && p.value !== null && p.value !== undefined ? ` ${p.unit}` : ''}
+      {p.note ? <span class="out-note"> {p.note}</span> : null}
+    </output>
+  );
+}
+
+export interface ChoiceProps<T extends string> {
+  slot: Slot;
+  label: string;
+  value: T | undefined;
+  options: { value: T; label: string }[];
+  onChange: (v: T) => void;
+  path: string;
+}
+
+export function Choice<T extends string>(p: ChoiceProps<T>) {
+  const { derived } = useApp();
+  const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path));
+  return (
+    <div class="choice">
+      <select
+        id={fieldId(p.slot, p.path)}
+        aria-label={`${p.label}, design ${SLOT_LABEL[p.slot]}`}
+        value={p.value ?? ''}
+        onChange={(e) => p.onChange((e.currentTarget as HTMLSelectElement).value as T)}
+      >
+        {p.value === undefined ? <option value="">—</option> : null}
+        {p.options.map((o) => (
+          <option value={o.value}>{o.label}</option>
+        ))}
+      </select>
+      {issues.map((i) => (
+        <p class={`msg ${i.severity}`}>{i.message}</p>
+      ))}
+    </div>
+  );
+}
+
+export function TextField(p: { slot: Slot; path: string; label: string }) {
+  const { state, dispatch, derived } = useApp();
+  const value = getAt(state.designs[p.slot], p.path);
+  const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path));
+  return (
+    <div class="textfield">
+      <input
+        id={fieldId(p.slot, p.path)}
+        type="text"
+        aria-label={`${p.label}, design ${SLOT_LABEL[p.slot]}`}
+        value={typeof value === 'string' ? value : ''}
+        onInput={(e) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: (e.currentTarget as HTMLInputElement).value })}
+      />
+      {issues.map((i) => (
+        <p class={`msg ${i.severity}`}>{i.message}</p>
+      ))}
+    </div>
+  );
+}
+
+/** Comma-separated polynomial coefficients (large-signal fields). */
+export function Coefficients(p: { slot: Slot; path: string; label: string; unitHint: string }) {
+  const { state, dispatch, derived } = useApp();
+  const value = getAt(state.designs[p.slot], p.path);
+  const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path));
+  const text = Array.isArray(value) ? value.join(', ') : '';
+  let localError: string | null = null;
+  return (
+    <div class="textfield">
+      <input
+        id={fieldId(p.slot, p.path)}
+        type="text"
+        inputMode="decimal"
+        placeholder="fitted from Xmax and Xlim"
+        aria-label={`${p.label}, design ${SLOT_LABEL[p.slot]}`}
+        defaultValue={text}
+        key={text}
+        onChange={(e) => {
+          const raw = (e.currentTarget as HTMLInputElement).value.trim();
+          if (raw === '') return dispatch({ type: 'edit', slot: p.slot, path: p.path, value: undefined });
+          const parts = raw.split(/[,;\s]+/).filter(Boolean).map(Number);
+          if (parts.some((x) => !Number.isFinite(x))) {
+            localError = 'Enter numbers separated by commas.';
+            (e.currentTarget as HTMLInputElement).setCustomValidity(localError);
+            (e.currentTarget as HTMLInputElement).reportValidity();
+            return;
+          }
+          (e.currentTarget as HTMLInputElement).setCustomValidity('');
+          dispatch({ type: 'edit', slot: p.slot, path: p.path, value: parts });
+        }}
+      />
+      <span class="qty-hint">{p.unitHint}</span>
+      {issues.map((i) => (
+        <p class={`msg ${i.severity}`}>{i.message}</p>
+      ))}
+    </div>
+  );
+}

@@ -1,0 +1,19 @@
+import { createContext } from 'preact';
+import { useContext } from 'preact/hooks';
+import type { AppState, Intent, Slot, Store } from './store.ts';
+import type { Derived } from './engine.ts';
+
+export interface AppView {
+  state: AppState;
+  derived: Record<Slot, Derived>;
+  dispatch: (intent: Intent) => void;
+  store: Store;
+}
+
+export const AppContext = createContext<AppView | null>(null);
+
+export function useApp(): AppView {
+  const v = useContext(AppContext);
+  if (!v) throw new Error('useApp outside <AppContext.Provider>');
+  return v;
+}

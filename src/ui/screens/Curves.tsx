@@ -1,0 +1,92 @@
+// Curves: every chart with A and B overlaid and the ideal reference, the key numbers as text.
+import { useMemo } from 'preact/hooks';
+import { useApp } from '../context.ts';
+import { Chart } from '../charts/Chart.tsx';
+import { buildCharts, type ChartSpec } from '../charts/specs.ts';
+import { FigureTable } from '../FigureTable.tsx';
+import { num, nearestIndex } from '../format.ts';
+
+const TABLE_HZ = [20, 25, 31.5, 40, 50, 63, 80, 100, 125, 160, 200, 315, 500, 1000];
+
+export function useCharts(): ChartSpec[] {
+  const { derived } = useApp();
+  const a = derived.a.analysis;
+  const b = derived.b.analysis;
+  return useMemo(() => buildCharts({ a, b }), [a, b]);
+}
+
+function ValuesTable({ spec }: { spec: ChartSpec }) {
+  const cols = spec.series.filter((s) => s.values && (s.role === 'a' || s.role === 'b' || s.role === 'reference' || s.role.endsWith('-aux')));
+  const f = spec.freqHz;
+  const idx = TABLE_HZ.filter((hz) => f.length && hz >= f[0] && hz <= f[f.length - 1]).map((hz) => nearestIndex(f, hz));
+  return (
+    <details class="values">
+      <summary>Values as a table</summary>
+      <table>
+        <thead>
+          <tr>
+            <th scope="col">Hz</th>
+            {cols.map((c) => (
+              <th scope="col" class="n">
+                {c.label} ({spec.unit})
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {idx.map((i) => (
+            <tr>
+              <th scope="row" class="n">
+                {num(f[i], 3)}
+              </th>
+              {cols.map((c) => (
+                <td class="n">{num(c.values![i], spec.digits)}</td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </details>
+  );
+}
+
+export function ChartCard({ spec, height = 250, theme }: { spec: ChartSpec; height?: number; theme: string }) {
+  return (
+    <figure class="chart-card" aria-labelledby={`chart-${spec.id}-t`}>
+      <figcaption>
+        <h3 id={`chart-${spec.id}-t`}>
+          {spec.title} <span class="unit-tag">{spec.unit}</span>
+        </h3>
+      </figcaption>
+      <Chart spec={spec} height={height} theme={theme} />
+      {spec.summary.length ? (
+        <ul class="chart-summary">
+          {spec.summary.map((t) => (
+            <li>{t}</li>
+          ))}
+        </ul>
+      ) : null}
+      {spec.series.length ? <ValuesTable spec={spec} /> : null}
+    </figure>
+  );
+}
+
+export function Curves({ theme }: { theme: string }) {
+  const charts = useCharts();
+  return (
+    <section class="curves" aria-labelledby="curves-h">
+      <div class="curves-head">
+        <h2 id="curves-h">Curves</h2>
+        <p class="sheet-intro">
+          Small-signal model. SPL, impedance and group delay at 2.83 V; excursion and port air speed at each design's planned level. Hover a chart for readouts; the charts follow one cursor.
+        </p>
+      </div>
+      <FigureTable />
+      <div class="chart-grid">
+        {charts.map((c) => (
+          <ChartCard spec={c} theme={theme} />
+        ))}
+      </div>
+    </section>
+  );
+}

@@ -1,0 +1,147 @@
+// Drive & seat: amplifier, crossover, where the listener sits, how loud it will be played, the air.
+import type { CrossoverDoc, ListeningDoc, PlannedLevelDoc } from '../../engine/design/document.ts';
+import { useApp } from '../context.ts';
+import { Choice, Group, Num, Out, Row, Sheet, useModel } from '../components/Sheet.tsx';
+import type { Slot } from '../store.ts';
+
+const SPACES: { value: ListeningDoc['space']; label: string }[] = [
+  { value: 'full', label: 'Free field (full space)' },
+  { value: 'half', label: 'On a floor or against a wall (half space)' },
+  { value: 'quarter', label: 'Floor and wall (quarter space)' },
+  { value: 'eighth', label: 'In a corner (eighth space)' },
+];
+
+const CROSSOVERS: { value: CrossoverDoc['type']; label: string }[] = [
+  { value: 'lr2', label: 'Linkwitz-Riley, 2nd order' },
+  { value: 'lr4', label: 'Linkwitz-Riley, 4th order' },
+  { value: 'lr8', label: 'Linkwitz-Riley, 8th order' },
+  { value: 'none', label: 'None (full range)' },
+];
+
+type LevelMode = PlannedLevelDoc['mode'];
+
+function Derived(p: { slot: Slot; pick: (m: ReturnType<typeof useModel>) => number | null | undefined; unit?: string; digits?: number }) {
+  const m = useModel(p.slot);
+  return <Out value={m.system ? p.pick(m) : null} unit={p.unit} digits={p.digits} stale={m.stale} />;
+}
+
+export function DriveSeat() {
+  const { state, dispatch } = useApp();
+  const level = (s: Slot): PlannedLevelDoc | undefined => state.designs[s].listening.level;
+  const setMode = (s: Slot, mode: LevelMode) => {
+    const current = level(s);
+    if (current?.mode === mode) return;
+    const next: PlannedLevelDoc = mode === 'spl' ? { mode: 'spl', spl_db: 85 } : { mode: 'volts', volts_fs: 10 };
+    dispatch({ type: 'edit', slot: s, path: 'listening.level', value: next });
+  };
+  return (
+    <Sheet id="drive" title="Drive & seat" intro="What drives each design and where it is heard. The planned level sets the drive used for the excursion and port-speed curves and for listening.">
+      <Group title="Amplifier">
+        <Row label="Rated power" hint="into the rated load" cell={(s) => <Num slot={s} path="amplifier.power_w" label="Amplifier rated power" unit="W" step={1} model={(y) => y.amplifier.power} />} />
+        <Row label="Rated load" cell={(s) => <Num slot={s} path="amplifier.load_ohm" label="Amplifier rated load" unit="Ω" step={1} model={(y) => y.amplifier.load} />} />
+        <Row label="Series resistance" hint="output plus cable" cell={(s) => <Num slot={s} path="amplifier.rs_ohm" label="Series resistance" unit="Ω" step={0.01} model={(y) => y.amplifier.rs} />} />
+        <Row label="Peak output" hint="rail, derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.amplifier.vPeak} unit="V" />} />
+        <Row
+          label="Clipping"
+          cell={(s) => (
+            <Choice<'hard' | 'soft'>
+              slot={s}
+              path="amplifier.clip"
+              label="Amplifier clipping"
+              value={state.designs[s].amplifier.clip ?? 'hard'}
+              options={[
+                { value: 'hard', label: 'Hard' },
+                { value: 'soft', label: 'Soft' },
+              ]}
+              onChange={(v) => dispatch({ type: 'edit', slot: s, path: 'amplifier.clip', value: v })}
+            />
+          )}
+        />
+      </Group>
+      <Group title="Crossover" note="the woofer gets the low band">
+        <Row
+          label="Filter"
+          cell={(s) => (
+            <Choice<CrossoverDoc['type']>
+              slot={s}
+              path="crossover.type"
+              label="Crossover filter"
+              value={state.designs[s].crossover.type}
+              options={CROSSOVERS}
+              onChange={(v) => dispatch({ type: 'edit', slot: s, path: 'crossover.type', value: v })}
+            />
+          )}
+        />
+        <Row label="Crossover frequency" symbol="fx" cell={(s) => (state.designs[s].crossover.type === 'none' ? null : <Num slot={s} path="crossover.fx_hz" label="Crossover frequency" unit="Hz" step={10} model={(y) => y.crossover.fx} />)} />
+      </Group>
+      <Group title="Listening seat">
+        <Row label="Distance" hint="speaker to seat" cell={(s) => <Num slot={s} path="listening.distance_m" label="Listening distance" unit="m" step={0.1} model={(y) => y.listening.distance} />} />
+        <Row
+          label="Placement"
+          cell={(s) => (
+            <Choice<ListeningDoc['space']>
+              slot={s}
+              path="listening.space"
+              label="Placement"
+              value={state.designs[s].listening.space}
+              options={SPACES}
+              onChange={(v) => dispatch({ type: 'edit', slot: s, path: 'listening.space', value: v })}
+            />
+          )}
+        />
+        <Row
+          label="Speakers"
+          cell={(s) => (
+            <Choice<NonNullable<ListeningDoc['channels']>>
+              slot={s}
+              path="listening.channels"
+              label="Speakers"
+              value={state.designs[s].listening.channels ?? 'pair'}
+              options={[
+                { value: 'pair', label: 'A stereo pair' },
+                { value: 'mono-sum', label: 'One speaker, mono sum' },
+              ]}
+              onChange={(v) => dispatch({ type: 'edit', slot: s, path: 'listening.channels', value: v })}
+            />
+          )}
+        />
+        <Row label="Room gain corner" hint="0 = none; small rooms, cars" cell={(s) => <Num slot={s} path="listening.room_gain_hz" label="Room gain corner" unit="Hz" step={1} min={0} model={(y) => y.listening.roomGainHz} />} />
+      </Group>
+      <Group title="Planned level">
+        <Row
+          label="Stated as"
+          cell={(s) => (
+            <Choice<LevelMode>
+              slot={s}
+              path="listening.level.mode"
+              label="Planned level stated as"
+              value={level(s)?.mode ?? 'spl'}
+              options={[
+                { value: 'spl', label: 'SPL at the seat (long-term, C-weighted)' },
+                { value: 'volts', label: 'Amplifier volts at digital full scale' },
+              ]}
+              onChange={(v) => setMode(s, v)}
+            />
+          )}
+        />
+        <Row
+          label="Level"
+          cell={(s) =>
+            (level(s)?.mode ?? 'spl') === 'spl' ? (
+              <Num slot={s} path="listening.level.spl_db" label="Planned SPL at the seat" unit="dB(C)" step={1} model={(_y, a) => a?.figures.plannedSplDb ?? null} />
+            ) : (
+              <Num slot={s} path="listening.level.volts_fs" label="Amplifier peak volts at full scale" unit="V peak" step={0.5} />
+            )
+          }
+        />
+        <Row label="Drive for that level" hint="amplifier, rms, derived" cell={(s) => <Derived slot={s} pick={(m) => m.analysis?.figures.plannedVoltsRms} unit="V rms" />} />
+      </Group>
+      <Group title="Air">
+        <Row label="Temperature" cell={(s) => <Num slot={s} path="air.temperature_c" label="Air temperature" unit="°C" step={1} model={(y) => y.air.temperatureC} />} />
+        <Row label="Pressure" cell={(s) => <Num slot={s} path="air.pressure_kpa" label="Air pressure" unit="kPa" step={0.1} model={(y) => y.air.pressurePa / 1000} modelDigits={4} />} />
+        <Row label="Speed of sound" hint="derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.c} unit="m/s" digits={4} />} />
+        <Row label="Air density" hint="derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.rho} unit="kg/m³" digits={4} />} />
+      </Group>
+    </Sheet>
+  );
+}
