@@ -12,4 +12,7 @@ const saved = await Promise.race([autosave.load(), new Promise<undefined>((r) =>
 if (saved) store.dispatch({ type: 'restore', state: saved });
 autosave.attach(store);
 
+// The UI benchmark (test/bench/ui-redraw.ts) drives the store directly when the page is opened with ?bench.
+if (new URLSearchParams(location.search).has('bench')) (window as unknown as { __preheard: unknown }).__preheard = { store };
+
 render(<App store={store} autosave={autosave} />, document.getElementById('app')!);

@@ -325,15 +325,6 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             <span class="brand-name">preheard</span>
             <span class="brand-tag">hear a design before building it</span>
           </div>
-          <div class="pair" aria-label="The two designs">
-            {SLOTS.map((s) => (
-              <span class={`pair-item pair-${s}`}>
-                <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
-                <span class="pair-name">{state.designs[s].name}</span>
-                {derived[s].parse.ok ? null : <span class="badge-error">{derived[s].issues.filter((i) => i.severity === 'error').length} errors</span>}
-              </span>
-            ))}
-          </div>
           <div class="toolbar" role="toolbar" aria-label="Design actions">
             <div class="tgroup">
               <button type="button" onClick={() => store.dispatch({ type: 'undo' })} disabled={!store.canUndo()} title={store.undoLabel() ? `Undo ${store.undoLabel()}` : 'Nothing to undo'}>
@@ -424,6 +415,15 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
               >
                 {s.label}
               </button>
+            ))}
+          </div>
+          <div class="pair" aria-label="The two designs">
+            {SLOTS.map((s) => (
+              <span class={`pair-item pair-${s}`}>
+                <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
+                <span class="pair-name">{state.designs[s].name}</span>
+                {derived[s].parse.ok ? null : <span class="badge-error">{derived[s].issues.filter((i) => i.severity === 'error').length} errors</span>}
+              </span>
             ))}
           </div>
         </nav>

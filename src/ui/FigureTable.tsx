@@ -59,7 +59,7 @@ export function FigureTable(p: { compact?: boolean }) {
           {SLOTS.map((s) => (
             <th scope="col" class={`n slot-${s}`}>
               <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
-              {p.compact ? null : <span class="th-name"> {state.designs[s].name}</span>}
+              <span class="visually-hidden"> {state.designs[s].name}</span>
             </th>
           ))}
         </tr>

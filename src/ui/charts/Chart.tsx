@@ -46,16 +46,27 @@ function stroke(role: Role, p: Palette): { stroke: string; dash?: number[]; widt
     case 'reference':
       return { stroke: p.reference, width: 1.5, dash: [6, 4] };
     case 'limit':
-      return { stroke: p.limit, width: 1.25, dash: [4, 3] };
+      return { stroke: p.limit, width: 1.25, dash: [5, 4] };
+    case 'limit-hard':
+      return { stroke: p.limit, width: 1.5 };
     case 'limit-a':
-      return { stroke: p.a, width: 1.25, dash: [4, 3] };
+      return { stroke: p.a, width: 1.25, dash: [5, 4] };
     case 'limit-b':
-      return { stroke: p.b, width: 1.25, dash: [4, 3] };
+      return { stroke: p.b, width: 1.25, dash: [5, 4] };
+    case 'limit-hard-a':
+      return { stroke: p.a, width: 1.5 };
+    case 'limit-hard-b':
+      return { stroke: p.b, width: 1.5 };
   }
 }
 
 function hz(v: number): string {
-  return v >= 1000 ? `${num(v / 1000, 3)}k` : num(v, 3);
+  return v >= 1000 ? `${Number((v / 1000).toPrecision(3))}k` : String(Number(v.toPrecision(3)));
+}
+
+/** Axis numbers without trailing zeros: 80, 2.5, 0.25. */
+function tick(v: number): string {
+  return String(Number(v.toPrecision(6))).replace('-', '−');
 }
 
 /** Frequency ticks labelled at 1-2-5 steps only, so a log axis stays readable. */
@@ -83,7 +94,7 @@ function options(spec: ChartSpec, width: number, height: number, p: Palette, onD
     height,
     pxAlign: false,
     scales: {
-      x: { distr: 3, log: 10, time: false },
+      x: { distr: 3, log: 10, time: false, range: (_u, lo, hi) => [lo, hi] },
       y: {
         range: (_u, lo, hi) => {
           let min = spec.yMin ?? lo;
@@ -137,7 +148,7 @@ function options(spec: ChartSpec, width: number, height: number, p: Palette, onD
         labelFont: axisFont,
         labelSize: 18,
         size: 52,
-        values: (_u, splits) => splits.map((v) => num(v, 3)),
+        values: (_u, splits) => splits.map(tick),
       },
     ],
     hooks: { draw: [onDraw] },

@@ -4,7 +4,7 @@ import { PORT_SPEED_LIMIT } from '../engine.ts';
 import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 
-export type Role = 'a' | 'b' | 'reference' | 'limit' | 'limit-a' | 'limit-b' | 'a-aux' | 'b-aux';
+export type Role = 'a' | 'b' | 'reference' | 'limit' | 'limit-a' | 'limit-b' | 'limit-hard' | 'limit-hard-a' | 'limit-hard-b' | 'a-aux' | 'b-aux';
 
 export interface SeriesSpec {
   label: string;
@@ -101,7 +101,7 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     const an = pair[s];
     if (an?.curves.radiatorExcursionMm) exSeries.push({ label: `${SLOT_LABEL[s]} radiator`, role: `${s}-aux` as Role, values: onGrid(f, an, an.curves.radiatorExcursionMm) });
   }
-  exSeries.push(...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±'), ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±'));
+  exSeries.push(...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±', 'limit'), ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±', 'limit-hard'));
   const excursion: ChartSpec = {
     id: 'excursion',
     title: TITLES.excursion,
@@ -228,10 +228,10 @@ function referenceSeries(pair: Pair, f: Float64Array): SeriesSpec[] {
   return refs.map((r) => ({ label: `${SLOT_LABEL[r.s]} ideal`, role: 'reference' as Role, values: r.v }));
 }
 
-function limitLines(pair: Pair, n: number, pick: (a: Analysis) => number, label: string): SeriesSpec[] {
+function limitLines(pair: Pair, n: number, pick: (a: Analysis) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {
   const vals = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: pick(pair[s]!) }));
-  if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role: 'limit', values: constant(n, vals[0].v) }];
-  return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `limit-${x.s}` as Role, values: constant(n, x.v) }));
+  if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role, values: constant(n, vals[0].v) }];
+  return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `${role}-${x.s}` as Role, values: constant(n, x.v) }));
 }
 
 function sameValues(a: ArrayLike<number>, b: ArrayLike<number>) {

@@ -51,7 +51,11 @@ export function Row(p: { label: string; symbol?: string; hint?: string; cell: (s
       </span>
       {SLOTS.map((s) => (
         <div role="cell" class={`cell cell-${s}`}>
-          {p.cell(s) ?? <span class="na">not used</span>}
+          {p.cell(s) ?? (
+            <span class="na" title="not used by this design">
+              —
+            </span>
+          )}
         </div>
       ))}
     </div>
@@ -92,6 +96,9 @@ export function Num(p: NumProps) {
   const m = useModel(p.slot);
   const modelValue = p.model && m.system ? p.model(m.system, m.analysis) : null;
   const typed = typeof value === 'number';
+  // Beside a typed value the model's own value appears only when it differs: that is the news.
+  const differs = modelValue !== null && typed && Math.abs(modelValue - (value as number)) > 5e-4 * Math.max(Math.abs(modelValue), 1e-9);
+  const showModel = modelValue !== null && (!typed || differs);
   return (
     <div class="num">
       <NumberField
@@ -106,8 +113,8 @@ export function Num(p: NumProps) {
         placeholder={p.placeholder ?? (modelValue !== null && !typed ? num(modelValue, p.modelDigits ?? 3) : undefined)}
         onCommit={(v) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v })}
       />
-      {modelValue !== null ? (
-        <span class={`model${m.stale ? ' stale' : ''}`} title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}>
+      {showModel ? (
+        <span class={`model${m.stale ? ' stale' : ''}${differs ? ' differs' : ''}`} title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}>
           <span class="model-tag">{typed ? 'model' : 'derived'}</span> {num(modelValue, p.modelDigits ?? 3)}
           {p.unit ? ` ${p.unit}` : ''}
         </span>

@@ -81,11 +81,15 @@ export function Curves({ theme }: { theme: string }) {
           Small-signal model. SPL, impedance and group delay at 2.83 V; excursion and port air speed at each design's planned level. Hover a chart for readouts; the charts follow one cursor.
         </p>
       </div>
-      <FigureTable />
-      <div class="chart-grid">
-        {charts.map((c) => (
-          <ChartCard spec={c} theme={theme} />
-        ))}
+      <div class="curves-layout">
+        <div class="chart-grid">
+          {charts.map((c) => (
+            <ChartCard spec={c} theme={theme} />
+          ))}
+        </div>
+        <div class="curves-side">
+          <FigureTable />
+        </div>
       </div>
     </section>
   );
