@@ -19,6 +19,10 @@ async function page(ctx) {
     p.on('pageerror', (e) => ctx.state.errors.push(String(e)));
     p.on('console', (m) => m.type() === 'error' && ctx.state.errors.push(m.text()));
     ctx.state.page = p;
+    if (!process.argv[2]) return p;
+    // Running one test alone (node test/e2e/run.mjs <name>): open the app first.
+    await p.goto(ctx.server.origin + '/');
+    await p.getByRole('button', { name: 'I understand' }).click();
   }
   return ctx.state.page;
 }

@@ -1,6 +1,6 @@
 // A typed number with its unit. The text typed stays on screen exactly as typed; the design gets the
 // number (or loses an optional key when emptied); what the engine says about it is shown beside it.
-import { useEffect, useRef, useState } from 'preact/hooks';
+import { useLayoutEffect, useRef, useState } from 'preact/hooks';
 import type { Issue } from '../../engine/issues.ts';
 
 export interface NumberFieldProps {
@@ -24,7 +24,8 @@ export function NumberField(p: NumberFieldProps) {
   const ref = useRef<HTMLInputElement>(null);
 
   // The design changed from elsewhere (undo, swap, import): show its value unless it is what we typed.
-  useEffect(() => {
+  // A layout effect, so the field never shows the old text for a frame.
+  useLayoutEffect(() => {
     const typed = text.trim() === '' ? undefined : Number(text);
     if (!(typed === p.value || (typed === undefined && (p.value === undefined || p.value === null)))) {
       setText(asText(p.value));
