@@ -115,8 +115,14 @@ export function Num(p: NumProps) {
       />
       {showModel ? (
         <span class={`model${m.stale ? ' stale' : ''}${differs ? ' differs' : ''}`} title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}>
-          <span class="model-tag">{typed ? 'model' : 'derived'}</span> {num(modelValue, p.modelDigits ?? 3)}
-          {p.unit ? ` ${p.unit}` : ''}
+          {typed ? (
+            <>
+              <span class="model-tag">model</span> {num(modelValue, p.modelDigits ?? 3)}
+              {p.unit ? ` ${p.unit}` : ''}
+            </>
+          ) : (
+            <span class="model-tag">derived</span>
+          )}
         </span>
       ) : null}
     </div>

@@ -1,0 +1,168 @@
+// The app's store, autosave and share links: behaviour the issue asks for, checked with real numbers.
+import { describe, expect, it } from 'vitest';
+import { Store, type AppState } from '../src/ui/store.ts';
+import { Autosave, memoryBackend, type StorageBackend } from '../src/ui/persist.ts';
+import { decodeShare, encodeShare, hasShare } from '../src/ui/share.ts';
+import { getAt, normalizePath, pathMatches, setAt } from '../src/ui/paths.ts';
+import { demoPair } from '../src/ui/demo.ts';
+import { readDesignText } from '../src/ui/files.ts';
+import { validate } from '../src/ui/engine.ts';
+
+function clock(start = 0) {
+  let t = start;
+  return { now: () => t, advance: (ms: number) => (t += ms) };
+}
+
+describe('design paths', () => {
+  it('reads and writes nested fields without touching the original', () => {
+    const doc = demoPair().b;
+    const next = setAt(doc, 'box.ports.0.diameter_cm', 7.5);
+    expect(getAt(next, 'box.ports.0.diameter_cm')).toBe(7.5);
+    expect(getAt(doc, 'box.ports.0.diameter_cm')).toBe(6);
+    expect(next.driver).toBe(doc.driver); // only the edited path is copied
+    const removed = setAt(doc, 'driver.le_mh', undefined);
+    expect('le_mh' in removed.driver).toBe(false);
+    expect(Array.isArray((setAt(doc, 'box.ports.0.count', 2).box as { ports: unknown[] }).ports)).toBe(true);
+  });
+  it('matches engine paths in either index notation', () => {
+    expect(normalizePath('box.ports[0].count')).toBe('box.ports.0.count');
+    expect(pathMatches('box.ports[0].count', 'box.ports.0.count')).toBe(true);
+    expect(pathMatches('box.ports.0.count', 'box.ports')).toBe(true);
+    expect(pathMatches('box.vb_l', 'box.v')).toBe(false);
+  });
+});
+
+describe('store: one history of design edits', () => {
+  it('undoes and redoes edits; typing into one field is one step', () => {
+    const c = clock();
+    const store = new Store(demoPair, undefined, c.now);
+    const vb0 = store.get().designs.a.box.vb_l;
+    for (const v of [2, 25, 250, 25.5]) {
+      store.dispatch({ type: 'edit', slot: 'a', path: 'box.vb_l', value: v });
+      c.advance(150);
+    }
+    c.advance(5000);
+    store.dispatch({ type: 'edit', slot: 'a', path: 'box.vb_l', value: 30 });
+    expect(store.get().designs.a.box.vb_l).toBe(30);
+    store.dispatch({ type: 'undo' });
+    expect(store.get().designs.a.box.vb_l).toBe(25.5);
+    store.dispatch({ type: 'undo' });
+    expect(store.get().designs.a.box.vb_l).toBe(vb0);
+    expect(store.canUndo()).toBe(false);
+    store.dispatch({ type: 'redo' });
+    store.dispatch({ type: 'redo' });
+    expect(store.get().designs.a.box.vb_l).toBe(30);
+    expect(store.canRedo()).toBe(false);
+  });
+  it('copies, swaps and resets as undoable steps; settings are not edits', () => {
+    const store = new Store(demoPair);
+    const { a, b } = store.get().designs;
+    store.dispatch({ type: 'swap' });
+    expect(store.get().designs.a).toBe(b);
+    expect(store.get().designs.b).toBe(a);
+    store.dispatch({ type: 'copy-a-to-b' });
+    expect(store.get().designs.b).toEqual(b);
+    expect(store.get().designs.b).not.toBe(store.get().designs.a);
+    store.dispatch({ type: 'settings', patch: { screen: 'curves' } });
+    store.dispatch({ type: 'reset-demo' });
+    expect(store.get().designs.a.box.type).toBe('sealed');
+    expect(store.get().settings.screen).toBe('curves');
+    store.dispatch({ type: 'undo' });
+    store.dispatch({ type: 'undo' });
+    store.dispatch({ type: 'undo' });
+    expect(store.get().designs.a).toBe(a);
+    expect(store.canUndo()).toBe(false);
+  });
+  it('a value equal to the current one is not an edit', () => {
+    const store = new Store(demoPair);
+    store.dispatch({ type: 'edit', slot: 'b', path: 'box.fb_hz', value: getAt(store.get().designs.b, 'box.fb_hz') });
+    expect(store.canUndo()).toBe(false);
+  });
+});
+
+describe('autosave', () => {
+  it('writes every change and restores exactly', async () => {
+    const backend = memoryBackend();
+    const save = new Autosave(backend);
+    const store = new Store(demoPair);
+    save.attach(store);
+    store.dispatch({ type: 'edit', slot: 'a', path: 'box.vb_l', value: 17.25 });
+    store.dispatch({ type: 'settings', patch: { screen: 'cabinet', theme: 'dark' } });
+    await save.flush();
+    expect(save.status.kind).toBe('saved');
+    const restored = (await new Autosave(backend).load()) as AppState;
+    expect(restored).toEqual(store.get());
+    expect(restored.designs.a.box.vb_l).toBe(17.25);
+  });
+  it('reports storage that is full or unavailable, and keeps going', async () => {
+    const quota: StorageBackend = {
+      load: async () => undefined,
+      save: async () => {
+        throw Object.assign(new Error('The quota has been exceeded.'), { name: 'QuotaExceededError' });
+      },
+    };
+    const s1 = new Autosave(quota);
+    const store = new Store(demoPair);
+    s1.attach(store);
+    store.dispatch({ type: 'swap' });
+    await s1.flush();
+    expect(s1.status.kind).toBe('full');
+    expect(s1.status.kind === 'full' && s1.status.message).toMatch(/Export/);
+
+    const none: StorageBackend = {
+      load: async () => {
+        throw new Error('IndexedDB is disabled');
+      },
+      save: async () => {
+        throw new Error('IndexedDB is disabled');
+      },
+    };
+    const s2 = new Autosave(none);
+    expect(await s2.load()).toBeUndefined();
+    expect(s2.status.kind).toBe('unavailable');
+    expect(s2.status.kind === 'unavailable' && s2.status.message).toMatch(/IndexedDB is disabled/);
+  });
+  it('ignores a saved value of another shape', async () => {
+    const backend = memoryBackend({ kind: 'something-else' } as never);
+    expect(await new Autosave(backend).load()).toBeUndefined();
+  });
+});
+
+describe('share links', () => {
+  it('round-trips the pair in the fragment', async () => {
+    const pair = demoPair();
+    pair.a = setAt(pair.a, 'box.vb_l', 12.34);
+    const frag = await encodeShare(pair);
+    expect(hasShare('#' + frag)).toBe(true);
+    // Deflate keeps two similar designs well under the ~2 kB that every browser keeps in a URL (common practice, no source).
+    expect(frag.length).toBeLessThan(2000);
+    expect(frag).toMatch(/^pair=1\.[A-Za-z0-9_-]+$/);
+    const back = await decodeShare('#' + frag);
+    expect(back.a).toEqual(pair.a);
+    expect(back.b).toEqual(pair.b);
+    const va = validate(back.a);
+    expect(va.ok).toBe(true);
+  });
+  it('says why a damaged link cannot be read', async () => {
+    const frag = await encodeShare(demoPair());
+    await expect(decodeShare('#' + frag.slice(0, 40))).rejects.toThrow(/damaged/);
+    await expect(decodeShare('#other=1')).rejects.toThrow(/no preheard designs/);
+  });
+});
+
+describe('design files', () => {
+  it('imports a valid file and lists every problem of a broken one', () => {
+    const ok = readDesignText(JSON.stringify(demoPair().b), 'b.json');
+    expect(ok.ok).toBe(true);
+    const broken = { ...demoPair().a, box: { type: 'sealed', vb_l: -1 }, amplifier: { power_w: 'x', load_ohm: 8 } };
+    const r = readDesignText(JSON.stringify(broken), 'broken.json');
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      const paths = r.errors.map((e) => e.path);
+      expect(paths).toContain('box.vb_l');
+      expect(paths).toContain('amplifier.power_w');
+    }
+    const notJson = readDesignText('{"format":', 'x.json');
+    expect(notJson.ok === false && notJson.errors[0].message).toMatch(/not valid JSON/);
+  });
+});

@@ -1,0 +1,153 @@
+// @vitest-environment happy-dom
+// The app's components in a DOM: the demo pair, rejected entries, derived values, cautions, storage trouble.
+// uPlot draws on a canvas that happy-dom lacks: it is replaced by a recorder of what would be drawn.
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { cleanup, fireEvent, render, screen, within, act } from '@testing-library/preact';
+
+const drawn: { id: string; data: unknown[] }[] = [];
+vi.mock('uplot', () => {
+  class FakePlot {
+    width: number;
+    ctx = { canvas: {} };
+    constructor(opts: { width: number; hooks: { draw: (() => void)[] } }, data: unknown[], el: HTMLElement) {
+      this.width = opts.width;
+      this.hooks = opts.hooks;
+      this.el = el;
+      this.setData(data);
+    }
+    hooks: { draw: (() => void)[] };
+    el: HTMLElement;
+    setData(data: unknown[]) {
+      drawn.push({ id: this.el.dataset.chart ?? '', data });
+      for (const h of this.hooks.draw) h();
+    }
+    setSize() {}
+    destroy() {}
+    static join() {
+      return [];
+    }
+  }
+  return { default: FakePlot };
+});
+
+import { App } from '../src/ui/App.tsx';
+import { Store } from '../src/ui/store.ts';
+import { Autosave, memoryBackend, type StorageBackend } from '../src/ui/persist.ts';
+import { demoPair } from '../src/ui/demo.ts';
+
+function mount(backend: StorageBackend = memoryBackend(), dismissed = true) {
+  const store = new Store(demoPair);
+  if (dismissed) store.dispatch({ type: 'settings', patch: { cautionsDismissed: true } });
+  const autosave = new Autosave(backend);
+  autosave.attach(store);
+  render(<App store={store} autosave={autosave} />);
+  return { store, autosave };
+}
+
+afterEach(() => {
+  cleanup();
+  drawn.length = 0;
+});
+
+describe('the app', () => {
+  it('opens on the demo pair with figures as text', () => {
+    mount();
+    const names = [...document.querySelectorAll('.pair-name')].map((e) => e.textContent);
+    expect(names[0]).toMatch(/sealed/i);
+    expect(names[1]).toMatch(/vented/i);
+    for (const s of ['a', 'b']) expect(screen.getAllByTestId(`fig-${s}-f3`)[0].textContent).toMatch(/^\d+(\.\d)? Hz$/);
+    // Driver sheet, Cabinet, Drive & seat, Curves: the screens by their names.
+    expect(screen.getAllByRole('tab').map((t) => t.textContent)).toEqual(['Driver sheet', 'Cabinet', 'Drive & seat', 'Curves']);
+  });
+
+  it('keeps a rejected entry with the engine message beside it', async () => {
+    const { store } = mount();
+    const fs = screen.getByLabelText('Resonance fs, design A') as HTMLInputElement;
+    await act(() => {
+      fireEvent.input(fs, { target: { value: '5000' } });
+    });
+    expect(fs.value).toBe('5000');
+    expect(fs.getAttribute('aria-invalid')).toBe('true');
+    const msg = document.getElementById(fs.getAttribute('aria-describedby')!)!;
+    // The schema's range for fs (1 to 2000 Hz) is named in the message.
+    expect(msg.textContent).toMatch(/1 to 2000/);
+    expect(store.get().designs.a.driver.fs_hz).toBe(5000);
+    expect(screen.getAllByText(/errors?$/).length).toBeGreaterThan(0);
+    // The figures of A show its last valid version, marked as such.
+    expect(screen.getAllByText(/last valid version/).length).toBeGreaterThan(0);
+  });
+
+  it('shows the value the model derives for an empty optional field', async () => {
+    mount();
+    const bl = screen.getByLabelText('Force factor Bl, design A') as HTMLInputElement;
+    expect(bl.value).toBe('');
+    // Bl^2 = 2·pi·fs·Mms·Re/Qes (Small 1972): with the demo driver about 7.2 T·m.
+    expect(Number(bl.placeholder)).toBeGreaterThan(6.5);
+    expect(Number(bl.placeholder)).toBeLessThan(8);
+  });
+
+  it('redraws the charts when a field changes', async () => {
+    mount();
+    await act(() => {
+      fireEvent.click(screen.getByRole('tab', { name: 'Cabinet' }));
+    });
+    const before = drawn.length;
+    const f3Before = screen.getByTestId('f3-a').textContent;
+    await act(() => {
+      fireEvent.input(screen.getByLabelText('Net volume Vb, design A'), { target: { value: '6' } });
+    });
+    expect(drawn.length).toBeGreaterThan(before);
+    expect(screen.getByTestId('f3-a').textContent).not.toBe(f3Before);
+  });
+
+  it('applies an alignment suggestion with one click, and undo brings the box back', async () => {
+    const { store } = mount();
+    await act(() => {
+      fireEvent.click(screen.getByRole('tab', { name: 'Cabinet' }));
+    });
+    const box0 = store.get().designs.b.box;
+    const apply = screen.getAllByRole('button', { name: /^Apply .* to design B$/ });
+    expect(apply.length).toBeGreaterThan(2);
+    await act(() => {
+      fireEvent.click(apply[0]);
+    });
+    expect(store.get().designs.b.box).not.toEqual(box0);
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Undo' }));
+    });
+    expect(store.get().designs.b.box).toEqual(box0);
+  });
+
+  it('shows the first-run cautions until dismissed, and reopens them', async () => {
+    const { store } = mount(memoryBackend(), false);
+    const dlg = screen.getByRole('dialog', { name: 'Before you start' });
+    for (const w of [/hearing/i, /estimate/i, /mains/i, /local codes/i]) expect(dlg.textContent).toMatch(w);
+    await act(() => {
+      fireEvent.click(within(dlg).getByRole('button', { name: 'I understand' }));
+    });
+    expect(screen.queryByRole('dialog')).toBeNull();
+    expect(store.get().settings.cautionsDismissed).toBe(true);
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Cautions' }));
+    });
+    expect(screen.getByRole('dialog', { name: 'Before you start' })).toBeTruthy();
+  });
+
+  it('says when storage is unavailable and offers export', async () => {
+    const broken: StorageBackend = {
+      load: async () => undefined,
+      save: async () => {
+        throw new Error('storage is switched off');
+      },
+    };
+    const { store, autosave } = mount(broken);
+    await act(async () => {
+      store.dispatch({ type: 'swap' });
+      await autosave.flush();
+    });
+    const banner = screen.getByTestId('storage-banner');
+    expect(banner.textContent).toMatch(/storage is switched off/);
+    expect(within(banner).getByRole('button', { name: 'Export A' })).toBeTruthy();
+    expect(screen.getByTestId('save-status').dataset.state).toBe('unavailable');
+  });
+});
