@@ -2,6 +2,9 @@
 import { defineConfig, type PluginOption } from 'vite';
 import preact from '@preact/preset-vite';
 import { VitePWA } from 'vite-plugin-pwa';
+import { readFileSync } from 'node:fs';
+
+const pkg = JSON.parse(readFileSync(new URL('./package.json', import.meta.url), 'utf8')) as { version: string };
 
 // The app is served from the local machine only: no web fonts, CDNs or analytics.
 // The service worker precaches the whole built app so it works offline after the first load;
@@ -30,6 +33,7 @@ export default defineConfig(({ mode }) => {
   }
   return {
     plugins,
+    define: { __APP_VERSION__: JSON.stringify(pkg.version) },
     server: { host: '127.0.0.1', port: 5173, strictPort: true },
     preview: { host: '127.0.0.1' },
     build: { target: 'es2022', sourcemap: false, chunkSizeWarningLimit: 600 },

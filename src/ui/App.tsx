@@ -440,6 +440,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         <footer class="status">
           <SaveIndicator status={status} />
           <span>Runs on this machine only: nothing is uploaded. Curves are model estimates.</span>
+          <span class="build" data-testid="build">
+            preheard {__APP_VERSION__}
+            {import.meta.env.VITE_BUILD_ID ? ` · ${import.meta.env.VITE_BUILD_ID}` : ''}
+          </span>
         </footer>
 
         <div class="notices" aria-live="polite">

@@ -2,7 +2,7 @@
 import assert from 'node:assert/strict';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { ROOT, launchBrowser } from './harness.mjs';
+import { ROOT, buildApp, launchBrowser, startPreview } from './harness.mjs';
 
 const SHOTS = join(ROOT, 'test', 'e2e', 'screenshots');
 const SCREENS = [
@@ -225,6 +225,31 @@ export const tests = [
       await tab(p, 'Cabinet');
       assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
       assert.deepEqual(ctx.state.errors.filter((e) => !/ERR_CONNECTION_REFUSED|Failed to load resource/.test(e)), []);
+    },
+  },
+  {
+    name: 'a new version shows "reload to update" and the reload keeps the designs',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      // Publish a distinct build at the same address (the server is down after the offline test).
+      await ctx.server.stop();
+      buildApp('dist', 'e2e-next');
+      ctx.server = await startPreview({ outDir: 'dist', port: ctx.server.port });
+      await tab(p, 'Cabinet');
+      await p.getByLabel('Net volume Vb, design B').fill('23.5');
+      await waitSaved(p);
+      await p.reload();
+      const banner = p.locator('.banner-update');
+      await banner.waitFor({ timeout: 20_000 });
+      assert.match(await banner.innerText(), /new version/i);
+      assert.doesNotMatch(await p.innerText('[data-testid=build]'), /e2e-next/, 'the old version runs until the user says so');
+      await Promise.all([p.waitForEvent('load'), banner.getByRole('button', { name: 'Reload to update' }).click()]);
+      await p.waitForSelector('[data-testid=build]');
+      assert.match(await p.innerText('[data-testid=build]'), /e2e-next/);
+      assert.equal(await p.locator('.banner-update').count(), 0);
+      await tab(p, 'Cabinet');
+      assert.equal(await p.getByLabel('Net volume Vb, design B').inputValue(), '23.5');
+      assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
     },
   },
 ];

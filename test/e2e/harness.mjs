@@ -31,11 +31,12 @@ export function ensureChromium() {
   if (!existsSync(CHROMIUM)) throw new Error(`apt-get finished but ${CHROMIUM} is still missing`);
 }
 
-/** A production build into outDir (relative to the project root). */
-export function buildApp(outDir = 'dist') {
+/** A production build into outDir (relative to the project root); `buildId` marks a distinct version. */
+export function buildApp(outDir = 'dist', buildId = '') {
   const r = spawnSync(process.execPath, [VITE, 'build', '--logLevel', 'warn', '--outDir', outDir, '--emptyOutDir'], {
     cwd: ROOT,
     stdio: 'inherit',
+    env: { ...process.env, VITE_BUILD_ID: buildId },
   });
   if (r.status !== 0) throw new Error(`vite build failed with exit code ${r.status}`);
 }

@@ -7,6 +7,7 @@ import { tests } from './app.e2e.mjs';
 const only = process.argv[2];
 let server;
 let browser;
+let ctx;
 let failed = 0;
 const t0 = Date.now();
 try {
@@ -16,7 +17,7 @@ try {
   server = await startPreview({ outDir: 'dist' });
   console.log(`[e2e] serving on ${server.origin}`);
   browser = await launchBrowser(server.origin);
-  const ctx = { ...browser, server, state: {} };
+  ctx = { ...browser, server, state: {} };
   for (const t of tests) {
     if (only && !t.name.includes(only)) continue;
     const start = Date.now();
@@ -39,7 +40,9 @@ try {
   console.error(`[e2e] ${e?.message ?? e}`);
 } finally {
   await browser?.close();
-  await server?.stop();
+  // A test may have restarted the server (a new version at the same address): stop whichever runs.
+  await ctx?.server?.stop();
+  if (ctx?.server !== server) await server?.stop();
 }
 console.log(`[e2e] ${failed === 0 ? 'all passed' : failed + ' failed'} in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
 process.exit(failed === 0 ? 0 : 1);
