@@ -109,7 +109,12 @@ function rootsToFactors(roots: Root[]): Poly[] {
  * Returns packed sections and an overall gain.
  */
 export function rationalToBiquads(num: Poly, den: Poly, sampleRate: number, fWarp?: number): { coef: Float64Array; gain: number } {
-  const n = polyTrim(num), d = polyTrim(den);
+  let n = polyTrim(num), d = polyTrim(den);
+  // Cancel common factors of s exactly (a lossless sealed box has one).
+  while (n.length > 1 && d.length > 1 && n[0] === 0 && d[0] === 0) {
+    n = n.slice(1);
+    d = d.slice(1);
+  }
   const zf = rootsToFactors(polyRoots(n));
   const pf = rootsToFactors(polyRoots(d));
   // Order: poles by natural frequency; zeros handed out in the same order.

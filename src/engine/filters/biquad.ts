@@ -31,9 +31,14 @@ export function bilinearK(sampleRate: number, fWarp?: number): number {
   return w / Math.tan(w / (2 * sampleRate));
 }
 
+/** Concatenates single sections or already packed cascades into one packed cascade. */
 export function packSections(sections: Float64Array[]): Float64Array {
-  const out = new Float64Array(sections.length * 5);
-  sections.forEach((s, i) => out.set(s, i * 5));
+  const out = new Float64Array(sections.reduce((n, s) => n + s.length, 0));
+  let o = 0;
+  for (const s of sections) {
+    out.set(s, o);
+    o += s.length;
+  }
   return out;
 }
 

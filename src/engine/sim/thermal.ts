@@ -4,31 +4,6 @@
 // (zero-order hold of the 2x2 linear system), so any step length is stable and exact.
 import type { ThermalParams } from '../system.ts';
 
-/** Resistance temperature coefficients at 20 °C, 1/K: annealed copper (IEC 60028), EC aluminium. */
-export const ALPHA_COPPER = 3.93e-3;
-export const ALPHA_ALUMINIUM = 4.03e-3;
-
-/**
- * Rough thermal network from the rated power alone (an estimate, documented as such):
- * the coil is assumed to reach its rating at rated power in steady state from 20 °C, with the rise
- * split 60/40 between coil-to-magnet and magnet-to-air, a coil time constant of 10 s and a magnet
- * time constant of 30 min (typical small woofers: Rtv 2-4 K/W, tau_v 5-20 s, tau_m 15-60 min; from memory).
- */
-export function estimateThermal(peW: number, coilMaxC = 150, material: 'copper' | 'aluminium' = 'copper'): ThermalParams {
-  const rTotal = Math.max(coilMaxC - 20, 20) / Math.max(peW, 1);
-  const rtv = 0.6 * rTotal;
-  const rtm = 0.4 * rTotal;
-  return {
-    rtv,
-    ctv: 10 / rtv,
-    rtm,
-    ctm: 1800 / rtm,
-    alphaR: material === 'copper' ? ALPHA_COPPER : ALPHA_ALUMINIUM,
-    material,
-    coilMaxC,
-  };
-}
-
 /** Exact step of the network over dt seconds: rise' = Phi·rise + Gamma·P (rises over ambient). */
 export interface ThermalStep {
   p11: number;
@@ -39,7 +14,11 @@ export interface ThermalStep {
   g2: number;
 }
 
-export function thermalStep(t: ThermalParams, dt: number): ThermalStep {
+export function thermalStep(
+  t: ThermalParams,
+  dt: number,
+  out: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 },
+): ThermalStep {
   const a11 = -1 / (t.rtv * t.ctv);
   const a12 = 1 / (t.rtv * t.ctv);
   const a21 = 1 / (t.rtv * t.ctm);
@@ -63,7 +42,13 @@ export function thermalStep(t: ThermalParams, dt: number): ThermalStep {
   const x1 = m11 * b1, x2 = m21 * b1;
   const g1 = (a22 * x1 - a12 * x2) / det;
   const g2 = (-a21 * x1 + a11 * x2) / det;
-  return { p11, p12, p21, p22, g1, g2 };
+  out.p11 = p11;
+  out.p12 = p12;
+  out.p21 = p21;
+  out.p22 = p22;
+  out.g1 = g1;
+  out.g2 = g2;
+  return out;
 }
 
 /** Steady-state coil rise for constant power: P·(Rtv + Rtm). */

@@ -1,0 +1,175 @@
+// True-peak guard: a look-ahead limiter on the estimated true peak (4x oversampled, as in
+// ITU-R BS.1770-4 Annex 2), linked across channels, so the rendered file never clips digitally and
+// any action is reported. The gain follows the running minimum of the needed gain over the
+// look-ahead, smoothed by a moving average of the same length: it reaches the needed value exactly
+// at the peak and never steps.
+
+const PHASES = 4;
+const TAPS = 12; // per phase
+const HALF = TAPS / 2;
+
+function interpolationTaps(): Float64Array {
+  // Kaiser-windowed sinc (beta 6) for phases 1..3 of 4.
+  const t = new Float64Array(PHASES * TAPS);
+  const i0 = (x: number) => {
+    let s = 1, term = 1;
+    for (let k = 1; k < 40; k++) {
+      term *= (x / (2 * k)) ** 2;
+      s += term;
+    }
+    return s;
+  };
+  const beta = 6, i0b = i0(beta);
+  for (let ph = 0; ph < PHASES; ph++) {
+    for (let k = 0; k < TAPS; k++) {
+      const pos = k - (HALF - 1) - ph / PHASES; // sample offset from the interpolated point
+      const sinc = pos === 0 ? 1 : Math.sin(Math.PI * pos) / (Math.PI * pos);
+      const r = pos / (HALF + 0.5);
+      const w = Math.abs(r) < 1 ? i0(beta * Math.sqrt(1 - r * r)) / i0b : 0;
+      t[ph * TAPS + k] = sinc * w;
+    }
+  }
+  return t;
+}
+
+const TAP_TABLE = interpolationTaps();
+
+export class TruePeakGuard {
+  readonly channels: number;
+  readonly lookahead: number;
+  /** Frames of delay from input to output. */
+  readonly latency: number;
+  readonly ceiling: number;
+  private readonly release: number;
+  // Audio history per channel (ring of length `len`, stored twice for contiguous windows).
+  private readonly len: number;
+  private readonly hist: Float64Array[];
+  private pos = 0;
+  // Running-minimum deque over needed gains (values and frame indices).
+  private readonly dqVal: Float64Array;
+  private readonly dqIdx: Float64Array;
+  private dqHead = 0;
+  private dqTail = 0;
+  private readonly avg: Float64Array;
+  private avgPos = 0;
+  private avgSum: number;
+  private rel = 1;
+  private frame = 0;
+  private loudCount = 0;
+  private readonly loudRing: Uint8Array;
+  /** Smallest gain applied so far (1 = never acted). */
+  minGain = 1;
+  /** Frames during which the gain was below 1. */
+  activeFrames = 0;
+
+  constructor(channels: number, sampleRate: number, ceilingDb = -0.1, lookaheadMs = 1.5, releaseMs = 80) {
+    this.channels = channels;
+    this.ceiling = Math.pow(10, ceilingDb / 20);
+    this.lookahead = Math.max(8, Math.round((lookaheadMs / 1000) * sampleRate));
+    this.release = 1 - Math.exp(-1 / ((releaseMs / 1000) * sampleRate));
+    this.latency = this.lookahead + HALF;
+    this.len = this.latency + TAPS + 2;
+    this.hist = [];
+    for (let c = 0; c < channels; c++) this.hist.push(new Float64Array(2 * this.len));
+    this.dqVal = new Float64Array(this.lookahead + 4);
+    this.dqIdx = new Float64Array(this.lookahead + 4);
+    this.avg = new Float64Array(this.lookahead).fill(1);
+    this.avgSum = this.lookahead;
+    this.loudRing = new Uint8Array(TAPS);
+  }
+
+  reset(): void {
+    for (const h of this.hist) h.fill(0);
+    this.pos = 0;
+    this.dqHead = this.dqTail = 0;
+    this.avg.fill(1);
+    this.avgSum = this.lookahead;
+    this.avgPos = 0;
+    this.rel = 1;
+    this.frame = 0;
+    this.loudCount = 0;
+    this.loudRing.fill(0);
+    this.minGain = 1;
+    this.activeFrames = 0;
+  }
+
+  /**
+   * Pushes one frame (frame[c] for each channel) and overwrites it with the guarded output of the
+   * frame `latency` frames earlier.
+   */
+  processFrame(frame: Float64Array): void {
+    const len = this.len;
+    this.pos = this.pos === 0 ? len - 1 : this.pos - 1;
+    const p = this.pos;
+    let loud = 0;
+    for (let c = 0; c < this.channels; c++) {
+      const x = frame[c];
+      const h = this.hist[c];
+      h[p] = x;
+      h[p + len] = x;
+      if (x > 0.5 || x < -0.5) loud = 1;
+    }
+    const lr = this.frame % TAPS;
+    this.loudCount += loud - this.loudRing[lr];
+    this.loudRing[lr] = loud;
+    // Peak estimate of the frame HALF-1 back (window hist[p .. p+TAPS-1] holds the newest TAPS frames).
+    let peak = 0;
+    if (this.loudCount > 0) {
+      for (let c = 0; c < this.channels; c++) {
+        const h = this.hist[c];
+        const s0 = h[p + HALF - 1];
+        const a0 = s0 < 0 ? -s0 : s0;
+        if (a0 > peak) peak = a0;
+        for (let ph = 1; ph < PHASES; ph++) {
+          let acc = 0;
+          const o = ph * TAPS;
+          // Taps run from newest (k = 0 -> offset -(HALF-1)) to oldest.
+          for (let k = 0; k < TAPS; k++) acc += TAP_TABLE[o + k] * h[p + k];
+          const a = acc < 0 ? -acc : acc;
+          if (a > peak) peak = a;
+        }
+      }
+    }
+    const need = peak > this.ceiling ? this.ceiling / peak : 1;
+    // Running minimum over the last lookahead+2 needs: covers both output frames around each peak.
+    const f = this.frame;
+    const cap = this.dqVal.length;
+    while (this.dqTail !== this.dqHead && this.dqVal[(this.dqTail - 1 + cap) % cap] >= need) this.dqTail = (this.dqTail - 1 + cap) % cap;
+    this.dqVal[this.dqTail] = need;
+    this.dqIdx[this.dqTail] = f;
+    this.dqTail = (this.dqTail + 1) % cap;
+    while (this.dqIdx[this.dqHead] < f - this.lookahead - 1) this.dqHead = (this.dqHead + 1) % cap;
+    const hmin = this.dqVal[this.dqHead];
+    this.rel = hmin < this.rel ? hmin : this.rel + this.release * (hmin - this.rel);
+    this.avgSum += this.rel - this.avg[this.avgPos];
+    this.avg[this.avgPos] = this.rel;
+    this.avgPos = this.avgPos + 1 === this.lookahead ? 0 : this.avgPos + 1;
+    let g = this.avgSum / this.lookahead;
+    if (g > 1) g = 1;
+    if (g < this.minGain) this.minGain = g;
+    if (g < 1 - 1e-12) this.activeFrames++;
+    const d = p + this.latency;
+    for (let c = 0; c < this.channels; c++) frame[c] = this.hist[c][d] * g;
+    this.frame = f + 1;
+  }
+
+  private readonly frameBuf: Float64Array = new Float64Array(8);
+
+  /**
+   * A block: in[c][k]·scale are the input frames; out[c][offset + k] receive the guarded frames
+   * (`latency` frames later).
+   */
+  processBlock(input: Float64Array[], n: number, scale: number, out: (Float32Array | Float64Array)[], offset: number): void {
+    const f = this.frameBuf, nCh = this.channels;
+    for (let k = 0; k < n; k++) {
+      for (let c = 0; c < nCh; c++) f[c] = input[c][k] * scale;
+      this.processFrame(f);
+      for (let c = 0; c < nCh; c++) out[c][offset + k] = f[c];
+    }
+  }
+
+  /** Largest gain reduction so far, dB (>= 0). */
+  reductionDb(): number {
+    return this.minGain < 1 ? -20 * Math.log10(this.minGain) : 0;
+  }
+}

@@ -1,0 +1,244 @@
+// The render API: one engine for the AudioWorklet, a Worker, the CLI and the tests.
+//
+//   createRenderer(system, { sampleRate, channels, voltsFs, mode?, paPerFs?, oversampling?,
+//                            traceHz?, extraStreams? }) -> Renderer
+//     renderer.process(inputs, outputs, frames, extra?)   one block (any size, 128-frame quanta
+//         included); inputs/outputs are per-channel Float32Array or Float64Array in full scale;
+//         state carries across calls; no allocation per block. Output is delayed by
+//         renderer.latencyFrames (oversampling filters + true-peak look-ahead).
+//         extra = { linear?, residual? } receives the other two streams (needs extraStreams).
+//     renderer.setMode('nonlinear' | 'linear' | 'residual')   sample-synchronous switch
+//     renderer.update(system)       a parameter edit: new constants, the physical state carries on
+//     renderer.setVoltsFs(v)        new drive level
+//     renderer.events.list()        stress events so far [{kind, start_s, end_s, peak, unit, limit}]
+//     renderer.traces()             decimated traces (excursion, coil temperature, port speed,
+//                                   compression, residual level) at renderer.traceHz
+//     renderer.getStats()           running peaks; renderer.paPerFs the calibration (Pa per FS)
+//     renderer.reset()
+//   renderBuffer(system, channels, sampleRate, { voltsFs | splDb, mode?, paPerFs?, extraStreams?,
+//                onProgress? }) -> { audio, linear?, residual?, summary, traces }
+//     whole files: latency compensated, same length as the input, summary as `render --json`.
+//   voltsForSpl(system, channels, sampleRate, splDb) -> volts per full scale for a long-term
+//     average C-weighted SPL at the seat, from the design's own sensitivity.
+//   findHeadroom(system, channels, sampleRate, { tolDb? }) -> { clean_volts, clean_spl_db,
+//     first_limit, first_limit_s }: bisection to 0.25 dB on "any stress event".
+//
+// Calibration: output sample = seat pressure / paPerFs. The default paPerFs puts a full-scale
+// passband input at -6 dBFS; the true-peak guard keeps the result at or under -0.1 dBTP and its
+// action is reported as limiter_db.
+import type { SpeakerSystem } from '../system.ts';
+import { createRenderer, Renderer, type RenderMode, type Traces } from './renderer.ts';
+import type { EventKind, StressEvent } from './events.ts';
+import { seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
+
+export { createRenderer, Renderer, voltsForSpl };
+export type { RenderMode, Traces, StressEvent, EventKind };
+export type { RendererOptions, RenderStats } from './renderer.ts';
+export { EVENT_KINDS } from './events.ts';
+
+export interface RenderSummary {
+  duration_s: number;
+  sample_rate: number;
+  volts_fs: number;
+  /** Planned Leq,C at the seat for this track and drive, dB. */
+  spl_db: number;
+  /** Calibration: seat pressure of a full-scale output sample, Pa. */
+  pa_per_fs: number;
+  peak_excursion_mm: number;
+  peak_radiator_mm: number | null;
+  peak_coil_temp_c: number;
+  peak_port_speed_m_s: number | null;
+  amp_clip_s: number;
+  max_compression_db: number;
+  limiter_db: number;
+  events: StressEvent[];
+  realtime_factor: number;
+}
+
+export interface RenderBufferOptions {
+  voltsFs?: number;
+  splDb?: number;
+  mode?: RenderMode;
+  paPerFs?: number;
+  /** Also return the linear and residual streams. */
+  extraStreams?: boolean;
+  /** Skip writing audio (headroom search): only the summary. */
+  analysisOnly?: boolean;
+  blockFrames?: number;
+  onProgress?: (fraction: number) => void;
+  /** Milliseconds clock for the realtime factor (default performance.now or Date.now). */
+  clock?: () => number;
+}
+
+export interface RenderResult {
+  audio: Float32Array[];
+  linear: Float32Array[] | null;
+  residual: Float32Array[] | null;
+  summary: RenderSummary;
+  traces: Traces;
+}
+
+const r3 = (v: number) => Number(v.toFixed(3));
+
+function defaultClock(): () => number {
+  const perf = (globalThis as { performance?: { now(): number } }).performance;
+  return perf ? () => perf.now() : () => Date.now();
+}
+
+export function resolveVolts(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: { voltsFs?: number; splDb?: number }): { volts: number; spl: number } {
+  const l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+  let volts: number;
+  if (opt.voltsFs !== undefined) volts = opt.voltsFs;
+  else if (opt.splDb !== undefined) volts = Math.pow(10, (opt.splDb - l1) / 20);
+  else if (sys.listening.level.mode === 'volts') volts = sys.listening.level.voltsFs;
+  else volts = Math.pow(10, (sys.listening.level.splDb - l1) / 20);
+  return { volts, spl: l1 + 20 * Math.log10(volts) };
+}
+
+export function renderBuffer(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: RenderBufferOptions = {}): RenderResult {
+  const nCh = channels.length;
+  const frames = channels[0]?.length ?? 0;
+  if (nCh === 0 || frames === 0) throw new RangeError('the audio is empty');
+  const { volts, spl } = resolveVolts(sys, channels, sampleRate, opt);
+  const clock = opt.clock ?? defaultClock();
+  const t0 = clock();
+  const r = createRenderer(sys, { sampleRate, channels: nCh, voltsFs: volts, mode: opt.mode, paPerFs: opt.paPerFs, extraStreams: opt.extraStreams });
+  const lat = r.latencyFrames;
+  const block = opt.blockFrames ?? 4096;
+  const keep = !opt.analysisOnly;
+  const audio = keep ? Array.from({ length: nCh }, () => new Float32Array(frames)) : [];
+  const linear = keep && opt.extraStreams ? Array.from({ length: nCh }, () => new Float32Array(frames)) : null;
+  const residual = keep && opt.extraStreams ? Array.from({ length: nCh }, () => new Float32Array(frames)) : null;
+  const inB = Array.from({ length: nCh }, () => new Float32Array(block));
+  const outB = Array.from({ length: nCh }, () => new Float32Array(block));
+  const linB = Array.from({ length: nCh }, () => new Float32Array(block));
+  const resB = Array.from({ length: nCh }, () => new Float32Array(block));
+  const extra = opt.extraStreams ? { linear: linB, residual: resB } : undefined;
+  const total = frames + lat;
+  let lastReport = 0;
+  for (let s = 0; s < total; s += block) {
+    const n = Math.min(block, total - s);
+    for (let c = 0; c < nCh; c++) {
+      const src = channels[c];
+      const dst = inB[c];
+      for (let j = 0; j < n; j++) {
+        const k = s + j;
+        dst[j] = k < frames ? src[k] : 0;
+      }
+    }
+    r.process(inB, outB, n, extra);
+    if (keep) {
+      // Drop the first `lat` output frames: the result is aligned with the input.
+      for (let j = 0; j < n; j++) {
+        const k = s + j - lat;
+        if (k < 0 || k >= frames) continue;
+        for (let c = 0; c < nCh; c++) {
+          audio[c][k] = outB[c][j];
+          if (linear) linear[c][k] = linB[c][j];
+          if (residual) residual[c][k] = resB[c][j];
+        }
+      }
+    }
+    if (opt.onProgress && s - lastReport > sampleRate * 5) {
+      lastReport = s;
+      opt.onProgress(s / total);
+    }
+  }
+  opt.onProgress?.(1);
+  const seconds = (clock() - t0) / 1000;
+  const st = r.getStats();
+  const duration = frames / sampleRate;
+  const summary: RenderSummary = {
+    duration_s: r3(duration),
+    sample_rate: sampleRate,
+    volts_fs: r3(volts),
+    spl_db: Number(spl.toFixed(2)),
+    pa_per_fs: Number(r.paPerFs.toPrecision(6)),
+    peak_excursion_mm: r3(st.peakExcursionMm),
+    peak_radiator_mm: sys.box.type === 'passive-radiator' ? r3(st.peakRadiatorMm) : null,
+    peak_coil_temp_c: Number(st.peakCoilTempC.toFixed(2)),
+    peak_port_speed_m_s: sys.box.type === 'vented' ? r3(st.peakPortSpeed) : null,
+    amp_clip_s: Number((st.ampClipFrames / sampleRate).toFixed(4)),
+    max_compression_db: r3(st.maxCompressionDb),
+    limiter_db: r3(st.limiterDb),
+    events: r.events.list(1 / sampleRate),
+    realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
+  };
+  return { audio, linear, residual, summary, traces: r.traces() };
+}
+
+export interface Headroom {
+  clean_volts: number;
+  clean_spl_db: number;
+  /** The limit that arrives first just above the clean level, or null if none was found. */
+  first_limit: EventKind | null;
+  first_limit_s: number | null;
+  /** Renders it took. */
+  renders: number;
+}
+
+/**
+ * The highest drive with no stress event on this track: bracket by 6 dB steps, then bisect the
+ * gap in dB to tolDb (default 0.25), relying on stress growing with level.
+ */
+export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: { tolDb?: number; startVolts?: number; onRender?: () => void } = {}): Headroom {
+  const tol = opt.tolDb ?? 0.25;
+  const l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+  let renders = 0;
+  const probe = (v: number) => {
+    renders++;
+    opt.onRender?.();
+    const res = renderBuffer(sys, channels, sampleRate, { voltsFs: v, analysisOnly: true });
+    return res.summary.events;
+  };
+  let peakIn = 0;
+  for (const ch of channels) for (let j = 0; j < ch.length; j++) peakIn = Math.max(peakIn, Math.abs(ch[j]));
+  if (!(peakIn > 0)) throw new RangeError('the audio is silent: there is no level to find');
+  const step = Math.pow(10, 6 / 20);
+  let v = opt.startVolts ?? sys.amplifier.vPeak / peakIn;
+  let ev = probe(v);
+  let lo = 0, hi = 0, hiEvents = ev;
+  if (ev.length > 0) {
+    hi = v;
+    for (let k = 0; k < 40; k++) {
+      v /= step;
+      ev = probe(v);
+      if (ev.length === 0) {
+        lo = v;
+        break;
+      }
+      hi = v;
+      hiEvents = ev;
+    }
+  } else {
+    lo = v;
+    for (let k = 0; k < 12; k++) {
+      v *= step;
+      ev = probe(v);
+      if (ev.length > 0) {
+        hi = v;
+        hiEvents = ev;
+        break;
+      }
+      lo = v;
+    }
+  }
+  if (hi === 0) return { clean_volts: r3(lo), clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)), first_limit: null, first_limit_s: null, renders };
+  if (lo === 0) throw new RangeError('no clean level found down to -240 dB: the design overloads at any level');
+  while (20 * Math.log10(hi / lo) > tol) {
+    const mid = Math.sqrt(lo * hi);
+    ev = probe(mid);
+    if (ev.length > 0) {
+      hi = mid;
+      hiEvents = ev;
+    } else lo = mid;
+  }
+  const first = hiEvents.reduce((a, b) => (b.start_s < a.start_s ? b : a));
+  return {
+    clean_volts: Number(lo.toPrecision(5)),
+    clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)),
+    first_limit: first.kind,
+    first_limit_s: first.start_s,
+    renders,
+  };
+}
