@@ -1,11 +1,12 @@
 // The one page: header with the design pair's actions, the screens, a side panel of key figures.
 import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import type { Issue } from '../engine/issues.ts';
-import { AppContext, useApp, type AppView } from './context.ts';
+import { AppContext, type AppView } from './context.ts';
 import { derive, validate } from './engine.ts';
 import { CautionsPanel } from './Cautions.tsx';
 import { Dialog } from './components/Dialog.tsx';
 import { FigureTable } from './FigureTable.tsx';
+import { IssueList } from './IssueList.tsx';
 import { designFileName, designFileText, downloadText, readDesignText } from './files.ts';
 import type { Autosave, SaveStatus } from './persist.ts';
 import { registerServiceWorker, type UpdateHandle } from './pwa.ts';
@@ -143,33 +144,6 @@ function SaveIndicator({ status }: { status: SaveStatus }) {
     <span class={`save save-${status.kind}`} data-testid="save-status" data-state={status.kind}>
       {text}
     </span>
-  );
-}
-
-function IssueList() {
-  const { derived } = useApp();
-  const any = SLOTS.some((s) => derived[s].issues.length > 0);
-  if (!any) return <p class="checks-ok">No problems in either design.</p>;
-  return (
-    <div class="checks">
-      {SLOTS.map((s) =>
-        derived[s].issues.length ? (
-          <div>
-            <h4>
-              <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {derived[s].issues.filter((i) => i.severity === 'error').length} errors,{' '}
-              {derived[s].issues.filter((i) => i.severity === 'warning').length} warnings
-            </h4>
-            <ul class="problems">
-              {derived[s].issues.map((i) => (
-                <li class={i.severity}>
-                  <code>{i.path || 'design'}</code> {i.message}
-                </li>
-              ))}
-            </ul>
-          </div>
-        ) : null,
-      )}
-    </div>
   );
 }
 

@@ -199,6 +199,16 @@ export const tests = [
         }
       }
       await p.setViewportSize({ width: 1440, height: 900 });
+      // B as a passive-radiator box: its own fields and curves, then undo.
+      await tab(p, 'Cabinet');
+      await p.getByLabel('Enclosure type, design B').selectOption('passive-radiator');
+      await p.getByLabel('Radiator moving mass, design B').waitFor();
+      assert.match(await p.innerText('[data-testid=f3-b]'), /Hz/);
+      await p.screenshot({ path: join(SHOTS, 'desktop-cabinet-radiator.png') });
+      await tab(p, 'Curves');
+      await p.waitForTimeout(150);
+      await p.screenshot({ path: join(SHOTS, 'desktop-curves-radiator.png') });
+      await p.getByRole('button', { name: 'Undo' }).click();
       await p.locator('.theme select').selectOption('dark');
       for (const [id, label] of [SCREENS[0], SCREENS[3]]) {
         await tab(p, label);

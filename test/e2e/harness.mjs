@@ -24,7 +24,7 @@ export function ensureChromium() {
   }
   console.log(`[e2e] ${CHROMIUM} is missing: installing Debian's chromium with apt-get`);
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
-  for (const args of [['update'], ['install', '-y', '--no-install-recommends', 'chromium']]) {
+  for (const args of [['update'], ['install', '-y', 'chromium']]) {
     const r = spawnSync('apt-get', args, { stdio: 'inherit', env });
     if (r.status !== 0) throw new Error(`apt-get ${args.join(' ')} failed with exit code ${r.status}`);
   }

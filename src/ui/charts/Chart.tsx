@@ -221,12 +221,17 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
   }
   return (
     <div class="chart">
-      <div class="chart-plot" ref={host} data-chart={spec.id} role="img" aria-label={`${spec.title}: ${spec.summary.join(' ')}`} />
       {exportable ? (
-        <button type="button" class="small ghost chart-png" onClick={() => plot.current && exportPng(plot.current, specRef.current, readPalette(host.current!))}>
-          Save PNG
+        <button
+          type="button"
+          class="small ghost chart-png"
+          aria-label={`Save ${spec.title} as PNG`}
+          onClick={() => plot.current && exportPng(plot.current, specRef.current, readPalette(host.current!))}
+        >
+          PNG
         </button>
       ) : null}
+      <div class="chart-plot" ref={host} data-chart={spec.id} role="img" aria-label={`${spec.title}: ${spec.summary.join(' ')}`} />
     </div>
   );
 }

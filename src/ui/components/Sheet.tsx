@@ -3,7 +3,7 @@ import type { ComponentChildren, VNode } from 'preact';
 import type { Analysis } from '../../engine/response/types.ts';
 import type { SpeakerSystem } from '../../engine/system.ts';
 import { useApp } from '../context.ts';
-import { getAt, pathMatches } from '../paths.ts';
+import { getAt, normalizePath, pathMatches } from '../paths.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { num } from '../format.ts';
 import { NumberField } from './NumberField.tsx';
@@ -86,13 +86,18 @@ export interface NumProps {
   model?: (system: SpeakerSystem, analysis: Analysis | null) => number | null;
   modelDigits?: number;
   placeholder?: string;
+  /** What an empty field means: the engine derives it (default), applies a default or estimates it. */
+  emptyTag?: 'derived' | 'default' | 'estimated';
+  /** Group paths whose messages belong beside this field too (e.g. "box.ports" beside the port size). */
+  alsoPaths?: string[];
 }
 
 /** A numeric design field bound to the store, with the engine's messages and the model's value. */
 export function Num(p: NumProps) {
   const { state, derived, dispatch } = useApp();
   const value = getAt(state.designs[p.slot], p.path);
-  const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path));
+  const also = (p.alsoPaths ?? []).map(normalizePath);
+  const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path) || also.includes(normalizePath(i.path)));
   const m = useModel(p.slot);
   const modelValue = p.model && m.system ? p.model(m.system, m.analysis) : null;
   const typed = typeof value === 'number';
@@ -121,7 +126,7 @@ export function Num(p: NumProps) {
               {p.unit ? ` ${p.unit}` : ''}
             </>
           ) : (
-            <span class="model-tag">derived</span>
+            <span class="model-tag">{p.emptyTag ?? 'derived'}</span>
           )}
         </span>
       ) : null}

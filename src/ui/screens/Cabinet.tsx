@@ -163,7 +163,7 @@ export function Cabinet() {
                 ventedOnly(s, (_b, port) => (
                   <Choice<PortShape>
                     slot={s}
-                    path="box.ports.0"
+                    path="box.ports.0.shape"
                     label="Port shape"
                     value={portShape(port)}
                     options={[
@@ -182,10 +182,10 @@ export function Cabinet() {
               cell={(s) =>
                 ventedOnly(s, (_b, port) =>
                   portShape(port) === 'round' ? (
-                    <Num slot={s} path="box.ports.0.diameter_cm" label="Port diameter" unit="cm ⌀" step={0.1} />
+                    <Num slot={s} path="box.ports.0.diameter_cm" label="Port diameter" unit="cm ⌀" step={0.1} alsoPaths={['box.ports', 'box.ports.0']} />
                   ) : (
                     <div class="pair">
-                      <Num slot={s} path="box.ports.0.width_cm" label="Slot width" unit="cm wide" step={0.1} />
+                      <Num slot={s} path="box.ports.0.width_cm" label="Slot width" unit="cm wide" step={0.1} alsoPaths={['box.ports', 'box.ports.0']} />
                       <Num slot={s} path="box.ports.0.height_cm" label="Slot height" unit="cm high" step={0.1} />
                     </div>
                   ),
@@ -216,7 +216,7 @@ export function Cabinet() {
         ) : null}
         {anyRadiator ? (
           <Group title="Passive radiator">
-            <Row label="Radiator area" symbol="Sp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.sd_cm2" label="Radiator area" unit="cm²" step={1} />)} />
+            <Row label="Radiator area" symbol="Sp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.sd_cm2" label="Radiator area" unit="cm²" step={1} alsoPaths={['box.radiator']} />)} />
             <Row label="Moving mass" symbol="Mmp" hint="with added mass" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.mmp_g" label="Radiator moving mass" unit="g" step={1} />)} />
             <Row label="Compliance" symbol="Cmp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.cmp_mm_per_n" label="Radiator compliance" unit="mm/N" step={0.01} />)} />
             <Row label="Mechanical Q" symbol="Qmp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.qmp" label="Radiator mechanical Q" step={0.5} />)} />

@@ -4,6 +4,7 @@ import { useApp } from '../context.ts';
 import { Chart } from '../charts/Chart.tsx';
 import { buildCharts, type ChartSpec } from '../charts/specs.ts';
 import { FigureTable } from '../FigureTable.tsx';
+import { IssueList } from '../IssueList.tsx';
 import { num, nearestIndex } from '../format.ts';
 
 const TABLE_HZ = [20, 25, 31.5, 40, 50, 63, 80, 100, 125, 160, 200, 315, 500, 1000];
@@ -89,6 +90,10 @@ export function Curves({ theme }: { theme: string }) {
         </div>
         <div class="curves-side">
           <FigureTable />
+          <section class="glance-checks" aria-label="Checks">
+            <h3>Checks</h3>
+            <IssueList />
+          </section>
         </div>
       </div>
     </section>

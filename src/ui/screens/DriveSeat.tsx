@@ -39,7 +39,7 @@ export function DriveSeat() {
       <Group title="Amplifier">
         <Row label="Rated power" hint="into the rated load" cell={(s) => <Num slot={s} path="amplifier.power_w" label="Amplifier rated power" unit="W" step={1} model={(y) => y.amplifier.power} />} />
         <Row label="Rated load" cell={(s) => <Num slot={s} path="amplifier.load_ohm" label="Amplifier rated load" unit="Ω" step={1} model={(y) => y.amplifier.load} />} />
-        <Row label="Series resistance" hint="output plus cable" cell={(s) => <Num slot={s} path="amplifier.rs_ohm" label="Series resistance" unit="Ω" step={0.01} model={(y) => y.amplifier.rs} />} />
+        <Row label="Series resistance" hint="output plus cable" cell={(s) => <Num slot={s} path="amplifier.rs_ohm" label="Series resistance" unit="Ω" step={0.01} model={(y) => y.amplifier.rs} emptyTag="default" />} />
         <Row label="Peak output" hint="rail, derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.amplifier.vPeak} unit="V" />} />
         <Row
           label="Clipping"
@@ -72,7 +72,7 @@ export function DriveSeat() {
             />
           )}
         />
-        <Row label="Crossover frequency" symbol="fx" cell={(s) => (state.designs[s].crossover.type === 'none' ? null : <Num slot={s} path="crossover.fx_hz" label="Crossover frequency" unit="Hz" step={10} model={(y) => y.crossover.fx} />)} />
+        <Row label="Crossover frequency" symbol="fx" cell={(s) => (state.designs[s].crossover.type === 'none' ? null : <Num slot={s} path="crossover.fx_hz" label="Crossover frequency" unit="Hz" step={10} model={(y) => y.crossover.fx} emptyTag="default" />)} />
       </Group>
       <Group title="Listening seat">
         <Row label="Distance" hint="speaker to seat" cell={(s) => <Num slot={s} path="listening.distance_m" label="Listening distance" unit="m" step={0.1} model={(y) => y.listening.distance} />} />
@@ -105,7 +105,7 @@ export function DriveSeat() {
             />
           )}
         />
-        <Row label="Room gain corner" hint="0 = none; small rooms, cars" cell={(s) => <Num slot={s} path="listening.room_gain_hz" label="Room gain corner" unit="Hz" step={1} min={0} model={(y) => y.listening.roomGainHz} />} />
+        <Row label="Room gain corner" hint="0 = none; small rooms, cars" cell={(s) => <Num slot={s} path="listening.room_gain_hz" label="Room gain corner" unit="Hz" step={1} min={0} model={(y) => y.listening.roomGainHz} emptyTag="default" />} />
       </Group>
       <Group title="Planned level">
         <Row
@@ -137,8 +137,8 @@ export function DriveSeat() {
         <Row label="Drive for that level" hint="amplifier, rms, derived" cell={(s) => <Derived slot={s} pick={(m) => m.analysis?.figures.plannedVoltsRms} unit="V rms" />} />
       </Group>
       <Group title="Air">
-        <Row label="Temperature" cell={(s) => <Num slot={s} path="air.temperature_c" label="Air temperature" unit="°C" step={1} model={(y) => y.air.temperatureC} />} />
-        <Row label="Pressure" cell={(s) => <Num slot={s} path="air.pressure_kpa" label="Air pressure" unit="kPa" step={0.1} model={(y) => y.air.pressurePa / 1000} modelDigits={4} />} />
+        <Row label="Temperature" cell={(s) => <Num slot={s} path="air.temperature_c" label="Air temperature" unit="°C" step={1} model={(y) => y.air.temperatureC} emptyTag="default" />} />
+        <Row label="Pressure" cell={(s) => <Num slot={s} path="air.pressure_kpa" label="Air pressure" unit="kPa" step={0.1} model={(y) => y.air.pressurePa / 1000} modelDigits={4} emptyTag="default" />} />
         <Row label="Speed of sound" hint="derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.c} unit="m/s" digits={4} />} />
         <Row label="Air density" hint="derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.rho} unit="kg/m³" digits={4} />} />
       </Group>

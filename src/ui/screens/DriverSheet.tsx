@@ -29,7 +29,7 @@ export function DriverSheet() {
         <Row label="Total Q" symbol="Qts" hint="derived" cell={(s) => <ModelOut slot={s} pick={(m) => m.system!.driver.qts} digits={3} />} />
         <Row label="Equivalent volume" symbol="Vas" cell={(s) => <Num slot={s} path="driver.vas_l" label="Equivalent volume Vas" unit="L" step={0.1} model={(y) => y.driver.vas * K.litres} />} />
         <Row label="Coil resistance" symbol="Re" cell={(s) => <Num slot={s} path="driver.re_ohm" label="Coil resistance Re" unit="Ω" step={0.01} model={(y) => y.driver.re} />} />
-        <Row label="Coil inductance" symbol="Le" cell={(s) => <Num slot={s} path="driver.le_mh" label="Coil inductance Le" unit="mH" step={0.01} model={(y) => y.driver.le * K.mH} />} />
+        <Row label="Coil inductance" symbol="Le" cell={(s) => <Num slot={s} path="driver.le_mh" label="Coil inductance Le" unit="mH" step={0.01} model={(y) => y.driver.le * K.mH} emptyTag="default" />} />
         <Row label="Cone area" symbol="Sd" cell={(s) => <Num slot={s} path="driver.sd_cm2" label="Cone area Sd" unit="cm²" step={1} model={(y) => y.driver.sd * K.cm2} />} />
       </Group>
       <Group title="Mechanical parameters" note="optional: derived when empty">
@@ -42,7 +42,7 @@ export function DriverSheet() {
       </Group>
       <Group title="Limits">
         <Row label="Linear excursion" symbol="Xmax" hint="one way" cell={(s) => <Num slot={s} path="driver.xmax_mm" label="Linear excursion Xmax" unit="mm" step={0.1} model={(y) => y.driver.xmax * K.mm} />} />
-        <Row label="Mechanical limit" symbol="Xlim" hint="one way" cell={(s) => <Num slot={s} path="driver.xlim_mm" label="Mechanical limit Xlim" unit="mm" step={0.1} model={(y) => y.driver.xlim * K.mm} />} />
+        <Row label="Mechanical limit" symbol="Xlim" hint="one way" cell={(s) => <Num slot={s} path="driver.xlim_mm" label="Mechanical limit Xlim" unit="mm" step={0.1} model={(y) => y.driver.xlim * K.mm} emptyTag="default" />} />
         <Row label="Thermal rating" symbol="Pe" cell={(s) => <Num slot={s} path="driver.pe_w" label="Thermal rating Pe" unit="W" step={1} model={(y) => y.driver.pe} />} />
       </Group>
       <div class="sheet-fold" role="row">
@@ -60,11 +60,11 @@ export function DriverSheet() {
             <Row label="Polynomials in use" cell={(s) => <FittedNote slot={s} />} />
           </Group>
           <Group title="Thermal" note="optional: estimated from Pe when empty">
-            <Row label="Coil to magnet" symbol="Rtv" cell={(s) => <Num slot={s} path="driver.rtv_k_per_w" label="Thermal resistance coil to magnet" unit="K/W" step={0.1} model={(y) => y.driver.thermal.rtv} />} />
-            <Row label="Coil heat capacity" symbol="Ctv" cell={(s) => <Num slot={s} path="driver.ctv_j_per_k" label="Coil heat capacity" unit="J/K" step={0.1} model={(y) => y.driver.thermal.ctv} />} />
-            <Row label="Magnet to air" symbol="Rtm" cell={(s) => <Num slot={s} path="driver.rtm_k_per_w" label="Thermal resistance magnet to air" unit="K/W" step={0.1} model={(y) => y.driver.thermal.rtm} />} />
-            <Row label="Magnet heat capacity" symbol="Ctm" cell={(s) => <Num slot={s} path="driver.ctm_j_per_k" label="Magnet heat capacity" unit="J/K" step={1} model={(y) => y.driver.thermal.ctm} />} />
-            <Row label="Coil temperature rating" cell={(s) => <Num slot={s} path="driver.coil_max_c" label="Coil temperature rating" unit="°C" step={1} model={(y) => y.driver.thermal.coilMaxC} />} />
+            <Row label="Coil to magnet" symbol="Rtv" cell={(s) => <Num slot={s} path="driver.rtv_k_per_w" label="Thermal resistance coil to magnet" unit="K/W" step={0.1} model={(y) => y.driver.thermal.rtv} emptyTag="estimated" />} />
+            <Row label="Coil heat capacity" symbol="Ctv" cell={(s) => <Num slot={s} path="driver.ctv_j_per_k" label="Coil heat capacity" unit="J/K" step={0.1} model={(y) => y.driver.thermal.ctv} emptyTag="estimated" />} />
+            <Row label="Magnet to air" symbol="Rtm" cell={(s) => <Num slot={s} path="driver.rtm_k_per_w" label="Thermal resistance magnet to air" unit="K/W" step={0.1} model={(y) => y.driver.thermal.rtm} emptyTag="estimated" />} />
+            <Row label="Magnet heat capacity" symbol="Ctm" cell={(s) => <Num slot={s} path="driver.ctm_j_per_k" label="Magnet heat capacity" unit="J/K" step={1} model={(y) => y.driver.thermal.ctm} emptyTag="estimated" />} />
+            <Row label="Coil temperature rating" cell={(s) => <Num slot={s} path="driver.coil_max_c" label="Coil temperature rating" unit="°C" step={1} model={(y) => y.driver.thermal.coilMaxC} emptyTag="default" />} />
             <Row
               label="Coil conductor"
               cell={(s) => (
