@@ -1,8 +1,9 @@
 // Command dispatch. Each command is one module exporting a `Command`; add it to COMMANDS.
 import { analyzeCommand } from './analyze.ts';
 import { EXIT_USAGE, type Command } from './command.ts';
+import { renderCommand } from './render.ts';
 
-const COMMANDS: Command[] = [analyzeCommand];
+const COMMANDS: Command[] = [analyzeCommand, renderCommand];
 
 function usage(): string {
   const lines = COMMANDS.map((c) => `  ${c.name.padEnd(10)} ${c.summary}`);

@@ -1,0 +1,102 @@
+// preheard render: a WAV file through a design's large-signal model, at a calibrated level.
+import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
+import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
+import { formatIssue, loadDesignFile } from './design-file.ts';
+import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
+import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+
+const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
+                      [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
+
+Plays a WAV file through the design's modelled woofer, box and amplifier (the band above the
+crossover on a flat path) and writes the sound at the listening seat, scaled by one calibration
+factor and kept under 0 dBFS by a true-peak guard.
+
+${LEVEL_HELP}
+  --linear      write the linear (small-signal) version of the same design instead
+  --residual    write only the difference: what the nonlinear model adds (distortion)
+  --events FILE also write the stress events as a JSON array
+  --format F    output sample format (default: the input's)
+  --json        print the summary as one JSON object
+  --help        this text
+
+Caution: the modelled overload is audible on purpose. Keep the listening volume moderate.
+
+exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
+`;
+
+export function summaryLines(s: RenderSummary): string[] {
+  const lines = [
+    `duration           ${s.duration_s} s at ${s.sample_rate} Hz`,
+    `level              ${s.volts_fs} V per full scale, ${s.spl_db} dB(C) Leq at the seat`,
+    `calibration        ${s.pa_per_fs} Pa per full scale`,
+    `peak excursion     ${s.peak_excursion_mm} mm`,
+  ];
+  if (s.peak_radiator_mm !== null) lines.push(`peak radiator      ${s.peak_radiator_mm} mm`);
+  if (s.peak_port_speed_m_s !== null) lines.push(`peak port speed    ${s.peak_port_speed_m_s} m/s`);
+  lines.push(
+    `peak coil temp     ${s.peak_coil_temp_c} °C`,
+    `amplifier clipping ${s.amp_clip_s} s`,
+    `max compression    ${s.max_compression_db} dB`,
+    `true-peak guard    ${s.limiter_db > 0 ? `${s.limiter_db} dB of gain reduction` : 'did not act'}`,
+    `realtime factor    ${s.realtime_factor}x`,
+  );
+  const byKind = new Map<string, number>();
+  for (const e of s.events) byKind.set(e.kind, (byKind.get(e.kind) ?? 0) + 1);
+  lines.push(`stress events      ${s.events.length === 0 ? 'none' : [...byKind].map(([k, n]) => `${k} ×${n}`).join(', ')}`);
+  for (const e of s.events.slice(0, 12)) {
+    lines.push(`  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${e.kind.padEnd(18)} peak ${e.peak} ${e.unit} (limit ${e.limit})`);
+  }
+  if (s.events.length > 12) lines.push(`  ... ${s.events.length - 12} more (use --events FILE or --json)`);
+  return lines;
+}
+
+export const renderCommand: Command = {
+  name: 'render',
+  summary: 'play a WAV file through a design at a calibrated level',
+  run: (argv) =>
+    runGuarded('render', HELP, async () => {
+      const { values, positionals } = parseCommandArgs(argv, {
+        output: { type: 'string', short: 'o' },
+        volts: { type: 'string' },
+        spl: { type: 'string' },
+        linear: { type: 'boolean' },
+        residual: { type: 'boolean' },
+        events: { type: 'string' },
+        format: { type: 'string' },
+        json: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+      });
+      if (values.help) {
+        process.stdout.write(HELP);
+        return EXIT_OK;
+      }
+      if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${positionals.length} argument(s)`);
+      if (!values.output) throw new UsageError('-o <out.wav> is required');
+      if (values.linear && values.residual) throw new UsageError('give --linear or --residual, not both');
+      if (values.format !== undefined && !['16', '24', 'f32'].includes(values.format)) throw new UsageError(`--format must be 16, 24 or f32, got "${values.format}"`);
+      const level = levelOptions(values);
+      const [designPath, inPath] = positionals;
+      const { system, warnings } = await loadDesignFile(designPath);
+      for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
+      const audio = await readInputAudio(inPath);
+      let result;
+      try {
+        const { volts } = resolveVolts(system, audio.channels, audio.sampleRate, level);
+        checkVolts(volts, system);
+        result = renderBuffer(system, audio.channels, audio.sampleRate, {
+          voltsFs: volts,
+          mode: values.linear ? 'linear' : values.residual ? 'residual' : 'nonlinear',
+          onProgress: audio.channels[0].length > audio.sampleRate * 30 ? progressBar('rendering') : undefined,
+        });
+      } catch (e) {
+        if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
+        throw e;
+      }
+      await writeWav(values.output, result.audio, audio.sampleRate, (values.format as WavFormat | undefined) ?? audio.format);
+      if (values.events) await writeTextAtomic(values.events, `${JSON.stringify(result.summary.events, null, 2)}\n`);
+      if (values.json) process.stdout.write(`${JSON.stringify(result.summary)}\n`);
+      else process.stdout.write(`${summaryLines(result.summary).join('\n')}\n`);
+      return EXIT_OK;
+    }),
+};
