@@ -36,6 +36,12 @@ async function drawsOf(p, chart) {
   return Number((await p.getAttribute(`.glance [data-chart=${chart}]`, 'data-draws')) ?? '0');
 }
 
+async function streamBytes(stream) {
+  const chunks = [];
+  for await (const c of stream) chunks.push(c);
+  return Buffer.concat(chunks);
+}
+
 async function waitSaved(p) {
   await p.waitForSelector('[data-testid=save-status][data-state=saved]');
 }
@@ -180,6 +186,35 @@ export const tests = [
       } finally {
         await other.close();
       }
+    },
+  },
+  {
+    name: 'Curves: hover readouts, PNG export of a chart, design export as a file',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await tab(p, 'Curves');
+      const over = p.locator('[data-chart=spl] .u-over');
+      const box = await over.boundingBox();
+      await p.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.5);
+      const legend = p.locator('[data-chart=spl] .u-legend');
+      await p.waitForFunction(() => /\d Hz/.test(document.querySelector('[data-chart=spl] .u-legend')?.textContent ?? ''));
+      assert.match(await legend.innerText(), /A:?\s*\d+(\.\d+)? dB/);
+      // The cursor is shared: the impedance chart reads out at the same frequency.
+      assert.match(await p.locator('[data-chart=impedance] .u-legend').innerText(), /\d+(\.\d+)? Ω/);
+      const [png] = await Promise.all([p.waitForEvent('download'), p.getByRole('button', { name: 'Save SPL at the seat as PNG' }).click()]);
+      assert.equal(png.suggestedFilename(), 'preheard-spl.png');
+      const bytes = await streamBytes(await png.createReadStream());
+      // PNG signature (ISO/IEC 15948, section 5.2): 89 50 4E 47 0D 0A 1A 0A.
+      assert.deepEqual([...bytes.subarray(0, 8)], [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+      assert.ok(bytes.length > 5000, `a real picture, ${bytes.length} bytes`);
+      mkdirSync(SHOTS, { recursive: true });
+      await png.saveAs(join(SHOTS, 'export-spl.png'));
+      await p.locator('.menu > summary').click();
+      const [file] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design A' }).click()]);
+      assert.match(file.suggestedFilename(), /\.preheard\.json$/);
+      const doc = JSON.parse((await streamBytes(await file.createReadStream())).toString('utf8'));
+      assert.equal(doc.format, 'preheard-design');
+      if (ctx.state.newVb) assert.equal(String(doc.box.vb_l), ctx.state.newVb);
     },
   },
   {

@@ -242,7 +242,9 @@ export function exportPng(u: uPlot, spec: ChartSpec, p: Palette) {
   const dpr = src.width / u.width || 1;
   const pad = 16 * dpr;
   const titleH = 28 * dpr;
-  const legendH = 26 * dpr;
+  const lineH = 18 * dpr;
+  const shown = spec.series.filter((s) => s.values);
+  const legendH = (shown.length * 18 + 12) * dpr;
   const out = document.createElement('canvas');
   out.width = src.width + 2 * pad;
   out.height = src.height + titleH + legendH + 2 * pad;
@@ -255,11 +257,11 @@ export function exportPng(u: uPlot, spec: ChartSpec, p: Palette) {
   ctx.textBaseline = 'top';
   ctx.fillText(`${spec.title} (${spec.unit})`, pad, pad);
   ctx.drawImage(src, pad, pad + titleH);
-  let x = pad;
-  const y = pad + titleH + src.height + 8 * dpr;
+  const x = pad;
+  let y = pad + titleH + src.height + 8 * dpr;
   ctx.font = `${12 * dpr}px system-ui, sans-serif`;
-  for (const s of spec.series) {
-    if (!s.values) continue;
+  const y0 = y;
+  for (const s of shown) {
     const st = stroke(s.role, p);
     ctx.strokeStyle = st.stroke;
     ctx.lineWidth = st.width * dpr;
@@ -270,11 +272,11 @@ export function exportPng(u: uPlot, spec: ChartSpec, p: Palette) {
     ctx.stroke();
     ctx.setLineDash([]);
     ctx.fillStyle = p.text;
-    ctx.fillText(s.label, x + 28 * dpr, y);
-    x += (40 + s.label.length * 7) * dpr;
+    ctx.fillText(s.longLabel ?? s.label, x + 28 * dpr, y);
+    y += lineH;
   }
   ctx.fillStyle = p.axis;
   ctx.textAlign = 'right';
-  ctx.fillText('preheard — model estimate', out.width - pad, y);
+  ctx.fillText('preheard — model estimate', out.width - pad, y0);
   out.toBlob((blob) => blob && downloadBlob(blob, `preheard-${spec.id}.png`), 'image/png');
 }

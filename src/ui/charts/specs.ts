@@ -11,6 +11,8 @@ export interface SeriesSpec {
   role: Role;
   /** On the chart's own frequency grid; null = not available for this design. */
   values: ArrayLike<number> | null;
+  /** The label with the design's name, for exported pictures. */
+  longLabel?: string;
   /** Text beside the value in the hover readout (e.g. what limits max SPL). */
   annotate?: (index: number) => string;
 }
@@ -75,7 +77,7 @@ export function buildCharts(pair: Pair): ChartSpec[] {
   const per = (pick: (a: Analysis) => ArrayLike<number> | null, extra?: Partial<SeriesSpec>): SeriesSpec[] =>
     SLOTS.map((s) => {
       const an = pair[s];
-      return { label: `${SLOT_LABEL[s]}`, role: s, values: an ? onGrid(f, an, pick(an)) : null, ...extra };
+      return { label: `${SLOT_LABEL[s]}`, longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined, role: s, values: an ? onGrid(f, an, pick(an)) : null, ...extra };
     });
   const present = SLOTS.filter((s) => pair[s] !== null) as Slot[];
   const fig = (s: Slot) => pair[s]!.figures;
@@ -190,6 +192,7 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       const lim = an?.curves.maxSplLimit;
       return {
         label: SLOT_LABEL[s],
+        longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined,
         role: s,
         values: an ? onGrid(f, an, an.curves.maxSplDb) : null,
         annotate: lim && an && an.curves.freqHz.length === n ? (i: number) => LIMIT_TEXT[lim[i]] ?? '' : undefined,

@@ -135,7 +135,19 @@ export function Cabinet() {
             hint="empty: vented 7, sealed lossless"
             cell={(s) => (
               <div class="inline">
-                {state.designs[s].box.ql === null ? <span class="out">lossless</span> : <Num slot={s} path="box.ql" label="Box losses QL" step={0.5} />}
+                {state.designs[s].box.ql === null ? (
+                  <span class="out">lossless</span>
+                ) : (
+                  <Num
+                    slot={s}
+                    path="box.ql"
+                    label="Box losses QL"
+                    step={0.5}
+                    model={(y) => y.box.ql}
+                    emptyTag="default"
+                    placeholder={state.designs[s].box.type === 'sealed' && state.designs[s].box.ql === undefined ? 'none' : undefined}
+                  />
+                )}
                 <Lossless slot={s} />
               </div>
             )}
