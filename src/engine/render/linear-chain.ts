@@ -7,6 +7,7 @@ import { designCrossover } from '../filters/crossover.ts';
 import { rationalToBiquads } from '../filters/analog.ts';
 import { wooferParams } from '../sim/params.ts';
 import { speakerTransfer } from '../sim/transfer.ts';
+import { roomGainSection } from '../filters/room.ts';
 
 export interface LinearChainDesign {
   /** Woofer band: crossover low-pass then the speaker, packed biquads and gain (Pa per volt). */
@@ -23,7 +24,8 @@ export function designLinearChain(sys: SpeakerSystem, sampleRate: number): Linea
   const xo = designCrossover(sys.crossover, sampleRate);
   const tf = speakerTransfer(p);
   const spk = rationalToBiquads(tf.num, tf.den, sampleRate);
-  const woofer = xo.lp ? packSections([xo.lp, spk.coef]) : spk.coef;
+  const room = roomGainSection(sys.listening.roomGainHz, sampleRate);
+  const woofer = packSections([...(xo.lp ? [xo.lp] : []), spk.coef, ...(room ? [room] : [])]);
   return {
     woofer,
     wooferGain: spk.gain,

@@ -7,12 +7,14 @@
 import type { SpeakerSystem } from '../system.ts';
 import { BiquadCascade } from '../filters/biquad.ts';
 import { designCrossover } from '../filters/crossover.ts';
+import { roomGainSection } from '../filters/room.ts';
 import { RENDER_HALFBAND } from '../filters/halfband.ts';
 import { wooferParams, type WooferParams } from '../sim/params.ts';
 import { WooferSim } from '../sim/woofer.ts';
 import { LinearRecurrence } from '../sim/linear.ts';
 import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
 import { TruePeakGuard } from '../level/truepeak.ts';
+import { ResidualMeter } from '../level/distortion.ts';
 import { OversampledClipper } from './amplifier.ts';
 import {
   EventLog,
@@ -84,13 +86,14 @@ const CHUNK = 256;
 
 class Lane {
   lp: BiquadCascade | null;
+  roomN: BiquadCascade | null = null;
+  roomL: BiquadCascade | null = null;
   readonly clip: OversampledClipper;
   sim: WooferSim;
   lin: LinearRecurrence;
   readonly th: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 };
   readonly thPartial: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 };
-  eRes = 0;
-  eOut = 0;
+  readonly meter: ResidualMeter;
   readonly u = new Float64Array(CHUNK);
   readonly uClip = new Float64Array(CHUNK);
   readonly uDel = new Float64Array(CHUNK);
@@ -99,7 +102,8 @@ class Lane {
   readonly x = new Float64Array(CHUNK);
   readonly port = new Float64Array(CHUNK);
 
-  constructor(p: WooferParams, lp: Float64Array | null) {
+  constructor(p: WooferParams, lp: Float64Array | null, sampleRate: number) {
+    this.meter = new ResidualMeter(sampleRate, DISTORTION_WINDOW_S);
     this.lp = lp ? new BiquadCascade(lp) : null;
     this.clip = new OversampledClipper(RENDER_HALFBAND);
     this.sim = new WooferSim(p);
@@ -157,7 +161,6 @@ export class Renderer {
   private params!: WooferParams;
   private frames = 0;
   private chunks = 0;
-  private readonly alphaE: number;
   private xmax = 0;
   private xlimHit = 0;
   private xmaxP = 0;
@@ -193,7 +196,6 @@ export class Renderer {
     this.voltsFs = opt.voltsFs;
     this.mono = sys.listening.channels === 'mono-sum';
     this.stageDelay = RENDER_HALFBAND.m;
-    this.alphaE = 1 - Math.exp(-1 / (DISTORTION_WINDOW_S * opt.sampleRate));
     this.guard = new TruePeakGuard(opt.channels, opt.sampleRate);
     this.guardLin = opt.extraStreams ? new TruePeakGuard(opt.channels, opt.sampleRate) : null;
     this.guardRes = opt.extraStreams ? new TruePeakGuard(opt.channels, opt.sampleRate) : null;
@@ -219,7 +221,7 @@ export class Renderer {
     const nLanes = this.mono ? 1 : this.channels;
     if (fresh) {
       this.lanes = [];
-      for (let k = 0; k < nLanes; k++) this.lanes.push(new Lane(p, xo.lp));
+      for (let k = 0; k < nLanes; k++) this.lanes.push(new Lane(p, xo.lp, fsr));
     } else {
       for (const lane of this.lanes) {
         lane.sim.setParams(p);
@@ -230,7 +232,12 @@ export class Renderer {
         lane.lp = replaceCascade(lane.lp, xo.lp);
       }
     }
-    for (const lane of this.lanes) thermalStep(sys.driver.thermal, CHUNK / fsr, lane.th);
+    const room = roomGainSection(sys.listening.roomGainHz, fsr);
+    for (const lane of this.lanes) {
+      thermalStep(sys.driver.thermal, CHUNK / fsr, lane.th);
+      lane.roomN = replaceCascade(lane.roomN, room);
+      lane.roomL = replaceCascade(lane.roomL, room);
+    }
     if (fresh || !this.hp || !xo.hp) {
       this.hp = xo.hp ? Array.from({ length: this.channels }, () => new BiquadCascade(xo.hp!)) : null;
     } else {
@@ -345,6 +352,10 @@ export class Renderer {
       const sim = lane.sim;
       const i2 = sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.port);
       lane.lin.processBlock(lane.uDel, lane.pL, n);
+      if (lane.roomN) {
+        lane.roomN.processInPlace(lane.pN, 0, n);
+        lane.roomL!.processInPlace(lane.pL, 0, n);
+      }
       // Coil heating from the chunk's mean i^2 in the hot resistance; the exact two-node step.
       const pw = (i2 / n) * p.re0 * (1 + p.alphaR * sim.riseV);
       const th = n === CHUNK ? lane.th : thermalStep(this.system.driver.thermal, n / fsr, lane.thPartial);
@@ -395,25 +406,10 @@ export class Renderer {
       for (let k = 0; k < n; k++) or[k] = pN[k] - pL[k];
     }
     this.hpPos = (hpPos0 + n) % dl;
-    const alphaE = this.alphaE;
     const floor2 = DISTORTION_FLOOR_PA * DISTORTION_FLOOR_PA;
     const ratio = this.ratio;
     ratio.fill(0, 0, n);
-    for (let w = 0; w < nLanes; w++) {
-      const lane = lanes[w];
-      const on = outN[w], or = outR[w];
-      let eOut = lane.eOut, eRes = lane.eRes;
-      for (let k = 0; k < n; k++) {
-        eOut += alphaE * (on[k] * on[k] - eOut);
-        eRes += alphaE * (or[k] * or[k] - eRes);
-        if (eOut > floor2) {
-          const r = eRes / eOut;
-          if (r > ratio[k]) ratio[k] = r;
-        }
-      }
-      lane.eOut = eOut;
-      lane.eRes = eRes;
-    }
+    for (let w = 0; w < nLanes; w++) lanes[w].meter.processBlock(outN[w], outR[w], n, floor2, ratio);
     // 4. Calibration and the true-peak guard.
     const pick = mode === 'nonlinear' ? outN : mode === 'linear' ? outL : outR;
     this.guard.processBlock(pick, n, inv, outputs, s);

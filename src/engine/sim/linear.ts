@@ -36,8 +36,6 @@ export function linearModel(p: WooferParams): LinearModel {
   set(m, 3, 3, p.cab);
   set(a, 3, 2, -p.sd);
   set(a, 3, 3, -p.g);
-  // dU/dt = Sd·v' + pb'/Ral + (Up' | Sp·vp'), each row of A divided by its mass (the leak radiates).
-  for (let k = 0; k < n; k++) c[k] = (p.kOut * p.sd * a[2 * n + k]) / p.mms + (p.kOut * p.g * a[3 * n + k]) / p.cab;
   if (p.boxCode === BOX_VENTED) {
     set(a, 3, 4, -1);
     set(m, 4, 4, p.map);
@@ -53,6 +51,8 @@ export function linearModel(p: WooferParams): LinearModel {
     set(a, 5, 5, -p.rmp);
     for (let k = 0; k < n; k++) c[k] += (p.kOut * p.sp * a[5 * n + k]) / p.mmp;
   }
+  // dU/dt = Sd·v' + pb'/Ral + (Up' | Sp·vp'), each row of A divided by its mass (the leak radiates).
+  for (let k = 0; k < n; k++) c[k] += (p.kOut * p.sd * a[2 * n + k]) / p.mms + (p.kOut * p.g * a[3 * n + k]) / p.cab;
   return { n, m, a, b, theta, c };
 }
 
