@@ -1,9 +1,10 @@
 // Command dispatch. Each command is one module exporting a `Command`; add it to COMMANDS.
 import { analyzeCommand } from './analyze.ts';
+import { sweepCommand } from './sweep.ts';
 import { EXIT_USAGE, type Command } from './command.ts';
 import { renderCommand } from './render.ts';
 
-const COMMANDS: Command[] = [analyzeCommand, renderCommand];
+const COMMANDS: Command[] = [analyzeCommand, renderCommand, sweepCommand];
 
 function usage(): string {
   const lines = COMMANDS.map((c) => `  ${c.name.padEnd(10)} ${c.summary}`);

@@ -1,0 +1,121 @@
+// preheard sweep: f3, first limit and headroom on a track for a range of box volumes and/or tunings,
+// one design variant per step, spread over every core with worker threads.
+import { availableParallelism } from 'node:os';
+import { Worker } from 'node:worker_threads';
+import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
+import { loadDesignFile } from './design-file.ts';
+import { readInputAudio } from './render-common.ts';
+import type { SweepPoint, SweepRow } from './sweep-step.ts';
+import type { DesignDoc } from '../engine/design/document.ts';
+import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
+
+const HELP = `usage: preheard sweep <design.json> <in.wav> [--vb FROM:TO:STEP] [--fb FROM:TO:STEP] [--json] [--threads N]
+
+For each box volume (litres) and/or tuning (Hz, vented boxes) in the ranges, prints f3, the
+highest clean level on this track (dB SPL at the seat and amplifier volts per full scale) and the
+limit that arrives first. Both ranges together sweep every combination.
+
+  --vb FROM:TO:STEP   net box volumes, litres, e.g. 20:60:5
+  --fb FROM:TO:STEP   tunings, Hz (vented only), e.g. 30:50:2.5
+  --threads N         worker threads (default: every core)
+  --json              print {steps: [...]} instead of the table
+  --help              this text
+
+exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
+`;
+
+/** Parses FROM:TO:STEP into the list of values, inclusive of TO within rounding. */
+export function parseRange(text: string, option: string, min: number, max: number): number[] {
+  const parts = text.split(':').map(Number);
+  if (parts.length !== 3 || parts.some((p) => !Number.isFinite(p))) throw new UsageError(`${option} must be FROM:TO:STEP, got "${text}"`);
+  const [from, to, step] = parts;
+  if (!(step > 0)) throw new UsageError(`${option}: STEP must be positive, got ${step}`);
+  if (from < min || to > max || from > to) throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${text}`);
+  const count = Math.floor((to - from) / step + 1e-9) + 1;
+  if (count > 200) throw new UsageError(`${option}: ${count} steps is too many (200 at most)`);
+  return Array.from({ length: count }, (_, k) => Number((from + k * step).toPrecision(10)));
+}
+
+function runPool(design: DesignDoc, points: SweepPoint[], channels: Float32Array[], sampleRate: number, threads: number): Promise<SweepRow[]> {
+  // The audio is shared, not copied, with every worker.
+  const shared = channels.map((ch) => {
+    const sab = new SharedArrayBuffer(ch.byteLength);
+    new Float32Array(sab).set(ch);
+    return sab;
+  });
+  const rows: SweepRow[] = new Array(points.length);
+  let next = 0;
+  let done = 0;
+  return new Promise((resolve, reject) => {
+    const workers: Worker[] = [];
+    const finish = (err?: Error) => {
+      for (const w of workers) void w.terminate();
+      if (err) reject(err);
+      else resolve(rows);
+    };
+    for (let t = 0; t < Math.min(threads, points.length); t++) {
+      const w = new Worker(new URL('./sweep-worker.mjs', import.meta.url), { workerData: { design, channels: shared, sampleRate } });
+      workers.push(w);
+      const feed = () => {
+        if (next < points.length) {
+          const index = next++;
+          w.postMessage({ index, point: points[index] });
+        }
+      };
+      w.on('message', (msg: { ready?: boolean; index?: number; row?: SweepRow }) => {
+        if (msg.ready) return feed();
+        rows[msg.index!] = msg.row!;
+        if (++done === points.length) finish();
+        else feed();
+      });
+      w.on('error', (e) => finish(e));
+    }
+  });
+}
+
+function table(rows: SweepRow[], vented: boolean): string {
+  const head = ['Vb l', ...(vented ? ['fb Hz'] : []), 'f3 Hz', 'clean dB SPL', 'clean V/FS', 'first limit'];
+  const body = rows.map((r) => [
+    String(r.vb_l),
+    ...(vented ? [String(r.fb_hz ?? '')] : []),
+    r.f3_hz === null ? '-' : String(r.f3_hz),
+    r.clean_spl_db === null ? '-' : r.clean_spl_db.toFixed(2),
+    r.clean_volts === null ? '-' : String(r.clean_volts),
+    r.error ? `(${r.error})` : r.first_limit ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${clock(r.first_limit_s ?? 0)}` : 'none in range',
+  ]);
+  const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => (i === cells.length - 1 ? c : c.padStart(widths[i]))).join('  ');
+  return [line(head), ...body.map(line)].join('\n') + '\n';
+}
+
+export const sweepCommand: Command = {
+  name: 'sweep',
+  summary: 'f3, first limit and headroom on a track across box volumes and tunings',
+  run: (argv) =>
+    runGuarded('sweep', HELP, async () => {
+      const { values, positionals } = parseCommandArgs(argv, {
+        vb: { type: 'string' },
+        fb: { type: 'string' },
+        threads: { type: 'string' },
+        json: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+      });
+      if (values.help) {
+        process.stdout.write(HELP);
+        return EXIT_OK;
+      }
+      if (positionals.length !== 2) throw new UsageError('expects a design file and a WAV file');
+      if (values.vb === undefined && values.fb === undefined) throw new UsageError('give --vb and/or --fb');
+      const threads = values.threads === undefined ? availableParallelism() : Number(values.threads);
+      if (!Number.isInteger(threads) || threads < 1 || threads > 64) throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
+      const { design } = await loadDesignFile(positionals[0]);
+      if (values.fb !== undefined && design.box.type !== 'vented') throw new InputError(`--fb needs a vented design; ${positionals[0]} is ${design.box.type}`);
+      const vbs = values.vb === undefined ? [design.box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
+      const fbs = values.fb === undefined ? [design.box.type === 'vented' ? design.box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
+      const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
+      const audio = await readInputAudio(positionals[1]);
+      const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads);
+      process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, design.box.type === 'vented'));
+      return EXIT_OK;
+    }),
+};
