@@ -81,7 +81,7 @@ export const tests = [
       const fcBefore = Number.parseFloat(await fc.innerText());
       const draws0 = await drawsOf(p, 'spl');
       const pixels0 = await p.locator('.glance [data-chart=spl] canvas').evaluate((c) => c.toDataURL());
-      const vb = p.getByLabel('Net volume Vb, design A');
+      const vb = p.getByLabel('Net volume Vb, design A', { exact: true });
       const old = Number(await vb.inputValue());
       ctx.state.newVb = String(Math.round(old * 2.5));
       await vb.fill(ctx.state.newVb);
@@ -105,7 +105,7 @@ export const tests = [
       const p = await page(ctx);
       await p.reload();
       await p.waitForSelector('[role=tab][aria-selected=true]:has-text("Cabinet")');
-      assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+      assert.equal(await p.getByLabel('Net volume Vb, design A', { exact: true }).inputValue(), ctx.state.newVb);
       assert.equal(await p.locator('[role=dialog]').count(), 0, 'cautions stay dismissed');
     },
   },
@@ -114,7 +114,7 @@ export const tests = [
     fn: async (ctx) => {
       const p = await page(ctx);
       await tab(p, 'Driver sheet');
-      const fs = p.getByLabel('Resonance fs, design B');
+      const fs = p.getByLabel('Resonance fs, design B', { exact: true });
       const good = await fs.inputValue();
       await fs.fill('0.2');
       const msg = p.locator(`#${await fs.getAttribute('aria-describedby')}`);
@@ -179,7 +179,7 @@ export const tests = [
         await q.goto(url);
         await q.getByRole('dialog', { name: 'Before you start' }).getByRole('button', { name: 'I understand' }).click();
         await tab(q, 'Cabinet');
-        assert.equal(await q.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+        assert.equal(await q.getByLabel('Net volume Vb, design A', { exact: true }).inputValue(), ctx.state.newVb);
         assert.equal(await q.innerText('.glance [data-testid=fig-a-f3]'), await p.innerText('.glance [data-testid=fig-a-f3]'));
         assert.equal(new URL(q.url()).hash, '', 'the fragment is cleared once read');
         assert.deepEqual(other.offHost, []);
@@ -236,8 +236,8 @@ export const tests = [
       await p.setViewportSize({ width: 1440, height: 900 });
       // B as a passive-radiator box: its own fields and curves, then undo.
       await tab(p, 'Cabinet');
-      await p.getByLabel('Enclosure type, design B').selectOption('passive-radiator');
-      await p.getByLabel('Radiator moving mass, design B').waitFor();
+      await p.getByLabel('Enclosure type, design B', { exact: true }).selectOption('passive-radiator');
+      await p.getByLabel('Radiator moving mass, design B', { exact: true }).waitFor();
       assert.match(await p.innerText('[data-testid=f3-b]'), /Hz/);
       await p.screenshot({ path: join(SHOTS, 'desktop-cabinet-radiator.png') });
       await tab(p, 'Curves');
@@ -268,7 +268,7 @@ export const tests = [
       await tab(p, 'Curves');
       await p.waitForSelector('[data-chart=spl] canvas');
       await tab(p, 'Cabinet');
-      assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+      assert.equal(await p.getByLabel('Net volume Vb, design A', { exact: true }).inputValue(), ctx.state.newVb);
       assert.deepEqual(ctx.state.errors.filter((e) => !/ERR_CONNECTION_REFUSED|Failed to load resource/.test(e)), []);
     },
   },
@@ -281,7 +281,7 @@ export const tests = [
       buildApp('dist', 'e2e-next');
       ctx.server = await startPreview({ outDir: 'dist', port: ctx.server.port });
       await tab(p, 'Cabinet');
-      await p.getByLabel('Net volume Vb, design B').fill('23.5');
+      await p.getByLabel('Net volume Vb, design B', { exact: true }).fill('23.5');
       await waitSaved(p);
       await p.reload();
       const banner = p.locator('.banner-update');
@@ -293,8 +293,8 @@ export const tests = [
       assert.match(await p.innerText('[data-testid=build]'), /e2e-next/);
       assert.equal(await p.locator('.banner-update').count(), 0);
       await tab(p, 'Cabinet');
-      assert.equal(await p.getByLabel('Net volume Vb, design B').inputValue(), '23.5');
-      assert.equal(await p.getByLabel('Net volume Vb, design A').inputValue(), ctx.state.newVb);
+      assert.equal(await p.getByLabel('Net volume Vb, design B', { exact: true }).inputValue(), '23.5');
+      assert.equal(await p.getByLabel('Net volume Vb, design A', { exact: true }).inputValue(), ctx.state.newVb);
     },
   },
 ];

@@ -90,6 +90,21 @@ export interface NumProps {
   emptyTag?: 'derived' | 'default' | 'estimated';
   /** Group paths whose messages belong beside this field too (e.g. "box.ports" beside the port size). */
   alsoPaths?: string[];
+  /** A slider beside the field, over [min, max]; log spacing for quantities judged in ratios. */
+  slider?: { min: number; max: number; log?: boolean };
+}
+
+const SLIDER_STEPS = 1000;
+
+function toSlider(v: number, s: NonNullable<NumProps['slider']>): number {
+  const t = s.log ? Math.log(v / s.min) / Math.log(s.max / s.min) : (v - s.min) / (s.max - s.min);
+  return Math.round(Math.min(1, Math.max(0, t)) * SLIDER_STEPS);
+}
+
+function fromSlider(pos: number, s: NonNullable<NumProps['slider']>): number {
+  const t = pos / SLIDER_STEPS;
+  const v = s.log ? s.min * (s.max / s.min) ** t : s.min + t * (s.max - s.min);
+  return Number(v.toPrecision(3));
 }
 
 /** A numeric design field bound to the store, with the engine's messages and the model's value. */
@@ -118,6 +133,19 @@ export function Num(p: NumProps) {
         placeholder={p.placeholder ?? (modelValue !== null && !typed ? num(modelValue, p.modelDigits ?? 3) : undefined)}
         onCommit={(v) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v })}
       />
+      {p.slider ? (
+        <input
+          type="range"
+          class="slider"
+          min={0}
+          max={SLIDER_STEPS}
+          step={1}
+          value={typeof value === 'number' ? toSlider(value, p.slider) : 0}
+          aria-label={`${p.label}, design ${SLOT_LABEL[p.slot]}, slider`}
+          aria-valuetext={typeof value === 'number' ? `${value}${p.unit ? ' ' + p.unit : ''}` : undefined}
+          onInput={(e) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: fromSlider(Number((e.currentTarget as HTMLInputElement).value), p.slider!) })}
+        />
+      ) : null}
       {showModel ? (
         <span class={`model${m.stale ? ' stale' : ''}${differs ? ' differs' : ''}`} title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}>
           {typed ? (

@@ -127,7 +127,7 @@ export function Cabinet() {
       <Sheet id="cabinet" title="Cabinet" intro="The enclosure of each design. Volumes are net internal volumes; the port length shown is the physical length of one port for the tuning asked.">
         <Group title="Enclosure">
           <Row label="Type" cell={(s) => <Choice<BoxType> slot={s} path="box.type" label="Enclosure type" value={state.designs[s].box.type} options={BOX_TYPES} onChange={(t) => setType(s, t)} />} />
-          <Row label="Net volume" symbol="Vb" cell={(s) => <Num slot={s} path="box.vb_l" label="Net volume Vb" unit="L" step={0.5} model={(y) => y.box.vbNet * K.litres} />} />
+          <Row label="Net volume" symbol="Vb" cell={(s) => <Num slot={s} path="box.vb_l" label="Net volume Vb" unit="L" step={0.5} model={(y) => y.box.vbNet * K.litres} slider={{ min: 2, max: 200, log: true }} />} />
           <Row label="Acoustic volume" hint="with fill" cell={(s) => <DerivedOut slot={s} pick={(m) => m.system!.box.vb * K.litres} unit="L" />} />
           <Row
             label="Box losses"
@@ -168,7 +168,7 @@ export function Cabinet() {
         ) : null}
         {anyVented ? (
           <Group title="Port">
-            <Row label="Tuning" symbol="fb" cell={(s) => ventedOnly(s, () => <Num slot={s} path="box.fb_hz" label="Tuning fb" unit="Hz" step={0.5} model={(y) => ('fb' in y.box ? y.box.fb : null)} />)} />
+            <Row label="Tuning" symbol="fb" cell={(s) => ventedOnly(s, () => <Num slot={s} path="box.fb_hz" label="Tuning fb" unit="Hz" step={0.5} model={(y) => ('fb' in y.box ? y.box.fb : null)} slider={{ min: 15, max: 120, log: true }} />)} />
             <Row
               label="Port shape"
               cell={(s) =>

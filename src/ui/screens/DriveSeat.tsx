@@ -75,7 +75,7 @@ export function DriveSeat() {
         <Row label="Crossover frequency" symbol="fx" cell={(s) => (state.designs[s].crossover.type === 'none' ? null : <Num slot={s} path="crossover.fx_hz" label="Crossover frequency" unit="Hz" step={10} model={(y) => y.crossover.fx} emptyTag="default" />)} />
       </Group>
       <Group title="Listening seat">
-        <Row label="Distance" hint="speaker to seat" cell={(s) => <Num slot={s} path="listening.distance_m" label="Listening distance" unit="m" step={0.1} model={(y) => y.listening.distance} />} />
+        <Row label="Distance" hint="speaker to seat" cell={(s) => <Num slot={s} path="listening.distance_m" label="Listening distance" unit="m" step={0.1} model={(y) => y.listening.distance} slider={{ min: 0.5, max: 20, log: true }} />} />
         <Row
           label="Placement"
           cell={(s) => (
@@ -128,7 +128,7 @@ export function DriveSeat() {
           label="Level"
           cell={(s) =>
             (level(s)?.mode ?? 'spl') === 'spl' ? (
-              <Num slot={s} path="listening.level.spl_db" label="Planned SPL at the seat" unit="dB(C)" step={1} model={(_y, a) => a?.figures.plannedSplDb ?? null} />
+              <Num slot={s} path="listening.level.spl_db" label="Planned SPL at the seat" unit="dB(C)" step={1} model={(_y, a) => a?.figures.plannedSplDb ?? null} slider={{ min: 60, max: 120 }} />
             ) : (
               <Num slot={s} path="listening.level.volts_fs" label="Amplifier peak volts at full scale" unit="V peak" step={0.5} />
             )
