@@ -201,6 +201,14 @@ export const tests = [
       assert.match(await legend.innerText(), /A:?\s*\d+(\.\d+)? dB/);
       // The cursor is shared: the impedance chart reads out at the same frequency.
       assert.match(await p.locator('[data-chart=impedance] .u-legend').innerText(), /\d+(\.\d+)? Ω/);
+      // The key numbers also as text: the SPL values at fixed frequencies.
+      const details = p.locator('figure:has([data-chart=spl]) details.values');
+      await details.locator('summary').click();
+      await details.locator('tbody tr').first().waitFor();
+      const rows = await details.locator('tbody tr').allInnerTexts();
+      // Rows sit at the grid point nearest each preferred frequency (ISO 266 third-octave series).
+      const near100 = rows.map((r) => r.trim().split(/\s+/).map(Number)).find((c) => c[0] > 90 && c[0] < 110);
+      assert.ok(near100 && near100.length >= 3 && near100.slice(1).every((v) => v > 40 && v < 120), `a row near 100 Hz with SPL values: ${rows.join(' | ')}`);
       const [png] = await Promise.all([p.waitForEvent('download'), p.getByRole('button', { name: 'Save SPL at the seat as PNG' }).click()]);
       assert.equal(png.suggestedFilename(), 'preheard-spl.png');
       const bytes = await streamBytes(await png.createReadStream());

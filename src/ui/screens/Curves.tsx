@@ -1,5 +1,5 @@
 // Curves: every chart with A and B overlaid and the ideal reference, the key numbers as text.
-import { useMemo } from 'preact/hooks';
+import { useMemo, useState } from 'preact/hooks';
 import { useApp } from '../context.ts';
 import { Chart } from '../charts/Chart.tsx';
 import { buildCharts, type ChartSpec } from '../charts/specs.ts';
@@ -17,11 +17,20 @@ export function useCharts(): ChartSpec[] {
 }
 
 function ValuesTable({ spec }: { spec: ChartSpec }) {
+  // Built only while open, so a closed table costs nothing per edit.
+  const [open, setOpen] = useState(false);
+  if (!open) {
+    return (
+      <details class="values" onToggle={(e) => setOpen((e.currentTarget as HTMLDetailsElement).open)}>
+        <summary>Values as a table</summary>
+      </details>
+    );
+  }
   const cols = spec.series.filter((s) => s.values && (s.role === 'a' || s.role === 'b' || s.role === 'reference' || s.role.endsWith('-aux')));
   const f = spec.freqHz;
   const idx = TABLE_HZ.filter((hz) => f.length && hz >= f[0] && hz <= f[f.length - 1]).map((hz) => nearestIndex(f, hz));
   return (
-    <details class="values">
+    <details class="values" open onToggle={(e) => setOpen((e.currentTarget as HTMLDetailsElement).open)}>
       <summary>Values as a table</summary>
       <table>
         <thead>
