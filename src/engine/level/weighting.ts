@@ -25,23 +25,45 @@ export function aWeightingDb(f: number): number {
   );
 }
 
-/** Digital C-weighting as biquads (bilinear transform; the 12.2 kHz pole pair prewarped). */
-export function cWeightingFilter(sampleRate: number): BiquadCascade {
-  const w1 = 2 * Math.PI * F1, w4 = 2 * Math.PI * F4;
-  const kLow = bilinearK(sampleRate);
-  const kHigh = bilinearK(sampleRate, Math.min(F4, 0.45 * sampleRate));
-  const low = bilinearSection({ b: [0, 0, 1], a: [w1 * w1, 2 * w1, 1] }, kLow);
-  const high = bilinearSection({ b: [w4 * w4, 0, 0], a: [w4 * w4, 2 * w4, 1] }, kHigh);
-  return new BiquadCascade(packSections([low, high]), Math.pow(10, -C1000 / 20));
+/**
+ * The 12.2 kHz double pole w4^2/(s + w4)^2 near the Nyquist frequency: the bilinear transform would
+ * bend it, so the poles are matched (z = e^{-w4/fs}) and a double zero at -q is fitted by bisection
+ * so the magnitude is right at 0.25·fs; unity gain at 1 kHz.
+ */
+function highPoleSection(sampleRate: number): Float64Array {
+  const w4 = 2 * Math.PI * F4;
+  const p = Math.exp(-w4 / sampleRate);
+  const dbAt = (q: number, f: number) => {
+    const w = (2 * Math.PI * f) / sampleRate;
+    const nr = 1 + q * Math.cos(w), ni = -q * Math.sin(w), dr = 1 - p * Math.cos(w), di = p * Math.sin(w);
+    return 10 * Math.log10(((nr * nr + ni * ni) / (dr * dr + di * di)) ** 2);
+  };
+  const analog = (f: number) => 20 * Math.log10((w4 * w4) / ((2 * Math.PI * f) ** 2 + w4 * w4));
+  const fFit = 0.25 * sampleRate;
+  const err = (q: number) => dbAt(q, fFit) - dbAt(q, 1000) - (analog(fFit) - analog(1000));
+  let lo = -0.9, hi = 0.99;
+  for (let k = 0; k < 80; k++) {
+    const mid = 0.5 * (lo + hi);
+    if (err(mid) > 0) lo = mid;
+    else hi = mid;
+  }
+  const q = 0.5 * (lo + hi);
+  const g = Math.pow(10, (analog(1000) - dbAt(q, 1000)) / 20);
+  return Float64Array.of(g, 2 * q * g, q * q * g, -2 * p, p * p);
 }
 
-/** Digital A-weighting as biquads. */
+/** Digital C-weighting as biquads (bilinear for the 20.6 Hz poles, matched 12.2 kHz poles). */
+export function cWeightingFilter(sampleRate: number): BiquadCascade {
+  const w1 = 2 * Math.PI * F1;
+  const low = bilinearSection({ b: [0, 0, 1], a: [w1 * w1, 2 * w1, 1] }, bilinearK(sampleRate));
+  return new BiquadCascade(packSections([low, highPoleSection(sampleRate)]), Math.pow(10, -C1000 / 20));
+}
+
+/** Digital A-weighting as biquads (bilinear below, matched 12.2 kHz poles). */
 export function aWeightingFilter(sampleRate: number): BiquadCascade {
-  const w1 = 2 * Math.PI * F1, w2 = 2 * Math.PI * F2, w3 = 2 * Math.PI * F3, w4 = 2 * Math.PI * F4;
+  const w1 = 2 * Math.PI * F1, w2 = 2 * Math.PI * F2, w3 = 2 * Math.PI * F3;
   const k = bilinearK(sampleRate);
-  const kHigh = bilinearK(sampleRate, Math.min(F4, 0.45 * sampleRate));
   const s1 = bilinearSection({ b: [0, 0, 1], a: [w1 * w1, 2 * w1, 1] }, k);
   const s2 = bilinearSection({ b: [0, 0, 1], a: [w2 * w3, w2 + w3, 1] }, k);
-  const s3 = bilinearSection({ b: [w4 * w4, 0, 0], a: [w4 * w4, 2 * w4, 1] }, kHigh);
-  return new BiquadCascade(packSections([s1, s2, s3]), Math.pow(10, -A1000 / 20));
+  return new BiquadCascade(packSections([s1, s2, highPoleSection(sampleRate)]), Math.pow(10, -A1000 / 20));
 }

@@ -49,7 +49,7 @@ export class OversampledClipper {
     this.odd = design.odd;
     this.t = design.odd.length;
     this.delay = design.m;
-    this.hlen = 4 * this.t + 2;
+    this.hlen = 4 * this.t + 4;
     this.hist = new Float64Array(2 * this.hlen);
     this.ev = new Float64Array(4 * this.t);
     this.od = new Float64Array(4 * this.t);
