@@ -11,3 +11,6 @@ export const boxCompliance = (vb: number, air: Air): number => vb / bulkModulus(
 export function leakageResistance(ql: number | null, wTuning: number, cab: number): number {
   return ql === null ? Infinity : ql / (wTuning * cab);
 }
+
+/** Small's usual starting point for the leakage loss of a vented or radiator box (Small, JAES 1973). */
+export const DEFAULT_QL = 7;

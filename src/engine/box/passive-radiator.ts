@@ -1,7 +1,7 @@
 import type { Air, PassiveRadiatorBox } from '../system.ts';
 import type { BoxDoc } from '../design/document.ts';
 import type { BoxKind } from './types.ts';
-import { boxCompliance, leakageResistance } from './common.ts';
+import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { bulkModulus } from '../air.ts';
 import { fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
@@ -25,7 +25,7 @@ export const passiveRadiator: BoxKind<RadiatorDoc, PassiveRadiatorBox> = {
     const rmp = qmp === null ? 0 : (2 * Math.PI * fp * mmp) / qmp;
     // Tuning with the box air spring added to the radiator's own (Small 1974; Hurlburt 2000).
     const fb = Math.sqrt((kmp + (bulkModulus(air) * sp * sp) / vb) / mmp) / (2 * Math.PI);
-    const ql = doc.ql === undefined ? 7 : doc.ql;
+    const ql = doc.ql === undefined ? DEFAULT_QL : doc.ql;
     const xmax = r.xmax_mm / 1000;
     const radiatorDisplacement = sp * xmax;
     const coneDisplacement = driver.sd * driver.xmax;

@@ -1,7 +1,7 @@
 import type { Air, VentedBox } from '../system.ts';
 import type { BoxDoc, PortDoc } from '../design/document.ts';
 import type { BoxKind } from './types.ts';
-import { boxCompliance, leakageResistance } from './common.ts';
+import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
 
@@ -72,7 +72,7 @@ export const vented: BoxKind<VentedDoc, VentedBox> = {
   build(doc, { air }, path) {
     const issues: Issue[] = [];
     const vbNet = doc.vb_l / 1000;
-    const ql = doc.ql === undefined ? 7 : doc.ql;
+    const ql = doc.ql === undefined ? DEFAULT_QL : doc.ql;
     const geoms = doc.ports.map(portGeometry);
     const sv = geoms.reduce((s, g) => s + g.area * g.count, 0);
     const portCount = geoms.reduce((s, g) => s + g.count, 0);

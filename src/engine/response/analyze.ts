@@ -164,6 +164,16 @@ function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, p
     if (curves.excursionMm[k] > peakX) [peakX, peakXHz] = [curves.excursionMm[k], freqHz[k]];
     if (curves.portAirSpeed && curves.portAirSpeed[k] > peakPort) peakPort = curves.portAirSpeed[k];
   }
+  let plannedX = 0;
+  let plannedXHz = freqHz[0];
+  let plannedPort = 0;
+  let plannedPortHz = freqHz[0];
+  for (let k = 0; k < freqHz.length && freqHz[k] <= upTo; k++) {
+    if (freqHz[k] < 20) continue;
+    if (curves.plannedExcursionMm[k] > plannedX) [plannedX, plannedXHz] = [curves.plannedExcursionMm[k], freqHz[k]];
+    const ps = curves.plannedPortAirSpeed?.[k] ?? 0;
+    if (ps > plannedPort) [plannedPort, plannedPortHz] = [ps, freqHz[k]];
+  }
   // Nominal-impedance minimum: above the highest-frequency impedance peak below 500 Hz.
   let lastPeak = 0;
   for (let k = 1; k < freqHz.length - 1 && freqHz[k] < 500; k++) {
@@ -193,6 +203,10 @@ function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, p
     peakExcursionMm: peakX,
     peakExcursionHz: peakXHz,
     peakPortSpeed: box.type === 'vented' ? peakPort : null,
+    plannedPeakExcursionMm: plannedX,
+    plannedPeakExcursionHz: plannedXHz,
+    plannedPeakPortSpeed: box.type === 'vented' ? plannedPort : null,
+    plannedPeakPortSpeedHz: box.type === 'vented' ? plannedPortHz : null,
     zMinOhm: zMin,
     zMinHz,
     plannedVoltsRms: planned,
@@ -207,18 +221,10 @@ function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, p
 /** What the planned level does to this design, as warnings with numbers. */
 function levelWarnings(system: SpeakerSystem, curves: Curves, figures: Figures): Issue[] {
   const out: Issue[] = [];
-  const { freqHz } = curves;
-  const upTo = system.crossover.type === 'none' ? freqHz[freqHz.length - 1] : system.crossover.fx;
-  let worstX = 0;
-  let worstXHz = 0;
-  let worstPort = 0;
-  let worstPortHz = 0;
-  for (let k = 0; k < freqHz.length && freqHz[k] <= upTo; k++) {
-    if (freqHz[k] < 20) continue;
-    if (curves.plannedExcursionMm[k] > worstX) [worstX, worstXHz] = [curves.plannedExcursionMm[k], freqHz[k]];
-    const ps = curves.plannedPortAirSpeed?.[k] ?? 0;
-    if (ps > worstPort) [worstPort, worstPortHz] = [ps, freqHz[k]];
-  }
+  const worstX = figures.plannedPeakExcursionMm;
+  const worstXHz = figures.plannedPeakExcursionHz;
+  const worstPort = figures.plannedPeakPortSpeed ?? 0;
+  const worstPortHz = figures.plannedPeakPortSpeedHz ?? 0;
   const xmaxMm = system.driver.xmax * 1000;
   if (worstX > xmaxMm) {
     out.push(

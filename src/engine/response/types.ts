@@ -55,6 +55,11 @@ export interface Figures {
   peakExcursionHz: number;
   /** Peak port air speed over the grid at the analysis drive, m/s. */
   peakPortSpeed: number | null;
+  /** Peak excursion (20 Hz..fx) and port air speed for a sine at the planned level, and where. */
+  plannedPeakExcursionMm: number;
+  plannedPeakExcursionHz: number;
+  plannedPeakPortSpeed: number | null;
+  plannedPeakPortSpeedHz: number | null;
   /** Minimum impedance above the first resonance, ohm. */
   zMinOhm: number;
   zMinHz: number;
