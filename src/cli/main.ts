@@ -3,8 +3,10 @@ import { analyzeCommand } from './analyze.ts';
 import { sweepCommand } from './sweep.ts';
 import { EXIT_USAGE, type Command } from './command.ts';
 import { renderCommand } from './render.ts';
+import { compareCommand } from './compare.ts';
+import { headroomCommand } from './headroom.ts';
 
-const COMMANDS: Command[] = [analyzeCommand, renderCommand, sweepCommand];
+const COMMANDS: Command[] = [analyzeCommand, renderCommand, compareCommand, headroomCommand, sweepCommand];
 
 function usage(): string {
   const lines = COMMANDS.map((c) => `  ${c.name.padEnd(10)} ${c.summary}`);

@@ -1,0 +1,56 @@
+// preheard headroom: the loudest level at which a design plays this track with no stress event.
+import { findHeadroom } from '../engine/render/index.ts';
+import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
+import { formatIssue, loadDesignFile } from './design-file.ts';
+import { readInputAudio } from './render-common.ts';
+
+const HELP = `usage: preheard headroom <design.json> <in.wav> [--json]
+
+Finds the highest drive at which the design plays this track without any stress event
+(excursion, end stop, coil temperature, port speed, amplifier clipping, compression, distortion),
+by bisection to 0.25 dB, and names the limit that arrives first above it.
+
+  --json   print {clean_volts, clean_spl_db, first_limit, first_limit_s}
+  --help   this text
+
+clean_volts is in the sense of render --volts: peak amplifier volts per full-scale sample.
+Caution: a simulation is an estimate; real drivers can fail earlier than modelled.
+
+exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
+`;
+
+export const headroomCommand: Command = {
+  name: 'headroom',
+  summary: 'the loudest clean level of a design on a track, and its first limit',
+  run: (argv) =>
+    runGuarded('headroom', HELP, async () => {
+      const { values, positionals } = parseCommandArgs(argv, { json: { type: 'boolean' }, help: { type: 'boolean', short: 'h' } });
+      if (values.help) {
+        process.stdout.write(HELP);
+        return EXIT_OK;
+      }
+      if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${positionals.length} argument(s)`);
+      const [designPath, inPath] = positionals;
+      const { system, warnings } = await loadDesignFile(designPath);
+      for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
+      const audio = await readInputAudio(inPath);
+      let h;
+      try {
+        h = findHeadroom(system, audio.channels, audio.sampleRate);
+      } catch (e) {
+        if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
+        throw e;
+      }
+      const out = { clean_volts: h.clean_volts, clean_spl_db: h.clean_spl_db, first_limit: h.first_limit, first_limit_s: h.first_limit_s };
+      if (values.json) process.stdout.write(`${JSON.stringify(out)}\n`);
+      else {
+        process.stdout.write(
+          `clean up to        ${h.clean_volts} V per full scale (${h.clean_spl_db} dB(C) Leq at the seat)\n` +
+            (h.first_limit
+              ? `first limit above  ${h.first_limit} at ${h.first_limit_s} s\n`
+              : 'no limit reached up to 24 dB above the amplifier rail\n'),
+        );
+      }
+      return EXIT_OK;
+    }),
+};
