@@ -161,19 +161,24 @@ export class WooferSim {
         const dvp = (r6p + th * sp * dp) / d6;
         vp += dvp;
         xp += h * (f5 + th * dvp);
+        // At the end stop the radiator sweeps no more air: the box pressure keeps step with it.
         if (xp > xlimP) {
+          pb += (sp * (xp - xlimP)) / cab;
           xp = xlimP;
           if (vp > 0) vp = 0;
         } else if (xp < -xlimP) {
+          pb += (sp * (xp + xlimP)) / cab;
           xp = -xlimP;
           if (vp < 0) vp = 0;
         }
       }
       if (x > xlim) {
+        pb += (sd * (x - xlim)) / cab;
         x = xlim;
         if (v > 0) v = 0;
         stopped = true;
       } else if (x < -xlim) {
+        pb += (sd * (x + xlim)) / cab;
         x = -xlim;
         if (v < 0) v = 0;
         stopped = true;
