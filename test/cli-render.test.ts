@@ -1,0 +1,131 @@
+// preheard render / compare / headroom: the JSON contracts, exit codes, and bad WAV files
+// (truncated, not RIFF, unsupported codec, zero length, absurd chunk sizes) that must exit 1 with a
+// message and leave no output behind. WAV layout: the RIFF/WAVE format (Microsoft/IBM Multimedia
+// Programming Interface 1.0, 1991).
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import wavefile from 'wavefile';
+
+const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8', timeout: 120_000 });
+const dir = mkdtempSync(join(tmpdir(), 'preheard-render-'));
+const VENTED = 'public/examples/living-room-vented.json';
+const SEALED = 'public/examples/living-room-sealed.json';
+
+function wavBytes(seconds: number, fs = 44100, channels = 2, bits: '16' | '24' | '32f' = '16', amp = 0.5): Uint8Array {
+  const n = Math.round(seconds * fs);
+  const data = Array.from({ length: channels }, (_, c) =>
+    Array.from({ length: n }, (_, k) => {
+      const t = k / fs;
+      const v = amp * (Math.sin(2 * Math.PI * 45 * t) * Math.min(1, t * 10) + 0.2 * Math.sin(2 * Math.PI * (700 + 100 * c) * t));
+      return bits === '32f' ? v : Math.round(v * (bits === '16' ? 32767 : 8388607));
+    }),
+  );
+  const w = new wavefile.WaveFile();
+  w.fromScratch(channels, fs, bits, data);
+  return w.toBuffer();
+}
+
+const input = join(dir, 'in.wav');
+writeFileSync(input, wavBytes(2));
+
+describe('preheard render', () => {
+  it('writes a WAV of the same length and rate and prints the summary contract', () => {
+    const out = join(dir, 'out.wav');
+    const events = join(dir, 'events.json');
+    const r = cli('render', VENTED, input, '-o', out, '--spl', '90', '--events', events, '--json');
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    const s = JSON.parse(r.stdout);
+    for (const k of ['duration_s', 'sample_rate', 'volts_fs', 'peak_excursion_mm', 'peak_coil_temp_c', 'peak_port_speed_m_s', 'amp_clip_s', 'max_compression_db', 'limiter_db', 'realtime_factor']) {
+      expect(typeof s[k], k).toBe('number');
+    }
+    expect(s.duration_s).toBe(2);
+    expect(s.sample_rate).toBe(44100);
+    expect(s.spl_db).toBeCloseTo(90, 1);
+    expect(Array.isArray(s.events)).toBe(true);
+    const w = new wavefile.WaveFile(new Uint8Array(readFileSync(out)));
+    const ch = w.getSamples() as unknown as Float64Array[];
+    expect(ch).toHaveLength(2);
+    expect(ch[0].length).toBe(88200);
+    expect(JSON.parse(readFileSync(events, 'utf8'))).toEqual(s.events);
+  });
+  it('twice the volts gives 6 dB more drive and more excursion; --linear and --residual are accepted', () => {
+    const a = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'a.wav'), '--volts', '5', '--json').stdout);
+    const b = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'b.wav'), '--volts', '10', '--json', '--residual').stdout);
+    expect(b.spl_db - a.spl_db).toBeCloseTo(6.02, 1);
+    expect(b.peak_excursion_mm).toBeGreaterThan(a.peak_excursion_mm * 1.8);
+    expect(cli('render', SEALED, input, '-o', join(dir, 'c.wav'), '--linear').status).toBe(0);
+  });
+  it('exits 2 on usage errors', () => {
+    expect(cli('render', VENTED, input).status).toBe(2);
+    expect(cli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--volts', '1', '--spl', '80').status).toBe(2);
+    expect(cli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--linear', '--residual').status).toBe(2);
+  });
+
+  const good = wavBytes(0.2, 44100, 1);
+  const truncated = good.slice(0, good.length - 1000);
+  const notRiff = new TextEncoder().encode('ID3\u0003this is an mp3 file, honestly......................');
+  const mulaw = good.slice();
+  new DataView(mulaw.buffer).setUint16(20, 7, true); // format code 7: mu-law
+  const pcm8 = wavBytes(0.1, 8000, 1);
+  new DataView(pcm8.buffer).setUint16(34, 8, true); // claims 8-bit
+  const zero = wavBytes(0.2, 44100, 1).slice(0, 44);
+  new DataView(zero.buffer).setUint32(40, 0, true);
+  const absurd = good.slice();
+  new DataView(absurd.buffer).setUint32(40, 0xfffffff0, true); // data chunk of 4 GiB
+  const absurdChunk = good.slice();
+  new DataView(absurdChunk.buffer).setUint32(16, 0x7fffffff, true); // fmt chunk of 2 GiB
+  const cases: [string, Uint8Array, RegExp][] = [
+    ['truncated', truncated, /truncated/],
+    ['not RIFF', notRiff, /not a WAV file/],
+    ['unsupported codec', mulaw, /format code 7 is not supported/],
+    ['unsupported bit depth', pcm8, /8-bit PCM is not supported|block align/],
+    ['zero length', zero, /zero length/],
+    ['absurd data size', absurd, /truncated/],
+    ['absurd chunk size', absurdChunk, /declares|at least 16/],
+    ['empty file', new Uint8Array(0), /empty/],
+  ];
+  for (const [name, bytes, pattern] of cases) {
+    it(`bad input (${name}) exits 1 with a message and leaves no output`, () => {
+      const sub = mkdtempSync(join(dir, 'bad-'));
+      const inp = join(sub, 'in.wav');
+      writeFileSync(inp, bytes);
+      const out = join(sub, 'out.wav');
+      const r = cli('render', VENTED, inp, '-o', out);
+      expect(r.status).toBe(1);
+      expect(r.stderr).toMatch(pattern);
+      expect(existsSync(out)).toBe(false);
+      expect(readdirSync(sub)).toEqual(['in.wav']);
+    });
+  }
+});
+
+describe('preheard headroom and compare', () => {
+  it('headroom: rendering at clean_volts gives no event, 0.5 dB above gives one', () => {
+    const r = cli('headroom', SEALED, input, '--json');
+    expect(r.status).toBe(0);
+    const h = JSON.parse(r.stdout);
+    expect(Object.keys(h).sort()).toEqual(['clean_spl_db', 'clean_volts', 'first_limit', 'first_limit_s']);
+    const at = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'h0.wav'), '--volts', String(h.clean_volts), '--json').stdout);
+    const above = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'h1.wav'), '--volts', String(h.clean_volts * 10 ** (0.5 / 20)), '--json').stdout);
+    expect(at.events).toHaveLength(0);
+    expect(above.events.length).toBeGreaterThan(0);
+    expect(above.events.map((e: { kind: string }) => e.kind)).toContain(h.first_limit);
+  });
+  it('compare --json gives a and b summaries and writes both files', () => {
+    const prefix = join(dir, 'cmp');
+    const r = cli('compare', SEALED, VENTED, input, '-o', prefix, '--spl', '85', '--json');
+    expect(r.status).toBe(0);
+    const j = JSON.parse(r.stdout);
+    for (const side of [j.a, j.b]) {
+      expect(side.spl_db).toBeCloseTo(85, 1);
+      expect(typeof side.peak_excursion_mm).toBe('number');
+      expect(typeof side.f3_hz).toBe('number');
+    }
+    expect(j.b.f3_hz).toBeLessThan(j.a.f3_hz);
+    expect(existsSync(`${prefix}-a.wav`) && existsSync(`${prefix}-b.wav`)).toBe(true);
+  });
+});
