@@ -19,7 +19,9 @@ const design = fc.record({
   clip: fc.constantFrom('hard' as const, 'soft' as const),
 });
 
-function build(d: fc.Infer<typeof design>) {
+type Design = typeof design extends fc.Arbitrary<infer T> ? T : never;
+
+function build(d: Design) {
   const box = d.box === 'sealed' ? sealedBox(d.vbL, 7) : d.box === 'vented' ? ventedBox(d.vbL, d.fs * 0.9, 7, 8) : radiatorBox(d.vbL);
   return system(box, { d: { fs: d.fs, qes: d.qes, vasL: d.vasL, leMh: d.leMh, xmaxMm: d.xmaxMm, xlimMm: d.xmaxMm * 1.8 }, powerW: d.powerW, clip: d.clip });
 }
