@@ -45,6 +45,26 @@ export class LaneMixer {
     return this.requested;
   }
 
+  /** The lane heard now (before any requested switch has begun). */
+  get heardLane(): LaneId {
+    return this.heard;
+  }
+
+  /** Crossfade length in frames. */
+  get fadeFrames(): number {
+    return this.fadeLen;
+  }
+
+  /** True while a crossfade runs. */
+  get fading(): boolean {
+    return this.fadePos > 0;
+  }
+
+  /** The last block one lane rendered, before any gain (for meters and switch checks). */
+  laneBlock(lane: LaneId): readonly Float32Array[] {
+    return this.scratch[LANE_IDS.indexOf(lane)];
+  }
+
   /** Takes effect at the start of the next block (after any crossfade already running). */
   select(lane: LaneId): void {
     this.requested = lane;
