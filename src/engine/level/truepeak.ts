@@ -160,12 +160,54 @@ export class TruePeakGuard {
    * (`latency` frames later).
    */
   processBlock(input: Float64Array[], n: number, scale: number, out: (Float32Array | Float64Array)[], offset: number): void {
-    const f = this.frameBuf, nCh = this.channels;
+    const nCh = this.channels;
+    // Idle: nothing loud in the block, nothing loud in the look-ahead window, the gain fully
+    // released. Then the guard is a plain delay, and its bookkeeping can be skipped.
+    if (this.loudCount === 0 && this.rel >= 1 && this.avgSum >= this.lookahead - 1e-9) {
+      let peak = 0;
+      for (let c = 0; c < nCh; c++) {
+        const x = input[c];
+        for (let k = 0; k < n; k++) {
+          const v = x[k] < 0 ? -x[k] : x[k];
+          if (v > peak) peak = v;
+        }
+      }
+      if (peak * scale <= 0.5) {
+        this.delayBlock(input, n, scale, out, offset);
+        return;
+      }
+    }
+    const f = this.frameBuf;
     for (let k = 0; k < n; k++) {
       for (let c = 0; c < nCh; c++) f[c] = input[c][k] * scale;
       this.processFrame(f);
       for (let c = 0; c < nCh; c++) out[c][offset + k] = f[c];
     }
+  }
+
+  private delayBlock(input: Float64Array[], n: number, scale: number, out: (Float32Array | Float64Array)[], offset: number): void {
+    const len = this.len, lat = this.latency;
+    let p = this.pos;
+    for (let c = 0; c < this.channels; c++) {
+      const h = this.hist[c], x = input[c], o = out[c];
+      p = this.pos;
+      for (let k = 0; k < n; k++) {
+        p = p === 0 ? len - 1 : p - 1;
+        const v = x[k] * scale;
+        h[p] = v;
+        h[p + len] = v;
+        o[offset + k] = h[p + lat];
+      }
+    }
+    this.pos = p;
+    // The need of every skipped frame was 1: the deque holds one entry, the newest.
+    const f = this.frame + n - 1;
+    this.dqHead = 0;
+    this.dqTail = 1;
+    this.dqVal[0] = 1;
+    this.dqIdx[0] = f;
+    this.frame = f + 1;
+    this.loudRing.fill(0);
   }
 
   /** Largest gain reduction so far, dB (>= 0). */

@@ -116,26 +116,28 @@ export function renderBuffer(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   const extra = opt.extraStreams ? { linear: linB, residual: resB } : undefined;
   const total = frames + lat;
   let lastReport = 0;
+  const views: ArrayLike<number>[] = new Array(nCh);
   for (let s = 0; s < total; s += block) {
     const n = Math.min(block, total - s);
     for (let c = 0; c < nCh; c++) {
       const src = channels[c];
-      const dst = inB[c];
-      for (let j = 0; j < n; j++) {
-        const k = s + j;
-        dst[j] = k < frames ? src[k] : 0;
+      if (s + n <= frames && ArrayBuffer.isView(src)) {
+        views[c] = (src as unknown as Float32Array).subarray(s, s + n);
+      } else {
+        const dst = inB[c];
+        for (let j = 0; j < n; j++) dst[j] = s + j < frames ? src[s + j] : 0;
+        views[c] = dst;
       }
     }
-    r.process(inB, outB, n, extra);
+    r.process(views, outB, n, extra);
     if (keep) {
       // Drop the first `lat` output frames: the result is aligned with the input.
-      for (let j = 0; j < n; j++) {
-        const k = s + j - lat;
-        if (k < 0 || k >= frames) continue;
+      const j0 = Math.max(0, lat - s), j1 = Math.min(n, frames + lat - s);
+      if (j1 > j0) {
         for (let c = 0; c < nCh; c++) {
-          audio[c][k] = outB[c][j];
-          if (linear) linear[c][k] = linB[c][j];
-          if (residual) residual[c][k] = resB[c][j];
+          audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
+          if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
+          if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
         }
       }
     }

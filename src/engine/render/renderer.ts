@@ -437,67 +437,70 @@ export class Renderer {
     const compDb = rMax > this.rCold ? 20 * Math.log10(rMax / this.rCold) : 0;
     if (tempC > st.peakCoilTempC) st.peakCoilTempC = tempC;
     if (compDb > st.maxCompressionDb) st.maxCompressionDb = compDb;
+    // Worst lane per frame, and the chunk's maxima.
     const xAbs = this.xAbs, aux = this.aux, dem = this.dem;
-    xAbs.fill(0, 0, n);
-    aux.fill(0, 0, n);
-    dem.fill(0, 0, n);
+    let peakX = 0, peakA = 0, peakD = 0, peakR = 0;
     for (let w = 0; w < nLanes; w++) {
       const lane = lanes[w];
       const lx = lane.x, lp = lane.port, ld = lane.uDel;
+      const first = w === 0;
       for (let k = 0; k < n; k++) {
         const xv = lx[k] < 0 ? -lx[k] : lx[k];
-        if (xv > xAbs[k]) xAbs[k] = xv;
         const av = lp[k] < 0 ? -lp[k] : lp[k];
-        if (av > aux[k]) aux[k] = av;
         const dv = ld[k] < 0 ? -ld[k] : ld[k];
-        if (dv > dem[k]) dem[k] = dv;
+        if (first || xv > xAbs[k]) xAbs[k] = xv;
+        if (first || av > aux[k]) aux[k] = av;
+        if (first || dv > dem[k]) dem[k] = dv;
+        if (xv > peakX) peakX = xv;
+        if (av > peakA) peakA = av;
+        if (dv > peakD) peakD = dv;
       }
     }
+    for (let k = 0; k < n; k++) if (ratio[k] > peakR) peakR = ratio[k];
     const invSv = vented ? 1 / p.sv : 0;
     const ratioLim = Math.pow(10, -DISTORTION_WITHIN_DB / 10);
     const coilHot = tempC > this.coilMax, compHot = rMax > this.r1dB;
-    let tX = this.tX, tP = this.tP, tR = this.tR, peakX = 0, peakA = 0;
-    for (let k = 0; k < n; k++) {
-      const t = t0 + k * dt;
-      const xk = xAbs[k];
-      if (xk > tX) tX = xk;
-      if (xk > peakX) peakX = xk;
-      if (xk > xmax) {
-        ev.mark(EV_EXCURSION, t, xk * 1000);
-        if (xk >= xlimHit) ev.mark(EV_XLIM, t, xk * 1000);
-      }
-      const ak = aux[k];
-      if (ak > peakA) peakA = ak;
-      if (vented) {
-        const speed = ak * invSv;
-        if (speed > tP) tP = speed;
-        if (speed > PORT_SPEED_LIMIT) ev.mark(EV_PORT, t, speed);
-      } else if (radiator && ak > xmaxP) ev.mark(EV_RADIATOR, t, ak * 1000);
-      if (dem[k] > rail) {
-        st.ampClipFrames++;
-        ev.mark(EV_CLIP, t, dem[k]);
-      }
-      if (coilHot) ev.mark(EV_COIL, t, tempC);
-      if (compHot) ev.mark(EV_COMPRESSION, t, compDb);
-      const rk = ratio[k];
-      if (rk > tR) tR = rk;
-      if (rk > ratioLim) ev.mark(EV_DISTORTION, t, 10 * Math.log10(rk));
-      if (++this.traceCount === this.traceEvery) {
-        this.trX.push(tX * 1000);
-        this.trT.push(tempC);
-        this.trP.push(tP);
-        this.trC.push(compDb);
-        this.trR.push(tR > 1e-12 ? 10 * Math.log10(tR) : -120);
-        this.traceCount = 0;
-        tX = tP = tR = 0;
+    const anyEvent =
+      peakX > xmax || (vented && peakA * invSv > PORT_SPEED_LIMIT) || (radiator && peakA > xmaxP) || peakD > rail || coilHot || compHot || peakR > ratioLim;
+    if (anyEvent) {
+      // Frame by frame only when some limit is crossed in this chunk.
+      for (let k = 0; k < n; k++) {
+        const t = t0 + k * dt;
+        const xk = xAbs[k];
+        if (xk > xmax) {
+          ev.mark(EV_EXCURSION, t, xk * 1000);
+          if (xk >= xlimHit) ev.mark(EV_XLIM, t, xk * 1000);
+        }
+        const ak = aux[k];
+        if (vented) {
+          if (ak * invSv > PORT_SPEED_LIMIT) ev.mark(EV_PORT, t, ak * invSv);
+        } else if (radiator && ak > xmaxP) ev.mark(EV_RADIATOR, t, ak * 1000);
+        if (dem[k] > rail) {
+          st.ampClipFrames++;
+          ev.mark(EV_CLIP, t, dem[k]);
+        }
+        if (coilHot) ev.mark(EV_COIL, t, tempC);
+        if (compHot) ev.mark(EV_COMPRESSION, t, compDb);
+        if (ratio[k] > ratioLim) ev.mark(EV_DISTORTION, t, 10 * Math.log10(ratio[k]));
       }
     }
-    this.tX = tX;
-    this.tP = tP;
-    this.tR = tR;
     if (peakX * 1000 > st.peakExcursionMm) st.peakExcursionMm = peakX * 1000;
     if (vented && peakA * invSv > st.peakPortSpeed) st.peakPortSpeed = peakA * invSv;
     if (radiator && peakA * 1000 > st.peakRadiatorMm) st.peakRadiatorMm = peakA * 1000;
+    // Traces at chunk resolution: the worst value of the chunks that end in each interval.
+    if (peakX > this.tX) this.tX = peakX;
+    if (peakA * invSv > this.tP) this.tP = peakA * invSv;
+    if (peakR > this.tR) this.tR = peakR;
+    this.traceCount += n;
+    while (this.traceCount >= this.traceEvery) {
+      this.trX.push(this.tX * 1000);
+      this.trT.push(tempC);
+      this.trP.push(this.tP);
+      this.trC.push(compDb);
+      this.trR.push(this.tR > 1e-12 ? 10 * Math.log10(this.tR) : -120);
+      this.traceCount -= this.traceEvery;
+      this.tX = this.tP = this.tR = 0;
+    }
   }
 
   /** Peaks so far. */

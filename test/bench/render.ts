@@ -1,0 +1,179 @@
+// Renderer benchmarks (DESIGN.md section 9), each a ratio measured side by side in one run:
+//  - full large-signal render of the vented example, stereo 48 kHz, one core: times real time;
+//  - the linear chain against node-web-audio-api's OfflineAudioContext running the same biquads
+//    (one IIRFilterNode per section): our time / its time;
+//  - the woofer model against odex at equal accuracy: its time / ours;
+//  - peak memory of a 10-minute stereo render against the decoded audio (child process).
+import { spawnSync } from 'node:child_process';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { OfflineAudioContext } from 'node-web-audio-api';
+import { renderBuffer } from '../../src/engine/render/index.ts';
+import { designLinearChain } from '../../src/engine/render/linear-chain.ts';
+import { synthesizeDemoTrack } from '../../src/engine/demo/track.ts';
+import { wooferParams } from '../../src/engine/sim/params.ts';
+import { WooferSim } from '../../src/engine/sim/woofer.ts';
+import { exampleSystem } from '../helpers/audio-bench.ts';
+import { system, ventedBox } from '../sim-fixtures.ts';
+import { rhs, Solver } from '../sim-odex-model.ts';
+import { BiquadCascade } from '../../src/engine/filters/biquad.ts';
+import { designCrossover } from '../../src/engine/filters/crossover.ts';
+import type { BenchResult } from './ui-redraw.ts';
+
+const HERE = dirname(fileURLToPath(import.meta.url));
+const now = () => performance.now();
+
+function best<T>(n: number, f: () => T): { ms: number; value: T } {
+  let ms = Infinity, value!: T;
+  for (let k = 0; k < n; k++) {
+    const t0 = now();
+    value = f();
+    ms = Math.min(ms, now() - t0);
+  }
+  return { ms, value };
+}
+
+function realtime(): BenchResult {
+  const sys = exampleSystem('vented');
+  const track = synthesizeDemoTrack(48000);
+  renderBuffer(sys, track.channels, 48000, { splDb: 90 }); // warm-up: the JIT settles
+  const r = best(3, () => renderBuffer(sys, track.channels, 48000, { splDb: 90 }));
+  return { name: 'large-signal render, vented, stereo 48 kHz (demo track, 90 dB(C))', value: r.value.summary.realtime_factor, unit: 'x real time', target: '>= 100' };
+}
+
+async function linearVsWebAudio(): Promise<BenchResult[]> {
+  const sys = exampleSystem('vented');
+  const fs = 48000;
+  const track = synthesizeDemoTrack(fs);
+  const n = track.channels[0].length;
+  const design = designLinearChain(sys, fs);
+  const sections = design.woofer.length / 5;
+  // Ours: the woofer band's biquads over both channels (the same sections the native side runs).
+  // Ours: the same cascade (crossover low-pass + the design's small-signal transfer) per channel.
+  const out = [new Float64Array(n), new Float64Array(n)];
+  const ours = best(5, () => {
+    for (let c = 0; c < 2; c++) {
+      out[c].set(track.channels[c]);
+      new BiquadCascade(design.woofer, design.wooferGain).processInPlace(out[c]);
+    }
+    return out;
+  });
+  // Native: one IIRFilterNode per section, b and a as given (a0 = 1), the same gain on a GainNode.
+  let nativeMs = Infinity;
+  let native: Float32Array | null = null;
+  for (let rep = 0; rep < 5; rep++) {
+    const ctx = new OfflineAudioContext({ numberOfChannels: 2, length: n, sampleRate: fs });
+    const buf = ctx.createBuffer(2, n, fs);
+    buf.copyToChannel(track.channels[0] as Float32Array<ArrayBuffer>, 0);
+    buf.copyToChannel(track.channels[1] as Float32Array<ArrayBuffer>, 1);
+    const src = ctx.createBufferSource();
+    src.buffer = buf;
+    let node: AudioNode = src;
+    for (let s = 0; s < sections; s++) {
+      const c = design.woofer.subarray(5 * s, 5 * s + 5);
+      const f = ctx.createIIRFilter([c[0], c[1], c[2]], [1, c[3], c[4]]);
+      node.connect(f);
+      node = f;
+    }
+    const g = ctx.createGain();
+    g.gain.value = design.wooferGain;
+    node.connect(g);
+    g.connect(ctx.destination);
+    src.start();
+    const t0 = now();
+    const rendered = await ctx.startRendering();
+    nativeMs = Math.min(nativeMs, now() - t0);
+    native = rendered.getChannelData(0);
+  }
+  let e = 0, s2 = 0;
+  for (let k = 0; k < n; k++) {
+    e += (native![k] - ours.value[0][k]) ** 2;
+    s2 += ours.value[0][k] ** 2;
+  }
+  return [
+    { name: `linear chain (${sections} biquads, stereo) / node-web-audio-api OfflineAudioContext`, value: Number((ours.ms / nativeMs).toFixed(3)), unit: 'time ratio', target: '<= 1.0' },
+    { name: '  agreement with the native render (relative RMS difference)', value: Number(Math.sqrt(e / s2).toExponential(2)), unit: '', target: '< 1e-5 (32-bit float)' },
+  ];
+}
+
+async function versusOdex(): Promise<BenchResult[]> {
+  // The same nonlinear equations (test/sim-odex-model.ts) on a sampled drive, as audio is: the
+  // demo track's woofer band (LR4 at 2 kHz) at about Xmax, linear between samples for odex.
+  const fs = 48000;
+  const sys = system(ventedBox(28, 38, 7), { d: { xmaxMm: 5, xlimMm: 15 } });
+  const p = wooferParams(sys, 1 / fs);
+  const track = synthesizeDemoTrack(fs);
+  const from = Math.round(track.loudFromS * fs), n = Math.round(0.5 * fs);
+  const xo = designCrossover({ type: 'lr4', fx: 2000 }, fs);
+  const lp = new BiquadCascade(xo.lp!);
+  const drive = new Float64Array(n);
+  for (let k = 0; k < from + n; k++) {
+    const v = lp.step(track.channels[0][k]);
+    if (k >= from) drive[k - from] = 40 * v;
+  }
+  const u = (t: number) => {
+    const x = t * fs, k = Math.floor(x);
+    if (k >= n - 1) return drive[n - 1];
+    return drive[k] + (x - k) * (drive[k + 1] - drive[k]);
+  };
+  const f = rhs(sys, p, u);
+  const solve = (tol: number) => {
+    const s = new Solver(5);
+    s.absoluteTolerance = tol * 1e-3;
+    s.relativeTolerance = tol;
+    s.denseOutput = true;
+    s.maxSteps = 1e8;
+    const x = new Float64Array(n);
+    let k = 0;
+    s.solve(f, 0, [0, 0, 0, 0, 0], (n - 1) / fs, s.grid(1 / fs, (_t, y) => {
+      if (k < n) x[k++] = y[1];
+    }));
+    return x;
+  };
+  const ref = solve(1e-11);
+  const pOut = new Float64Array(n);
+  const ours = best(5, () => {
+    const sim = new WooferSim(p);
+    const x = new Float64Array(n);
+    sim.processBlock(drive, n, pOut, x);
+    return x;
+  });
+  const err = (a: Float64Array) => {
+    let e = 0, s2 = 0;
+    for (let k = 0; k < n; k++) {
+      e += (a[k] - ref[k]) ** 2;
+      s2 += ref[k] ** 2;
+    }
+    return Math.sqrt(e / s2);
+  };
+  const ourErr = err(ours.value);
+  let peak = 0;
+  for (const x of ref) peak = Math.max(peak, Math.abs(x));
+  // The loosest odex tolerance that is at least as accurate as the fixed-step model.
+  let odexMs = 0, odexErr = 0;
+  for (let tol = 1e-2; tol >= 1e-11; tol /= 1.5) {
+    const r = best(1, () => solve(tol));
+    odexErr = err(r.value);
+    odexMs = r.ms;
+    if (odexErr <= ourErr) break;
+  }
+  return [
+    {
+      name: `odex / renderer model at equal accuracy (${(peak * 1000).toFixed(1)} mm peak; error ${ourErr.toExponential(1)} vs ${odexErr.toExponential(1)})`,
+      value: Number((odexMs / ours.ms).toFixed(1)),
+      unit: 'time ratio',
+      target: '>= 50',
+    },
+  ];
+}
+
+function memory(): BenchResult {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', join(HERE, 'render-memory-child.ts')], { encoding: 'utf8', cwd: join(HERE, '..', '..') });
+  if (r.status !== 0) throw new Error(`memory child failed: ${r.stderr}`);
+  const j = JSON.parse(r.stdout.trim().split('\n').at(-1)!);
+  return { name: '10-minute stereo render: peak memory / decoded audio', value: Number(j.ratio.toFixed(2)), unit: 'ratio', target: '<= 3' };
+}
+
+export async function bench(): Promise<BenchResult[]> {
+  return [realtime(), ...(await linearVsWebAudio()), ...(await versusOdex()), memory()];
+}

@@ -1,0 +1,23 @@
+// `npm run bench`: every benchmark module in this folder exports bench(): Promise<BenchResult[]>.
+// Add a module by listing it in BENCHES. Each prints ratios measured side by side in one run.
+import type { BenchResult } from './ui-redraw.ts';
+
+const BENCHES: { name: string; load: () => Promise<{ bench(): Promise<BenchResult[]> }> }[] = [
+  { name: 'render', load: () => import('./render.ts') },
+  { name: 'ui-redraw', load: () => import('./ui-redraw.ts') },
+];
+
+const only = process.argv.slice(2);
+const rows: (BenchResult & { group: string })[] = [];
+for (const b of BENCHES) {
+  if (only.length > 0 && !only.includes(b.name)) continue;
+  try {
+    const mod = await b.load();
+    for (const r of await mod.bench()) rows.push({ ...r, group: b.name });
+  } catch (e) {
+    rows.push({ group: b.name, name: `failed: ${(e as Error).message.split('\n')[0]}`, value: NaN, unit: '', target: '' });
+  }
+}
+const w = Math.max(...rows.map((r) => r.name.length), 10);
+process.stdout.write(`${'benchmark'.padEnd(w)}  ${'value'.padStart(10)}  ${'unit'.padEnd(12)}  target\n`);
+for (const r of rows) process.stdout.write(`${r.name.padEnd(w)}  ${String(r.value).padStart(10)}  ${r.unit.padEnd(12)}  ${r.target}\n`);
