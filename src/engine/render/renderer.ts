@@ -92,7 +92,7 @@ class Lane {
   sim: WooferSim;
   lin: LinearRecurrence;
   readonly th: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 };
-  readonly thPartial: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 };
+  i2 = 0;
   readonly meter: ResidualMeter;
   readonly u = new Float64Array(CHUNK);
   readonly uClip = new Float64Array(CHUNK);
@@ -160,7 +160,6 @@ export class Renderer {
   private readonly dem = new Float64Array(CHUNK);
   private params!: WooferParams;
   private frames = 0;
-  private chunks = 0;
   private xmax = 0;
   private xlimHit = 0;
   private xmaxP = 0;
@@ -297,7 +296,6 @@ export class Renderer {
     for (const d of this.hpDelay) d.fill(0);
     for (const c of this.hp ?? []) c.reset();
     this.frames = 0;
-    this.chunks = 0;
     this.events.reset();
     this.clearTraces();
     this.stats = emptyStats();
@@ -314,7 +312,13 @@ export class Renderer {
     frames: number,
     extra?: { linear?: SampleBuffer[]; residual?: SampleBuffer[] },
   ): void {
-    for (let s = 0; s < frames; s += CHUNK) this.chunk(inputs, outputs, s, Math.min(CHUNK, frames - s), extra);
+    // Chunks end on multiples of CHUNK frames of the renderer's own clock, so the coil's heating
+    // (updated there) and every sample come out the same whatever the caller's block size.
+    for (let s = 0; s < frames; ) {
+      const n = Math.min(CHUNK - (this.frames % CHUNK), frames - s);
+      this.chunk(inputs, outputs, s, n, extra);
+      s += n;
+    }
     this.stats.frames = this.frames;
     this.stats.limiterDb = this.guard.reductionDb();
   }
@@ -356,14 +360,17 @@ export class Renderer {
         lane.roomN.processInPlace(lane.pN, 0, n);
         lane.roomL!.processInPlace(lane.pL, 0, n);
       }
-      // Coil heating from the chunk's mean i^2 in the hot resistance; the exact two-node step.
-      const pw = (i2 / n) * p.re0 * (1 + p.alphaR * sim.riseV);
-      const th = n === CHUNK ? lane.th : thermalStep(this.system.driver.thermal, n / fsr, lane.thPartial);
-      sim.setCoilRise(th.p11 * sim.riseV + th.p12 * sim.riseM + th.g1 * pw, th.p21 * sim.riseV + th.p22 * sim.riseM + th.g2 * pw);
-      // The linear part follows the coil's resistance, so heat is not counted as distortion.
-      if ((this.chunks & 3) === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) lane.lin.rebuild(sim.r);
+      // Coil heating from the mean i^2 of each CHUNK frames in the hot resistance; the exact two-node step.
+      lane.i2 += i2;
+      if ((this.frames + n) % CHUNK === 0) {
+        const pw = (lane.i2 / CHUNK) * p.re0 * (1 + p.alphaR * sim.riseV);
+        const th = lane.th;
+        sim.setCoilRise(th.p11 * sim.riseV + th.p12 * sim.riseM + th.g1 * pw, th.p21 * sim.riseV + th.p22 * sim.riseM + th.g2 * pw);
+        lane.i2 = 0;
+        // The linear part follows the coil's resistance, so heat is not counted as distortion.
+        if (((this.frames + n) / CHUNK) % 4 === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) lane.lin.rebuild(sim.r);
+      }
     }
-    this.chunks++;
     // 2. The flat high band of each channel, delayed like the woofer path.
     const hpGain = this.hpSign * p.passbandPaPerV * volts;
     if (this.hp) {
