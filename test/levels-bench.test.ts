@@ -86,3 +86,10 @@ describe('monitor gain and the hearing caution (common practice, no source)', ()
     expect(restoredMonitorGain(undefined)).toBe(MONITOR_START_DB);
   });
 });
+
+describe('passband level as SPL', () => {
+  it('a 1 Pa rms sine is 93.98 dB SPL (ISO 1683 reference 20 µPa)', async () => {
+    const { fullScaleSineSplDb } = await import('../src/audio/levels.ts');
+    expect(fullScaleSineSplDb(Math.SQRT2)).toBeCloseTo(93.9794, 4);
+  });
+});

@@ -94,3 +94,11 @@ export function restoredMonitorGain(savedDb: number | undefined): number {
   if (typeof savedDb !== 'number' || !Number.isFinite(savedDb)) return MONITOR_START_DB;
   return Math.min(MONITOR_CONFIRM_ABOVE_DB, Math.max(MONITOR_MIN_DB, savedDb));
 }
+
+/** Reference sound pressure, Pa (ISO 1683). */
+const P_REF = 20e-6;
+
+/** SPL at the seat of a full-scale sine in the passband whose peak pressure is `peakPa`, dB. */
+export function fullScaleSineSplDb(peakPa: number): number {
+  return gainToDb(peakPa / Math.SQRT2 / P_REF);
+}

@@ -1,12 +1,9 @@
 // WAV encoding of rendered audio for export (wavefile does the coding): 16-bit PCM or 32-bit float.
-import * as wavefileNs from 'wavefile';
+// Named import: the package's ES module (what Vite and Vitest load) exports the class by name.
+import { WaveFile } from 'wavefile';
 
 export type ExportFormat = '16' | 'f32';
 export const EXPORT_FORMATS: readonly ExportFormat[] = ['16', 'f32'];
-
-// The package's ES module exports the class by name; its CommonJS build (Node) as a property of the default.
-const WaveFile: typeof wavefileNs.WaveFile =
-  (wavefileNs as { WaveFile?: typeof wavefileNs.WaveFile }).WaveFile ?? (wavefileNs as unknown as { default: { WaveFile: typeof wavefileNs.WaveFile } }).default.WaveFile;
 
 /** Full-scale float samples to a WAV file. 16-bit rounds to the nearest step and saturates at the rails. */
 export function encodeWav(channels: Float32Array[], sampleRate: number, format: ExportFormat): Uint8Array {

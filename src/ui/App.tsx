@@ -16,6 +16,8 @@ import { Cabinet } from './screens/Cabinet.tsx';
 import { ChartCard, Curves, useCharts } from './screens/Curves.tsx';
 import { DriveSeat } from './screens/DriveSeat.tsx';
 import { DriverSheet } from './screens/DriverSheet.tsx';
+import { ListeningBench } from './screens/ListeningBench.tsx';
+import { StressStrip } from './screens/StressStrip.tsx';
 
 /** The screens, in order. Later screens (listening, stress, trials, probe, client sheet) join this list. */
 export const SCREENS: { id: ScreenId; label: string }[] = [
@@ -23,6 +25,8 @@ export const SCREENS: { id: ScreenId; label: string }[] = [
   { id: 'cabinet', label: 'Cabinet' },
   { id: 'drive', label: 'Drive & seat' },
   { id: 'curves', label: 'Curves' },
+  { id: 'bench', label: 'Listening bench' },
+  { id: 'stress', label: 'Stress strip' },
 ];
 
 interface ProblemReport {
@@ -405,10 +409,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         <div class="body">
           <main>
             <div id="screen" role="tabpanel" aria-labelledby={`tab-${screen}`}>
-              {screen === 'driver' ? <DriverSheet /> : screen === 'cabinet' ? <Cabinet /> : screen === 'drive' ? <DriveSeat /> : <Curves theme={theme} />}
+              {screen === 'driver' ? <DriverSheet /> : screen === 'cabinet' ? <Cabinet /> : screen === 'drive' ? <DriveSeat /> : screen === 'bench' ? <ListeningBench theme={theme} /> : screen === 'stress' ? <StressStrip theme={theme} /> : <Curves theme={theme} />}
             </div>
           </main>
-          {screen === 'curves' ? null : <Glance theme={theme} />}
+          {screen === 'curves' || screen === 'bench' || screen === 'stress' ? null : <Glance theme={theme} />}
         </div>
 
         <footer class="status">

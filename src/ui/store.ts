@@ -8,13 +8,15 @@ export const SLOTS: readonly Slot[] = ['a', 'b'];
 export const SLOT_LABEL: Record<Slot, string> = { a: 'A', b: 'B' };
 
 /** Screens of the one page. Later issues add the listening, stress, trial, probe and client screens. */
-export type ScreenId = 'driver' | 'cabinet' | 'drive' | 'curves';
+export type ScreenId = 'driver' | 'cabinet' | 'drive' | 'curves' | 'bench' | 'stress';
 
 export interface Settings {
   screen: ScreenId;
   theme: 'auto' | 'light' | 'dark';
   /** The first-run cautions were read and dismissed. */
   cautionsDismissed: boolean;
+  /** Listening bench choices kept across visits (the monitor gain is not: it starts low every time). */
+  bench?: { match: boolean; mode: 'nonlinear' | 'linear' | 'residual' };
 }
 
 export interface Designs {
