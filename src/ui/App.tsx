@@ -16,6 +16,10 @@ import { Cabinet } from './screens/Cabinet.tsx';
 import { ChartCard, Curves, useCharts } from './screens/Curves.tsx';
 import { DriveSeat } from './screens/DriveSeat.tsx';
 import { DriverSheet } from './screens/DriverSheet.tsx';
+import { BlindTrial } from './screens/BlindTrial.tsx';
+import { HeadroomProbe } from './screens/HeadroomProbe.tsx';
+import { ClientSheet } from './screens/ClientSheet.tsx';
+import { Presentation } from './screens/Presentation.tsx';
 import { ListeningBench } from './screens/ListeningBench.tsx';
 import { StressStrip } from './screens/StressStrip.tsx';
 
@@ -27,6 +31,10 @@ export const SCREENS: { id: ScreenId; label: string }[] = [
   { id: 'curves', label: 'Curves' },
   { id: 'bench', label: 'Listening bench' },
   { id: 'stress', label: 'Stress strip' },
+  { id: 'trial', label: 'Blind trial' },
+  { id: 'headroom', label: 'Headroom probe' },
+  { id: 'sheet', label: 'Client sheet' },
+  { id: 'present', label: 'Present' },
 ];
 
 interface ProblemReport {
@@ -409,10 +417,11 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         <div class="body">
           <main>
             <div id="screen" role="tabpanel" aria-labelledby={`tab-${screen}`}>
-              {screen === 'driver' ? <DriverSheet /> : screen === 'cabinet' ? <Cabinet /> : screen === 'drive' ? <DriveSeat /> : screen === 'bench' ? <ListeningBench theme={theme} /> : screen === 'stress' ? <StressStrip theme={theme} /> : <Curves theme={theme} />}
+              {screen === 'driver' ? <DriverSheet /> : screen === 'cabinet' ? <Cabinet /> : screen === 'drive' ? <DriveSeat /> : screen === 'bench' ? <ListeningBench theme={theme} /> : screen === 'stress' ? <StressStrip theme={theme} /> : screen === 'curves' ? <Curves theme={theme} /> : null}
+              {screen === 'trial' ? <BlindTrial /> : screen === 'headroom' ? <HeadroomProbe /> : screen === 'sheet' ? <ClientSheet /> : screen === 'present' ? <Presentation /> : null}
             </div>
           </main>
-          {screen === 'curves' || screen === 'bench' || screen === 'stress' ? null : <Glance theme={theme} />}
+          {screen === 'curves' || screen === 'bench' || screen === 'stress' || screen === 'sheet' || screen === 'present' ? null : <Glance theme={theme} />}
         </div>
 
         <footer class="status">

@@ -8,13 +8,20 @@ export const SLOTS: readonly Slot[] = ['a', 'b'];
 export const SLOT_LABEL: Record<Slot, string> = { a: 'A', b: 'B' };
 
 /** Screens of the one page. Later issues add the listening, stress, trial, probe and client screens. */
-export type ScreenId = 'driver' | 'cabinet' | 'drive' | 'curves' | 'bench' | 'stress';
+export type ScreenId = 'driver' | 'cabinet' | 'drive' | 'curves' | 'bench' | 'stress'
+  // Deciding by ear and showing the client.
+  | 'trial' | 'headroom' | 'sheet' | 'present';
 
 export interface Settings {
   screen: ScreenId;
   theme: 'auto' | 'light' | 'dark';
   /** The first-run cautions were read and dismissed. */
   cautionsDismissed: boolean;
+  /** Client sheet: the designer's own title and notes, saved with the designs. */
+  sheetTitle?: string;
+  sheetNotes?: string;
+  /** Blind trial: rounds per trial. */
+  trialRounds?: number;
   /** Listening bench choices kept across visits (the monitor gain is not: it starts low every time). */
   bench?: { match: boolean; mode: 'nonlinear' | 'linear' | 'residual' };
 }
