@@ -355,7 +355,7 @@ export class BenchAudio {
   private useTrack(channels: Float32Array[], info: Omit<TrackInfo, 'frames' | 'channels' | 'overview'>): void {
     this.channels = channels;
     const track: TrackInfo = { ...info, frames: channels[0].length, channels: channels.length, overview: overviewOf(channels) };
-    this.set({ track, playing: false, position: 0, loop: null, levels: null, liveEvents: { a: [], b: [] }, history: [], offline: EMPTY_OFFLINE, struggling: false, lastSwitch: null, switches: [] });
+    this.set({ track, fileError: null, playing: false, position: 0, loop: null, levels: null, liveEvents: { a: [], b: [] }, history: [], offline: EMPTY_OFFLINE, struggling: false, lastSwitch: null, switches: [] });
     this.sentSystems = { a: null, b: null };
     this.post({ type: 'track', channels: channels.map((c) => c.slice()) });
     this.sendWorker({ type: 'track', channels: channels.map((c) => c.slice()), sampleRate: info.sampleRate }, true);

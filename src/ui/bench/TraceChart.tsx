@@ -111,7 +111,8 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
           y: {
             range: (_u, lo, hi) => {
               const top = Math.max(hi ?? 0, (limA ?? 0) * 1.15, (limB ?? 0) * 1.15, m.id === 'coil' ? 40 : 0.5);
-              const bottom = m.id === 'coil' ? Math.min(lo ?? 20, 15) : 0;
+              const bottom = 0;
+              void lo;
               return [bottom, top];
             },
           },
@@ -124,7 +125,7 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
           { stroke: pal.b, width: 1, dash: [2, 3], points: { show: false } },
         ],
         axes: [
-          { stroke: pal.axis, font, size: 26, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => clock(v, 0)) },
+          { stroke: pal.axis, font, size: 26, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => clock(v, s.length > 1 && s[1] - s[0] < 1 ? 1 : 0)) },
           { stroke: pal.axis, font, size: 46, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => num(v, 3)) },
         ],
         hooks: {
@@ -172,7 +173,9 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
         const n = win.t.length;
         const xs = n ? win.t : [t0, t1];
         const fill = (v: number | null) => (n ? win.t.map(() => v) : [v, v]);
-        const data = [xs, n ? win.a[k] : [null, null], n ? win.b[k] : [null, null], fill(limA), fill(limB)];
+        // A design without a port has no port trace (the engine reports zeros for it).
+        const own = (slot: 'a' | 'b') => (n && (m.id !== 'port' || p.systems[slot]?.box.type === 'vented') ? win[slot][k] : fill(null));
+        const data = [xs, own('a'), own('b'), fill(limA), fill(limB)];
         u.batch(() => {
           u.setData(data as unknown as uPlot.AlignedData, false);
           u.setScale('x', { min: t0, max: t1 });

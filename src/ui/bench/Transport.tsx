@@ -7,7 +7,7 @@ import { LISTEN_MODES, LISTEN_MODE_LABEL, type LaneId, type ListenMode } from '.
 import { gainToDb, MONITOR_CONFIRM_ABOVE_DB, MONITOR_MAX_DB, MONITOR_MIN_DB, requestMonitorGain } from '../../audio/levels.ts';
 import type { Store } from '../store.ts';
 import { HearingDialog } from './HearingDialog.tsx';
-import { clock, } from './palette.ts';
+import { clock } from './palette.ts';
 import { useAnimationFrame } from './useBench.ts';
 import { num } from '../format.ts';
 
@@ -154,6 +154,23 @@ export function Transport(p: { bench: BenchAudio; state: BenchState; store: Stor
               onInput={(e) => setGain(Number((e.currentTarget as HTMLInputElement).value))}
             />
           </label>
+          {state.lastSwitch ? (
+            <span
+              class="fine switch-note"
+              data-testid="switch-report"
+              data-block-frame={state.lastSwitch.blockFrame}
+              data-quantum={state.lastSwitch.quantum}
+              data-fade-frames={state.lastSwitch.fadeFrames}
+              data-worst-ratio={state.lastSwitch.worstRatio}
+              data-max-step={state.lastSwitch.maxStep}
+              data-allowed-step={state.lastSwitch.allowedStep}
+              data-lane={state.lastSwitch.lane}
+              title="The worklet checks every switch: it begins on a block boundary and no output step exceeds what the crossfade of the two lanes allows"
+            >
+              Switched to {LANE_TEXT[state.lastSwitch.lane]} at sample {state.lastSwitch.blockFrame.toLocaleString('en')} (block {state.lastSwitch.blockFrame / state.lastSwitch.quantum}),{' '}
+              {((state.lastSwitch.fadeFrames / (state.sampleRate || 48000)) * 1000).toFixed(0)} ms crossfade{state.lastSwitch.worstRatio <= 1 ? ', clean' : ', with a step beyond the crossfade'}
+            </span>
+          ) : null}
           <span class={`load${state.struggling ? ' over' : ''}`} title="Time the audio engine spends per block, against the block's real time" data-testid="load">
             Engine load <b>{state.playing || state.load > 0 ? `${(state.load * 100).toFixed(0)} %` : '—'}</b>
             <span class="load-bar" aria-hidden="true">

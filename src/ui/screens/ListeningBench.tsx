@@ -48,7 +48,7 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
       <div class="track-info">
         <h3>Track</h3>
         {t ? (
-          <p class="track-line" data-testid="track-name">
+          <p class="track-line" data-testid="track-name" data-rate={t.sampleRate} data-frames={t.frames}>
             <b>{t.name}</b>
             <span class="fine">
               {clock(t.frames / t.sampleRate)} · {(t.sampleRate / 1000).toFixed(1)} kHz · {t.channels === 1 ? 'mono' : 'stereo'}
