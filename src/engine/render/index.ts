@@ -86,12 +86,21 @@ function defaultClock(): () => number {
 }
 
 export function resolveVolts(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: { voltsFs?: number; splDb?: number }): { volts: number; spl: number } {
+  const level = sys.listening.level;
+  const explicit = opt.voltsFs ?? (opt.splDb === undefined && level.mode === 'volts' ? level.voltsFs : undefined);
+  if (explicit !== undefined) {
+    // A drive in volts needs no level from the audio; silent audio then has no SPL (-Infinity).
+    let l1 = -Infinity;
+    try {
+      l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+    } catch (e) {
+      if (!(e instanceof RangeError)) throw e;
+    }
+    return { volts: explicit, spl: l1 + 20 * Math.log10(explicit) };
+  }
   const l1 = seatLeqCPerVolt(sys, channels, sampleRate);
-  let volts: number;
-  if (opt.voltsFs !== undefined) volts = opt.voltsFs;
-  else if (opt.splDb !== undefined) volts = Math.pow(10, (opt.splDb - l1) / 20);
-  else if (sys.listening.level.mode === 'volts') volts = sys.listening.level.voltsFs;
-  else volts = Math.pow(10, (sys.listening.level.splDb - l1) / 20);
+  const target = opt.splDb ?? (level.mode === 'spl' ? level.splDb : 0);
+  const volts = Math.pow(10, (target - l1) / 20);
   return { volts, spl: l1 + 20 * Math.log10(volts) };
 }
 
