@@ -12,19 +12,16 @@ import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
+import { decodedProblem, fileProblem, MAX_TRACK_S, overviewOf } from './track.ts';
 
-/** Largest file the bench opens, bytes. */
-export const MAX_FILE_BYTES = 1024 * 1024 * 1024;
-/** Longest decoded track, s: three copies of it live in memory (page, worklet, worker). */
-export const MAX_TRACK_S = 20 * 60;
+export { MAX_TRACK_S };
+
 /** A design edit reaches the worklet this soon, ms. */
 const DESIGN_DEBOUNCE_MS = 40;
 /** Planned levels are re-resolved for the track this long after the last edit, ms. */
 const LEVEL_DEBOUNCE_MS = 150;
 /** The load above which the machine is said not to keep up. */
 export const LOAD_LIMIT = 0.8;
-/** Points of the waveform overview. */
-const OVERVIEW_BINS = 2400;
 /** Live meter history kept for the trace chart, points (20 per second). */
 const HISTORY_POINTS = 1200;
 
@@ -123,34 +120,6 @@ function initialState(): BenchState {
     offline: EMPTY_OFFLINE,
     designsMissing: [],
   };
-}
-
-/** The mixed-down min/max envelope of a track, for the overview. */
-export function overviewOf(channels: Float32Array[], bins = OVERVIEW_BINS): { min: Float32Array; max: Float32Array } {
-  const n = channels[0].length;
-  const nb = Math.max(1, Math.min(bins, n));
-  const min = new Float32Array(nb), max = new Float32Array(nb);
-  for (let b = 0; b < nb; b++) {
-    const s = Math.floor((b * n) / nb), e = Math.max(s + 1, Math.floor(((b + 1) * n) / nb));
-    let lo = 0, hi = 0;
-    for (const ch of channels) {
-      for (let j = s; j < e; j++) {
-        const v = ch[j];
-        if (v < lo) lo = v;
-        if (v > hi) hi = v;
-      }
-    }
-    min[b] = lo;
-    max[b] = hi;
-  }
-  return { min, max };
-}
-
-/** Checks a file before decoding; returns the message for the user, or null when it may be tried. */
-export function fileProblem(file: { name: string; size: number }): string | null {
-  if (file.size === 0) return `“${file.name}” is empty (0 bytes): there is no audio in it.`;
-  if (file.size > MAX_FILE_BYTES) return `“${file.name}” is ${(file.size / 2 ** 20).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 2 ** 20} MB the bench opens. Shorten it or convert it to a compressed format.`;
-  return null;
 }
 
 type Listener = (s: BenchState) => void;
@@ -323,26 +292,15 @@ export class BenchAudio {
         this.set({ fileError: `“${file.name}” cannot be decoded: it is not audio, it is damaged, or this browser does not read its format (${(e as Error)?.message || 'no detail given'}). WAV, FLAC, MP3, Ogg and AAC usually work.` });
         return false;
       }
-      if (buf.length === 0 || buf.duration === 0) {
-        this.set({ fileError: `“${file.name}” decodes to no audio at all (0 samples).` });
-        return false;
-      }
-      if (buf.duration > MAX_TRACK_S) {
-        this.set({ fileError: `“${file.name}” is ${(buf.duration / 60).toFixed(1)} minutes long; the bench takes up to ${MAX_TRACK_S / 60} minutes. Cut the part you want to hear.` });
-        return false;
-      }
       const n = Math.min(2, buf.numberOfChannels);
-      const channels = Array.from({ length: n }, (_, c) => {
+      const channels = buf.length > 0 && buf.duration <= MAX_TRACK_S ? Array.from({ length: n }, (_, c) => {
         const a = new Float32Array(buf.length);
         buf.copyFromChannel(a, c);
         return a;
-      });
-      let silent = true;
-      for (const ch of channels) {
-        for (let j = 0; j < ch.length && silent; j++) if (ch[j] !== 0) silent = false;
-      }
-      if (silent) {
-        this.set({ fileError: `“${file.name}” is silent from start to end: there is nothing to hear or to set a level from.` });
+      }) : [];
+      const bad = decodedProblem(file.name, buf.duration, channels);
+      if (bad) {
+        this.set({ fileError: bad });
         return false;
       }
       this.useTrack(channels, { name: file.name, source: 'file', sampleRate: ctx.sampleRate, droppedChannels: buf.numberOfChannels - n });

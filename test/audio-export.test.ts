@@ -1,0 +1,75 @@
+// WAV export and the bench's offline jobs. The exported files are decoded by an independent
+// implementation of the Web Audio API (node-web-audio-api, its decodeAudioData) and by wavefile;
+// 16-bit PCM quantises to steps of 1/32768 of full scale (the WAV PCM convention, RIFF/WAVE spec).
+import { describe, expect, it } from 'vitest';
+import { OfflineAudioContext } from 'node-web-audio-api';
+import { encodeWav } from '../src/audio/wav-export.ts';
+import { exportStream, levelsFor, renderBoth } from '../src/audio/jobs.ts';
+import { renderBuffer, resolveVolts } from '../src/engine/render/index.ts';
+import { exampleSystem } from './helpers/audio-bench.ts';
+
+const SR = 48000;
+function tone(seconds: number, hz: number, amp: number): Float32Array {
+  const x = new Float32Array(Math.round(seconds * SR));
+  for (let k = 0; k < x.length; k++) x[k] = amp * Math.sin((2 * Math.PI * hz * k) / SR);
+  return x;
+}
+
+async function decode(bytes: Uint8Array) {
+  const ctx = new OfflineAudioContext(2, 1, SR);
+  const buf = await ctx.decodeAudioData(bytes.slice().buffer as ArrayBuffer);
+  return Array.from({ length: buf.numberOfChannels }, (_, c) => buf.getChannelData(c));
+}
+
+describe('WAV export', () => {
+  it('16-bit PCM decodes back within one quantisation step, clipped at the rails', async () => {
+    const l = tone(0.1, 440, 0.5), r = tone(0.1, 110, 0.25);
+    r[10] = 1.5;
+    const out = await decode(encodeWav([l, r], SR, '16'));
+    expect(out).toHaveLength(2);
+    expect(out[0].length).toBe(l.length);
+    let err = 0;
+    for (let k = 0; k < l.length; k++) err = Math.max(err, Math.abs(out[0][k] - l[k]));
+    expect(err).toBeLessThanOrEqual(0.5 / 32768 + 1e-9);
+    expect(out[1][10]).toBeCloseTo(32767 / 32768, 6);
+  });
+
+  it('32-bit float keeps the samples exactly', async () => {
+    const l = tone(0.05, 1000, 0.7);
+    const out = await decode(encodeWav([l], SR, 'f32'));
+    expect(out[0].length).toBe(l.length);
+    for (let k = 0; k < l.length; k += 97) expect(out[0][k]).toBe(l[k]);
+  });
+
+  it('names what is wrong with a request', () => {
+    expect(() => encodeWav([], SR, '16')).toThrow('a WAV export needs 1..8 channels, got 0');
+    expect(() => encodeWav([new Float32Array(4)], 44100.5, '16')).toThrow('sample rate must be a whole number of Hz within 8000..384000, got 44100.5');
+    expect(() => encodeWav([new Float32Array(4)], SR, '24' as '16')).toThrow('format must be one of 16, f32, got 24');
+  });
+});
+
+describe('offline jobs', () => {
+  const track = { channels: [tone(1, 40, 0.8), tone(1, 40, 0.8)], sampleRate: SR };
+  const systems = { a: exampleSystem('sealed'), b: exampleSystem('vented') };
+
+  it('resolve each design’s planned level for the track as the render does', () => {
+    const lv = levelsFor(track, systems);
+    for (const s of ['a', 'b'] as const) {
+      const ref = resolveVolts(systems[s], track.channels, SR, {});
+      expect(lv[s].voltsFs).toBe(ref.volts);
+      // Both are planned at 85 dB(C) Leq at the seat.
+      expect(lv[s].splDb).toBeCloseTo(85, 6);
+    }
+  });
+
+  it('render both designs at their planned levels with progress, and export one stream the same length as the track', () => {
+    const seen: number[] = [];
+    const r = renderBoth(track, systems, (f) => seen.push(f));
+    expect(seen.at(-1)).toBe(1);
+    expect(r.a.summary.events).toEqual(renderBuffer(systems.a, track.channels, SR, {}).summary.events);
+    expect(r.b.traces.excursionMm.length).toBeGreaterThan(90);
+    const ex = exportStream(track, systems.b, 'linear', '16');
+    expect(ex.frames).toBe(SR);
+    expect(ex.bytes.length).toBe(44 + SR * 2 * 2);
+  });
+});
