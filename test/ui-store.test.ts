@@ -96,6 +96,7 @@ describe('autosave', () => {
   });
   it('reports storage that is full or unavailable, and keeps going', async () => {
     const quota: StorageBackend = {
+      ...memoryBackend(),
       load: async () => undefined,
       save: async () => {
         throw Object.assign(new Error('The quota has been exceeded.'), { name: 'QuotaExceededError' });
@@ -110,6 +111,7 @@ describe('autosave', () => {
     expect(s1.status.kind === 'full' && s1.status.message).toMatch(/Export/);
 
     const none: StorageBackend = {
+      ...memoryBackend(),
       load: async () => {
         throw new Error('IndexedDB is disabled');
       },

@@ -135,6 +135,7 @@ describe('the app', () => {
 
   it('says when storage is unavailable and offers export', async () => {
     const broken: StorageBackend = {
+      ...memoryBackend(),
       load: async () => undefined,
       save: async () => {
         throw new Error('storage is switched off');

@@ -141,6 +141,17 @@ function ShareDialog(p: { url: string; onClose: () => void }) {
   );
 }
 
+async function downloadSetAside(autosave: Autosave) {
+  const text = await autosave.setAsideText();
+  if (text === null) return;
+  const url = URL.createObjectURL(new Blob([text], { type: 'application/json' }));
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = 'preheard-unreadable-state.json';
+  link.click();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
 function SaveIndicator({ status }: { status: SaveStatus }) {
   const text =
     status.kind === 'saved'
@@ -151,7 +162,9 @@ function SaveIndicator({ status }: { status: SaveStatus }) {
           ? 'Opening storage…'
           : status.kind === 'full'
             ? 'Not saved: storage full'
-            : 'Not saved: storage unavailable';
+            : status.kind === 'recovered'
+              ? 'Recovered the last good state'
+              : 'Not saved: storage unavailable';
   return (
     <span class={`save save-${status.kind}`} data-testid="save-status" data-state={status.kind}>
       {text}
@@ -383,6 +396,17 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
                 Export {SLOT_LABEL[s]}
               </button>
             ))}
+          </div>
+        ) : null}
+        {status.kind === 'recovered' ? (
+          <div class="banner banner-warn" role="alert" data-testid="recovery-banner">
+            {status.message}
+            <button type="button" class="small" onClick={() => void downloadSetAside(autosave)}>
+              Download the unreadable data
+            </button>
+            <button type="button" class="small" onClick={() => autosave.acknowledge()}>
+              Dismiss
+            </button>
           </div>
         ) : null}
 

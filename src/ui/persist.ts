@@ -11,8 +11,14 @@ export interface SavedState {
 }
 
 export interface StorageBackend {
-  load(): Promise<SavedState | undefined>;
+  /** The current state as stored: unchecked, it may be anything. */
+  load(): Promise<unknown>;
+  /** Writes the current state and, in the same transaction, the copy kept as the last good one. */
   save(value: SavedState): Promise<void>;
+  loadLastGood(): Promise<unknown>;
+  /** Keeps an unreadable stored state aside, for export, instead of overwriting it. */
+  setAside(raw: unknown): Promise<void>;
+  loadSetAside(): Promise<unknown>;
 }
 
 export type SaveStatus =
@@ -20,11 +26,15 @@ export type SaveStatus =
   | { kind: 'saved'; at: number }
   | { kind: 'saving' }
   | { kind: 'full'; message: string }
-  | { kind: 'unavailable'; message: string };
+  | { kind: 'unavailable'; message: string }
+  /** The stored state was unreadable: it was set aside and the last good state (or the demo) restored. */
+  | { kind: 'recovered'; at: number; message: string };
 
 const DB_NAME = 'preheard';
 const STORE = 'app';
 const KEY = 'current';
+const LAST_GOOD = 'last-good';
+const SET_ASIDE = 'set-aside';
 
 export function indexedDbBackend(): StorageBackend {
   let db: Promise<IDBPDatabase> | null = null;
@@ -41,25 +51,46 @@ export function indexedDbBackend(): StorageBackend {
   };
   return {
     async load() {
-      const d = await open();
-      return (await d.get(STORE, KEY)) as SavedState | undefined;
+      return (await open()).get(STORE, KEY);
     },
     async save(value) {
-      const d = await open();
-      await d.put(STORE, value, KEY);
+      const tx = (await open()).transaction(STORE, 'readwrite');
+      await Promise.all([tx.store.put(value, KEY), tx.store.put(value, LAST_GOOD), tx.done]);
+    },
+    async loadLastGood() {
+      return (await open()).get(STORE, LAST_GOOD);
+    },
+    async setAside(raw) {
+      await (await open()).put(STORE, { setAsideAt: Date.now(), raw }, SET_ASIDE);
+    },
+    async loadSetAside() {
+      return (await open()).get(STORE, SET_ASIDE);
     },
   };
 }
 
 /** Kept in memory only (tests, or as a stand-in when IndexedDB is missing). */
-export function memoryBackend(initial?: SavedState): StorageBackend & { value: SavedState | undefined } {
+export function memoryBackend(initial?: unknown): StorageBackend & { value: unknown; lastGood: unknown; aside: unknown } {
+  const copy = (v: unknown) => (v === undefined ? undefined : structuredClone(v));
   const b = {
     value: initial,
+    lastGood: undefined as unknown,
+    aside: undefined as unknown,
     async load() {
-      return b.value === undefined ? undefined : structuredClone(b.value);
+      return copy(b.value);
     },
     async save(value: SavedState) {
       b.value = structuredClone(value);
+      b.lastGood = structuredClone(value);
+    },
+    async loadLastGood() {
+      return copy(b.lastGood);
+    },
+    async setAside(raw: unknown) {
+      b.aside = { setAsideAt: Date.now(), raw: copy(raw) };
+    },
+    async loadSetAside() {
+      return copy(b.aside);
     },
   };
   return b;
@@ -102,6 +133,7 @@ export class Autosave {
   private pending: Promise<void> | null = null;
   private dirty = false;
   private listeners = new Set<(s: SaveStatus) => void>();
+  private savedListeners = new Set<(v: SavedState) => void>();
 
   constructor(
     private readonly backend: StorageBackend,
@@ -113,20 +145,61 @@ export class Autosave {
     return () => this.listeners.delete(fn);
   }
 
+  /** Called after every successful write (the tab sync announces it to other tabs). */
+  onSaved(fn: (v: SavedState) => void): () => void {
+    this.savedListeners.add(fn);
+    return () => this.savedListeners.delete(fn);
+  }
+
+  /** The user has read the recovery notice. */
+  acknowledge(): void {
+    if (this.status.kind === 'recovered') this.setStatus({ kind: 'saved', at: this.now() });
+  }
+
   private setStatus(s: SaveStatus) {
     this.status = s;
     for (const fn of this.listeners) fn(s);
   }
 
-  /** The saved state, or undefined when there is none or it cannot be read. */
+  /**
+   * The saved state, or undefined when there is none or it cannot be read. An unreadable stored
+   * state is never overwritten blindly: it is set aside (for export) and the last good one restored.
+   */
   async load(): Promise<AppState | undefined> {
     try {
       const saved = await this.backend.load();
-      this.setStatus({ kind: 'saved', at: saved?.savedAt ?? this.now() });
-      return isSavedState(saved) ? saved.state : undefined;
+      if (saved === undefined) {
+        this.setStatus({ kind: 'saved', at: this.now() });
+        return undefined;
+      }
+      if (isSavedState(saved)) {
+        this.setStatus({ kind: 'saved', at: saved.savedAt });
+        return saved.state;
+      }
+      await this.backend.setAside(saved);
+      const good = await this.backend.loadLastGood();
+      const restored = isSavedState(good) ? good : undefined;
+      this.setStatus({
+        kind: 'recovered',
+        at: this.now(),
+        message: restored
+          ? `The stored designs could not be read, so the last good state, saved ${new Date(restored.savedAt).toLocaleString()}, was restored. The unreadable data is kept aside: download it to keep it.`
+          : 'The stored designs could not be read and no earlier good state exists, so the demo pair is shown. The unreadable data is kept aside: download it to keep it.',
+      });
+      return restored?.state;
     } catch (e) {
       this.setStatus(describeFailure(e));
       return undefined;
+    }
+  }
+
+  /** What was set aside as unreadable, as JSON text for download, or null. */
+  async setAsideText(): Promise<string | null> {
+    try {
+      const aside = await this.backend.loadSetAside();
+      return aside === undefined ? null : JSON.stringify(aside, null, 2);
+    } catch {
+      return null;
     }
   }
 
@@ -137,7 +210,7 @@ export class Autosave {
   private request(store: Store) {
     this.dirty = true;
     if (this.pending) return;
-    if (this.status.kind !== 'full' && this.status.kind !== 'unavailable') this.setStatus({ kind: 'saving' });
+    if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
     this.pending = (async () => {
       // Let a burst of intents in the same task land first.
       await Promise.resolve();
@@ -146,7 +219,9 @@ export class Autosave {
         const value: SavedState = { kind: 'preheard-app-state', version: 1, savedAt: this.now(), state: store.get() };
         try {
           await this.backend.save(value);
-          this.setStatus({ kind: 'saved', at: value.savedAt });
+          // A recovery notice stays up until the user has seen it; saving goes on underneath.
+          if (this.status.kind !== 'recovered') this.setStatus({ kind: 'saved', at: value.savedAt });
+          for (const fn of this.savedListeners) fn(value);
         } catch (e) {
           this.setStatus(describeFailure(e));
         }

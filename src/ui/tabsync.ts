@@ -1,0 +1,36 @@
+// Two tabs editing at once stay consistent: after each save a tab announces its designs on a
+// BroadcastChannel, and the other tabs adopt them as an undoable step. The last writer wins.
+import type { Autosave } from './persist.ts';
+import type { Designs, Store } from './store.ts';
+
+interface Announcement {
+  kind: 'preheard-designs';
+  tab: string;
+  savedAt: number;
+  designs: Designs;
+}
+
+const isAnnouncement = (v: unknown): v is Announcement =>
+  !!v && typeof v === 'object' && (v as Announcement).kind === 'preheard-designs' && typeof (v as Announcement).tab === 'string' && !!(v as Announcement).designs;
+
+export function connectTabs(store: Store, autosave: Autosave, channel: BroadcastChannel, tab: string = crypto.randomUUID()): () => void {
+  // The designs last exchanged with another tab: neither re-announced nor re-adopted, so two tabs never echo.
+  let shared = JSON.stringify(store.get().designs);
+  const offSaved = autosave.onSaved((saved) => {
+    const text = JSON.stringify(saved.state.designs);
+    if (text === shared) return;
+    shared = text;
+    channel.postMessage({ kind: 'preheard-designs', tab, savedAt: saved.savedAt, designs: saved.state.designs } satisfies Announcement);
+  });
+  channel.onmessage = (ev) => {
+    if (!isAnnouncement(ev.data) || ev.data.tab === tab) return;
+    const text = JSON.stringify(ev.data.designs);
+    if (text === JSON.stringify(store.get().designs)) return;
+    shared = text;
+    store.dispatch({ type: 'replace-pair', designs: ev.data.designs, reason: 'changes made in another tab' });
+  };
+  return () => {
+    offSaved();
+    channel.close();
+  };
+}
