@@ -165,6 +165,23 @@ describe('the bench processor in a fake AudioWorkletGlobalScope', () => {
     for (const e of liveA) expect(e.start_s).toBeGreaterThanOrEqual(0.3);
   });
 
+  it('changes the listen mode through a short dip, without a click', () => {
+    const ch = track(1.2);
+    const p = make(ch, { volts: [40, 40] });
+    p.port.deliver({ type: 'play', playing: true });
+    const at = 260;
+    const out = run(p, 400, (q) => q === at && p.port.deliver({ type: 'mode', mode: 'residual' }));
+    const s = at * 128, L = Math.round(CROSSFADE_S * SR);
+    // Silent at the turn, then the distortion stream alone.
+    expect(Math.abs(out[s + L])).toBeLessThan(1e-3);
+    // No step at the turn larger than the streams' own largest steps on either side of it.
+    let own = 0, around = 0;
+    for (let k = s - 4000; k < s; k++) own = Math.max(own, Math.abs(out[k] - out[k - 1]));
+    for (let k = s + 3 * L; k < s + 3 * L + 4000; k++) own = Math.max(own, Math.abs(out[k] - out[k - 1]));
+    for (let k = s; k < s + 3 * L; k++) around = Math.max(around, Math.abs(out[k] - out[k - 1]));
+    expect(around).toBeLessThanOrEqual(own * 1.05);
+  });
+
   it('loops a region with a fade at the wrap, and reports the position inside it', () => {
     const ch = track(1.0, false);
     const p = make(ch);

@@ -84,6 +84,11 @@ export class BenchCore {
   private mixer: LaneMixer | null = null;
   private input: Float32Array[] = [];
   private mode: ListenMode = 'nonlinear';
+  private pendingMode: ListenMode | null = null;
+  /** Output envelope for listen-mode changes. */
+  private outEnv = 1;
+  /** Frames the output stays silent after a mode change: the renderers' look-ahead still holds the old stream. */
+  private modeHold = 0;
   private match = true;
   private monitorDb = MONITOR_START_DB;
   private lane: LaneId = 'a';
@@ -164,9 +169,9 @@ export class BenchCore {
         this.mixer?.select(m.lane);
         return;
       case 'mode':
-        this.mode = m.mode;
-        for (const s of ['a', 'b'] as const) this.lanes[s].r?.setMode(m.mode);
-        if (this.ref) this.ref.silent = m.mode === 'residual';
+        // Heard through a short dip (out, switch, in): the streams differ too much to cut between.
+        if (!this.mixer) this.applyMode(m.mode);
+        else if (m.mode !== this.mode || this.pendingMode !== null) this.pendingMode = m.mode;
         return;
       case 'monitor':
         this.monitorDb = m.gainDb;
@@ -237,7 +242,7 @@ export class BenchCore {
 
   private makeRenderer(system: SpeakerSystem, voltsFs: number): Renderer {
     const r = this.factory(system, { sampleRate: this.sampleRate, channels: this.channels, voltsFs });
-    r.setMode(this.mode);
+    r.setMode(this.pendingMode ?? this.mode);
     return r;
   }
 
@@ -398,6 +403,7 @@ export class BenchCore {
       for (const o of output) o.fill(0, 0, n);
     } else {
       mixer.process(this.input, output, n);
+      if (this.pendingMode !== null || this.outEnv < 1) this.modeDip(output, n);
       this.engineFrame += n;
       this.checkSwitch(output, n);
     }
@@ -411,6 +417,32 @@ export class BenchCore {
       this.sinceEvents = 0;
       this.postEvents('a');
       this.postEvents('b');
+    }
+  }
+
+  private applyMode(mode: ListenMode): void {
+    this.mode = mode;
+    for (const s of ['a', 'b'] as const) this.lanes[s].r?.setMode(mode);
+    if (this.ref) this.ref.silent = mode === 'residual';
+  }
+
+  private modeDip(output: Float32Array[], n: number): void {
+    const step = this.envStep;
+    let env = this.outEnv;
+    const down = this.pendingMode !== null;
+    let hold = this.modeHold;
+    for (let k = 0; k < n; k++) {
+      if (down) env = env - step <= 0 ? 0 : env - step;
+      else if (hold > 0) hold--;
+      else env = env + step >= 1 ? 1 : env + step;
+      for (let c = 0; c < output.length; c++) output[c][k] *= env;
+    }
+    this.outEnv = env;
+    this.modeHold = hold;
+    if (down && env === 0) {
+      this.applyMode(this.pendingMode!);
+      this.pendingMode = null;
+      this.modeHold = this.latencyFrames + 1;
     }
   }
 
