@@ -3,7 +3,9 @@
 // `vite preview` on 127.0.0.1 at a free port, then every test in app.e2e.mjs in order. Exit 1 on any failure.
 import { buildApp, ensureChromium, launchBrowser, startPreview } from './harness.mjs';
 import { tests } from './app.e2e.mjs';
+import { tests as sheetTests } from './sheet.e2e.mjs';
 import { tests as benchTests } from './bench.e2e.mjs';
+import { tests as reliabilityTests } from './reliability.e2e.mjs';
 
 const only = process.argv[2];
 let server;
@@ -19,7 +21,7 @@ try {
   console.log(`[e2e] serving on ${server.origin}`);
   browser = await launchBrowser(server.origin, ['--autoplay-policy=no-user-gesture-required']);
   ctx = { ...browser, server, state: {} };
-  for (const t of [...tests, ...benchTests]) {
+  for (const t of [...tests, ...benchTests, ...sheetTests, ...reliabilityTests]) {
     if (only && !t.name.includes(only)) continue;
     const start = Date.now();
     try {

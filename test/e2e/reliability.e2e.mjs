@@ -1,0 +1,78 @@
+// No lost work, in real chromium: a closed tab, an unreadable stored state, two tabs at once.
+// The page is opened with ?bench, which exposes the store so edits can be made without the UI.
+import assert from 'node:assert/strict';
+
+const edit = (p, slot, path, value) =>
+  p.evaluate(([s, k, v]) => window.__preheard.store.dispatch({ type: 'edit', slot: s, path: k, value: v }), [slot, path, value]);
+const valueAt = (p, slot, path) =>
+  p.evaluate(([s, k]) => k.split('.').reduce((n, key) => n?.[key], window.__preheard.store.get().designs[s]), [slot, path]);
+const saved = (p) => p.waitForSelector('[data-testid=save-status][data-state=saved]');
+
+async function open(ctx) {
+  const p = await ctx.context.newPage();
+  await p.goto(ctx.server.origin + '/?bench');
+  await p.waitForFunction(() => !!window.__preheard);
+  const ok = p.getByRole('button', { name: 'I understand' });
+  if (await ok.isVisible().catch(() => false)) await ok.click();
+  return p;
+}
+
+export const tests = [
+  {
+    name: 'an edit survives closing the tab',
+    fn: async (ctx) => {
+      const p = await open(ctx);
+      await edit(p, 'a', 'box.vb_l', 16.5);
+      await saved(p);
+      await p.close({ runBeforeUnload: false });
+      const q = await open(ctx);
+      assert.equal(await valueAt(q, 'a', 'box.vb_l'), 16.5);
+      await q.close();
+    },
+  },
+  {
+    name: 'an unreadable stored state is set aside and the last good state restored',
+    fn: async (ctx) => {
+      const p = await open(ctx);
+      await edit(p, 'a', 'box.vb_l', 15.25);
+      await saved(p);
+      await p.evaluate(
+        () =>
+          new Promise((resolve, reject) => {
+            const req = indexedDB.open('preheard');
+            req.onsuccess = () => {
+              const tx = req.result.transaction('app', 'readwrite');
+              tx.objectStore('app').put({ kind: 'preheard-app-state', version: 1, state: 'scrambled' }, 'current');
+              tx.oncomplete = () => resolve(undefined);
+              tx.onerror = () => reject(tx.error);
+            };
+            req.onerror = () => reject(req.error);
+          }),
+      );
+      await p.reload();
+      await p.waitForFunction(() => !!window.__preheard);
+      const banner = p.getByTestId('recovery-banner');
+      await banner.waitFor();
+      assert.match(await banner.innerText(), /last good state/);
+      assert.equal(await valueAt(p, 'a', 'box.vb_l'), 15.25);
+      const download = p.waitForEvent('download');
+      await banner.getByRole('button', { name: 'Download the unreadable data' }).click();
+      const file = await download;
+      assert.equal(file.suggestedFilename(), 'preheard-unreadable-state.json');
+      await banner.getByRole('button', { name: 'Dismiss' }).click();
+      await p.close();
+    },
+  },
+  {
+    name: 'two tabs editing at once stay consistent',
+    fn: async (ctx) => {
+      const [p, q] = [await open(ctx), await open(ctx)];
+      await edit(p, 'b', 'box.fb_hz', 36.5);
+      await q.waitForFunction(() => window.__preheard.store.get().designs.b.box.fb_hz === 36.5, null, { timeout: 5000 });
+      await edit(q, 'a', 'listening.distance_m', 2.5);
+      await p.waitForFunction(() => window.__preheard.store.get().designs.a.listening.distance_m === 2.5, null, { timeout: 5000 });
+      assert.equal(await valueAt(p, 'b', 'box.fb_hz'), 36.5);
+      await Promise.all([p.close(), q.close()]);
+    },
+  },
+];
