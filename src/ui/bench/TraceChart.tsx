@@ -126,7 +126,7 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
         ],
         axes: [
           { stroke: pal.axis, font, size: 26, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => clock(v, s.length > 1 && s[1] - s[0] < 1 ? 1 : 0)) },
-          { stroke: pal.axis, font, size: 46, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => num(v, 3)) },
+          { stroke: pal.axis, font, size: 52, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => num(v, 3)) },
         ],
         hooks: {
           draw: [
