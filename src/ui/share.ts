@@ -18,9 +18,32 @@ function fromBase64Url(text: string): Uint8Array {
   return out;
 }
 
-async function pipe(bytes: Uint8Array, stream: CompressionStream | DecompressionStream): Promise<Uint8Array> {
-  const body = new Blob([bytes as BlobPart]).stream().pipeThrough(stream);
-  return new Uint8Array(await new Response(body).arrayBuffer());
+/** Longest fragment accepted, characters; a real pair of designs is about 1-2 kB. */
+export const MAX_SHARE_CHARS = 200_000;
+/** Largest decoded pair, bytes: stops a small link that inflates to gigabytes. */
+export const MAX_SHARE_BYTES = 2_000_000;
+
+async function pipe(bytes: Uint8Array, stream: CompressionStream | DecompressionStream, limit = Infinity): Promise<Uint8Array> {
+  const reader = new Blob([bytes as BlobPart]).stream().pipeThrough(stream).getReader();
+  const chunks: Uint8Array[] = [];
+  let total = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    total += value.length;
+    if (total > limit) {
+      await reader.cancel();
+      throw new RangeError(`the link's design data inflates past ${limit} bytes`);
+    }
+    chunks.push(value);
+  }
+  const out = new Uint8Array(total);
+  let at = 0;
+  for (const c of chunks) {
+    out.set(c, at);
+    at += c.length;
+  }
+  return out;
 }
 
 export async function encodeShare(designs: Designs): Promise<string> {
@@ -40,10 +63,12 @@ export function hasShare(hash: string): boolean {
 export async function decodeShare(hash: string): Promise<{ a: unknown; b: unknown }> {
   const frag = hash.replace(/^#/, '');
   if (!frag.startsWith(PREFIX)) throw new Error('this link carries no preheard designs');
+  if (frag.length > MAX_SHARE_CHARS) throw new Error(`the link is ${frag.length} characters long, more than a pair of designs needs (${MAX_SHARE_CHARS} at most)`);
   let text: string;
   try {
-    text = new TextDecoder().decode(await pipe(fromBase64Url(frag.slice(PREFIX.length)), new DecompressionStream('deflate-raw')));
-  } catch {
+    text = new TextDecoder().decode(await pipe(fromBase64Url(frag.slice(PREFIX.length)), new DecompressionStream('deflate-raw'), MAX_SHARE_BYTES));
+  } catch (e) {
+    if (e instanceof RangeError) throw new Error(`the link is not a pair of designs: ${e.message}`);
     throw new Error('the link is damaged or cut short (its design data does not decode)');
   }
   let value: unknown;
