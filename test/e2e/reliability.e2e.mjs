@@ -1,6 +1,9 @@
 // No lost work, in real chromium: a closed tab, an unreadable stored state, two tabs at once.
 // The page is opened with ?bench, which exposes the store so edits can be made without the UI.
 import assert from 'node:assert/strict';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { ROOT } from './harness.mjs';
 
 const edit = (p, slot, path, value) =>
   p.evaluate(([s, k, v]) => window.__preheard.store.dispatch({ type: 'edit', slot: s, path: k, value: v }), [slot, path, value]);
@@ -18,6 +21,27 @@ async function open(ctx) {
 }
 
 export const tests = [
+  {
+    name: 'the build has a local-only Content-Security-Policy and no eval or new Function',
+    fn: async (ctx) => {
+      const dist = join(ROOT, 'dist');
+      const html = readFileSync(join(dist, 'index.html'), 'utf8');
+      const csp = /http-equiv="Content-Security-Policy" content="([^"]+)"/.exec(html)?.[1] ?? '';
+      assert.match(csp, /default-src 'self'/);
+      assert.match(csp, /script-src 'self' blob:;/);
+      assert.doesNotMatch(csp, /unsafe-eval|https?:/);
+      const scripts = readdirSync(join(dist, 'assets')).filter((f) => f.endsWith('.js')).map((f) => join(dist, 'assets', f));
+      scripts.push(join(dist, 'sw.js'));
+      for (const file of scripts) {
+        const code = readFileSync(file, 'utf8');
+        assert.doesNotMatch(code, /\bnew Function\s*\(|\beval\s*\(/, `${file} uses eval or new Function`);
+      }
+      const p = await open(ctx);
+      const scope = await p.evaluate(async () => (await navigator.serviceWorker.ready).scope);
+      assert.equal(scope, ctx.server.origin + '/');
+      await p.close();
+    },
+  },
   {
     name: 'an edit survives closing the tab',
     fn: async (ctx) => {
