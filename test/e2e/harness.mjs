@@ -31,6 +31,23 @@ export function ensureChromium() {
   if (!existsSync(CHROMIUM)) throw new Error(`apt-get finished but ${CHROMIUM} is still missing`);
 }
 
+/** pdfinfo / pdftotext / pdftoppm (Debian's poppler-utils) for the printed Client sheet; installed with apt when root. */
+export function ensurePoppler() {
+  const has = () => spawnSync('pdftotext', ['-v'], { stdio: 'ignore' }).status === 0;
+  if (has()) return;
+  const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+  if (!isRoot) {
+    throw new Error('The Client sheet test reads the printed PDF with poppler-utils, which is missing.\nInstall it with:  sudo apt-get update && sudo apt-get install -y poppler-utils');
+  }
+  console.log('[e2e] pdftotext is missing: installing Debian\'s poppler-utils with apt-get');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  for (const args of [['update'], ['install', '-y', 'poppler-utils']]) {
+    const r = spawnSync('apt-get', args, { stdio: 'inherit', env });
+    if (r.status !== 0) throw new Error(`apt-get ${args.join(' ')} failed with exit code ${r.status}`);
+  }
+  if (!has()) throw new Error('apt-get finished but pdftotext is still missing');
+}
+
 /** A production build into outDir (relative to the project root); `buildId` marks a distinct version. */
 export function buildApp(outDir = 'dist', buildId = '') {
   const r = spawnSync(process.execPath, [VITE, 'build', '--logLevel', 'warn', '--outDir', outDir, '--emptyOutDir'], {

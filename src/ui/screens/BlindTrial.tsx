@@ -2,14 +2,14 @@
 // coin; what X is stays hidden until the end; levels are matched; an optional fixed loop region.
 // Keys: A, B, X to listen; 1 = "X is A", 2 = "X is B"; space plays or pauses.
 import { useEffect, useState } from 'preact/hooks';
-import { benchAudio } from '../../audio/bench.ts';
 import { LISTEN_MODE_LABEL } from '../../audio/protocol.ts';
 import { clock } from '../../engine/verdict/verdict.ts';
 import { useApp } from '../context.ts';
 import { downloadText } from '../files.ts';
 import { fileStem, fixed } from '../format.ts';
 import { SLOTS, SLOT_LABEL } from '../store.ts';
-import { useBench, useBenchDesigns, useSystems } from '../sheet/hooks.ts';
+import { useBench } from '../bench/useBench.ts';
+import { useSystems } from '../sheet/hooks.ts';
 import {
   answer, checkSettings, DEFAULT_ROUNDS, isDone, laneToPlay, listen, MAX_ROUNDS, MIN_ROUNDS, newTrial, resultSentence, tally, toCsv, toJson, TRIAL_KEYS,
   type Pick, type Trial, type TrialLane, type TrialSettings,
@@ -19,11 +19,9 @@ import {
 let kept: Trial | null = null;
 
 export function BlindTrial() {
-  const { state, dispatch } = useApp();
-  const bench = useBench();
-  const audio = benchAudio();
+  const { state, dispatch, store } = useApp();
+  const { bench: audio, state: bench } = useBench(store);
   const systems = useSystems();
-  useBenchDesigns();
   const [trial, setTrialState] = useState<Trial | null>(kept);
   const [problems, setProblems] = useState<string[]>([]);
   const [busy, setBusy] = useState(false);
@@ -82,15 +80,18 @@ export function BlindTrial() {
     }
   };
 
+  // Keys can come faster than renders: always act on the latest trial, not the one last drawn.
   const hear = (lane: TrialLane) => {
-    if (!trial || isDone(trial)) return;
-    audio.selectLane(laneToPlay(trial, lane));
+    const t = kept;
+    if (!t || isDone(t)) return;
+    audio.selectLane(laneToPlay(t, lane));
     if (!audio.state.playing) void audio.play();
-    setTrial(listen(trial, lane));
+    setTrial(listen(t, lane));
   };
   const decide = (pick: Pick) => {
-    if (!trial || isDone(trial)) return;
-    const next = answer(trial, pick);
+    const t = kept;
+    if (!t || isDone(t)) return;
+    const next = answer(t, pick);
     // The next round starts on A, a known lane, so nothing of the new X is heard by accident.
     audio.selectLane('a');
     if (isDone(next)) audio.pause();
@@ -101,7 +102,7 @@ export function BlindTrial() {
     const onKey = (e: KeyboardEvent) => {
       const t = e.target as HTMLElement | null;
       if (t && (t.tagName === 'INPUT' || t.tagName === 'TEXTAREA' || t.tagName === 'SELECT')) return;
-      if (e.ctrlKey || e.metaKey || e.altKey || !trial || isDone(trial)) return;
+      if (e.ctrlKey || e.metaKey || e.altKey || !kept || isDone(kept)) return;
       if (e.key === ' ') audio.state.playing ? audio.pause() : void audio.play();
       else {
         const k = TRIAL_KEYS[e.key.toLowerCase()];
@@ -113,7 +114,7 @@ export function BlindTrial() {
     };
     window.addEventListener('keydown', onKey);
     return () => window.removeEventListener('keydown', onKey);
-  }, [trial]);
+  }, []);
 
   const ready = !!systems.a && !!systems.b;
   const stem = `preheard-blind-trial-${fileStem(state.designs.a.name)}-vs-${fileStem(state.designs.b.name)}`;
@@ -136,9 +137,9 @@ export function BlindTrial() {
               step={1}
               value={rounds}
               data-testid="trial-rounds"
-              onChange={(e) => {
+              onInput={(e) => {
                 const n = Number((e.currentTarget as HTMLInputElement).value);
-                dispatch({ type: 'settings', patch: { trialRounds: n } });
+                if (Number.isInteger(n) && n >= MIN_ROUNDS && n <= MAX_ROUNDS) dispatch({ type: 'settings', patch: { trialRounds: n } });
               }}
             />
           </label>

@@ -1,11 +1,15 @@
 // Headroom probe: for each design and the loaded track, the highest planned level with no stress
 // event and the limit that arrives first, in dB SPL at the seat and in volts, with the time it bites.
+import { benchAudio } from '../../audio/bench.ts';
 import { LIMIT_WORDS, clock } from '../../engine/verdict/verdict.ts';
 import { useApp } from '../context.ts';
-import { fixed, num } from '../format.ts';
+import { fixed } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { useBench, useProbe, useSystems, useVerdict } from '../sheet/hooks.ts';
-import { currentTrack, currentTrackKey, headroomProbe } from '../sheet/probe.ts';
+import { currentTrack, currentTrackKey, DEMO_RATE, headroomProbe } from '../sheet/probe.ts';
+
+/** Length of the built-in demo track, s (16 bars at 120 BPM). */
+const DEMO_S = 32;
 
 export function HeadroomProbe() {
   const { state } = useApp();
@@ -21,8 +25,11 @@ export function HeadroomProbe() {
   const stale =
     probe.status === 'done' && (probe.systems?.a !== systems.a || probe.systems?.b !== systems.b || probe.track?.key !== currentTrackKey());
   const pct = Math.round(runner.progress() * 100);
-  const start = () => {
+  const start = async () => {
     if (!systems.a || !systems.b) return;
+    // Measure what the bench plays (its demo or the user's file), so the finding holds for the
+    // presentation too; without Web Audio the built-in demo track is used.
+    await benchAudio().start();
     runner.start({ a: systems.a, b: systems.b }, currentTrack());
   };
   const headroomLine = v?.lines.find((l) => l.id === 'headroom');
@@ -36,9 +43,9 @@ export function HeadroomProbe() {
         narrows to 0.25 dB.
       </p>
       <div class="probe-bar">
-        <span class="probe-track" data-testid="probe-track">
+        <span class="probe-track" data-testid="probe-track" data-rate={bench.track?.sampleRate ?? DEMO_RATE}>
           Track: <strong>{trackName}</strong>
-          {trackS !== null ? ` (${clock(trackS)})` : ''}
+          {` (${clock(trackS ?? DEMO_S)}, ${fixed((bench.track?.sampleRate ?? DEMO_RATE) / 1000, 1)} kHz)`}
           {bench.track ? '' : ' — load your own on the Listening bench.'}
         </span>
         {running ? (
@@ -46,7 +53,7 @@ export function HeadroomProbe() {
             Cancel
           </button>
         ) : (
-          <button type="button" class="primary" disabled={!ready} onClick={start} data-testid="probe-run">
+          <button type="button" class="primary" disabled={!ready} onClick={() => void start()} data-testid="probe-run">
             {probe.status === 'done' ? 'Search again' : 'Find the headroom'}
           </button>
         )}
@@ -70,7 +77,14 @@ export function HeadroomProbe() {
       {probe.status === 'done' || probe.status === 'error' ? (
         <>
           {stale ? <p class="banner-inline">The designs or the track changed since this search: search again for current numbers.</p> : null}
-          <table class="figures probe-table" data-testid="probe-results">
+          <table
+            class="figures probe-table"
+            data-testid="probe-results"
+            data-exact={JSON.stringify(SLOTS.map((s) => {
+              const r = probe.slots[s].result;
+              return r && { clean_volts: r.clean_volts, clean_spl_db: r.clean_spl_db, first_limit: r.first_limit, first_limit_s: r.first_limit_s };
+            }))}
+          >
             <caption>
               On “{probe.track?.name}”, searched in {fixed(probe.elapsedMs / 1000, 1)} s
             </caption>
@@ -107,7 +121,7 @@ export function HeadroomProbe() {
                   return t === null || t === undefined ? '—' : `${clock(t)} (${fixed(t, 2)} s)`;
                 }}
               />
-              <ResultRow label="Renders" id="renders" cell={(s) => num(probe.slots[s].result?.renders ?? null, 3)} />
+              <ResultRow label="Renders" id="renders" cell={(s) => String(probe.slots[s].result?.renders ?? '—')} />
             </tbody>
           </table>
           {headroomLine && !stale ? (

@@ -1,13 +1,13 @@
 // Presentation mode: for showing a client on a laptop or a tablet. Large type, only A / B / the
 // reference, the level and the verdict; Esc or the button in the corner leads back out.
 import { useEffect, useState } from 'preact/hooks';
-import { benchAudio } from '../../audio/bench.ts';
 import { MONITOR_CONFIRM_ABOVE_DB, MONITOR_MIN_DB, requestMonitorGain } from '../../audio/levels.ts';
 import type { LaneId } from '../../audio/lanes.ts';
 import { useApp } from '../context.ts';
 import { fixed } from '../format.ts';
 import type { ScreenId } from '../store.ts';
-import { useBench, useBenchDesigns, useVerdict } from '../sheet/hooks.ts';
+import { useBench } from '../bench/useBench.ts';
+import { useVerdict } from '../sheet/hooks.ts';
 import { DEFAULT_SHEET_TITLE } from './ClientSheet.tsx';
 
 const LANES: { id: LaneId; key: string; label: string }[] = [
@@ -22,10 +22,8 @@ const BACK: ScreenId = 'sheet';
 let loudConfirmed = false;
 
 export function Presentation() {
-  const { state, derived, dispatch } = useApp();
-  const bench = useBench();
-  const audio = benchAudio();
-  useBenchDesigns();
+  const { state, derived, dispatch, store } = useApp();
+  const { bench: audio, state: bench } = useBench(store);
   const v = useVerdict();
   const [askLoud, setAskLoud] = useState<number | null>(null);
   const leave = () => dispatch({ type: 'settings', patch: { screen: BACK } });

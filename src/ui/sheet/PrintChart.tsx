@@ -110,6 +110,7 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
         return <path d={path(s.values!)} fill="none" stroke={st.color} stroke-width={st.width} stroke-dasharray={st.dash} stroke-linejoin="round" />;
       })}
       <g transform={`translate(${m.l + w - 4}, ${m.t + 6})`}>
+        <rect x={-96} y={-6} width={94} height={shown.length * 11 + 2} fill="#fff" fill-opacity="0.88" />
         {shown.map((s, i) => {
           const st = strokeOf(s.role);
           return (

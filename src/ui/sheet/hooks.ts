@@ -23,14 +23,6 @@ export function useBench(): BenchState {
   return s;
 }
 
-/** Keeps the bench playing the designs on screen (the bench ignores a design it already has). */
-export function useBenchDesigns(): void {
-  const systems = useSystems();
-  useEffect(() => {
-    if (systems.a || systems.b) benchAudio().setSystems(systems);
-  }, [systems.a, systems.b]);
-}
-
 export function useProbe(): ProbeState {
   const probe = headroomProbe();
   const [s, setS] = useState(probe.state);
