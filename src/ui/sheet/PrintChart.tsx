@@ -69,12 +69,12 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
     let pen = false;
     for (let i = 0; i < f.length; i++) {
       const v = vals[i];
+      // Far outside the range the line is lifted; just outside it is drawn and clipped at the frame.
       if (!Number.isFinite(v) || v < y0 - (y1 - y0) || v > y1 + (y1 - y0)) {
         pen = false;
         continue;
       }
-      const cy = Math.min(Math.max(Y(v), m.t), m.t + h);
-      d += `${pen ? 'L' : 'M'}${X(f[i]).toFixed(1)},${cy.toFixed(1)}`;
+      d += `${pen ? 'L' : 'M'}${X(f[i]).toFixed(1)},${Y(v).toFixed(1)}`;
       pen = true;
     }
     return d;
@@ -86,7 +86,7 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
       {X_TICKS.filter((t) => t >= f0 && t <= f1).map((t) => (
         <g>
           <line x1={X(t)} x2={X(t)} y1={m.t} y2={m.t + h} stroke="#e3e7e8" stroke-width="0.75" />
-          <text x={X(t)} y={m.t + h + 11} font-size="8.5" text-anchor="middle" fill="#4a5357">
+          <text x={X(t)} y={m.t + h + 12} font-size="8.5" text-anchor="middle" fill="#4a5357">
             {hzLabel(t)}
           </text>
         </g>
@@ -105,10 +105,15 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
       <text x={10} y={m.t + h / 2} font-size="8.5" text-anchor="middle" fill="#4a5357" transform={`rotate(-90 10 ${m.t + h / 2})`}>
         {spec.unit}
       </text>
-      {shown.map((s) => {
-        const st = strokeOf(s.role);
-        return <path d={path(s.values!)} fill="none" stroke={st.color} stroke-width={st.width} stroke-dasharray={st.dash} stroke-linejoin="round" />;
-      })}
+      <clipPath id={`clip-${spec.id}`}>
+        <rect x={m.l} y={m.t} width={w} height={h} />
+      </clipPath>
+      <g clip-path={`url(#clip-${spec.id})`}>
+        {shown.map((s) => {
+          const st = strokeOf(s.role);
+          return <path d={path(s.values!)} fill="none" stroke={st.color} stroke-width={st.width} stroke-dasharray={st.dash} stroke-linejoin="round" />;
+        })}
+      </g>
       <g transform={`translate(${m.l + w - 4}, ${m.t + 6})`}>
         <rect x={-96} y={-6} width={94} height={shown.length * 11 + 2} fill="#fff" fill-opacity="0.88" />
         {shown.map((s, i) => {

@@ -161,8 +161,8 @@ export class HeadroomProbe {
 }
 
 let shared: HeadroomProbe | null = null;
-/** The one probe of the page: its findings outlive a visit to the screen. */
-export function headroomProbe(): HeadroomProbe {
-  shared ??= new HeadroomProbe();
+/** The one probe of the page: its findings outlive a visit to the screen. (A test may hand in its worker factory on the first call.) */
+export function headroomProbe(makeWorker?: () => WorkerLike): HeadroomProbe {
+  shared ??= new HeadroomProbe(makeWorker);
   return shared;
 }
