@@ -21,8 +21,12 @@ async function sheetPage(ctx) {
   p.on('pageerror', (e) => ctx.state.sheetErrors.push(String(e)));
   p.on('console', (m) => m.type() === 'error' && ctx.state.sheetErrors.push(m.text()));
   await p.goto(ctx.server.origin + '/');
+  // Once the tabs are drawn, the first-run cautions are either open or not.
+  await p.waitForSelector('.tabs [role=tab]');
   const first = p.getByRole('button', { name: 'I understand' });
   if (await first.isVisible().catch(() => false)) await first.click();
+  // Earlier tests edit the designs: start these from the demo pair.
+  await p.getByRole('button', { name: 'Reset to demo pair' }).click();
   ctx.state.sheetPage = p;
   return p;
 }
@@ -134,8 +138,14 @@ export const tests = [
       writeFileSync(wav, wf.toBuffer());
       await p.getByTestId('audio-file').setInputFiles(wav);
       await p.waitForSelector('[data-testid=track-name]:has-text("bass-bursts.wav")');
+      // The designs as the app holds them, exported through its own Files menu.
       const designs = {};
-      for (const [slot, file] of [['a', 'living-room-sealed.json'], ['b', 'living-room-vented.json']]) designs[slot] = join(ROOT, 'public', 'examples', file);
+      for (const slot of ['A', 'B']) {
+        await p.locator('.menu > summary', { hasText: 'Files' }).click();
+        const [dl] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: `Export design ${slot}` }).click()]);
+        designs[slot.toLowerCase()] = join(TMP, `design-${slot}.json`);
+        await dl.saveAs(designs[slot.toLowerCase()]);
+      }
       const cliRuns = Promise.all([cliHeadroom(designs.a, wav), cliHeadroom(designs.b, wav)]);
 
       await tab(p, 'Headroom probe');

@@ -86,6 +86,11 @@ export function Presentation() {
         </button>
         <span class="present-track">{bench.track ? bench.track.name : 'Demo track (built in)'}</span>
       </div>
+      {bench.status === 'unsupported' || bench.status === 'error' ? (
+        <p class="present-ask" role="alert">
+          {bench.message}
+        </p>
+      ) : null}
       <div class="present-level" data-testid="present-level">
         <span>
           Planned level: {(['a', 'b'] as const).map((s, i) => `${i ? ' · ' : ''}${s.toUpperCase()} ${level(s)}`).join('')}
