@@ -96,6 +96,11 @@ export function ClientSheet() {
           <p class="paper-date" data-testid="paper-date">{today()}</p>
         </header>
 
+        {SLOTS.some((s) => derived[s].stale) ? (
+          <p class="paper-warn" role="note">
+            Design {SLOTS.filter((s) => derived[s].stale).map((s) => SLOT_LABEL[s]).join(' and ')} has errors being edited: this sheet shows its last valid version.
+          </p>
+        ) : null}
         <section class="paper-section">
           <h2>In plain words</h2>
           {v ? (
