@@ -3,16 +3,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { act, cleanup, fireEvent, render, screen, within } from '@testing-library/preact';
 
-vi.mock('uplot', () => {
-  class FakePlot {
-    width = 600;
-    ctx = { canvas: {} };
-    setData() {}
-    setSize() {}
-    destroy() {}
-  }
-  return { default: FakePlot };
-});
+vi.mock('uplot', () => import('./helpers/fake-uplot.ts'));
 
 import { App } from '../src/ui/App.tsx';
 import { Store } from '../src/ui/store.ts';
