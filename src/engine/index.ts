@@ -10,6 +10,6 @@ export { respond, passbandPressure } from './response/frequency.ts';
 export type { Analysis, Curves, Figures, MaxSplLimit } from './response/types.ts';
 export { suggestAlignments, type AlignmentSuggestion } from './align/index.ts';
 export { DEFAULT_QL } from './box/common.ts';
-export { verdict, LIMIT_WORDS, type VerdictLine, type HeadroomFinding } from './verdict/verdict.ts';
+export { verdict, LIMIT_WORDS, LIMIT_PHRASES, type VerdictLine, type HeadroomFinding } from './verdict/verdict.ts';
 export { probabilityAtLeast } from './trial/binomial.ts';
 export { synthesizeDemoTrack, type DemoTrack } from './demo/track.ts';

@@ -17,14 +17,28 @@ export interface VerdictLine {
   text: string;
 }
 
+/** The limit an event kind stands for, as a noun (tables). */
 export const LIMIT_WORDS: Record<string, string> = {
   excursion: 'cone travel (Xmax)',
   xlim: 'the suspension limit (Xlim)',
+  'radiator-excursion': 'radiator travel',
   'coil-temperature': 'coil heat',
   'port-speed': 'port air speed',
   'amplifier-clip': 'amplifier power',
   compression: 'power compression',
   distortion: 'distortion',
+};
+
+/** What the design does when it reaches that limit, as a verb phrase (sentences). */
+export const LIMIT_PHRASES: Record<string, string> = {
+  excursion: 'runs out of cone travel (Xmax)',
+  xlim: 'reaches the suspension limit (Xlim)',
+  'radiator-excursion': 'runs out of radiator travel',
+  'coil-temperature': 'heats its coil past the rating',
+  'port-speed': 'runs out of port air speed',
+  'amplifier-clip': 'runs out of amplifier power',
+  compression: 'loses over 1 dB to power compression',
+  distortion: 'distorts to within 20 dB of the music',
 };
 
 const one = (x: number) => x.toFixed(1);
@@ -76,7 +90,7 @@ export function verdict(
     const d = hb.cleanSplDb - ha.cleanSplDb;
     const first = (name: string, h: HeadroomFinding) =>
       h.firstLimit && h.firstLimitS !== null
-        ? `${name} first runs out of ${LIMIT_WORDS[h.firstLimit] ?? h.firstLimit} at ${clock(h.firstLimitS)}`
+        ? `${name} first ${LIMIT_PHRASES[h.firstLimit] ?? `reaches ${h.firstLimit}`} at ${clock(h.firstLimitS)}`
         : `${name} reached no limit in the search range`;
     const lead =
       Math.abs(d) < 0.25
