@@ -131,6 +131,11 @@ export class BenchAudio {
   private node: IAudioWorkletNode<IAudioContext> | null = null;
   private worker: Worker | null = null;
   private channels: Float32Array[] | null = null;
+
+  /** The decoded samples of the loaded track (read-only: the headroom probe measures them), or null. */
+  trackChannels(): readonly Float32Array[] | null {
+    return this.channels;
+  }
   private systems: Record<DesignSlot, SpeakerSystem | null> = { a: null, b: null };
   private sentSystems: Record<DesignSlot, SpeakerSystem | null> = { a: null, b: null };
   private designTimer: ReturnType<typeof setTimeout> | null = null;

@@ -29,7 +29,7 @@ export function currentTrack(): ProbeTrack {
   const info = bench.state.track;
   // The bench keeps its decoded samples to itself; the probe only reads them (bracket access to a
   // private field, until the bench offers a getter).
-  const channels = (bench as unknown as { channels: Float32Array[] | null }).channels;
+  const channels = bench.trackChannels() as Float32Array[] | null;
   if (info && channels) return { name: info.name, source: info.source, channels, sampleRate: info.sampleRate, durationS: info.frames / info.sampleRate, key: info };
   if (!demo) {
     const t = synthesizeDemoTrack(DEMO_RATE);
