@@ -21,4 +21,5 @@ for (const b of BENCHES) {
 }
 const w = Math.max(...rows.map((r) => r.name.length), 10);
 process.stdout.write(`${'benchmark'.padEnd(w)}  ${'value'.padStart(10)}  ${'unit'.padEnd(12)}  target\n`);
-for (const r of rows) process.stdout.write(`${r.name.padEnd(w)}  ${String(r.value).padStart(10)}  ${r.unit.padEnd(12)}  ${r.target}\n`);
+const shown = (v: number) => (Number.isFinite(v) && Math.abs(v) >= 1e-3 ? String(Number(v.toPrecision(4))) : String(v));
+for (const r of rows) process.stdout.write(`${r.name.padEnd(w)}  ${shown(r.value).padStart(10)}  ${r.unit.padEnd(12)}  ${r.target}\n`);
