@@ -99,4 +99,21 @@ export const tests = [
       await Promise.all([p.close(), q.close()]);
     },
   },
+  {
+    name: 'design names are shown as text, never as HTML, on every screen',
+    fn: async (ctx) => {
+      const p = await open(ctx);
+      const evil = '<img src=x onerror="window.__injected=1"><b>bold</b>';
+      await p.evaluate((name) => window.__preheard.store.dispatch({ type: 'edit', slot: 'a', path: 'name', value: name }), evil);
+      for (const label of ['Driver sheet', 'Curves', 'Listening bench', 'Client sheet']) {
+        await p.getByRole('tab', { name: label, exact: true }).click();
+        await p.waitForTimeout(100);
+        assert.equal(await p.locator('img[src="x"]').count(), 0, `no injected element on ${label}`);
+        assert.equal(await p.evaluate(() => window.__injected), undefined);
+      }
+      assert.ok((await p.locator('body').innerText()).includes('<b>bold</b>'), 'the name appears literally');
+      await p.evaluate(() => window.__preheard.store.dispatch({ type: 'undo' }));
+      await p.close();
+    },
+  },
 ];
