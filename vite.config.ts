@@ -1,16 +1,47 @@
 /// <reference types="vitest/config" />
-import { defineConfig, type PluginOption } from 'vite';
+import { build, defineConfig, type Plugin, type PluginOption } from 'vite';
 import preact from '@preact/preset-vite';
 import { VitePWA } from 'vite-plugin-pwa';
 import { readFileSync } from 'node:fs';
 
 const pkg = JSON.parse(readFileSync(new URL('./package.json', import.meta.url), 'utf8')) as { version: string };
 
+/**
+ * Dev server only: the audio worklet is served bundled into one classic script, as the production
+ * build does. Unbundled ES modules cannot run inside it, because standardized-audio-context
+ * re-wraps the processor's source before adding it.
+ */
+function bundledWorkletInDev(): Plugin {
+  return {
+    name: 'preheard-bundled-worklet-in-dev',
+    apply: 'serve',
+    configureServer(server) {
+      server.middlewares.use(async (req, res, next) => {
+        const url = req.url ?? '';
+        if (!/\.worklet\.ts\?(.*&)?worker_file/.test(url)) return next();
+        try {
+          const entry = new URL('.' + url.split('?')[0], import.meta.url).pathname;
+          const out = await build({
+            configFile: false,
+            logLevel: 'silent',
+            build: { write: false, target: 'es2022', minify: false, lib: { entry, formats: ['iife'], name: 'preheardWorklet', fileName: () => 'worklet.js' } },
+          });
+          const chunk = (Array.isArray(out) ? out[0] : out) as { output: { code?: string }[] };
+          res.setHeader('Content-Type', 'text/javascript');
+          res.end(chunk.output[0].code ?? '');
+        } catch (e) {
+          next(e);
+        }
+      });
+    },
+  };
+}
+
 // The app is served from the local machine only: no web fonts, CDNs or analytics.
 // The service worker precaches the whole built app so it works offline after the first load;
 // src/ui/pwa.ts registers it with workbox-window in production builds only.
 export default defineConfig(({ mode }) => {
-  const plugins: PluginOption[] = [preact()];
+  const plugins: PluginOption[] = [preact(), bundledWorkletInDev()];
   if (mode !== 'test') {
     plugins.push(
       VitePWA({
