@@ -132,6 +132,8 @@ export interface Amplifier {
 export interface Crossover {
   type: 'lr2' | 'lr4' | 'lr8' | 'none';
   fx: number;
+  /** Subsonic 2nd-order Butterworth high-pass on the woofer's drive, Hz; 0 = none. */
+  highpassHz?: number;
 }
 
 export type PlannedLevel = { mode: 'spl'; splDb: number } | { mode: 'volts'; voltsFs: number };

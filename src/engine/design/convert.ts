@@ -63,6 +63,10 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
   if (doc.crossover.type !== 'none' && doc.crossover.fx_hz === undefined) {
     issues.push(error('crossover.fx_hz', `is required for a ${doc.crossover.type} crossover (20 to 5000 Hz)`));
   }
+  const hpHz = doc.crossover.highpass_hz ?? 0;
+  if (hpHz > 0 && doc.crossover.type !== 'none' && doc.crossover.fx_hz !== undefined && hpHz * 4 > doc.crossover.fx_hz) {
+    issues.push(error('crossover.highpass_hz', `${fmt(hpHz)} Hz must lie at least two octaves below the crossover at ${fmt(doc.crossover.fx_hz)} Hz`));
+  }
   if (!derived.values || issues.some((i) => i.severity === 'error')) return { system: null, issues };
 
   const v = derived.values;
@@ -116,7 +120,7 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
       vPeak: Math.sqrt(2 * doc.amplifier.power_w * doc.amplifier.load_ohm),
       clip: doc.amplifier.clip ?? 'hard',
     },
-    crossover: { type: doc.crossover.type, fx: doc.crossover.fx_hz ?? 0 },
+    crossover: { type: doc.crossover.type, fx: doc.crossover.fx_hz ?? 0, highpassHz: doc.crossover.highpass_hz ?? 0 },
     listening: {
       distance: doc.listening.distance_m,
       space: doc.listening.space,

@@ -70,6 +70,8 @@ export interface AmplifierDoc {
 export interface CrossoverDoc {
   type: 'lr2' | 'lr4' | 'lr8' | 'none';
   fx_hz?: number;
+  /** Subsonic protection before the amplifier: a 2nd-order Butterworth high-pass; 0 or absent = none. */
+  highpass_hz?: number;
 }
 
 export type PlannedLevelDoc =

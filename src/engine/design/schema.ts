@@ -107,6 +107,7 @@ export const designSchema = v.strictObject({
   crossover: v.strictObject({
     type: v.picklist(['lr2', 'lr4', 'lr8', 'none'], 'must be "lr2", "lr4", "lr8" or "none"'),
     fx_hz: v.optional(num(20, 5000, 'Hz')),
+    highpass_hz: v.optional(num(0, 200, 'Hz')),
   }),
   listening: v.strictObject({
     distance_m: num(0.1, 200, 'm'),

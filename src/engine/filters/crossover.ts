@@ -30,7 +30,23 @@ export function lrAnalogSections(type: 'lr2' | 'lr4' | 'lr8', w0: number, highPa
   return secs;
 }
 
+/** The subsonic high-pass, a 2nd-order Butterworth (Q = 1/sqrt 2), prewarped at its corner. */
+export function subsonicSection(hz: number, sampleRate: number): Float64Array | null {
+  if (!(hz > 0)) return null;
+  const f = Math.min(hz, 0.45 * sampleRate);
+  const w0 = 2 * Math.PI * f;
+  return bilinearSection({ b: [0, 0, 1], a: [w0 * w0, w0 * Math.SQRT2, 1] }, bilinearK(sampleRate, f));
+}
+
 export function designCrossover(xo: Crossover, sampleRate: number): CrossoverFilters {
+  const subsonic = subsonicSection(xo.highpassHz ?? 0, sampleRate);
+  const split = designSplit(xo, sampleRate);
+  // The subsonic filter belongs to the woofer's band only: the flat high band carries no bass.
+  if (!subsonic) return split;
+  return { ...split, lp: packSections(split.lp ? [split.lp, subsonic] : [subsonic]) };
+}
+
+function designSplit(xo: Crossover, sampleRate: number): CrossoverFilters {
   if (xo.type === 'none' || !(xo.fx > 0)) return { lp: null, hp: null, hpSign: 1 };
   const fx = Math.min(xo.fx, 0.45 * sampleRate);
   const w0 = 2 * Math.PI * fx;

@@ -34,10 +34,19 @@ export function roomGain(f: number, cornerHz: number): number {
   return cornerHz > 0 ? Math.sqrt(1 + (cornerHz / f) ** 4) : 1;
 }
 
+/** The subsonic 2nd-order Butterworth high-pass s^2/(s^2 + sqrt2·w0·s + w0^2) at w; 1 when off. */
+export function subsonicGain(w: number, hz: number): Complex {
+  if (!(hz > 0)) return cx(1);
+  const w0 = 2 * Math.PI * hz;
+  return div(cx(-w * w), cx(w0 * w0 - w * w, Math.SQRT2 * w0 * w));
+}
+
 export function respond(system: SpeakerSystem, f: number, volts: number, withRoomGain = true): PointResponse {
   const { air, driver: d, box, amplifier, listening } = system;
   const w = 2 * Math.PI * f;
   const jw = cx(0, w);
+  // The amplifier's drive after the subsonic filter (the crossover low-pass is left out of the curves).
+  const drive = scale(subsonicGain(w, system.crossover.highpassHz ?? 0), volts);
   const ze = cx(d.re + amplifier.rs, w * d.le);
   const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
   const yo = BOX_KINDS[box.type].outletAdmittance(box, air, w) ?? cx(0);
@@ -45,7 +54,7 @@ export function respond(system: SpeakerSystem, f: number, volts: number, withRoo
   const zbox = inv(ybox);
   const zmTotal = add(zm, scale(zbox, d.sd * d.sd));
   const motional = div(cx(d.bl * d.bl), zmTotal);
-  const current = div(cx(volts), add(ze, motional));
+  const current = div(drive, add(ze, motional));
   const coneVelocity = div(scale(current, d.bl), zmTotal);
   const boxPressure = scale(mul(coneVelocity, zbox), -d.sd);
   const outletFlow = mul(yo, boxPressure);

@@ -73,6 +73,7 @@ export function DriveSeat() {
           )}
         />
         <Row label="Crossover frequency" symbol="fx" cell={(s) => (state.designs[s].crossover.type === 'none' ? null : <Num slot={s} path="crossover.fx_hz" label="Crossover frequency" unit="Hz" step={10} model={(y) => y.crossover.fx} emptyTag="default" />)} />
+        <Row label="Subsonic high-pass" hint="12 dB/octave before the amplifier; 0 = none" cell={(s) => <Num slot={s} path="crossover.highpass_hz" label="Subsonic high-pass" unit="Hz" step={1} min={0} model={(y) => y.crossover.highpassHz ?? 0} emptyTag="default" />} />
       </Group>
       <Group title="Listening seat">
         <Row label="Distance" hint="speaker to seat" cell={(s) => <Num slot={s} path="listening.distance_m" label="Listening distance" unit="m" step={0.1} model={(y) => y.listening.distance} slider={{ min: 0.5, max: 20, log: true }} />} />
