@@ -147,6 +147,8 @@ export interface Listening {
   level: PlannedLevel;
   /** Room-gain corner, Hz; 0 = none. */
   roomGainHz: number;
+  /** Baffle width for the baffle step, m; 0 or absent = none. */
+  baffleWidth?: number;
 }
 
 export interface SpeakerSystem {

@@ -63,6 +63,11 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
   if (doc.crossover.type !== 'none' && doc.crossover.fx_hz === undefined) {
     issues.push(error('crossover.fx_hz', `is required for a ${doc.crossover.type} crossover (20 to 5000 Hz)`));
   }
+  if ((doc.listening.baffle_width_cm ?? 0) > 0 && doc.listening.space !== 'full') {
+    issues.push(
+      warning('listening.baffle_width_cm', `the baffle step models a free-standing cabinet; with ${doc.listening.space} space it adds its 6 dB on top of the boundaries`),
+    );
+  }
   const hpHz = doc.crossover.highpass_hz ?? 0;
   if (hpHz > 0 && doc.crossover.type !== 'none' && doc.crossover.fx_hz !== undefined && hpHz * 4 > doc.crossover.fx_hz) {
     issues.push(error('crossover.highpass_hz', `${fmt(hpHz)} Hz must lie at least two octaves below the crossover at ${fmt(doc.crossover.fx_hz)} Hz`));
@@ -128,6 +133,7 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
       channels: doc.listening.channels ?? 'pair',
       level: level.mode === 'spl' ? { mode: 'spl', splDb: level.spl_db } : { mode: 'volts', voltsFs: level.volts_fs },
       roomGainHz: doc.listening.room_gain_hz ?? 0,
+      baffleWidth: (doc.listening.baffle_width_cm ?? 0) / 100,
     },
   };
   return { system, issues };

@@ -87,6 +87,8 @@ export interface ListeningDoc {
   level?: PlannedLevelDoc;
   /** Small room or car cabin gain: a rising 12 dB/octave slope below the corner. 0 = off. */
   room_gain_hz?: number;
+  /** Baffle width of a free-standing cabinet: the response steps up 6 dB around 115/width. 0 = off. */
+  baffle_width_cm?: number;
 }
 
 export interface AirDoc {

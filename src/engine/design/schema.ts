@@ -124,6 +124,7 @@ export const designSchema = v.strictObject({
       ),
     ),
     room_gain_hz: v.optional(num(0, 200, 'Hz')),
+    baffle_width_cm: v.optional(num(0, 300, 'cm')),
   }),
   air: v.optional(
     v.strictObject({

@@ -7,7 +7,7 @@ import { designCrossover } from '../filters/crossover.ts';
 import { rationalToBiquads } from '../filters/analog.ts';
 import { wooferParams } from '../sim/params.ts';
 import { speakerTransfer } from '../sim/transfer.ts';
-import { roomGainSection } from '../filters/room.ts';
+import { baffleStepSection, roomGainSection } from '../filters/room.ts';
 
 export interface LinearChainDesign {
   /** Woofer band: crossover low-pass then the speaker, packed biquads and gain (Pa per volt). */
@@ -25,11 +25,13 @@ export function designLinearChain(sys: SpeakerSystem, sampleRate: number): Linea
   const tf = speakerTransfer(p);
   const spk = rationalToBiquads(tf.num, tf.den, sampleRate);
   const room = roomGainSection(sys.listening.roomGainHz, sampleRate);
-  const woofer = packSections([...(xo.lp ? [xo.lp] : []), spk.coef, ...(room ? [room] : [])]);
+  const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, sampleRate);
+  const woofer = packSections([...(xo.lp ? [xo.lp] : []), spk.coef, ...(room ? [room] : []), ...(baffle ? [baffle] : [])]);
   return {
     woofer,
     wooferGain: spk.gain,
-    high: xo.hp,
+    // The baffle shapes the whole front, so the flat high band steps with it.
+    high: xo.hp && baffle ? packSections([xo.hp, baffle]) : xo.hp,
     highGain: xo.hpSign * p.passbandPaPerV,
     passbandPaPerV: p.passbandPaPerV,
   };

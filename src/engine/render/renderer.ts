@@ -5,9 +5,9 @@
 // which lie far below the audio band's top; the amplifier's clipping, whose harmonics reach it,
 // runs oversampled.
 import type { SpeakerSystem } from '../system.ts';
-import { BiquadCascade } from '../filters/biquad.ts';
+import { BiquadCascade, packSections } from '../filters/biquad.ts';
 import { designCrossover } from '../filters/crossover.ts';
-import { roomGainSection } from '../filters/room.ts';
+import { baffleStepSection, roomGainSection } from '../filters/room.ts';
 import { RENDER_HALFBAND } from '../filters/halfband.ts';
 import { wooferParams, type WooferParams } from '../sim/params.ts';
 import { WooferSim } from '../sim/woofer.ts';
@@ -231,16 +231,20 @@ export class Renderer {
         lane.lp = replaceCascade(lane.lp, xo.lp);
       }
     }
-    const room = roomGainSection(sys.listening.roomGainHz, fsr);
+    const roomOnly = roomGainSection(sys.listening.roomGainHz, fsr);
+    const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, fsr);
+    const room = roomOnly && baffle ? packSections([roomOnly, baffle]) : (roomOnly ?? baffle);
+    // The baffle shapes the whole front, so the flat high band steps with it.
+    const hpCoef = xo.hp && baffle ? packSections([xo.hp, baffle]) : xo.hp;
     for (const lane of this.lanes) {
       thermalStep(sys.driver.thermal, CHUNK / fsr, lane.th);
       lane.roomN = replaceCascade(lane.roomN, room);
       lane.roomL = replaceCascade(lane.roomL, room);
     }
-    if (fresh || !this.hp || !xo.hp) {
-      this.hp = xo.hp ? Array.from({ length: this.channels }, () => new BiquadCascade(xo.hp!)) : null;
+    if (fresh || !this.hp || !hpCoef) {
+      this.hp = hpCoef ? Array.from({ length: this.channels }, () => new BiquadCascade(hpCoef)) : null;
     } else {
-      this.hp = this.hp.map((c) => replaceCascade(c, xo.hp)!);
+      this.hp = this.hp.map((c) => replaceCascade(c, hpCoef)!);
     }
     this.hpSign = xo.hpSign;
     const d = sys.driver;

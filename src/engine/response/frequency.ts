@@ -10,6 +10,7 @@ import type { SpeakerSystem } from '../system.ts';
 import { add, cx, div, inv, mul, scale, type Complex } from '../complex.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { boxCompliance } from '../box/common.ts';
+import { baffleStepCorners } from '../filters/room.ts';
 
 export interface PointResponse {
   /** Pressure at the seat, Pa. */
@@ -41,6 +42,13 @@ export function subsonicGain(w: number, hz: number): Complex {
   return div(cx(-w * w), cx(w0 * w0 - w * w, Math.SQRT2 * w0 * w));
 }
 
+/** The baffle step (1 + s/wz)/(1 + s/wp) at w, with the corners of filters/room.ts; 1 when off. */
+export function baffleGain(w: number, widthM: number): Complex {
+  if (!(widthM > 0)) return cx(1);
+  const { wz, wp } = baffleStepCorners(widthM);
+  return div(cx(1, w / wz), cx(1, w / wp));
+}
+
 export function respond(system: SpeakerSystem, f: number, volts: number, withRoomGain = true): PointResponse {
   const { air, driver: d, box, amplifier, listening } = system;
   const w = 2 * Math.PI * f;
@@ -59,9 +67,11 @@ export function respond(system: SpeakerSystem, f: number, volts: number, withRoo
   const boxPressure = scale(mul(coneVelocity, zbox), -d.sd);
   const outletFlow = mul(yo, boxPressure);
   const k = (air.rho * (withRoomGain ? roomGain(f, listening.roomGainHz) : 1)) / (listening.omega * listening.distance);
-  const conePressure = scale(mul(jw, scale(coneVelocity, d.sd)), k);
-  const outletPressure = scale(mul(jw, outletFlow), k);
-  const leakPressure = scale(mul(jw, scale(boxPressure, 1 / box.ral)), k);
+  // Radiation: jw·rho/(Omega·r), times the baffle step of a free-standing cabinet.
+  const radiation = scale(mul(jw, baffleGain(w, listening.baffleWidth ?? 0)), k);
+  const conePressure = mul(radiation, scale(coneVelocity, d.sd));
+  const outletPressure = mul(radiation, outletFlow);
+  const leakPressure = mul(radiation, scale(boxPressure, 1 / box.ral));
   return {
     pressure: add(add(conePressure, outletPressure), leakPressure),
     conePressure,

@@ -107,6 +107,7 @@ export function DriveSeat() {
           )}
         />
         <Row label="Room gain corner" hint="0 = none; small rooms, cars" cell={(s) => <Num slot={s} path="listening.room_gain_hz" label="Room gain corner" unit="Hz" step={1} min={0} model={(y) => y.listening.roomGainHz} emptyTag="default" />} />
+        <Row label="Baffle width" hint="free-standing cabinet: 6 dB step near 115/width; 0 = none" cell={(s) => <Num slot={s} path="listening.baffle_width_cm" label="Baffle width" unit="cm" step={1} min={0} model={(y) => (y.listening.baffleWidth ?? 0) * 100} emptyTag="default" />} />
       </Group>
       <Group title="Planned level">
         <Row
