@@ -1,6 +1,7 @@
 // The listening bench's browser glue: one audio context, the worklet node running BenchCore, the
 // render Worker, the loaded track and the bench's observable state. The UI reads `state` and calls
 // the methods; nothing here computes physics (the engine does, in the worklet and the Worker).
+import { integratedLoudness } from '../engine/level/loudness.ts';
 import { AudioContext, AudioWorkletNode, isSupported, type IAudioContext, type IAudioWorkletNode } from 'standardized-audio-context';
 import processorUrl from './processor.worklet.ts?worker&url';
 import RenderWorker from './render.worker.ts?worker';
@@ -37,6 +38,8 @@ export interface TrackInfo {
   overview: { min: Float32Array; max: Float32Array };
   /** Where the demo's loud section starts, s. */
   loudFromS?: number;
+  /** Integrated programme loudness of the file itself (ITU-R BS.1770), LUFS; -Infinity when silent. */
+  loudnessLufs?: number;
 }
 
 export interface OfflineState {
@@ -315,9 +318,15 @@ export class BenchAudio {
     }
   }
 
-  private useTrack(channels: Float32Array[], info: Omit<TrackInfo, 'frames' | 'channels' | 'overview'>): void {
+  private useTrack(channels: Float32Array[], info: Omit<TrackInfo, 'frames' | 'channels' | 'overview' | 'loudnessLufs'>): void {
     this.channels = channels;
-    const track: TrackInfo = { ...info, frames: channels[0].length, channels: channels.length, overview: overviewOf(channels) };
+    const track: TrackInfo = {
+      ...info,
+      frames: channels[0].length,
+      channels: channels.length,
+      overview: overviewOf(channels),
+      loudnessLufs: integratedLoudness(channels, info.sampleRate),
+    };
     this.set({ track, fileError: null, playing: false, position: 0, loop: null, levels: null, liveEvents: { a: [], b: [] }, history: [], offline: EMPTY_OFFLINE, struggling: false, lastSwitch: null, switches: [] });
     this.sentSystems = { a: null, b: null };
     this.post({ type: 'track', channels: channels.map((c) => c.slice()) });

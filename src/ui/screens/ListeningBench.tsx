@@ -52,6 +52,7 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
             <b>{t.name}</b>
             <span class="fine">
               {clock(t.frames / t.sampleRate)} · {(t.sampleRate / 1000).toFixed(1)} kHz · {t.channels === 1 ? 'mono' : 'stereo'}
+              {t.loudnessLufs !== undefined && Number.isFinite(t.loudnessLufs) ? <span title="Integrated loudness of the file itself (ITU-R BS.1770)"> · {t.loudnessLufs.toFixed(1).replace("-", "\u2212")} LUFS</span> : null}
               {t.droppedChannels ? ` (first 2 of ${t.channels + t.droppedChannels} channels)` : ''}
             </span>
           </p>
