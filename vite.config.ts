@@ -24,7 +24,12 @@ function bundledWorkletInDev(): Plugin {
           const out = await build({
             configFile: false,
             logLevel: 'silent',
-            build: { write: false, target: 'es2022', minify: false, lib: { entry, formats: ['iife'], name: 'preheardWorklet', fileName: () => 'worklet.js' } },
+            build: {
+              write: false,
+              target: 'es2022',
+              minify: false,
+              lib: { entry, formats: ['iife'], name: 'preheardWorklet', fileName: () => 'worklet.js' },
+            },
           });
           const chunk = (Array.isArray(out) ? out[0] : out) as { output: { code?: string }[] };
           res.setHeader('Content-Type', 'text/javascript');

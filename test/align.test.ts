@@ -7,7 +7,10 @@ import { parseDesign } from '../src/engine/design/validate.ts';
 import { doc, qesFor, system } from './helpers/designs.ts';
 
 describe('alignment suggestions', () => {
-  const base = doc({ fs_hz: 30, qes: qesFor(0.33, 5), qms: 5, vas_l: 80, sd_cm2: 330, xmax_mm: 8, xlim_mm: 14, pe_w: 30 }, { type: 'sealed', vb_l: 40 });
+  const base = doc(
+    { fs_hz: 30, qes: qesFor(0.33, 5), qms: 5, vas_l: 80, sd_cm2: 330, xmax_mm: 8, xlim_mm: 14, pe_w: 30 },
+    { type: 'sealed', vb_l: 40 },
+  );
   const s = system(base);
   const list = suggestAlignments(s);
 
@@ -20,7 +23,7 @@ describe('alignment suggestions', () => {
     }
   });
 
-  it('offers Thiele\'s QB3 for a driver with Qts below 0.383, with a port that keeps air speed under the limit', () => {
+  it("offers Thiele's QB3 for a driver with Qts below 0.383, with a port that keeps air speed under the limit", () => {
     const vented = list.find((a) => a.box.type === 'vented')!;
     expect(vented.label).toMatch(/QB3/);
     const design = { ...base, box: vented.box };
@@ -30,7 +33,10 @@ describe('alignment suggestions', () => {
     let worst = 0;
     for (let f = 10; f <= 400; f *= 1.01) {
       const r = respond(sys, f, 1);
-      const v = Math.min(sys.driver.xmax / (Math.SQRT2 * abs(r.excursion)), Math.sqrt(sys.driver.pe / (abs(r.current) ** 2 * sys.driver.re)));
+      const v = Math.min(
+        sys.driver.xmax / (Math.SQRT2 * abs(r.excursion)),
+        Math.sqrt(sys.driver.pe / (abs(r.current) ** 2 * sys.driver.re)),
+      );
       worst = Math.max(worst, (Math.SQRT2 * abs(r.outletFlow) * v) / sys.box.sv);
     }
     expect(vented.note).toMatch(/sized for at most 17 m\/s/);

@@ -23,7 +23,8 @@ async function decode(bytes: Uint8Array) {
 
 describe('WAV export', () => {
   it('16-bit PCM decodes back within one quantisation step, clipped at the rails', async () => {
-    const l = tone(0.1, 440, 0.5), r = tone(0.1, 110, 0.25);
+    const l = tone(0.1, 440, 0.5),
+      r = tone(0.1, 110, 0.25);
     r[10] = 1.5;
     const out = await decode(encodeWav([l, r], SR, '16'));
     expect(out).toHaveLength(2);
@@ -43,7 +44,9 @@ describe('WAV export', () => {
 
   it('names what is wrong with a request', () => {
     expect(() => encodeWav([], SR, '16')).toThrow('a WAV export needs 1..8 channels, got 0');
-    expect(() => encodeWav([new Float32Array(4)], 44100.5, '16')).toThrow('sample rate must be a whole number of Hz within 8000..384000, got 44100.5');
+    expect(() => encodeWav([new Float32Array(4)], 44100.5, '16')).toThrow(
+      'sample rate must be a whole number of Hz within 8000..384000, got 44100.5',
+    );
     expect(() => encodeWav([new Float32Array(4)], SR, '24' as '16')).toThrow('format must be one of 16, f32, got 24');
   });
 });

@@ -46,16 +46,26 @@ describe('messages to the worklet', () => {
     expect(err({ type: 'monitor', gainDb: Number.NaN })).toBe('message("monitor").gainDb must be a finite number, got NaN');
     expect(err({ type: 'seek', frame: 1.5 })).toBe('message("seek").frame must be a whole number, got 1.5');
     expect(err({ type: 'seek', frame: -1 })).toContain('must be within 0..');
-    expect(err({ type: 'mode', mode: 'distorted' })).toBe('message("mode").mode must be one of nonlinear, linear, residual, got "distorted"');
+    expect(err({ type: 'mode', mode: 'distorted' })).toBe(
+      'message("mode").mode must be one of nonlinear, linear, residual, got "distorted"',
+    );
     expect(err({ type: 'play', playing: 'yes' })).toBe('message("play").playing must be true or false, got "yes"');
-    expect(err({ type: 'loop', region: { startFrame: 500, endFrame: 400 } })).toBe('message("loop").region.endFrame (400) must be after startFrame (500)');
-    expect(err({ type: 'design', slot: 'a', system: { name: 'x' }, voltsFs: 1 })).toBe('message("design").system.air must be an object, got undefined');
-    expect(err({ type: 'design', slot: 'a', system: system('sealed'), voltsFs: 0 })).toContain('voltsFs must be within 0.000001..10000, got 0');
+    expect(err({ type: 'loop', region: { startFrame: 500, endFrame: 400 } })).toBe(
+      'message("loop").region.endFrame (400) must be after startFrame (500)',
+    );
+    expect(err({ type: 'design', slot: 'a', system: { name: 'x' }, voltsFs: 1 })).toBe(
+      'message("design").system.air must be an object, got undefined',
+    );
+    expect(err({ type: 'design', slot: 'a', system: system('sealed'), voltsFs: 0 })).toContain(
+      'voltsFs must be within 0.000001..10000, got 0',
+    );
     expect(err({ type: 'track', channels: [new Float32Array(4), new Float32Array(5)] })).toBe(
       'message("track").channels[1] has 5 frames, channel 0 has 4: channels must be the same length',
     );
     expect(err({ type: 'track', channels: [[0, 1]] })).toBe('message("track").channels[0] must be a Float32Array, got an array of 2');
-    expect(err({ type: 'track', channels: [new Float32Array(0)] })).toBe('message("track").channels is empty: a track needs at least one frame');
+    expect(err({ type: 'track', channels: [new Float32Array(0)] })).toBe(
+      'message("track").channels is empty: a track needs at least one frame',
+    );
     const bad = system('sealed') as unknown as { driver: { fs: number } };
     bad.driver.fs = -3;
     expect(err({ type: 'design', slot: 'a', system: bad, voltsFs: 1 })).toContain('system.driver.fs must be within');
@@ -72,15 +82,38 @@ describe('messages to the worklet', () => {
 
 describe('reports from the worklet', () => {
   it('accepts well-formed reports and rejects unknown or malformed ones', () => {
-    const pos = { type: 'position', frame: 4800, playing: true, lane: 'a', load: 0.05, lateBlocks: 0, meters: { a: { excursionMm: 1, coilTempC: 25, portSpeed: 0, compressionDb: 0, residualDb: -60 }, b: null } };
+    const pos = {
+      type: 'position',
+      frame: 4800,
+      playing: true,
+      lane: 'a',
+      load: 0.05,
+      lateBlocks: 0,
+      meters: { a: { excursionMm: 1, coilTempC: 25, portSpeed: 0, compressionDb: 0, residualDb: -60 }, b: null },
+    };
     expect(parseFromWorklet(pos)).toEqual({ ok: true, msg: pos });
-    const ev = { type: 'events', slot: 'b', from: 2, events: [{ kind: 'port-speed', start_s: 1, end_s: 1.2, peak: 19, unit: 'm/s', limit: 17 }] };
+    const ev = {
+      type: 'events',
+      slot: 'b',
+      from: 2,
+      events: [{ kind: 'port-speed', start_s: 1, end_s: 1.2, peak: 19, unit: 'm/s', limit: 17 }],
+    };
     expect(parseFromWorklet(ev)).toEqual({ ok: true, msg: ev });
-    expect(parseFromWorklet({ type: 'events', slot: 'b', from: 0, events: [{ kind: 'meltdown', start_s: 1, end_s: 1, peak: 1, unit: '', limit: 1 }] })).toEqual({
+    expect(
+      parseFromWorklet({
+        type: 'events',
+        slot: 'b',
+        from: 0,
+        events: [{ kind: 'meltdown', start_s: 1, end_s: 1, peak: 1, unit: '', limit: 1 }],
+      }),
+    ).toEqual({
       ok: false,
       error: expect.stringContaining('events[0].kind must be one of excursion, xlim'),
     });
     expect(parseFromWorklet({ type: 'hello' })).toEqual({ ok: false, error: expect.stringContaining('unknown report type "hello"') });
-    expect(parseFromWorklet({ ...pos, lane: 'x' })).toEqual({ ok: false, error: 'report("position").lane must be one of a, b, ref, got "x"' });
+    expect(parseFromWorklet({ ...pos, lane: 'x' })).toEqual({
+      ok: false,
+      error: 'report("position").lane must be one of a, b, ref, got "x"',
+    });
   });
 });

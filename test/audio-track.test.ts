@@ -6,12 +6,16 @@ import { decodedProblem, fileProblem, MAX_FILE_BYTES, MAX_TRACK_S, overviewOf } 
 describe('files the bench refuses', () => {
   it('says an empty or oversized file is empty or too big, by name and size', () => {
     expect(fileProblem({ name: 'a.wav', size: 0 })).toBe('“a.wav” is empty (0 bytes): there is no audio in it.');
-    expect(fileProblem({ name: 'big.flac', size: MAX_FILE_BYTES + 1 })).toMatch(/^“big\.flac” is 1024 MB, more than the 1024 MB the bench opens/);
+    expect(fileProblem({ name: 'big.flac', size: MAX_FILE_BYTES + 1 })).toMatch(
+      /^“big\.flac” is 1024 MB, more than the 1024 MB the bench opens/,
+    );
     expect(fileProblem({ name: 'ok.mp3', size: 5e6 })).toBeNull();
   });
 
   it('says a decoded track is too long, empty or silent; accepts one with sound', () => {
-    expect(decodedProblem('long.wav', MAX_TRACK_S + 60, [])).toBe('“long.wav” is 21.0 minutes long; the bench takes up to 20 minutes. Cut the part you want to hear.');
+    expect(decodedProblem('long.wav', MAX_TRACK_S + 60, [])).toBe(
+      '“long.wav” is 21.0 minutes long; the bench takes up to 20 minutes. Cut the part you want to hear.',
+    );
     expect(decodedProblem('e.wav', 0, [new Float32Array(0)])).toBe('“e.wav” decodes to no audio at all (0 samples).');
     expect(decodedProblem('s.wav', 1, [new Float32Array(100)])).toMatch(/silent from start to end/);
     const x = new Float32Array(100);

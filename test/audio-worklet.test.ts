@@ -52,7 +52,10 @@ function track(seconds: number, burst = true): Float32Array[] {
   return [l, l.slice()];
 }
 
-function make(channels: Float32Array[], opts: { lane?: 'a' | 'b' | 'ref'; match?: boolean; mode?: 'nonlinear' | 'linear' | 'residual'; volts?: [number, number] } = {}) {
+function make(
+  channels: Float32Array[],
+  opts: { lane?: 'a' | 'b' | 'ref'; match?: boolean; mode?: 'nonlinear' | 'linear' | 'residual'; volts?: [number, number] } = {},
+) {
   const p = new registered!.ctor();
   const [va, vb] = opts.volts ?? [30, 30];
   p.port.deliver({ type: 'track', channels: channels.map((c) => c.slice()) });
@@ -100,11 +103,14 @@ describe('the bench processor in a fake AudioWorkletGlobalScope', () => {
 
   it('switches A to B at a block boundary through the 5 ms linear crossfade, sample for sample', () => {
     const ch = track(1.2);
-    const both = make(ch, { match: false }), onlyA = make(ch, { match: false }), onlyB = make(ch, { lane: 'b', match: false });
+    const both = make(ch, { match: false }),
+      onlyA = make(ch, { match: false }),
+      onlyB = make(ch, { lane: 'b', match: false });
     for (const p of [both, onlyA, onlyB]) p.port.deliver({ type: 'play', playing: true });
     // The request arrives mid-quantum 250 (as a message would between two process() calls).
     const out = run(both, 400, (q) => q === 250 && both.port.deliver({ type: 'lane', lane: 'b' }));
-    const a = run(onlyA, 400), b = run(onlyB, 400);
+    const a = run(onlyA, 400),
+      b = run(onlyB, 400);
     const sw = both.port.take('switched');
     expect(sw).toHaveLength(1);
     const s = sw[0].blockFrame;
@@ -135,10 +141,13 @@ describe('the bench processor in a fake AudioWorkletGlobalScope', () => {
       const out = run(p, 200);
       return { db: gainToDb(rms(out, 9600, 25600)), p };
     };
-    const a = level('a', true), b = level('b', true), r = level('ref', true);
+    const a = level('a', true),
+      b = level('b', true),
+      r = level('ref', true);
     expect(Math.abs(a.db - b.db)).toBeLessThan(0.3);
     expect(Math.abs(a.db - r.db)).toBeLessThan(0.3);
-    const aOff = level('a', false), bOff = level('b', false);
+    const aOff = level('a', false),
+      bOff = level('b', false);
     const lv = aOff.p.port.take('levels').at(-1)!;
     const planned = gainToDb(lv.passbandPa.a / lv.passbandPa.b);
     // Unmatched, the two differ by what the planned volts and sensitivities make of them.
@@ -171,11 +180,13 @@ describe('the bench processor in a fake AudioWorkletGlobalScope', () => {
     p.port.deliver({ type: 'play', playing: true });
     const at = 260;
     const out = run(p, 400, (q) => q === at && p.port.deliver({ type: 'mode', mode: 'residual' }));
-    const s = at * 128, L = Math.round(CROSSFADE_S * SR);
+    const s = at * 128,
+      L = Math.round(CROSSFADE_S * SR);
     // Silent at the turn, then the distortion stream alone.
     expect(Math.abs(out[s + L])).toBeLessThan(1e-3);
     // No step at the turn larger than the streams' own largest steps on either side of it.
-    let own = 0, around = 0;
+    let own = 0,
+      around = 0;
     for (let k = s - 4000; k < s; k++) own = Math.max(own, Math.abs(out[k] - out[k - 1]));
     for (let k = s + 3 * L; k < s + 3 * L + 4000; k++) own = Math.max(own, Math.abs(out[k] - out[k - 1]));
     for (let k = s; k < s + 3 * L; k++) around = Math.max(around, Math.abs(out[k] - out[k - 1]));
@@ -195,7 +206,8 @@ describe('the bench processor in a fake AudioWorkletGlobalScope', () => {
       expect(m.frame).toBeLessThan(14400);
     }
     // No click at the wraps: no step larger than the tone's own largest step (0.05 at 400 Hz, calibrated).
-    let tone = 0, worst = 0;
+    let tone = 0,
+      worst = 0;
     for (let k = 20000; k < 22000; k++) tone = Math.max(tone, Math.abs(out[k] - out[k - 1]));
     for (let k = 1; k < out.length; k++) worst = Math.max(worst, Math.abs(out[k] - out[k - 1]));
     expect(worst).toBeLessThanOrEqual(tone * 1.05);

@@ -8,10 +8,14 @@ import { baffleStepHz } from '../src/engine/filters/room.ts';
 import { doc, system } from './helpers/designs.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
 
-const plain = doc({ fs_hz: 40, qes: 0.4, qms: 4, vas_l: 30 }, { type: 'sealed', vb_l: 20 }, {
-  crossover: { type: 'lr4', fx_hz: 5000 },
-  listening: { distance_m: 2, space: 'full' },
-});
+const plain = doc(
+  { fs_hz: 40, qes: 0.4, qms: 4, vas_l: 30 },
+  { type: 'sealed', vb_l: 20 },
+  {
+    crossover: { type: 'lr4', fx_hz: 5000 },
+    listening: { distance_m: 2, space: 'full' },
+  },
+);
 const stepped = { ...plain, listening: { ...plain.listening, baffle_width_cm: 25 } };
 
 describe('baffle step', () => {

@@ -39,7 +39,18 @@ describe('preheard render', () => {
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     const s = JSON.parse(r.stdout);
-    for (const k of ['duration_s', 'sample_rate', 'volts_fs', 'peak_excursion_mm', 'peak_coil_temp_c', 'peak_port_speed_m_s', 'amp_clip_s', 'max_compression_db', 'limiter_db', 'realtime_factor']) {
+    for (const k of [
+      'duration_s',
+      'sample_rate',
+      'volts_fs',
+      'peak_excursion_mm',
+      'peak_coil_temp_c',
+      'peak_port_speed_m_s',
+      'amp_clip_s',
+      'max_compression_db',
+      'limiter_db',
+      'realtime_factor',
+    ]) {
       expect(typeof s[k], k).toBe('number');
     }
     expect(s.duration_s).toBe(2);
@@ -110,7 +121,9 @@ describe('preheard headroom and compare', () => {
     const h = JSON.parse(r.stdout);
     expect(Object.keys(h).sort()).toEqual(['clean_spl_db', 'clean_volts', 'first_limit', 'first_limit_s']);
     const at = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'h0.wav'), '--volts', String(h.clean_volts), '--json').stdout);
-    const above = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'h1.wav'), '--volts', String(h.clean_volts * 10 ** (0.5 / 20)), '--json').stdout);
+    const above = JSON.parse(
+      cli('render', SEALED, input, '-o', join(dir, 'h1.wav'), '--volts', String(h.clean_volts * 10 ** (0.5 / 20)), '--json').stdout,
+    );
     expect(at.events).toHaveLength(0);
     expect(above.events.length).toBeGreaterThan(0);
     expect(above.events.map((e: { kind: string }) => e.kind)).toContain(h.first_limit);

@@ -15,10 +15,11 @@ describe('demo track', () => {
     expect(t.channels[1].length).toBe(32 * 48000);
     let peak = 0;
     let finite = true;
-    for (const ch of t.channels) for (const v of ch) {
-      finite &&= Number.isFinite(v);
-      peak = Math.max(peak, Math.abs(v));
-    }
+    for (const ch of t.channels)
+      for (const v of ch) {
+        finite &&= Number.isFinite(v);
+        peak = Math.max(peak, Math.abs(v));
+      }
     expect(finite).toBe(true);
     expect(20 * Math.log10(peak)).toBeCloseTo(-1, 2);
   });

@@ -45,7 +45,10 @@ describe('design document validation', () => {
   });
 
   it('refuses bad JSON, non-objects, foreign formats and newer versions with one clear message', () => {
-    expect(parseDesign('{"format":')).toMatchObject({ ok: false, errors: [{ path: '', message: expect.stringMatching(/not valid JSON/) }] });
+    expect(parseDesign('{"format":')).toMatchObject({
+      ok: false,
+      errors: [{ path: '', message: expect.stringMatching(/not valid JSON/) }],
+    });
     expect(parseDesign('[1,2]')).toMatchObject({ ok: false, errors: [{ message: 'a design must be a JSON object' }] });
     expect(parseDesign({ format: 'something-else' })).toMatchObject({ ok: false, errors: [{ path: 'format' }] });
     expect(parseDesign({ ...doc(driver, { type: 'sealed', vb_l: 10 }), version: 7 })).toMatchObject({

@@ -34,7 +34,12 @@ describe('T/S derivation (Thiele 1971, Small 1972 relations)', () => {
         (fs, qes, qms, vas, re, sd) => {
           const a = deriveSmallSignal({ fs, qes, qms, vas }, re, sd, air).values!;
           const b = deriveSmallSignal({ bl: a.bl, mms: a.mms, cms: a.cms, rms: a.rms }, re, sd, air).values!;
-          for (const [x, y] of [[fs, b.fs], [qes, b.qes], [qms, b.qms], [vas, b.vas]]) {
+          for (const [x, y] of [
+            [fs, b.fs],
+            [qes, b.qes],
+            [qms, b.qms],
+            [vas, b.vas],
+          ]) {
             expect(Math.abs(y / x - 1)).toBeLessThan(1e-9);
           }
         },

@@ -42,7 +42,15 @@ describe('extreme but valid designs', () => {
     ['vented, fb far above fs', doc(driver, { type: 'vented', vb_l: 20, fb_hz: 110, ports: [{ diameter_cm: 8 }] })],
     ['vented, fb far below fs', doc(driver, { type: 'vented', vb_l: 60, fb_hz: 15, ports: [{ diameter_cm: 5 }] })],
     ['lossless vented box', doc(driver, { type: 'vented', vb_l: 20, fb_hz: 40, ql: null, ports: [{ diameter_cm: 6 }] })],
-    ['lossless passive radiator', doc(driver, { type: 'passive-radiator', vb_l: 20, ql: null, radiator: { sd_cm2: 200, mmp_g: 80, cmp_mm_per_n: 0.5, qmp: null, xmax_mm: 10 } })],
+    [
+      'lossless passive radiator',
+      doc(driver, {
+        type: 'passive-radiator',
+        vb_l: 20,
+        ql: null,
+        radiator: { sd_cm2: 200, mmp_g: 80, cmp_mm_per_n: 0.5, qmp: null, xmax_mm: 10 },
+      }),
+    ],
   ])('%s renders finite, bounded audio at 48 kHz', (_name, d) => {
     const out = check(d, [tone(48000, 0.3, 50)], 48000);
     expect(out).not.toBe('refused');
@@ -64,7 +72,14 @@ describe('extreme but valid designs', () => {
   it('refuses 9 channels and silly sample rates with a message', () => {
     const d = parseDesign(doc(driver, { type: 'sealed', vb_l: 20 }));
     if (!d.ok) throw new Error('design');
-    expect(() => renderBuffer(d.system, Array.from({ length: 9 }, () => tone(48000, 0.01, 50)), 48000, { voltsFs: 1 })).toThrow(/channels must be 1\.\.8/);
+    expect(() =>
+      renderBuffer(
+        d.system,
+        Array.from({ length: 9 }, () => tone(48000, 0.01, 50)),
+        48000,
+        { voltsFs: 1 },
+      ),
+    ).toThrow(/channels must be 1\.\.8/);
     expect(() => renderBuffer(d.system, [tone(4000, 0.01, 50)], 4000, { voltsFs: 1 })).toThrow(/sampleRate/);
   });
 

@@ -18,7 +18,8 @@ describe('Linkwitz-Riley crossover', () => {
         expect(20 * Math.log10(mag(cascadeResponse(xo.lp!, 1, fx, fs)))).toBeCloseTo(-6.02, 2);
         expect(20 * Math.log10(mag(cascadeResponse(xo.hp!, 1, fx, fs)))).toBeCloseTo(-6.02, 2);
         for (const f of [20, 200, 900, 1800, 3600, 10000, 20000]) {
-          const l = cascadeResponse(xo.lp!, 1, f, fs), h = cascadeResponse(xo.hp!, xo.hpSign, f, fs);
+          const l = cascadeResponse(xo.lp!, 1, f, fs),
+            h = cascadeResponse(xo.hp!, xo.hpSign, f, fs);
           expect(Math.hypot(l[0] + h[0], l[1] + h[1])).toBeCloseTo(1, 9);
         }
       });
@@ -37,7 +38,9 @@ describe('half-band oversampling filters', () => {
     expect(designHalfband(60, 0.1).m).toBeLessThan(m);
   });
   it('interpolate then decimate is a delay of M samples for a band-limited signal', () => {
-    const up = new Upsampler2(), down = new Decimator2(), buf = new Float64Array(2);
+    const up = new Upsampler2(),
+      down = new Decimator2(),
+      buf = new Float64Array(2);
     const M = RENDER_HALFBAND.m;
     const x = (k: number) => Math.sin(0.3 * k) + 0.5 * Math.cos(1.1 * k + 0.2);
     for (let k = 0; k < 2000; k++) {

@@ -64,27 +64,41 @@ describe('design loader fuzz (fast-check, seeded)', () => {
   });
 
   it('survives numbers scaled far out of range in several fields at once', () => {
-    const numeric = allLeaves.filter((p) => typeof p.reduce<unknown>((n, k) => (n as Record<string | number, unknown>)[k], example) === 'number');
+    const numeric = allLeaves.filter(
+      (p) => typeof p.reduce<unknown>((n, k) => (n as Record<string | number, unknown>)[k], example) === 'number',
+    );
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.constantFrom(...numeric), fc.double({ min: 1e-3, max: 1e3, noNaN: true })), { minLength: 1, maxLength: 5 }), (edits) => {
-        let d: unknown = example;
-        for (const [path, factor] of edits) {
-          const current = path.reduce<unknown>((n, k) => (n as Record<string | number, unknown>)[k], d) as number;
-          d = mutate(d, path, current * factor, false);
-        }
-        checkOutcome(d);
-      }),
+      fc.property(
+        fc.array(fc.tuple(fc.constantFrom(...numeric), fc.double({ min: 1e-3, max: 1e3, noNaN: true })), { minLength: 1, maxLength: 5 }),
+        (edits) => {
+          let d: unknown = example;
+          for (const [path, factor] of edits) {
+            const current = path.reduce<unknown>((n, k) => (n as Record<string | number, unknown>)[k], d) as number;
+            d = mutate(d, path, current * factor, false);
+          }
+          checkOutcome(d);
+        },
+      ),
       { seed: FUZZ_SEED, numRuns: runs(300) },
     );
   });
 
   it('survives arbitrary JSON and arbitrary text', () => {
-    fc.assert(fc.property(fc.jsonValue(), (v) => checkOutcome(v)), { seed: FUZZ_SEED, numRuns: runs(300) });
-    fc.assert(fc.property(fc.string({ maxLength: 200 }), (s) => checkOutcome(s)), { seed: FUZZ_SEED, numRuns: runs(300) });
+    fc.assert(
+      fc.property(fc.jsonValue(), (v) => checkOutcome(v)),
+      { seed: FUZZ_SEED, numRuns: runs(300) },
+    );
+    fc.assert(
+      fc.property(fc.string({ maxLength: 200 }), (s) => checkOutcome(s)),
+      { seed: FUZZ_SEED, numRuns: runs(300) },
+    );
   });
 
   it('survives truncated design text', () => {
     const text = JSON.stringify(example);
-    fc.assert(fc.property(fc.integer({ min: 0, max: text.length - 1 }), (n) => checkOutcome(text.slice(0, n))), { seed: FUZZ_SEED, numRuns: runs(200) });
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: text.length - 1 }), (n) => checkOutcome(text.slice(0, n))),
+      { seed: FUZZ_SEED, numRuns: runs(200) },
+    );
   });
 });

@@ -28,17 +28,24 @@ describe('share-link decoder fuzz (fast-check, seeded; each case bounded to 2 s)
   it('survives truncated and mutated links', async () => {
     const good = await encodeShare(demoPair());
     await fc.assert(
-      fc.asyncProperty(fc.integer({ min: 0, max: good.length }), fc.array(fc.tuple(fc.nat(), fc.constantFrom(...'AZaz09-_=+/.%#'.split(''))), { maxLength: 5 }), async (cut, edits) => {
-        const chars = good.slice(0, cut).split('');
-        for (const [at, c] of edits) if (chars.length) chars[at % chars.length] = c;
-        await check('#' + chars.join(''));
-      }),
+      fc.asyncProperty(
+        fc.integer({ min: 0, max: good.length }),
+        fc.array(fc.tuple(fc.nat(), fc.constantFrom(...'AZaz09-_=+/.%#'.split(''))), { maxLength: 5 }),
+        async (cut, edits) => {
+          const chars = good.slice(0, cut).split('');
+          for (const [at, c] of edits) if (chars.length) chars[at % chars.length] = c;
+          await check('#' + chars.join(''));
+        },
+      ),
       { seed: FUZZ_SEED, numRuns: runs(300), timeout: 2000 },
     );
   });
 
   it('survives arbitrary fragments', async () => {
-    await fc.assert(fc.asyncProperty(fc.string({ maxLength: 300 }), async (s) => check('#pair=1.' + s)), { seed: FUZZ_SEED, numRuns: runs(300), timeout: 2000 });
+    await fc.assert(
+      fc.asyncProperty(fc.string({ maxLength: 300 }), async (s) => check('#pair=1.' + s)),
+      { seed: FUZZ_SEED, numRuns: runs(300), timeout: 2000 },
+    );
   });
 
   it('refuses a small link that inflates to gigabytes', async () => {

@@ -46,7 +46,9 @@ describe('WAV reader fuzz (fast-check, seeded; each case bounded to 2 s)', () =>
       seedIndex: fc.integer({ min: 0, max: seeds.length - 1 }),
       cut: fc.option(fc.integer({ min: 0, max: 2000 }), { nil: undefined }),
       flips: fc.array(fc.tuple(fc.integer({ min: 0, max: 80 }), fc.integer({ min: 0, max: 255 })), { maxLength: 6 }),
-      word: fc.option(fc.tuple(fc.constantFrom(4, 16, 22, 24, 28, 32, 34, 40), fc.constantFrom(0, 1, 0xffffffff, 0x7fffffff, 0x10000)), { nil: undefined }),
+      word: fc.option(fc.tuple(fc.constantFrom(4, 16, 22, 24, 28, 32, 34, 40), fc.constantFrom(0, 1, 0xffffffff, 0x7fffffff, 0x10000)), {
+        nil: undefined,
+      }),
     });
     await fc.assert(
       fc.asyncProperty(mutation, async ({ seedIndex, cut, flips, word }) => {

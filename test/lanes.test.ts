@@ -37,7 +37,12 @@ describe('lane mixer', () => {
 
   it('keeps every lane running while another is heard, so a switch lands mid-music without restarting', () => {
     let calls = 0;
-    const counting: BlockRenderer = { process: (i, o, f) => { calls++; gain(1).process(i, o, f); } };
+    const counting: BlockRenderer = {
+      process: (i, o, f) => {
+        calls++;
+        gain(1).process(i, o, f);
+      },
+    };
     const mixer = new LaneMixer({ a: gain(1), b: counting, ref: gain(1) }, 2, sr);
     run(mixer, 5);
     expect(calls).toBe(5);
@@ -46,7 +51,10 @@ describe('lane mixer', () => {
   it('finishes a running fade before starting the next one', () => {
     const mixer = new LaneMixer({ a: gain(1), b: gain(0), ref: gain(-1) }, 2, sr);
     mixer.monitorGain = 1;
-    const out = run(mixer, 8, (b) => { if (b === 1) mixer.select('b'); if (b === 2) mixer.select('ref'); });
+    const out = run(mixer, 8, (b) => {
+      if (b === 1) mixer.select('b');
+      if (b === 2) mixer.select('ref');
+    });
     let maxStep = 0;
     for (let k = 1; k < out.length; k++) maxStep = Math.max(maxStep, Math.abs(out[k] - out[k - 1]));
     expect(maxStep).toBeLessThanOrEqual(1 / Math.round(CROSSFADE_S * sr) + 1e-6);

@@ -6,10 +6,17 @@ import { describe, expect, it } from 'vitest';
 import { ResidualMeter, toneAmplitude } from '../src/engine/level/distortion.ts';
 
 describe('residual-to-output distortion measure', () => {
-  const fs = 48000, f = 100, n = 48000;
-  for (const [A, a] of [[1, 0.05], [0.8, 0.3], [2, -0.02]] as const) {
+  const fs = 48000,
+    f = 100,
+    n = 48000;
+  for (const [A, a] of [
+    [1, 0.05],
+    [0.8, 0.3],
+    [2, -0.02],
+  ] as const) {
     it(`A = ${A}, a = ${a}`, () => {
-      const y = new Float64Array(n), res = new Float64Array(n);
+      const y = new Float64Array(n),
+        res = new Float64Array(n);
       for (let k = 0; k < n; k++) {
         const x = A * Math.sin((2 * Math.PI * f * k) / fs);
         res[k] = a * x * x * x;
@@ -19,7 +26,8 @@ describe('residual-to-output distortion measure', () => {
       expect(toneAmplitude(res, n - len, len, 3 * f, fs)).toBeCloseTo((Math.abs(a) * A ** 3) / 4, 9);
       expect(toneAmplitude(y, n - len, len, f, fs)).toBeCloseTo(A + (3 * a * A ** 3) / 4, 9);
       // The meter's energy ratio equals the analytic one: residual (3aA^3/4, aA^3/4) over output.
-      const h1 = (3 * a * A ** 3) / 4, h3 = (a * A ** 3) / 4;
+      const h1 = (3 * a * A ** 3) / 4,
+        h3 = (a * A ** 3) / 4;
       const expected = (h1 * h1 + h3 * h3) / ((A + h1) ** 2 + h3 * h3);
       const meter = new ResidualMeter(fs, 0.05);
       const ratio = new Float64Array(n);

@@ -6,7 +6,10 @@ const sine = (seconds: number, dbfs: number, hz = 1000, sr = 48000) =>
 const concat = (...parts: Float32Array[]) => {
   const out = new Float32Array(parts.reduce((n, p) => n + p.length, 0));
   let at = 0;
-  for (const p of parts) (out.set(p, at), (at += p.length));
+  for (const p of parts) {
+    out.set(p, at);
+    at += p.length;
+  }
   return out;
 };
 
@@ -18,7 +21,7 @@ describe('loudness (ITU-R BS.1770-4)', () => {
       [1.53512485958697, -2.69169618940638, 1.19839281085285, -1.69065929318241, 0.73248077421585],
       [1, -2, 1, -1.99004745483398, 0.99007225036621],
     ];
-    [shelf, hp].forEach((sec, i) => published[i].forEach((v, j) => expect(sec[j]).toBeCloseTo(v, 7)));
+    for (const [i, sec] of [shelf, hp].entries()) for (const [j, v] of published[i].entries()) expect(sec[j]).toBeCloseTo(v, 7);
   });
 
   it('reads a 0 dBFS 997 Hz sine in one channel as -3.01 LKFS (BS.1770-4)', () => {

@@ -7,7 +7,7 @@ import { analyze } from '../src/engine/response/analyze.ts';
 const c = airAt(20).c;
 
 describe('port tuning (Helmholtz resonator with end corrections)', () => {
-  it('uses Rayleigh\'s flanged end 8/(3 pi)·a ≈ 0.85·a and Levine & Schwinger\'s free end 0.6133·a (Phys. Rev. 73, 1948)', () => {
+  it("uses Rayleigh's flanged end 8/(3 pi)·a ≈ 0.85·a and Levine & Schwinger's free end 0.6133·a (Phys. Rev. 73, 1948)", () => {
     expect(END_CORRECTION.flanged).toBeCloseTo(0.8488, 4);
     expect(END_CORRECTION.free).toBeCloseTo(0.6133, 4);
   });

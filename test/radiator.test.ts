@@ -68,7 +68,7 @@ describe('passive radiator (Small 1974)', () => {
     }
   });
 
-  it('reports radiator excursion, which exceeds the cone\'s near fb', () => {
+  it("reports radiator excursion, which exceeds the cone's near fb", () => {
     const a = analyze(radiator(0.5));
     const k = a.curves.freqHz.findIndex((f) => f >= (a.figures.fbHz ?? 0));
     expect(a.curves.radiatorExcursionMm![k]).toBeGreaterThan(a.curves.excursionMm[k]);

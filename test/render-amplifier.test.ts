@@ -6,7 +6,9 @@ import { RENDER_HALFBAND } from '../src/engine/filters/halfband.ts';
 
 /** Amplitude at f with a Hann window (sidelobes fall 18 dB/octave, so the strong tone does not leak). */
 function hannAmplitude(x: Float64Array, start: number, len: number, f: number, fs: number): number {
-  let c = 0, s = 0, wsum = 0;
+  let c = 0,
+    s = 0,
+    wsum = 0;
   for (let k = 0; k < len; k++) {
     const w = 0.5 - 0.5 * Math.cos((2 * Math.PI * k) / len);
     c += w * x[start + k] * Math.cos((2 * Math.PI * f * k) / fs);
@@ -32,9 +34,12 @@ describe('amplifier rails', () => {
     }
   });
   it('the oversampled clipping stage is a pure delay below the rail and keeps aliases 60 dB down when it clips hard', () => {
-    const fs = 44100, n = 1 << 15;
+    const fs = 44100,
+      n = 1 << 15;
     const f = (fs * 441) / n; // a bin-centred tone near 594 Hz
-    const u = new Float64Array(n), c = new Float64Array(n), d = new Float64Array(n);
+    const u = new Float64Array(n),
+      c = new Float64Array(n),
+      d = new Float64Array(n);
     for (let k = 0; k < n; k++) u[k] = 3 * Math.sin((2 * Math.PI * f * k) / fs);
     const stage = new OversampledClipper(RENDER_HALFBAND);
     stage.process(u, n, 100, false, c, d);
@@ -42,7 +47,8 @@ describe('amplifier rails', () => {
     // Driven 10 dB into a hard clip: energy off the tone's harmonics (aliases) vs the fundamental.
     for (let k = 0; k < n; k++) u[k] = 120 * Math.sin((2 * Math.PI * f * k) / fs);
     stage.process(u, n, 38, false, c, d);
-    const start = 4096, len = n - 4096 - 4096;
+    const start = 4096,
+      len = n - 4096 - 4096;
     const fund = hannAmplitude(c, start, len, f, fs);
     let worst = 0;
     for (let probe = 100; probe < 0.4 * fs; probe += 37.3) {

@@ -2,7 +2,7 @@
 // finite and under full scale at any level up to and past amplifier clipping; with no input the
 // model comes back to rest; and stress only grows with level (peak excursion does not fall, and
 // every kind of event seen at one level is still there 6 dB higher).
-import { describe, expect, it } from 'vitest';
+import { describe, it } from 'vitest';
 import fc from 'fast-check';
 import { createRenderer, renderBuffer } from '../src/engine/render/index.ts';
 import { radiatorBox, sealedBox, system, ventedBox } from './sim-fixtures.ts';
@@ -23,7 +23,11 @@ type Design = typeof design extends fc.Arbitrary<infer T> ? T : never;
 
 function build(d: Design) {
   const box = d.box === 'sealed' ? sealedBox(d.vbL, 7) : d.box === 'vented' ? ventedBox(d.vbL, d.fs * 0.9, 7, 8) : radiatorBox(d.vbL);
-  return system(box, { d: { fs: d.fs, qes: d.qes, vasL: d.vasL, leMh: d.leMh, xmaxMm: d.xmaxMm, xlimMm: d.xmaxMm * 1.8 }, powerW: d.powerW, clip: d.clip });
+  return system(box, {
+    d: { fs: d.fs, qes: d.qes, vasL: d.vasL, leMh: d.leMh, xmaxMm: d.xmaxMm, xlimMm: d.xmaxMm * 1.8 },
+    powerW: d.powerW,
+    clip: d.clip,
+  });
 }
 
 function burst(fs: number, seconds: number, f: number): Float32Array {
@@ -65,7 +69,12 @@ describe('renderer properties (fast-check)', () => {
         const tail = new Float32Array(zeros.length);
         r.process([zeros], [tail], zeros.length);
         const { sim } = r.lane(0);
-        return Math.abs(sim.x) < 1e-4 * sys.driver.xmax && Math.abs(sim.v) < 1e-3 && Math.abs(sim.i) < 1e-3 && Math.abs(tail[tail.length - 1]) < 1e-6;
+        return (
+          Math.abs(sim.x) < 1e-4 * sys.driver.xmax &&
+          Math.abs(sim.v) < 1e-3 &&
+          Math.abs(sim.i) < 1e-3 &&
+          Math.abs(tail[tail.length - 1]) < 1e-6
+        );
       }),
       { numRuns: 20, seed: 7 },
     );

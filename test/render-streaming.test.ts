@@ -18,7 +18,8 @@ describe('streaming renderer', () => {
     const x = tone(48000, 0.5, 55, 0.8);
     const a = createRenderer(sys, { sampleRate: 48000, channels: 1, voltsFs: 60 });
     const b = createRenderer(sys, { sampleRate: 48000, channels: 1, voltsFs: 60 });
-    const oa = new Float32Array(x.length), ob = new Float32Array(x.length);
+    const oa = new Float32Array(x.length),
+      ob = new Float32Array(x.length);
     a.process([x], [oa], x.length);
     for (let s = 0; s < x.length; s += 128) {
       const n = Math.min(128, x.length - s);
@@ -31,12 +32,14 @@ describe('streaming renderer', () => {
   });
   it('is time-aligned with the input: a passband tone through the flat high band comes out in phase', () => {
     const sys = system(sealedBox(), { xo: 'lr4', fx: 300 });
-    const fs = 48000, f = 6000;
+    const fs = 48000,
+      f = 6000;
     const x = tone(fs, 0.3, f, 0.5);
     const r = renderBuffer(sys, [x], fs, { voltsFs: 2 });
     expect(r.audio[0].length).toBe(x.length);
     // Cross-correlation peak at lag 0 (6 kHz: 8 samples per period, so any shift shows).
-    let best = -Infinity, lag = 99;
+    let best = -Infinity,
+      lag = 99;
     for (let l = -4; l <= 4; l++) {
       let c = 0;
       for (let k = 6000; k < x.length - 10; k++) c += x[k] * r.audio[0][k + l];
@@ -82,7 +85,8 @@ describe('streaming renderer', () => {
   });
   it('mono-sum drives one woofer with the mean of the channels', () => {
     const sys = system(sealedBox(), { channels: 'mono-sum', xo: 'lr4', fx: 150 });
-    const l = tone(48000, 0.4, 50, 0.6), rr = new Float32Array(l.length);
+    const l = tone(48000, 0.4, 50, 0.6),
+      rr = new Float32Array(l.length);
     const res = renderBuffer(sys, [l, rr], 48000, { voltsFs: 20 });
     const single = renderBuffer(system(sealedBox(), { xo: 'lr4', fx: 150 }), [l.map((v) => v / 2)], 48000, { voltsFs: 20 });
     expect(res.summary.peak_excursion_mm).toBeCloseTo(single.summary.peak_excursion_mm, 6);

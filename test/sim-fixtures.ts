@@ -20,17 +20,37 @@ export interface DriverSpec {
 }
 
 export function driver(spec: DriverSpec = {}) {
-  const fs = spec.fs ?? 40, qes = spec.qes ?? 0.42, qms = spec.qms ?? 3.2, vas = (spec.vasL ?? 22) / 1000;
-  const re = spec.re ?? 5.8, le = (spec.leMh ?? 0.6) / 1000, sd = (spec.sdCm2 ?? 132) / 1e4;
+  const fs = spec.fs ?? 40,
+    qes = spec.qes ?? 0.42,
+    qms = spec.qms ?? 3.2,
+    vas = (spec.vasL ?? 22) / 1000;
+  const re = spec.re ?? 5.8,
+    le = (spec.leMh ?? 0.6) / 1000,
+    sd = (spec.sdCm2 ?? 132) / 1e4;
   const cms = vas / (AIR.rho * AIR.c * AIR.c * sd * sd);
   const mms = 1 / ((2 * Math.PI * fs) ** 2 * cms);
   const bl = Math.sqrt((2 * Math.PI * fs * mms * re) / qes);
   const rms = (2 * Math.PI * fs * mms) / qms;
   const pe = spec.pe ?? 60;
   return {
-    fs, qes, qms, qts: (qes * qms) / (qes + qms), vas, re, le, sd, bl, mms, cms, rms,
-    xmax: (spec.xmaxMm ?? 5) / 1000, xlim: (spec.xlimMm ?? 10) / 1000, pe,
-    blRelPerMm: [] as number[], kmsRelPerMm: [] as number[], leRelPerMm: [] as number[],
+    fs,
+    qes,
+    qms,
+    qts: (qes * qms) / (qes + qms),
+    vas,
+    re,
+    le,
+    sd,
+    bl,
+    mms,
+    cms,
+    rms,
+    xmax: (spec.xmaxMm ?? 5) / 1000,
+    xlim: (spec.xlimMm ?? 10) / 1000,
+    pe,
+    blRelPerMm: [] as number[],
+    kmsRelPerMm: [] as number[],
+    leRelPerMm: [] as number[],
     nonlinearFitted: true,
     thermal: { ...estimateThermal(pe, 150, 20), alphaR: ALPHA_R.copper, material: 'copper' as const, coilMaxC: 150 },
   };
@@ -52,25 +72,62 @@ export function ventedBox(vbL = 28, fb = 38, ql: number | null = 7, portDiamCm =
   // Small 1973: QL = wb·Cab·Ral for the leakage loss.
   const ral = ql === null ? Infinity : ql / (wb * cab);
   return {
-    type: 'vented', vb, vbNet: vb, ral, ql, fb, sv, portCount: 1, portArea: sv, portRadius: r,
-    portLength: leff - 1.4616 * r, portLeff: leff, map,
+    type: 'vented',
+    vb,
+    vbNet: vb,
+    ral,
+    ql,
+    fb,
+    sv,
+    portCount: 1,
+    portArea: sv,
+    portRadius: r,
+    portLength: leff - 1.4616 * r,
+    portLeff: leff,
+    map,
   };
 }
 
 export function radiatorBox(vbL = 28, spCm2 = 200, mmpG = 120, cmpMmPerN = 0.6, qmp = 8, xmaxMm = 12): Box {
   const vb = vbL / 1000;
-  const sp = spCm2 / 1e4, mmp = mmpG / 1000, kmp = 1000 / cmpMmPerN;
+  const sp = spCm2 / 1e4,
+    mmp = mmpG / 1000,
+    kmp = 1000 / cmpMmPerN;
   const wp = Math.sqrt(kmp / mmp);
   const rmp = (wp * mmp) / qmp;
   const cab = vb / (AIR.rho * AIR.c * AIR.c);
   return {
-    type: 'passive-radiator', vb, vbNet: vb, ral: Infinity, ql: null, sp, count: 1, mmp, kmp, rmp, qmp,
-    xmax: xmaxMm / 1000, fp: wp / (2 * Math.PI), fb: Math.sqrt((kmp + (sp * sp) / cab) / mmp) / (2 * Math.PI),
+    type: 'passive-radiator',
+    vb,
+    vbNet: vb,
+    ral: Infinity,
+    ql: null,
+    sp,
+    count: 1,
+    mmp,
+    kmp,
+    rmp,
+    qmp,
+    xmax: xmaxMm / 1000,
+    fp: wp / (2 * Math.PI),
+    fb: Math.sqrt((kmp + (sp * sp) / cab) / mmp) / (2 * Math.PI),
   };
 }
 
-export function system(box: Box, opts: { d?: DriverSpec; fx?: number; xo?: 'lr2' | 'lr4' | 'lr8' | 'none'; powerW?: number; rs?: number; clip?: 'hard' | 'soft'; channels?: 'pair' | 'mono-sum' } = {}): SpeakerSystem {
-  const power = opts.powerW ?? 100, load = 8;
+export function system(
+  box: Box,
+  opts: {
+    d?: DriverSpec;
+    fx?: number;
+    xo?: 'lr2' | 'lr4' | 'lr8' | 'none';
+    powerW?: number;
+    rs?: number;
+    clip?: 'hard' | 'soft';
+    channels?: 'pair' | 'mono-sum';
+  } = {},
+): SpeakerSystem {
+  const power = opts.powerW ?? 100,
+    load = 8;
   return {
     name: 'test',
     air: AIR,
@@ -78,6 +135,13 @@ export function system(box: Box, opts: { d?: DriverSpec; fx?: number; xo?: 'lr2'
     box,
     amplifier: { power, load, rs: opts.rs ?? 0.05, vPeak: Math.sqrt(2 * power * load), clip: opts.clip ?? 'hard' },
     crossover: { type: opts.xo ?? 'lr4', fx: opts.fx ?? 2000 },
-    listening: { distance: 2, space: 'half', omega: 2 * Math.PI, channels: opts.channels ?? 'pair', level: { mode: 'volts', voltsFs: 10 }, roomGainHz: 0 },
+    listening: {
+      distance: 2,
+      space: 'half',
+      omega: 2 * Math.PI,
+      channels: opts.channels ?? 'pair',
+      level: { mode: 'volts', voltsFs: 10 },
+      roomGainHz: 0,
+    },
   };
 }

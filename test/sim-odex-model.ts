@@ -7,7 +7,9 @@ import type { SpeakerSystem } from '../src/engine/system.ts';
 /** Relative polynomial in x (m) from coefficients per mm, with its derivative. */
 function relPoly(rel: number[], xM: number): [number, number, number] {
   const x = xM * 1000;
-  let p = 1, d = 0, d2 = 0;
+  let p = 1,
+    d = 0,
+    d2 = 0;
   rel.forEach((c, k) => {
     const j = k + 1;
     p += c * x ** j;
@@ -29,7 +31,8 @@ export function rhs(sys: SpeakerSystem, p: WooferParams, u: (t: number) => numbe
     const kms = Math.max(relPoly(nl.kmsRelPerMm, x)[0], KMS_FLOOR) / d.cms;
     let [lr, lr1] = relPoly(nl.leRelPerMm, x);
     if (lr < LE_FLOOR) [lr, lr1] = [LE_FLOOR, 0];
-    const le = d.le * lr, dLe = d.le * lr1;
+    const le = d.le * lr,
+      dLe = d.le * lr1;
     const di = (u(t) - R * i - dLe * v * i - bl * v) / le;
     const dv = (bl * i - d.rms * v - kms * x + d.sd * pb + 0.5 * dLe * i * i) / d.mms;
     if (sys.box.type === 'vented') {
@@ -40,7 +43,14 @@ export function rhs(sys: SpeakerSystem, p: WooferParams, u: (t: number) => numbe
     }
     if (sys.box.type === 'passive-radiator') {
       const [xp, vp] = [y[4], y[5]];
-      const kp = Math.max(relPoly(Array.from(p.kmpC.slice(1), (c, k) => c / 1000 ** (k + 1)), xp)[0], KMS_FLOOR) * p.kmp0;
+      const kp =
+        Math.max(
+          relPoly(
+            Array.from(p.kmpC.slice(1), (c, k) => c / 1000 ** (k + 1)),
+            xp,
+          )[0],
+          KMS_FLOOR,
+        ) * p.kmp0;
       const dpb = (-d.sd * v - p.sp * vp - pb * p.g) / p.cab;
       const dvp = (p.sp * pb - p.rmp * vp - kp * xp) / p.mmp;
       return [di, v, dv, dpb, vp, dvp];
@@ -61,4 +71,3 @@ export interface OdexSolver {
 }
 const odexName = 'odex';
 export const { Solver } = (await import(odexName)) as { Solver: new (n: number) => OdexSolver };
-

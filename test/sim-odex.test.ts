@@ -17,7 +17,8 @@ function compare(sys: SpeakerSystem, fs: number, f: number, peakVolts: number) {
   const u = (t: number) => (t < dur ? peakVolts * Math.sin(Math.PI * (t / dur)) ** 2 * Math.sin(2 * Math.PI * f * t) : 0);
   const n = Math.round(fs * 0.3);
   const sim = new WooferSim(p);
-  const xs = new Float64Array(n), ps = new Float64Array(n);
+  const xs = new Float64Array(n),
+    ps = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     ps[k] = sim.step(u(k / fs));
     xs[k] = sim.x;
@@ -29,21 +30,29 @@ function compare(sys: SpeakerSystem, fs: number, f: number, peakVolts: number) {
   solver.relativeTolerance = 1e-10;
   solver.denseOutput = true;
   solver.maxSteps = 1e7;
-  const xr = new Float64Array(n), pr = new Float64Array(n);
+  const xr = new Float64Array(n),
+    pr = new Float64Array(n);
   let k = 0;
-  solver.solve(f0, 0, new Array(nState).fill(0), (n - 1) / fs, solver.grid(1 / fs, (t: number, y: number[]) => {
-    if (k >= n) return;
-    const dy = f0(t, y);
-    // Seat pressure rho/(Omega r)·dU/dt, U = Sd·v + outlet + leak.
-    let dU = sys.driver.sd * dy[2] + p.g * dy[3];
-    if (nState === 5) dU += dy[4];
-    if (nState === 6) dU += p.sp * dy[5];
-    xr[k] = y[1];
-    pr[k] = p.kOut * dU;
-    k++;
-  }));
+  solver.solve(
+    f0,
+    0,
+    new Array(nState).fill(0),
+    (n - 1) / fs,
+    solver.grid(1 / fs, (t: number, y: number[]) => {
+      if (k >= n) return;
+      const dy = f0(t, y);
+      // Seat pressure rho/(Omega r)·dU/dt, U = Sd·v + outlet + leak.
+      let dU = sys.driver.sd * dy[2] + p.g * dy[3];
+      if (nState === 5) dU += dy[4];
+      if (nState === 6) dU += p.sp * dy[5];
+      xr[k] = y[1];
+      pr[k] = p.kOut * dU;
+      k++;
+    }),
+  );
   const rmsErr = (a: Float64Array, b: Float64Array) => {
-    let e = 0, s = 0;
+    let e = 0,
+      s = 0;
     for (let j = 0; j < n; j++) {
       e += (a[j] - b[j]) ** 2;
       s += b[j] ** 2;

@@ -26,7 +26,8 @@ describe('two-node thermal network', () => {
   it('follows the analytic two-exponential step response (steps of 5 ms and 1 s)', () => {
     for (const dt of [0.005, 1]) {
       const st = thermalStep(net, dt);
-      let tv = 0, tm = 0;
+      let tv = 0,
+        tm = 0;
       const P = 20;
       for (let k = 1; k <= Math.round(3600 / dt); k++) {
         const a = st.p11 * tv + st.p12 * tm + st.g1 * P;
@@ -46,6 +47,6 @@ describe('two-node thermal network', () => {
   it('voltage-drive compression of a copper coil: -1.56, -2.88, -4.03, -5.04 dB for 50..200 K (REFERENCES, derived from IEC 60028)', () => {
     expect(ALPHA_R.copper).toBe(3.93e-3);
     const expected = [-1.56, -2.88, -4.03, -5.04];
-    [50, 100, 150, 200].forEach((rise, k) => expect(compressionDb(ALPHA_R.copper, rise)).toBeCloseTo(expected[k], 2));
+    for (const [k, rise] of [50, 100, 150, 200].entries()) expect(compressionDb(ALPHA_R.copper, rise)).toBeCloseTo(expected[k], 2);
   });
 });

@@ -2,8 +2,21 @@
 // binomial chance of guessing, the exports and the settings checks.
 import { describe, expect, it } from 'vitest';
 import {
-  answer, checkSettings, csvField, describeProbability, isDone, laneToPlay, listen, newTrial, resultSentence, tally, toCsv, toJson,
-  cryptoRandom, type Trial, type TrialSettings,
+  answer,
+  checkSettings,
+  csvField,
+  describeProbability,
+  isDone,
+  laneToPlay,
+  listen,
+  newTrial,
+  resultSentence,
+  tally,
+  toCsv,
+  toJson,
+  cryptoRandom,
+  type Trial,
+  type TrialSettings,
 } from '../src/ui/trial.ts';
 
 const SETTINGS: TrialSettings = {
@@ -126,7 +139,8 @@ describe('exports', () => {
     expect(rows.length).toBe(17);
     const h = rows[0];
     const col = (name: string) => h.indexOf(name);
-    for (const name of ['round', 'x_is', 'answer', 'correct', 'design_a', 'design_b', 'loop_start_s', 'match_levels', 'p_guess']) expect(col(name)).toBeGreaterThanOrEqual(0);
+    for (const name of ['round', 'x_is', 'answer', 'correct', 'design_a', 'design_b', 'loop_start_s', 'match_levels', 'p_guess'])
+      expect(col(name)).toBeGreaterThanOrEqual(0);
     for (const r of rows.slice(1)) expect(r.length).toBe(h.length);
     expect(rows[1][col('design_b')]).toBe(NAMES.b); // the comma and the quotes survive
     expect(rows[2][col('x_is')]).toBe('B');

@@ -62,7 +62,12 @@ describe('Headroom probe worker code = preheard headroom', () => {
     const ref = await cli;
     for (let i = 0; i < DESIGNS.length; i++) {
       const { res, calls } = mine[i];
-      expect({ clean_volts: res.clean_volts, clean_spl_db: res.clean_spl_db, first_limit: res.first_limit, first_limit_s: res.first_limit_s }).toEqual(ref[i]);
+      expect({
+        clean_volts: res.clean_volts,
+        clean_spl_db: res.clean_spl_db,
+        first_limit: res.first_limit,
+        first_limit_s: res.first_limit_s,
+      }).toEqual(ref[i]);
       expect(calls.length).toBe(res.renders);
       expect(calls.map((c) => c[0])).toEqual(Array.from({ length: res.renders }, (_, k) => k));
       for (const [done, est] of calls) expect(est).toBeGreaterThan(done);

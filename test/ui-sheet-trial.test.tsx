@@ -26,7 +26,16 @@ describe('Blind trial through the bench player', () => {
         ...bench.state,
         status: 'ready',
         sampleRate: SR,
-        track: { name: 'Demo track (built in)', source: 'demo', frames: 32 * SR, sampleRate: SR, channels: 2, droppedChannels: 0, overview: { min: new Float32Array(1), max: new Float32Array(1) }, loudFromS: 16 },
+        track: {
+          name: 'Demo track (built in)',
+          source: 'demo',
+          frames: 32 * SR,
+          sampleRate: SR,
+          channels: 2,
+          droppedChannels: 0,
+          overview: { min: new Float32Array(1), max: new Float32Array(1) },
+          loudFromS: 16,
+        },
         levels: { a: { voltsFs: 12.5, splDb: 85 }, b: { voltsFs: 9.1, splDb: 85 } },
       };
     });
@@ -67,7 +76,9 @@ describe('Blind trial through the bench player', () => {
       });
     }
     expect(play).toHaveBeenCalled();
-    const rows = [...document.querySelectorAll('.trial-table tbody tr')].map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()));
+    const rows = [...document.querySelectorAll('.trial-table tbody tr')].map((tr) =>
+      [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim()),
+    );
     expect(rows.length).toBe(6);
     // What X played in each round is what the table reveals as X.
     expect(rows.map((r) => r[1].toLowerCase())).toEqual(heardForX);

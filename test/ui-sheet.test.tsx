@@ -150,11 +150,15 @@ describe('Headroom probe, page side', () => {
       rec.w = {
         onmessage: null,
         onerror: null,
-        terminate: () => void (rec.terminated = true),
+        terminate: () => {
+          rec.terminated = true;
+        },
         postMessage: (m: HeadroomJob) => {
           setTimeout(() => {
             const send = (r: HeadroomReply) => !rec.terminated && rec.w.onmessage?.({ data: r } as MessageEvent<HeadroomReply>);
-            const result = probeHeadroom(m.system, m.channels, m.sampleRate, (renders, estimate) => send({ type: 'progress', id: m.id, renders, estimate }));
+            const result = probeHeadroom(m.system, m.channels, m.sampleRate, (renders, estimate) =>
+              send({ type: 'progress', id: m.id, renders, estimate }),
+            );
             send({ type: 'result', id: m.id, result });
           }, 0);
         },

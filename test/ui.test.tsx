@@ -57,7 +57,18 @@ describe('the app', () => {
     expect(names[1]).toMatch(/vented/i);
     for (const s of ['a', 'b']) expect(screen.getAllByTestId(`fig-${s}-f3`)[0].textContent).toMatch(/^\d+(\.\d)? Hz$/);
     // The screens by their names, in the order of the design (section 6), Presentation mode last.
-    expect(screen.getAllByRole('tab').map((t) => t.textContent)).toEqual(['Driver sheet', 'Cabinet', 'Drive & seat', 'Curves', 'Listening bench', 'Stress strip', 'Blind trial', 'Headroom probe', 'Client sheet', 'Present']);
+    expect(screen.getAllByRole('tab').map((t) => t.textContent)).toEqual([
+      'Driver sheet',
+      'Cabinet',
+      'Drive & seat',
+      'Curves',
+      'Listening bench',
+      'Stress strip',
+      'Blind trial',
+      'Headroom probe',
+      'Client sheet',
+      'Present',
+    ]);
   });
 
   it('keeps a rejected entry with the engine message beside it', async () => {

@@ -55,7 +55,7 @@ describe('vented box (Thiele 1971, Small 1973)', () => {
     expect(Math.abs(solved.h / h - 1)).toBeLessThan(0.006);
   });
 
-  it('follows Small\'s 4th-order response with leakage QL 7', () => {
+  it("follows Small's 4th-order response with leakage QL 7", () => {
     const [qt, alpha, h, ql] = [0.4, 1.2, 1.1, 7];
     const s = vented(qt, alpha, h, ql);
     const ref = passbandPressure(s, 1);

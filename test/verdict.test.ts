@@ -23,10 +23,15 @@ describe('plain-language verdict', () => {
 
   it('gives headroom only when a search ran, in the published-style sentence', () => {
     expect(verdict(a, b).some((l) => l.id === 'headroom')).toBe(false);
-    const lines = verdict(a, b, ['A', 'B'], [
-      { cleanSplDb: 88, cleanVolts: 9, firstLimit: 'excursion', firstLimitS: 42.3 },
-      { cleanSplDb: 91.5, cleanVolts: 12, firstLimit: 'port-speed', firstLimitS: 17 },
-    ]);
+    const lines = verdict(
+      a,
+      b,
+      ['A', 'B'],
+      [
+        { cleanSplDb: 88, cleanVolts: 9, firstLimit: 'excursion', firstLimitS: 42.3 },
+        { cleanSplDb: 91.5, cleanVolts: 12, firstLimit: 'port-speed', firstLimitS: 17 },
+      ],
+    );
     expect(lines.find((l) => l.id === 'headroom')!.text).toBe(
       'B plays this track 3.5 dB louder cleanly than A (91.5 against 88.0 dB at the seat); A first runs out of cone travel (Xmax) at 0:42, B first runs out of port air speed at 0:17.',
     );

@@ -185,7 +185,10 @@ export class BenchCore {
         if (m.region) {
           const r = m.region;
           if (r.endFrame > this.length) throw new RangeError(`loop end ${r.endFrame} is past the track's end (${this.length} frames)`);
-          if (r.endFrame - r.startFrame < MIN_LOOP_S * this.sampleRate) throw new RangeError(`a loop must be at least ${MIN_LOOP_S * 1000} ms long, got ${(((r.endFrame - r.startFrame) / this.sampleRate) * 1000).toFixed(1)} ms`);
+          if (r.endFrame - r.startFrame < MIN_LOOP_S * this.sampleRate)
+            throw new RangeError(
+              `a loop must be at least ${MIN_LOOP_S * 1000} ms long, got ${(((r.endFrame - r.startFrame) / this.sampleRate) * 1000).toFixed(1)} ms`,
+            );
         }
         this.loop = m.region;
         if (this.loop && (this.pos < this.loop.startFrame || this.pos >= this.loop.endFrame)) this.jump(this.loop.startFrame);
@@ -276,7 +279,8 @@ export class BenchCore {
 
   /** A freshly made renderer counts frames from zero; the other may be ahead. Make both start afresh. */
   private alignClocks(): void {
-    const a = this.lanes.a.r, b = this.lanes.b.r;
+    const a = this.lanes.a.r,
+      b = this.lanes.b.r;
     if (a && b && a.getStats().frames !== b.getStats().frames) {
       a.reset();
       b.reset();
@@ -305,7 +309,8 @@ export class BenchCore {
 
   /** One calibration for both designs, the match gains and the reference level (levels.ts). */
   private relevel(): void {
-    const a = this.lanes.a, b = this.lanes.b;
+    const a = this.lanes.a,
+      b = this.lanes.b;
     if (!a.r || !b.r || !this.mixer || !this.ref) return;
     const la = { passbandPaPerV: a.r.passbandPaPerV, voltsFs: a.voltsFs };
     const lb = { passbandPaPerV: b.r.passbandPaPerV, voltsFs: b.voltsFs };
@@ -343,8 +348,11 @@ export class BenchCore {
   /** Fills this.input with the next frames of the track (faded at jumps, pauses and the loop's end). */
   private readTrack(frames: number): void {
     const nCh = this.channels;
-    const track = this.track, input = this.input, len = this.length;
-    const fade = this.fadeFrames, step = this.envStep;
+    const track = this.track,
+      input = this.input,
+      len = this.length;
+    const fade = this.fadeFrames,
+      step = this.envStep;
     for (let k = 0; k < frames; k++) {
       let wantOn = this.playing && this.pendingJump < 0;
       const loop = this.loop;
@@ -476,17 +484,26 @@ export class BenchCore {
     if (this.measuring > 0) {
       const m = this.measure;
       const mon = mixer.monitorGain;
-      const gA = mixer.laneGain[m.from] * mon, gB = mixer.laneGain[m.to] * mon;
-      const A = mixer.laneBlock(m.from), B = mixer.laneBlock(m.to);
+      const gA = mixer.laneGain[m.from] * mon,
+        gB = mixer.laneGain[m.to] * mon;
+      const A = mixer.laneBlock(m.from),
+        B = mixer.laneBlock(m.to);
       const L = mixer.fadeFrames;
-      const pa = this.prevLane[m.from], pb = this.prevLane[m.to];
+      const pa = this.prevLane[m.from],
+        pb = this.prevLane[m.to];
       for (let c = 0; c < output.length; c++) {
         const src = Math.min(c, this.channels - 1);
-        const a = A[src], b = B[src], o = output[c];
-        let aPrev = pa[src] * gA, bPrev = pb[src] * gB, oPrev = this.prevOut[c];
+        const a = A[src],
+          b = B[src],
+          o = output[c];
+        let aPrev = pa[src] * gA,
+          bPrev = pb[src] * gB,
+          oPrev = this.prevOut[c];
         for (let k = 0; k < n; k++) {
-          const ak = a[k] * gA, bk = b[k] * gB;
-          const da = Math.abs(ak - aPrev), db = Math.abs(bk - bPrev);
+          const ak = a[k] * gA,
+            bk = b[k] * gB;
+          const da = Math.abs(ak - aPrev),
+            db = Math.abs(bk - bPrev);
           const bound = (da > db ? da : db) + Math.abs(bPrev - aPrev) / L;
           const step = Math.abs(o[k] - oPrev);
           if (step > m.maxStep) m.maxStep = step;
@@ -516,7 +533,8 @@ export class BenchCore {
     }
     // Keep each lane's and the output's last samples for the next block's first step.
     for (const id of LANE_IDS) {
-      const blk = mixer.laneBlock(id), keep = this.prevLane[id];
+      const blk = mixer.laneBlock(id),
+        keep = this.prevLane[id];
       for (let c = 0; c < this.channels; c++) keep[c] = blk[c][n - 1];
     }
     for (let c = 0; c < output.length; c++) this.prevOut[c] = output[c][n - 1];

@@ -8,7 +8,19 @@ import RenderWorker from './render.worker.ts?worker';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { StressEvent } from '../engine/render/index.ts';
 import { synthesizeDemoTrack } from '../engine/demo/track.ts';
-import { BENCH_PROCESSOR, encodeToWorklet, parseFromWorklet, type DesignSlot, type FromWorklet, type LaneId, type ListenMode, type LoopRegion, type MeterSample, type SwitchReport, type ToWorklet } from './protocol.ts';
+import {
+  BENCH_PROCESSOR,
+  encodeToWorklet,
+  parseFromWorklet,
+  type DesignSlot,
+  type FromWorklet,
+  type LaneId,
+  type ListenMode,
+  type LoopRegion,
+  type MeterSample,
+  type SwitchReport,
+  type ToWorklet,
+} from './protocol.ts';
 import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
@@ -168,7 +180,11 @@ export class BenchAudio {
     this.set({ status: 'starting', message: null });
     try {
       if (!(await isSupported()) || AudioWorkletNode === undefined) {
-        this.set({ status: 'unsupported', message: 'This browser lacks the Web Audio features the bench needs (an AudioWorklet). Offline rendering and export still work in a recent Chromium, Firefox or Safari.' });
+        this.set({
+          status: 'unsupported',
+          message:
+            'This browser lacks the Web Audio features the bench needs (an AudioWorklet). Offline rendering and export still work in a recent Chromium, Firefox or Safari.',
+        });
         return;
       }
       const ctx = new AudioContext({ latencyHint: 'playback' });
@@ -195,7 +211,8 @@ export class BenchAudio {
       this.pending.clear();
     };
     this.worker = w;
-    if (this.channels) this.sendWorker({ type: 'track', channels: this.channels.map((c) => c.slice()), sampleRate: this.state.sampleRate }, true);
+    if (this.channels)
+      this.sendWorker({ type: 'track', channels: this.channels.map((c) => c.slice()), sampleRate: this.state.sampleRate }, true);
   }
 
   private sendWorker(m: WorkerRequest, transfer = false): void {
@@ -243,9 +260,19 @@ export class BenchAudio {
       case 'position': {
         const history = this.state.history;
         const t = m.frame / (this.state.sampleRate || 1);
-        const next = m.playing ? [...(history.length >= HISTORY_POINTS ? history.slice(-HISTORY_POINTS + 1) : history), { t, a: m.meters.a, b: m.meters.b }] : history;
+        const next = m.playing
+          ? [...(history.length >= HISTORY_POINTS ? history.slice(-HISTORY_POINTS + 1) : history), { t, a: m.meters.a, b: m.meters.b }]
+          : history;
         const struggling = this.state.struggling || (m.playing && (m.load > LOAD_LIMIT || m.lateBlocks > this.state.lateBlocks + 4));
-        this.set({ position: m.frame, positionAt: performance.now(), playing: m.playing, load: m.load, lateBlocks: m.lateBlocks, struggling, history: next });
+        this.set({
+          position: m.frame,
+          positionAt: performance.now(),
+          playing: m.playing,
+          load: m.load,
+          lateBlocks: m.lateBlocks,
+          struggling,
+          history: next,
+        });
         return;
       }
       case 'switched':
@@ -274,7 +301,13 @@ export class BenchAudio {
   async loadDemo(): Promise<void> {
     const sr = this.state.sampleRate || 48000;
     const demo = synthesizeDemoTrack(sr);
-    this.useTrack(demo.channels, { name: 'Demo track (built in)', source: 'demo', sampleRate: sr, droppedChannels: 0, loudFromS: demo.loudFromS });
+    this.useTrack(demo.channels, {
+      name: 'Demo track (built in)',
+      source: 'demo',
+      sampleRate: sr,
+      droppedChannels: 0,
+      loudFromS: demo.loudFromS,
+    });
   }
 
   /** Decodes a file locally (nothing leaves the machine) and makes it the track. */
@@ -293,19 +326,24 @@ export class BenchAudio {
     this.set({ loading: `Decoding “${file.name}”…`, fileError: null });
     try {
       const bytes = await file.arrayBuffer();
-      let buf;
+      let buf: AudioBuffer;
       try {
         buf = await ctx.decodeAudioData(bytes);
       } catch (e) {
-        this.set({ fileError: `“${file.name}” cannot be decoded: it is not audio, it is damaged, or this browser does not read its format (${(e as Error)?.message || 'no detail given'}). WAV, FLAC, MP3, Ogg and AAC usually work.` });
+        this.set({
+          fileError: `“${file.name}” cannot be decoded: it is not audio, it is damaged, or this browser does not read its format (${(e as Error)?.message || 'no detail given'}). WAV, FLAC, MP3, Ogg and AAC usually work.`,
+        });
         return false;
       }
       const n = Math.min(2, buf.numberOfChannels);
-      const channels = buf.length > 0 && buf.duration <= MAX_TRACK_S ? Array.from({ length: n }, (_, c) => {
-        const a = new Float32Array(buf.length);
-        buf.copyFromChannel(a, c);
-        return a;
-      }) : [];
+      const channels =
+        buf.length > 0 && buf.duration <= MAX_TRACK_S
+          ? Array.from({ length: n }, (_, c) => {
+              const a = new Float32Array(buf.length);
+              buf.copyFromChannel(a, c);
+              return a;
+            })
+          : [];
       const bad = decodedProblem(file.name, buf.duration, channels);
       if (bad) {
         this.set({ fileError: bad });
@@ -327,7 +365,20 @@ export class BenchAudio {
       overview: overviewOf(channels),
       loudnessLufs: integratedLoudness(channels, info.sampleRate),
     };
-    this.set({ track, fileError: null, playing: false, position: 0, loop: null, levels: null, liveEvents: { a: [], b: [] }, history: [], offline: EMPTY_OFFLINE, struggling: false, lastSwitch: null, switches: [] });
+    this.set({
+      track,
+      fileError: null,
+      playing: false,
+      position: 0,
+      loop: null,
+      levels: null,
+      liveEvents: { a: [], b: [] },
+      history: [],
+      offline: EMPTY_OFFLINE,
+      struggling: false,
+      lastSwitch: null,
+      switches: [],
+    });
     this.sentSystems = { a: null, b: null };
     this.post({ type: 'track', channels: channels.map((c) => c.slice()) });
     this.sendWorker({ type: 'track', channels: channels.map((c) => c.slice()), sampleRate: info.sampleRate }, true);
@@ -370,12 +421,16 @@ export class BenchAudio {
 
   private async resolveLevels(): Promise<void> {
     this.levelTimer = null;
-    const a = this.systems.a, b = this.systems.b;
+    const a = this.systems.a,
+      b = this.systems.b;
     if (!a || !b || !this.channels) return;
     const systems = { a, b };
     let reply: WorkerReply;
     try {
-      reply = await this.job((id) => ((this.levelJob = id), { type: 'levels', id, systems }));
+      reply = await this.job((id) => {
+        this.levelJob = id;
+        return { type: 'levels', id, systems };
+      });
     } catch (e) {
       this.set({ message: `The planned level cannot be set for this track: ${(e as Error).message}` });
       return;
@@ -386,7 +441,9 @@ export class BenchAudio {
     for (const s of ['a', 'b'] as const) {
       const v = reply.levels[s].voltsFs;
       if (!(v > 0 && v < 1e4)) {
-        this.set({ message: `Design ${s.toUpperCase()} needs ${v.toPrecision(4)} V per full scale for its planned level on this track, outside 0..10000 V: choose another planned level.` });
+        this.set({
+          message: `Design ${s.toUpperCase()} needs ${v.toPrecision(4)} V per full scale for its planned level on this track, outside 0..10000 V: choose another planned level.`,
+        });
         continue;
       }
       if (this.sentSystems[s] !== systems[s]) {
@@ -471,13 +528,18 @@ export class BenchAudio {
 
   /** Renders both designs over the whole track in the Worker: stress events and traces. */
   async renderOffline(): Promise<void> {
-    const a = this.systems.a, b = this.systems.b;
+    const a = this.systems.a,
+      b = this.systems.b;
     if (!a || !b || !this.channels) return;
     const systems = { a, b };
     this.set({ offline: { ...EMPTY_OFFLINE, status: 'running', job: 'render', systems } });
     try {
-      const r = await this.job((id) => ({ type: 'render', id, systems }), (f) => this.set({ offline: { ...this.state.offline, progress: f } }));
-      if (r.type === 'rendered') this.set({ offline: { status: 'done', progress: 1, job: null, results: r.results, systems, message: null } });
+      const r = await this.job(
+        (id) => ({ type: 'render', id, systems }),
+        (f) => this.set({ offline: { ...this.state.offline, progress: f } }),
+      );
+      if (r.type === 'rendered')
+        this.set({ offline: { status: 'done', progress: 1, job: null, results: r.results, systems, message: null } });
     } catch (e) {
       if (this.state.offline.status === 'cancelled') return;
       this.set({ offline: { ...this.state.offline, status: 'error', job: null, message: (e as Error).message } });
@@ -503,9 +565,16 @@ export class BenchAudio {
     const before = this.state.offline;
     this.set({ offline: { ...before, status: 'running', job: 'export', progress: 0, message: null } });
     try {
-      const r = await this.job((id) => ({ type: 'export', id, system: sys, mode, format }), (f) => this.set({ offline: { ...this.state.offline, progress: f } }));
+      const r = await this.job(
+        (id) => ({ type: 'export', id, system: sys, mode, format }),
+        (f) => this.set({ offline: { ...this.state.offline, progress: f } }),
+      );
       if (r.type !== 'exported') return null;
-      const base = t.name.replace(/\.[a-z0-9]+$/i, '').replace(/[^\w.-]+/g, '-').slice(0, 60) || 'track';
+      const base =
+        t.name
+          .replace(/\.[a-z0-9]+$/i, '')
+          .replace(/[^\w.-]+/g, '-')
+          .slice(0, 60) || 'track';
       const name = `${base}.${slot}.${mode === 'nonlinear' ? 'modelled' : mode === 'linear' ? 'linear' : 'distortion'}.${format === 'f32' ? 'f32' : '16bit'}.wav`;
       const url = URL.createObjectURL(new Blob([r.bytes as BlobPart], { type: 'audio/wav' }));
       const link = document.createElement('a');
@@ -515,10 +584,18 @@ export class BenchAudio {
       link.click();
       link.remove();
       setTimeout(() => URL.revokeObjectURL(url), 60_000);
-      this.set({ offline: { ...before, status: before.status === 'running' ? 'idle' : before.status, job: null, message: `Exported ${name} (${(r.bytes.byteLength / 2 ** 20).toFixed(1)} MB).` } });
+      this.set({
+        offline: {
+          ...before,
+          status: before.status === 'running' ? 'idle' : before.status,
+          job: null,
+          message: `Exported ${name} (${(r.bytes.byteLength / 2 ** 20).toFixed(1)} MB).`,
+        },
+      });
       return name;
     } catch (e) {
-      if (this.state.offline.status !== 'cancelled') this.set({ offline: { ...before, job: null, message: `The export failed: ${(e as Error).message}` } });
+      if (this.state.offline.status !== 'cancelled')
+        this.set({ offline: { ...before, job: null, message: `The export failed: ${(e as Error).message}` } });
       return null;
     }
   }

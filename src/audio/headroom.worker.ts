@@ -39,7 +39,12 @@ export function renderEstimate(renders: number): number {
   return Math.max(TYPICAL_RENDERS, renders + 2);
 }
 
-export function probeHeadroom(system: SpeakerSystem, channels: Float32Array[], sampleRate: number, onRender?: (renders: number, estimate: number) => void): HeadroomResult {
+export function probeHeadroom(
+  system: SpeakerSystem,
+  channels: Float32Array[],
+  sampleRate: number,
+  onRender?: (renders: number, estimate: number) => void,
+): HeadroomResult {
   let n = 0;
   const h = findHeadroom(system, channels, sampleRate, {
     onRender: () => {
@@ -47,7 +52,13 @@ export function probeHeadroom(system: SpeakerSystem, channels: Float32Array[], s
       onRender?.(n - 1, renderEstimate(n));
     },
   });
-  return { clean_volts: h.clean_volts, clean_spl_db: h.clean_spl_db, first_limit: h.first_limit, first_limit_s: h.first_limit_s, renders: h.renders };
+  return {
+    clean_volts: h.clean_volts,
+    clean_spl_db: h.clean_spl_db,
+    first_limit: h.first_limit,
+    first_limit_s: h.first_limit_s,
+    renders: h.renders,
+  };
 }
 
 interface WorkerScope {
@@ -62,7 +73,9 @@ if (scope.WorkerGlobalScope !== undefined && scope.document === undefined) {
     const m = e.data;
     try {
       if (m?.type !== 'headroom') throw new RangeError(`unknown job type ${JSON.stringify(m?.type)}: expected "headroom"`);
-      const result = probeHeadroom(m.system, m.channels, m.sampleRate, (renders, estimate) => post({ type: 'progress', id: m.id, renders, estimate }));
+      const result = probeHeadroom(m.system, m.channels, m.sampleRate, (renders, estimate) =>
+        post({ type: 'progress', id: m.id, renders, estimate }),
+      );
       post({ type: 'result', id: m.id, result });
     } catch (err) {
       post({ type: 'error', id: m?.id ?? -1, message: err instanceof Error ? err.message : String(err) });

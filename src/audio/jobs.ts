@@ -32,9 +32,16 @@ export interface DesignRender {
 }
 
 /** Both designs over the whole track at their planned levels, as `preheard render` does. */
-export function renderBoth(track: TrackData, systems: Record<DesignSlot, SpeakerSystem>, onProgress?: (fraction: number) => void): Record<DesignSlot, DesignRender> {
+export function renderBoth(
+  track: TrackData,
+  systems: Record<DesignSlot, SpeakerSystem>,
+  onProgress?: (fraction: number) => void,
+): Record<DesignSlot, DesignRender> {
   const one = (s: SpeakerSystem, base: number): DesignRender => {
-    const r = renderBuffer(s, track.channels, track.sampleRate, { analysisOnly: true, onProgress: onProgress && ((f) => onProgress(base + f / 2)) });
+    const r = renderBuffer(s, track.channels, track.sampleRate, {
+      analysisOnly: true,
+      onProgress: onProgress && ((f) => onProgress(base + f / 2)),
+    });
     return { summary: r.summary, traces: r.traces };
   };
   return { a: one(systems.a, 0), b: one(systems.b, 0.5) };
@@ -43,7 +50,13 @@ export function renderBoth(track: TrackData, systems: Record<DesignSlot, Speaker
 export type ExportStream = RenderMode;
 
 /** One design's stream over the whole track, encoded as a WAV file. */
-export function exportStream(track: TrackData, system: SpeakerSystem, mode: ExportStream, format: ExportFormat, onProgress?: (fraction: number) => void): { bytes: Uint8Array; frames: number } {
+export function exportStream(
+  track: TrackData,
+  system: SpeakerSystem,
+  mode: ExportStream,
+  format: ExportFormat,
+  onProgress?: (fraction: number) => void,
+): { bytes: Uint8Array; frames: number } {
   const r = renderBuffer(system, track.channels, track.sampleRate, { mode, onProgress });
   return { bytes: encodeWav(r.audio, track.sampleRate, format), frames: r.audio[0].length };
 }

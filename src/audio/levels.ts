@@ -22,7 +22,8 @@ export const gainToDb = (g: number): number => 20 * Math.log10(g);
 
 /** Seat pressure of a full-scale input in the passband, Pa: what the design makes of the planned level. */
 export function passbandPa(l: LaneLevel): number {
-  if (!(l.passbandPaPerV > 0) || !Number.isFinite(l.passbandPaPerV)) throw new RangeError(`passbandPaPerV must be a positive number, got ${l.passbandPaPerV}`);
+  if (!(l.passbandPaPerV > 0) || !Number.isFinite(l.passbandPaPerV))
+    throw new RangeError(`passbandPaPerV must be a positive number, got ${l.passbandPaPerV}`);
   if (!(l.voltsFs > 0) || !Number.isFinite(l.voltsFs)) throw new RangeError(`voltsFs must be a positive number, got ${l.voltsFs}`);
   return l.passbandPaPerV * l.voltsFs;
 }
@@ -83,7 +84,8 @@ export interface MonitorDecision {
  * (the user said yes once in this session); until then the gain stops at the threshold.
  */
 export function requestMonitorGain(requestedDb: number, loudConfirmed: boolean): MonitorDecision {
-  if (typeof requestedDb !== 'number' || Number.isNaN(requestedDb)) throw new RangeError(`monitor gain must be a number of dB, got ${requestedDb}`);
+  if (typeof requestedDb !== 'number' || Number.isNaN(requestedDb))
+    throw new RangeError(`monitor gain must be a number of dB, got ${requestedDb}`);
   const r = Math.min(MONITOR_MAX_DB, Math.max(MONITOR_MIN_DB, requestedDb));
   if (r > MONITOR_CONFIRM_ABOVE_DB && !loudConfirmed) return { gainDb: MONITOR_CONFIRM_ABOVE_DB, needsConfirmation: true, requestedDb: r };
   return { gainDb: r, needsConfirmation: false, requestedDb: r };

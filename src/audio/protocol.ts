@@ -113,7 +113,8 @@ function num(o: Record<string, unknown>, key: string, min: number, max: number, 
 
 function oneOf<T extends string>(o: Record<string, unknown>, key: string, allowed: readonly T[], path: string): T {
   const v = o[key];
-  if (typeof v !== 'string' || !(allowed as readonly string[]).includes(v)) throw new Bad(`${path}.${key} must be one of ${allowed.join(', ')}, got ${show(v)}`);
+  if (typeof v !== 'string' || !(allowed as readonly string[]).includes(v))
+    throw new Bad(`${path}.${key} must be one of ${allowed.join(', ')}, got ${show(v)}`);
   return v as T;
 }
 
@@ -139,7 +140,8 @@ function channels(v: unknown, path: string): Float32Array[] {
   let n = -1;
   v.forEach((c, i) => {
     if (!(c instanceof Float32Array)) throw new Bad(`${path}[${i}] must be a Float32Array, got ${show(c)}`);
-    if (n >= 0 && c.length !== n) throw new Bad(`${path}[${i}] has ${c.length} frames, channel 0 has ${n}: channels must be the same length`);
+    if (n >= 0 && c.length !== n)
+      throw new Bad(`${path}[${i}] has ${c.length} frames, channel 0 has ${n}: channels must be the same length`);
     n = c.length;
   });
   if (n < 1) throw new Bad(`${path} is empty: a track needs at least one frame`);
@@ -194,7 +196,9 @@ export function parseToWorklet(data: unknown): Parsed<ToWorklet> {
       case 'play':
         return { type: 'play', playing: bool(m, 'playing', p) };
       default:
-        throw new Bad(`unknown message type ${show(m.type)}: expected one of track, design, level, lane, mode, monitor, match, loop, seek, play`);
+        throw new Bad(
+          `unknown message type ${show(m.type)}: expected one of track, design, level, lane, mode, monitor, match, loop, seek, play`,
+        );
     }
   });
 }
@@ -223,7 +227,12 @@ function stressEvents(v: unknown, path: string): StressEvent[] {
       start_s: num(o, 'start_s', 0, big, q),
       end_s: num(o, 'end_s', 0, big, q),
       peak: num(o, 'peak', -big, big, q),
-      unit: typeof o.unit === 'string' ? o.unit : (() => { throw new Bad(`${q}.unit must be a string, got ${show(o.unit)}`); })(),
+      unit:
+        typeof o.unit === 'string'
+          ? o.unit
+          : (() => {
+              throw new Bad(`${q}.unit must be a string, got ${show(o.unit)}`);
+            })(),
       limit: num(o, 'limit', -big, big, q),
     };
   });
@@ -242,7 +251,11 @@ export function parseFromWorklet(data: unknown): Parsed<FromWorklet> {
     const big = 1e12;
     switch (m.type) {
       case 'ready':
-        return { type: 'ready', sampleRate: num(m, 'sampleRate', 8000, 384000, p), latencyFrames: num(m, 'latencyFrames', 0, 1e6, p, true) };
+        return {
+          type: 'ready',
+          sampleRate: num(m, 'sampleRate', 8000, 384000, p),
+          latencyFrames: num(m, 'latencyFrames', 0, 1e6, p, true),
+        };
       case 'position': {
         const meters = obj(m.meters, `${p}.meters`);
         return {
@@ -268,7 +281,12 @@ export function parseFromWorklet(data: unknown): Parsed<FromWorklet> {
           worstRatio: num(m, 'worstRatio', 0, big, p),
         };
       case 'events':
-        return { type: 'events', slot: oneOf(m, 'slot', DESIGN_SLOTS, p), from: num(m, 'from', 0, big, p, true), events: stressEvents(m.events, `${p}.events`) };
+        return {
+          type: 'events',
+          slot: oneOf(m, 'slot', DESIGN_SLOTS, p),
+          from: num(m, 'from', 0, big, p, true),
+          events: stressEvents(m.events, `${p}.events`),
+        };
       case 'levels': {
         const pb = obj(m.passbandPa, `${p}.passbandPa`);
         return {

@@ -11,10 +11,13 @@ export const OVERVIEW_BINS = 2400;
 export function overviewOf(channels: Float32Array[], bins = OVERVIEW_BINS): { min: Float32Array; max: Float32Array } {
   const n = channels[0].length;
   const nb = Math.max(1, Math.min(bins, n));
-  const min = new Float32Array(nb), max = new Float32Array(nb);
+  const min = new Float32Array(nb),
+    max = new Float32Array(nb);
   for (let b = 0; b < nb; b++) {
-    const s = Math.floor((b * n) / nb), e = Math.max(s + 1, Math.floor(((b + 1) * n) / nb));
-    let lo = 0, hi = 0;
+    const s = Math.floor((b * n) / nb),
+      e = Math.max(s + 1, Math.floor(((b + 1) * n) / nb));
+    let lo = 0,
+      hi = 0;
     for (const ch of channels) {
       for (let j = s; j < e; j++) {
         const v = ch[j];
@@ -31,13 +34,15 @@ export function overviewOf(channels: Float32Array[], bins = OVERVIEW_BINS): { mi
 /** Checks a file before decoding; returns the message for the user, or null when it may be tried. */
 export function fileProblem(file: { name: string; size: number }): string | null {
   if (file.size === 0) return `“${file.name}” is empty (0 bytes): there is no audio in it.`;
-  if (file.size > MAX_FILE_BYTES) return `“${file.name}” is ${(file.size / 2 ** 20).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 2 ** 20} MB the bench opens. Shorten it or convert it to a compressed format.`;
+  if (file.size > MAX_FILE_BYTES)
+    return `“${file.name}” is ${(file.size / 2 ** 20).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 2 ** 20} MB the bench opens. Shorten it or convert it to a compressed format.`;
   return null;
 }
 
 /** Checks what decoding gave; returns the message for the user, or null when it can be used. */
 export function decodedProblem(name: string, durationS: number, channels: Float32Array[]): string | null {
-  if (durationS > MAX_TRACK_S) return `“${name}” is ${(durationS / 60).toFixed(1)} minutes long; the bench takes up to ${MAX_TRACK_S / 60} minutes. Cut the part you want to hear.`;
+  if (durationS > MAX_TRACK_S)
+    return `“${name}” is ${(durationS / 60).toFixed(1)} minutes long; the bench takes up to ${MAX_TRACK_S / 60} minutes. Cut the part you want to hear.`;
   if (channels.length === 0 || channels[0].length === 0) return `“${name}” decodes to no audio at all (0 samples).`;
   for (const ch of channels) for (let j = 0; j < ch.length; j++) if (ch[j] !== 0) return null;
   return `“${name}” is silent from start to end: there is nothing to hear or to set a level from.`;

@@ -91,16 +91,24 @@ function table(a: Analysis): string {
   if (j.fc_hz !== undefined) rows.push(['fc / Qtc', `${j.fc_hz} Hz / ${j.qtc}`]);
   if (j.fb_hz !== undefined) rows.push(['fb', `${j.fb_hz} Hz`]);
   if (j.fp_hz !== undefined) rows.push(['fp (radiator)', `${j.fp_hz} Hz`]);
-  if (j.port_length_cm !== undefined) rows.push(['port length', `${j.port_length_cm} cm each (${j.port_count} port${j.port_count === 1 ? '' : 's'})`]);
+  if (j.port_length_cm !== undefined)
+    rows.push(['port length', `${j.port_length_cm} cm each (${j.port_count} port${j.port_count === 1 ? '' : 's'})`]);
   rows.push(
     ['f3 / f6 / f10', `${j.f3_hz} / ${j.f6_hz} / ${j.f10_hz} Hz`],
     ['eta0', `${j.driver.eta0_pct} %`],
     ['sensitivity', `${j.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space)`],
-    [`at ${j.drive_v} V, ${a.system.listening.distance} m`, `passband ${j.passband_spl_db} dB; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB`],
+    [
+      `at ${j.drive_v} V, ${a.system.listening.distance} m`,
+      `passband ${j.passband_spl_db} dB; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB`,
+    ],
     ['peak excursion', `${j.peak_excursion_mm} mm at ${j.drive_v} V (Xmax ${j.driver.xmax_mm} mm)`],
   );
   if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${j.peak_port_speed_m_s} m/s at ${j.drive_v} V`]);
-  rows.push(['minimum impedance', `${j.z_min_ohm} ohm`], ['group delay at 40 Hz', `${j.group_delay_40_ms} ms`], ['planned level', `${j.planned_volts_rms} V rms`]);
+  rows.push(
+    ['minimum impedance', `${j.z_min_ohm} ohm`],
+    ['group delay at 40 Hz', `${j.group_delay_40_ms} ms`],
+    ['planned level', `${j.planned_volts_rms} V rms`],
+  );
   const width = Math.max(...rows.map(([k]) => k.length));
   const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
   if (a.warnings.length) lines.push('', ...a.warnings.map(formatIssue));

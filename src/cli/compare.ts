@@ -56,7 +56,12 @@ function sideJson(s: Side) {
     bass_db: Object.fromEntries(s.bass.map((b) => [`${b.hz}_hz`, b.db])),
     first_limit: s.summary.events[0]?.kind ?? null,
     first_limit_s: s.summary.events[0]?.start_s ?? null,
-    headroom: { clean_volts: s.headroom.clean_volts, clean_spl_db: s.headroom.clean_spl_db, first_limit: s.headroom.first_limit, first_limit_s: s.headroom.first_limit_s },
+    headroom: {
+      clean_volts: s.headroom.clean_volts,
+      clean_spl_db: s.headroom.clean_spl_db,
+      first_limit: s.headroom.first_limit,
+      first_limit_s: s.headroom.first_limit_s,
+    },
   };
 }
 
@@ -100,8 +105,15 @@ export const compareCommand: Command = {
         const paB = values['no-match'] ? paA : paA * (passB / passA);
         matchDb = r2(20 * Math.log10(paA / paB));
         const long = channels[0].length > sampleRate * 30;
-        for (const [d, v, pa, tag] of [[A, va, paA, 'a'], [B, vb, paB, 'b']] as const) {
-          const res = renderBuffer(d.system, channels, sampleRate, { voltsFs: v, paPerFs: pa, onProgress: long ? progressBar(`rendering ${tag}`) : undefined });
+        for (const [d, v, pa, tag] of [
+          [A, va, paA, 'a'],
+          [B, vb, paB, 'b'],
+        ] as const) {
+          const res = renderBuffer(d.system, channels, sampleRate, {
+            voltsFs: v,
+            paPerFs: pa,
+            onProgress: long ? progressBar(`rendering ${tag}`) : undefined,
+          });
           await writeWav(`${values.output}-${tag}.wav`, res.audio, sampleRate, audio.format);
           const fig = bassRelative(d.system);
           sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom: findHeadroom(d.system, channels, sampleRate) });

@@ -24,7 +24,9 @@ export async function loadDesignFile(path: string): Promise<{ design: DesignDoc;
   const result = parseDesign(text);
   if (!result.ok) {
     const lines = [...result.errors, ...result.warnings].map(formatIssue);
-    throw new InputError(`${path} is not a valid design (${result.errors.length} problem${result.errors.length === 1 ? '' : 's'}):\n${lines.join('\n')}`);
+    throw new InputError(
+      `${path} is not a valid design (${result.errors.length} problem${result.errors.length === 1 ? '' : 's'}):\n${lines.join('\n')}`,
+    );
   }
   return result;
 }

@@ -34,7 +34,7 @@ export const headroomCommand: Command = {
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
-      let h;
+      let h: ReturnType<typeof findHeadroom>;
       try {
         h = findHeadroom(system, audio.channels, audio.sampleRate);
       } catch (e) {

@@ -32,6 +32,8 @@ export function progressBar(label: string): ((fraction: number) => void) | undef
 /** The rendered volts must stay within what the model accepts. */
 export function checkVolts(volts: number, sys: SpeakerSystem): void {
   if (!(volts > 0 && volts < 1e4)) {
-    throw new InputError(`the level needs ${volts.toPrecision(4)} V per full scale for "${sys.name}", outside 0..10000 V: choose another --spl or --volts`);
+    throw new InputError(
+      `the level needs ${volts.toPrecision(4)} V per full scale for "${sys.name}", outside 0..10000 V: choose another --spl or --volts`,
+    );
   }
 }

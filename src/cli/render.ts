@@ -45,7 +45,9 @@ export function summaryLines(s: RenderSummary): string[] {
   for (const e of s.events) byKind.set(e.kind, (byKind.get(e.kind) ?? 0) + 1);
   lines.push(`stress events      ${s.events.length === 0 ? 'none' : [...byKind].map(([k, n]) => `${k} ×${n}`).join(', ')}`);
   for (const e of s.events.slice(0, 12)) {
-    lines.push(`  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${e.kind.padEnd(18)} peak ${e.peak} ${e.unit} (limit ${e.limit})`);
+    lines.push(
+      `  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${e.kind.padEnd(18)} peak ${e.peak} ${e.unit} (limit ${e.limit})`,
+    );
   }
   if (s.events.length > 12) lines.push(`  ... ${s.events.length - 12} more (use --events FILE or --json)`);
   return lines;
@@ -74,13 +76,14 @@ export const renderCommand: Command = {
       if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${positionals.length} argument(s)`);
       if (!values.output) throw new UsageError('-o <out.wav> is required');
       if (values.linear && values.residual) throw new UsageError('give --linear or --residual, not both');
-      if (values.format !== undefined && !['16', '24', 'f32'].includes(values.format)) throw new UsageError(`--format must be 16, 24 or f32, got "${values.format}"`);
+      if (values.format !== undefined && !['16', '24', 'f32'].includes(values.format))
+        throw new UsageError(`--format must be 16, 24 or f32, got "${values.format}"`);
       const level = levelOptions(values);
       const [designPath, inPath] = positionals;
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
-      let result;
+      let result: ReturnType<typeof renderBuffer>;
       try {
         const { volts } = resolveVolts(system, audio.channels, audio.sampleRate, level);
         checkVolts(volts, system);

@@ -30,13 +30,20 @@ export function parseRange(text: string, option: string, min: number, max: numbe
   if (parts.length !== 3 || parts.some((p) => !Number.isFinite(p))) throw new UsageError(`${option} must be FROM:TO:STEP, got "${text}"`);
   const [from, to, step] = parts;
   if (!(step > 0)) throw new UsageError(`${option}: STEP must be positive, got ${step}`);
-  if (from < min || to > max || from > to) throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${text}`);
+  if (from < min || to > max || from > to)
+    throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${text}`);
   const count = Math.floor((to - from) / step + 1e-9) + 1;
   if (count > 200) throw new UsageError(`${option}: ${count} steps is too many (200 at most)`);
   return Array.from({ length: count }, (_, k) => Number((from + k * step).toPrecision(10)));
 }
 
-function runPool(design: DesignDoc, points: SweepPoint[], channels: Float32Array[], sampleRate: number, threads: number): Promise<SweepRow[]> {
+function runPool(
+  design: DesignDoc,
+  points: SweepPoint[],
+  channels: Float32Array[],
+  sampleRate: number,
+  threads: number,
+): Promise<SweepRow[]> {
   // The audio is shared, not copied, with every worker.
   const shared = channels.map((ch) => {
     const sab = new SharedArrayBuffer(ch.byteLength);
@@ -81,7 +88,11 @@ function table(rows: SweepRow[], vented: boolean): string {
     r.f3_hz === null ? '-' : String(r.f3_hz),
     r.clean_spl_db === null ? '-' : r.clean_spl_db.toFixed(2),
     r.clean_volts === null ? '-' : String(r.clean_volts),
-    r.error ? `(${r.error})` : r.first_limit ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${clock(r.first_limit_s ?? 0)}` : 'none in range',
+    r.error
+      ? `(${r.error})`
+      : r.first_limit
+        ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${clock(r.first_limit_s ?? 0)}`
+        : 'none in range',
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i].length)));
   const line = (cells: string[]) => cells.map((c, i) => (i === cells.length - 1 ? c : c.padStart(widths[i]))).join('  ');
@@ -107,11 +118,14 @@ export const sweepCommand: Command = {
       if (positionals.length !== 2) throw new UsageError('expects a design file and a WAV file');
       if (values.vb === undefined && values.fb === undefined) throw new UsageError('give --vb and/or --fb');
       const threads = values.threads === undefined ? availableParallelism() : Number(values.threads);
-      if (!Number.isInteger(threads) || threads < 1 || threads > 64) throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
+      if (!Number.isInteger(threads) || threads < 1 || threads > 64)
+        throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
       const { design } = await loadDesignFile(positionals[0]);
-      if (values.fb !== undefined && design.box.type !== 'vented') throw new InputError(`--fb needs a vented design; ${positionals[0]} is ${design.box.type}`);
+      if (values.fb !== undefined && design.box.type !== 'vented')
+        throw new InputError(`--fb needs a vented design; ${positionals[0]} is ${design.box.type}`);
       const vbs = values.vb === undefined ? [design.box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
-      const fbs = values.fb === undefined ? [design.box.type === 'vented' ? design.box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
+      const fbs =
+        values.fb === undefined ? [design.box.type === 'vented' ? design.box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
       const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads);

@@ -72,7 +72,8 @@ export function checkWavHeader(bytes: Uint8Array, name: string): Header {
       }
       break;
     }
-    if (size > bytes.length - body) fail(`the "${id.replace(/[^\x20-\x7e]/g, '?')}" chunk declares ${size} bytes, more than the ${bytes.length - body} left in the file`);
+    if (size > bytes.length - body)
+      fail(`the "${id.replace(/[^\x20-\x7e]/g, '?')}" chunk declares ${size} bytes, more than the ${bytes.length - body} left in the file`);
     o = body + size + (size & 1);
   }
   if (!fmt) fail('no fmt chunk: not a usable WAV file');
@@ -80,19 +81,25 @@ export function checkWavHeader(bytes: Uint8Array, name: string): Header {
   const f = fmt!;
   const supported = (f.formatTag === FORMAT_PCM && (f.bits === 16 || f.bits === 24)) || (f.formatTag === FORMAT_FLOAT && f.bits === 32);
   if (!supported) {
-    const kind = f.formatTag === FORMAT_PCM ? `${f.bits}-bit PCM` : f.formatTag === FORMAT_FLOAT ? `${f.bits}-bit float` : `format code ${f.formatTag}`;
+    const kind =
+      f.formatTag === FORMAT_PCM
+        ? `${f.bits}-bit PCM`
+        : f.formatTag === FORMAT_FLOAT
+          ? `${f.bits}-bit float`
+          : `format code ${f.formatTag}`;
     fail(`${kind} is not supported: use 16- or 24-bit PCM or 32-bit float`);
   }
   if (f.channels < 1 || f.channels > MAX_CHANNELS) fail(`${f.channels} channels: 1 to ${MAX_CHANNELS} are supported`);
   if (f.sampleRate < 8000 || f.sampleRate > 384000) fail(`sample rate ${f.sampleRate} Hz is outside 8000..384000 Hz`);
-  if (f.blockAlign !== (f.channels * f.bits) / 8) fail(`block align ${f.blockAlign} does not match ${f.channels} channels of ${f.bits} bits`);
+  if (f.blockAlign !== (f.channels * f.bits) / 8)
+    fail(`block align ${f.blockAlign} does not match ${f.channels} channels of ${f.bits} bits`);
   if (dataBytes === 0) fail('zero length: the data chunk holds no samples');
   if (dataBytes < f.blockAlign) fail(`the data chunk (${dataBytes} bytes) is shorter than one frame`);
   return { ...f, dataBytes: dataBytes - (dataBytes % f.blockAlign), dataEnd: o + 8 + dataBytes };
 }
 
 export async function readWav(path: string): Promise<WavAudio> {
-  let info;
+  let info: Awaited<ReturnType<typeof stat>>;
   try {
     info = await stat(path);
   } catch (e) {

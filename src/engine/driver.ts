@@ -20,10 +20,24 @@ export const DISAGREE_ERROR = 0.05;
 export const DISAGREE_WARNING = 0.01;
 
 const DOC_FIELD: Record<SmallSignalKey, string> = {
-  fs: 'fs_hz', qes: 'qes', qms: 'qms', vas: 'vas_l', bl: 'bl_tm', mms: 'mms_g', cms: 'cms_mm_per_n', rms: 'rms_kg_s',
+  fs: 'fs_hz',
+  qes: 'qes',
+  qms: 'qms',
+  vas: 'vas_l',
+  bl: 'bl_tm',
+  mms: 'mms_g',
+  cms: 'cms_mm_per_n',
+  rms: 'rms_kg_s',
 };
 const DOC_SCALE: Record<SmallSignalKey, number> = {
-  fs: 1, qes: 1, qms: 1, vas: 1000, bl: 1, mms: 1000, cms: 1000, rms: 1,
+  fs: 1,
+  qes: 1,
+  qms: 1,
+  vas: 1000,
+  bl: 1,
+  mms: 1000,
+  cms: 1000,
+  rms: 1,
 };
 const docValue = (key: SmallSignalKey, si: number) => fmt(si * DOC_SCALE[key]);
 
@@ -80,8 +94,7 @@ export interface DerivedSmallSignal {
 export function deriveSmallSignal(given: SmallSignalInput, re: number, sd: number, air: Air, path = 'driver'): DerivedSmallSignal {
   const map = affineMap(re, sd, air);
   const known = SMALL_SIGNAL_KEYS.filter((k) => given[k] !== undefined);
-  const rowsFor = (keys: SmallSignalKey[]) =>
-    keys.map((k) => ({ coef: map[k].coef, target: Math.log(given[k]!) - map[k].offset }));
+  const rowsFor = (keys: SmallSignalKey[]) => keys.map((k) => ({ coef: map[k].coef, target: Math.log(given[k]!) - map[k].offset }));
   const z = solveZ(rowsFor(known));
   if (!z) {
     return {
@@ -95,8 +108,7 @@ export function deriveSmallSignal(given: SmallSignalInput, re: number, sd: numbe
       ],
     };
   }
-  const evaluate = (zz: number[], k: SmallSignalKey) =>
-    Math.exp(map[k].offset + map[k].coef.reduce((s, c, i) => s + c * zz[i], 0));
+  const evaluate = (zz: number[], k: SmallSignalKey) => Math.exp(map[k].offset + map[k].coef.reduce((s, c, i) => s + c * zz[i], 0));
   const values = Object.fromEntries(SMALL_SIGNAL_KEYS.map((k) => [k, evaluate(z, k)])) as SmallSignalSet;
 
   const issues: Issue[] = [];

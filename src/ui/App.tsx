@@ -129,10 +129,20 @@ function ShareDialog(p: { url: string; onClose: () => void }) {
         </>
       }
     >
-      <p>This link holds both designs, A and B. They travel in the part after “#”, which browsers never send to any server; whoever opens it sees the pair and can undo back to their own.</p>
+      <p>
+        This link holds both designs, A and B. They travel in the part after “#”, which browsers never send to any server; whoever opens it
+        sees the pair and can undo back to their own.
+      </p>
       <label class="stack">
         <span>Link</span>
-        <input ref={input} type="text" readOnly value={p.url} data-testid="share-url" onFocus={(e) => (e.currentTarget as HTMLInputElement).select()} />
+        <input
+          ref={input}
+          type="text"
+          readOnly
+          value={p.url}
+          data-testid="share-url"
+          onFocus={(e) => (e.currentTarget as HTMLInputElement).select()}
+        />
       </label>
       <p class="fine" aria-live="polite">
         {copied ?? `${p.url.length} characters.`}
@@ -235,7 +245,11 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           });
         }
       } catch (e) {
-        setProblems({ title: 'The shared link cannot be read', intro: 'Nothing was loaded; your designs are unchanged.', groups: [{ heading: '', errors: [{ path: '', message: (e as Error).message, severity: 'error' }], warnings: [] }] });
+        setProblems({
+          title: 'The shared link cannot be read',
+          intro: 'Nothing was loaded; your designs are unchanged.',
+          groups: [{ heading: '', errors: [{ path: '', message: (e as Error).message, severity: 'error' }], warnings: [] }],
+        });
       }
     };
     void openShare();
@@ -273,7 +287,9 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
     const r = readDesignText(await file.text(), file.name);
     if (r.ok) {
       store.dispatch({ type: 'replace', slot, design: r.design, reason: `import ${file.name} into ${SLOT_LABEL[slot]}` });
-      notify(`Imported “${r.design.name}” from ${file.name} into design ${SLOT_LABEL[slot]}${r.warnings.length ? ` with ${r.warnings.length} warnings` : ''}.`);
+      notify(
+        `Imported “${r.design.name}” from ${file.name} into design ${SLOT_LABEL[slot]}${r.warnings.length ? ` with ${r.warnings.length} warnings` : ''}.`,
+      );
     } else {
       setProblems({
         title: `${file.name} was not imported`,
@@ -285,7 +301,8 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const exportDesign = (slot: Slot) => {
     const d = store.get().designs[slot];
     downloadText(designFileText(d), designFileName(d, SLOT_LABEL[slot]));
-    if (derived[slot].parse.ok === false) notify(`Design ${SLOT_LABEL[slot]} was exported with its problems; fix them before importing it elsewhere.`, 'warn');
+    if (derived[slot].parse.ok === false)
+      notify(`Design ${SLOT_LABEL[slot]} was exported with its problems; fix them before importing it elsewhere.`, 'warn');
   };
   const openShareDialog = async () => {
     const bad = SLOTS.filter((s) => !derived[s].parse.ok);
@@ -326,10 +343,20 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           </div>
           <div class="toolbar" role="toolbar" aria-label="Design actions">
             <div class="tgroup">
-              <button type="button" onClick={() => store.dispatch({ type: 'undo' })} disabled={!store.canUndo()} title={store.undoLabel() ? `Undo ${store.undoLabel()}` : 'Nothing to undo'}>
+              <button
+                type="button"
+                onClick={() => store.dispatch({ type: 'undo' })}
+                disabled={!store.canUndo()}
+                title={store.undoLabel() ? `Undo ${store.undoLabel()}` : 'Nothing to undo'}
+              >
                 Undo
               </button>
-              <button type="button" onClick={() => store.dispatch({ type: 'redo' })} disabled={!store.canRedo()} title={store.redoLabel() ? `Redo ${store.redoLabel()}` : 'Nothing to redo'}>
+              <button
+                type="button"
+                onClick={() => store.dispatch({ type: 'redo' })}
+                disabled={!store.canRedo()}
+                title={store.redoLabel() ? `Redo ${store.redoLabel()}` : 'Nothing to redo'}
+              >
                 Redo
               </button>
             </div>
@@ -365,7 +392,15 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             <div class="tgroup">
               <label class="theme">
                 <span class="visually-hidden">Theme</span>
-                <select value={state.settings.theme} onChange={(e) => store.dispatch({ type: 'settings', patch: { theme: (e.currentTarget as HTMLSelectElement).value as AppState['settings']['theme'] } })}>
+                <select
+                  value={state.settings.theme}
+                  onChange={(e) =>
+                    store.dispatch({
+                      type: 'settings',
+                      patch: { theme: (e.currentTarget as HTMLSelectElement).value as AppState['settings']['theme'] },
+                    })
+                  }
+                >
                   <option value="auto">Theme: system</option>
                   <option value="light">Theme: light</option>
                   <option value="dark">Theme: dark</option>
@@ -376,7 +411,16 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
               </button>
             </div>
           </div>
-          <input ref={fileInput} type="file" accept=".json,application/json" class="visually-hidden" tabIndex={-1} aria-hidden="true" data-testid="import-file" onChange={onFile} />
+          <input
+            ref={fileInput}
+            type="file"
+            accept=".json,application/json"
+            class="visually-hidden"
+            tabIndex={-1}
+            aria-hidden="true"
+            data-testid="import-file"
+            onChange={onFile}
+          />
         </header>
 
         {update ? (
@@ -432,7 +476,9 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
               <span class={`pair-item pair-${s}`}>
                 <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
                 <span class="pair-name">{state.designs[s].name}</span>
-                {derived[s].parse.ok ? null : <span class="badge-error">{derived[s].issues.filter((i) => i.severity === 'error').length} errors</span>}
+                {derived[s].parse.ok ? null : (
+                  <span class="badge-error">{derived[s].issues.filter((i) => i.severity === 'error').length} errors</span>
+                )}
               </span>
             ))}
           </div>
@@ -441,11 +487,33 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         <div class="body">
           <main>
             <div id="screen" role="tabpanel" aria-labelledby={`tab-${screen}`}>
-              {screen === 'driver' ? <DriverSheet /> : screen === 'cabinet' ? <Cabinet /> : screen === 'drive' ? <DriveSeat /> : screen === 'bench' ? <ListeningBench theme={theme} /> : screen === 'stress' ? <StressStrip theme={theme} /> : screen === 'curves' ? <Curves theme={theme} /> : null}
-              {screen === 'trial' ? <BlindTrial /> : screen === 'headroom' ? <HeadroomProbe /> : screen === 'sheet' ? <ClientSheet /> : screen === 'present' ? <Presentation /> : null}
+              {screen === 'driver' ? (
+                <DriverSheet />
+              ) : screen === 'cabinet' ? (
+                <Cabinet />
+              ) : screen === 'drive' ? (
+                <DriveSeat />
+              ) : screen === 'bench' ? (
+                <ListeningBench theme={theme} />
+              ) : screen === 'stress' ? (
+                <StressStrip theme={theme} />
+              ) : screen === 'curves' ? (
+                <Curves theme={theme} />
+              ) : null}
+              {screen === 'trial' ? (
+                <BlindTrial />
+              ) : screen === 'headroom' ? (
+                <HeadroomProbe />
+              ) : screen === 'sheet' ? (
+                <ClientSheet />
+              ) : screen === 'present' ? (
+                <Presentation />
+              ) : null}
             </div>
           </main>
-          {screen === 'curves' || screen === 'bench' || screen === 'stress' || screen === 'sheet' || screen === 'present' ? null : <Glance theme={theme} />}
+          {screen === 'curves' || screen === 'bench' || screen === 'stress' || screen === 'sheet' || screen === 'present' ? null : (
+            <Glance theme={theme} />
+          )}
         </div>
 
         <footer class="status">

@@ -35,7 +35,10 @@ export function CautionsPanel(p: { onClose: () => void; firstRun: boolean }) {
           </li>
         ))}
       </ul>
-      <p class="fine">preheard runs entirely on this machine: nothing you enter or play is sent anywhere. You can reopen these cautions from the header at any time.</p>
+      <p class="fine">
+        preheard runs entirely on this machine: nothing you enter or play is sent anywhere. You can reopen these cautions from the header at
+        any time.
+      </p>
     </Dialog>
   );
 }

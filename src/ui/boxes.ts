@@ -27,7 +27,8 @@ export function boxOfType(current: BoxDoc, type: BoxType, suggestions: Suggestio
 
 export type PortShape = 'round' | 'slot';
 
-export const portShape = (p: PortDoc | undefined): PortShape => (p && p.diameter_cm === undefined && (p.width_cm !== undefined || p.height_cm !== undefined) ? 'slot' : 'round');
+export const portShape = (p: PortDoc | undefined): PortShape =>
+  p && p.diameter_cm === undefined && (p.width_cm !== undefined || p.height_cm !== undefined) ? 'slot' : 'round';
 
 export function portOfShape(p: PortDoc, shape: PortShape): PortDoc {
   if (portShape(p) === shape) return p;
@@ -36,5 +37,8 @@ export function portOfShape(p: PortDoc, shape: PortShape): PortDoc {
     const d = diameter_cm ?? 5;
     return { ...rest, width_cm: Number((d * 2).toFixed(1)), height_cm: Number((d / 2).toFixed(1)) };
   }
-  return { ...rest, diameter_cm: width_cm !== undefined && height_cm !== undefined ? Number(Math.sqrt(width_cm * height_cm).toFixed(1)) : 5 };
+  return {
+    ...rest,
+    diameter_cm: width_cm !== undefined && height_cm !== undefined ? Number(Math.sqrt(width_cm * height_cm).toFixed(1)) : 5,
+  };
 }

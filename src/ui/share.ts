@@ -63,10 +63,13 @@ export function hasShare(hash: string): boolean {
 export async function decodeShare(hash: string): Promise<{ a: unknown; b: unknown }> {
   const frag = hash.replace(/^#/, '');
   if (!frag.startsWith(PREFIX)) throw new Error('this link carries no preheard designs');
-  if (frag.length > MAX_SHARE_CHARS) throw new Error(`the link is ${frag.length} characters long, more than a pair of designs needs (${MAX_SHARE_CHARS} at most)`);
+  if (frag.length > MAX_SHARE_CHARS)
+    throw new Error(`the link is ${frag.length} characters long, more than a pair of designs needs (${MAX_SHARE_CHARS} at most)`);
   let text: string;
   try {
-    text = new TextDecoder().decode(await pipe(fromBase64Url(frag.slice(PREFIX.length)), new DecompressionStream('deflate-raw'), MAX_SHARE_BYTES));
+    text = new TextDecoder().decode(
+      await pipe(fromBase64Url(frag.slice(PREFIX.length)), new DecompressionStream('deflate-raw'), MAX_SHARE_BYTES),
+    );
   } catch (e) {
     if (e instanceof RangeError) throw new Error(`the link is not a pair of designs: ${e.message}`);
     throw new Error('the link is damaged or cut short (its design data does not decode)');

@@ -8,9 +8,18 @@ export const SLOTS: readonly Slot[] = ['a', 'b'];
 export const SLOT_LABEL: Record<Slot, string> = { a: 'A', b: 'B' };
 
 /** Screens of the one page. Later issues add the listening, stress, trial, probe and client screens. */
-export type ScreenId = 'driver' | 'cabinet' | 'drive' | 'curves' | 'bench' | 'stress'
+export type ScreenId =
+  | 'driver'
+  | 'cabinet'
+  | 'drive'
+  | 'curves'
+  | 'bench'
+  | 'stress'
   // Deciding by ear and showing the client.
-  | 'trial' | 'headroom' | 'sheet' | 'present';
+  | 'trial'
+  | 'headroom'
+  | 'sheet'
+  | 'present';
 
 export interface Settings {
   screen: ScreenId;

@@ -11,7 +11,11 @@ interface Announcement {
 }
 
 const isAnnouncement = (v: unknown): v is Announcement =>
-  !!v && typeof v === 'object' && (v as Announcement).kind === 'preheard-designs' && typeof (v as Announcement).tab === 'string' && !!(v as Announcement).designs;
+  !!v &&
+  typeof v === 'object' &&
+  (v as Announcement).kind === 'preheard-designs' &&
+  typeof (v as Announcement).tab === 'string' &&
+  !!(v as Announcement).designs;
 
 export function connectTabs(store: Store, autosave: Autosave, channel: BroadcastChannel, tab: string = crypto.randomUUID()): () => void {
   // The designs last exchanged with another tab: neither re-announced nor re-adopted, so two tabs never echo.

@@ -62,7 +62,8 @@ export type RandomBytes = (bytes: Uint8Array) => Uint8Array;
 
 export const cryptoRandom: RandomBytes = (bytes) => {
   const c = (globalThis as { crypto?: Crypto }).crypto;
-  if (!c || typeof c.getRandomValues !== 'function') throw new Error('this browser offers no cryptographic random source (crypto.getRandomValues), which a blind trial needs');
+  if (!c || typeof c.getRandomValues !== 'function')
+    throw new Error('this browser offers no cryptographic random source (crypto.getRandomValues), which a blind trial needs');
   return c.getRandomValues(bytes);
 };
 
@@ -77,9 +78,15 @@ export function checkSettings(s: TrialSettings): Checked<TrialSettings> {
   if (s.loop) {
     const { startS, endS } = s.loop;
     const dur = s.track.durationS;
-    if (!Number.isFinite(startS) || startS < 0 || startS >= dur) errors.push({ path: 'loop.startS', message: `loop start must be from 0 s to under the track length ${dur.toFixed(2)} s, got ${startS}` });
-    if (!Number.isFinite(endS) || endS > dur + 1e-9) errors.push({ path: 'loop.endS', message: `loop end must be at most the track length ${dur.toFixed(2)} s, got ${endS}` });
-    else if (endS - startS < 0.25) errors.push({ path: 'loop.endS', message: `loop end must be at least 0.25 s after its start (${startS} s), got ${endS}` });
+    if (!Number.isFinite(startS) || startS < 0 || startS >= dur)
+      errors.push({
+        path: 'loop.startS',
+        message: `loop start must be from 0 s to under the track length ${dur.toFixed(2)} s, got ${startS}`,
+      });
+    if (!Number.isFinite(endS) || endS > dur + 1e-9)
+      errors.push({ path: 'loop.endS', message: `loop end must be at most the track length ${dur.toFixed(2)} s, got ${endS}` });
+    else if (endS - startS < 0.25)
+      errors.push({ path: 'loop.endS', message: `loop end must be at least 0.25 s after its start (${startS} s), got ${endS}` });
   }
   return errors.length ? { ok: false, errors } : { ok: true, value: s };
 }
@@ -88,12 +95,31 @@ export function checkSettings(s: TrialSettings): Checked<TrialSettings> {
  * A new trial: X of every round is drawn now, one random byte per round (the low bit; 256 is even,
  * so A and B are exactly equally likely).
  */
-export function newTrial(names: Record<Pick, string>, settings: TrialSettings, random: RandomBytes = cryptoRandom, now: Date = new Date()): Trial {
+export function newTrial(
+  names: Record<Pick, string>,
+  settings: TrialSettings,
+  random: RandomBytes = cryptoRandom,
+  now: Date = new Date(),
+): Trial {
   const c = checkSettings(settings);
   if (!c.ok) throw new RangeError(c.errors.map((e) => e.message).join('; '));
   const bytes = random(new Uint8Array(settings.rounds));
-  const rounds: TrialRound[] = Array.from(bytes, (b) => ({ x: (b & 1) === 0 ? 'a' : 'b', answer: null, plays: { a: 0, b: 0, x: 0 }, answeredAtMs: null }));
-  return { format: 'preheard-blind-trial', version: 1, startedAt: now.toISOString(), names: { ...names }, settings: structuredClone(settings), rounds, current: 0, listening: null };
+  const rounds: TrialRound[] = Array.from(bytes, (b) => ({
+    x: (b & 1) === 0 ? 'a' : 'b',
+    answer: null,
+    plays: { a: 0, b: 0, x: 0 },
+    answeredAtMs: null,
+  }));
+  return {
+    format: 'preheard-blind-trial',
+    version: 1,
+    startedAt: now.toISOString(),
+    names: { ...names },
+    settings: structuredClone(settings),
+    rounds,
+    current: 0,
+    listening: null,
+  };
 }
 
 /** The design the player must play for a requested lane in the current round. */
@@ -169,23 +195,59 @@ export function toCsv(t: Trial): string {
   const s = t.settings;
   const tl = tally(t);
   const head = [
-    'round', 'x_is', 'answer', 'correct', 'plays_a', 'plays_b', 'plays_x', 'answered_at_s',
-    'design_a', 'design_b', 'track', 'loop_start_s', 'loop_end_s', 'match_levels', 'listen_mode',
-    'planned_spl_a_db', 'planned_spl_b_db', 'volts_fs_a', 'volts_fs_b', 'monitor_db', 'started_at',
-    'total_correct', 'total_answered', 'p_guess',
+    'round',
+    'x_is',
+    'answer',
+    'correct',
+    'plays_a',
+    'plays_b',
+    'plays_x',
+    'answered_at_s',
+    'design_a',
+    'design_b',
+    'track',
+    'loop_start_s',
+    'loop_end_s',
+    'match_levels',
+    'listen_mode',
+    'planned_spl_a_db',
+    'planned_spl_b_db',
+    'volts_fs_a',
+    'volts_fs_b',
+    'monitor_db',
+    'started_at',
+    'total_correct',
+    'total_answered',
+    'p_guess',
   ];
   const lines = [head.join(',')];
   t.rounds.forEach((r, i) => {
     const row: (string | number | null)[] = [
       // X of a round not yet answered stays hidden, even in an export made mid-trial.
-      i + 1, r.answer === null ? null : r.x.toUpperCase(), r.answer ? r.answer.toUpperCase() : null, r.answer === null ? null : r.answer === r.x ? 1 : 0,
-      r.plays.a, r.plays.b, r.plays.x, r.answeredAtMs === null ? null : (r.answeredAtMs / 1000).toFixed(2),
-      t.names.a, t.names.b, s.track.name, s.loop ? s.loop.startS.toFixed(3) : null, s.loop ? s.loop.endS.toFixed(3) : null,
-      s.matchLevels ? 'yes' : 'no', s.listenMode,
-      s.levels.a ? s.levels.a.splDb.toFixed(2) : null, s.levels.b ? s.levels.b.splDb.toFixed(2) : null,
-      s.levels.a ? s.levels.a.voltsFs.toPrecision(5) : null, s.levels.b ? s.levels.b.voltsFs.toPrecision(5) : null,
-      s.monitorDb === null ? null : s.monitorDb.toFixed(1), t.startedAt,
-      tl.correct, tl.answered, tl.pGuess.toPrecision(6),
+      i + 1,
+      r.answer === null ? null : r.x.toUpperCase(),
+      r.answer ? r.answer.toUpperCase() : null,
+      r.answer === null ? null : r.answer === r.x ? 1 : 0,
+      r.plays.a,
+      r.plays.b,
+      r.plays.x,
+      r.answeredAtMs === null ? null : (r.answeredAtMs / 1000).toFixed(2),
+      t.names.a,
+      t.names.b,
+      s.track.name,
+      s.loop ? s.loop.startS.toFixed(3) : null,
+      s.loop ? s.loop.endS.toFixed(3) : null,
+      s.matchLevels ? 'yes' : 'no',
+      s.listenMode,
+      s.levels.a ? s.levels.a.splDb.toFixed(2) : null,
+      s.levels.b ? s.levels.b.splDb.toFixed(2) : null,
+      s.levels.a ? s.levels.a.voltsFs.toPrecision(5) : null,
+      s.levels.b ? s.levels.b.voltsFs.toPrecision(5) : null,
+      s.monitorDb === null ? null : s.monitorDb.toFixed(1),
+      t.startedAt,
+      tl.correct,
+      tl.answered,
+      tl.pGuess.toPrecision(6),
     ];
     lines.push(row.map(csvField).join(','));
   });
@@ -195,16 +257,18 @@ export function toCsv(t: Trial): string {
 /** The results as JSON: the whole trial (settings, names, every round) and the tally. */
 export function toJson(t: Trial): string {
   const tl = tally(t);
-  return JSON.stringify(
-    {
-      ...t,
-      listening: undefined,
-      rounds: t.rounds.map((r) => (r.answer === null ? { ...r, x: null } : r)),
-      tally: { correct: tl.correct, answered: tl.answered, rounds: tl.rounds, p_guess: tl.pGuess },
-    },
-    null,
-    2,
-  ) + '\n';
+  return (
+    JSON.stringify(
+      {
+        ...t,
+        listening: undefined,
+        rounds: t.rounds.map((r) => (r.answer === null ? { ...r, x: null } : r)),
+        tally: { correct: tl.correct, answered: tl.answered, rounds: tl.rounds, p_guess: tl.pGuess },
+      },
+      null,
+      2,
+    ) + '\n'
+  );
 }
 
 /** Keys of the trial screen: listen to A, B, X; answer with 1 ("X is A") or 2 ("X is B"). */

@@ -3,7 +3,8 @@
 import { renderBuffer } from '../../src/engine/render/index.ts';
 import { exampleSystem } from '../helpers/audio-bench.ts';
 
-const fs = 48000, n = fs * 600;
+const fs = 48000,
+  n = fs * 600;
 const sys = exampleSystem('vented');
 // Warm the engine on a short buffer so the baseline includes code and the JIT.
 renderBuffer(sys, [new Float32Array(fs).fill(0.01), new Float32Array(fs).fill(0.01)], fs, { voltsFs: 5 });
@@ -20,4 +21,6 @@ const decoded = 2 * n * 4;
 const r = renderBuffer(sys, ch, fs, { voltsFs: 10 });
 const peak = process.resourceUsage().maxRSS * 1024;
 const ratio = (peak - Math.min(base, baseMax)) / decoded;
-process.stdout.write(`${JSON.stringify({ ratio, decodedMb: decoded / 2 ** 20, peakMb: peak / 2 ** 20, baseMb: base / 2 ** 20, frames: r.summary.duration_s })}\n`);
+process.stdout.write(
+  `${JSON.stringify({ ratio, decodedMb: decoded / 2 ** 20, peakMb: peak / 2 ** 20, baseMb: base / 2 ** 20, frames: r.summary.duration_s })}\n`,
+);

@@ -24,7 +24,8 @@ const HERE = dirname(fileURLToPath(import.meta.url));
 const now = () => performance.now();
 
 function best<T>(n: number, f: () => T): { ms: number; value: T } {
-  let ms = Infinity, value!: T;
+  let ms = Infinity,
+    value!: T;
   for (let k = 0; k < n; k++) {
     const t0 = now();
     value = f();
@@ -38,7 +39,12 @@ function realtime(): BenchResult {
   const track = synthesizeDemoTrack(48000);
   renderBuffer(sys, track.channels, 48000, { splDb: 90 }); // warm-up: the JIT settles
   const r = best(3, () => renderBuffer(sys, track.channels, 48000, { splDb: 90 }));
-  return { name: 'large-signal render, vented, stereo 48 kHz (demo track, 90 dB(C))', value: r.value.summary.realtime_factor, unit: 'x real time', target: '>= 100' };
+  return {
+    name: 'large-signal render, vented, stereo 48 kHz (demo track, 90 dB(C))',
+    value: r.value.summary.realtime_factor,
+    unit: 'x real time',
+    target: '>= 100',
+  };
 }
 
 async function linearVsWebAudio(): Promise<BenchResult[]> {
@@ -85,14 +91,25 @@ async function linearVsWebAudio(): Promise<BenchResult[]> {
     nativeMs = Math.min(nativeMs, now() - t0);
     native = rendered.getChannelData(0);
   }
-  let e = 0, s2 = 0;
+  let e = 0,
+    s2 = 0;
   for (let k = 0; k < n; k++) {
     e += (native![k] - ours.value[0][k]) ** 2;
     s2 += ours.value[0][k] ** 2;
   }
   return [
-    { name: `linear chain (${sections} biquads, stereo) / node-web-audio-api OfflineAudioContext`, value: Number((ours.ms / nativeMs).toFixed(3)), unit: 'time ratio', target: '<= 1.0' },
-    { name: '  agreement with the native render (relative RMS difference)', value: Number(Math.sqrt(e / s2).toExponential(2)), unit: '', target: '< 1e-5 (32-bit float)' },
+    {
+      name: `linear chain (${sections} biquads, stereo) / node-web-audio-api OfflineAudioContext`,
+      value: Number((ours.ms / nativeMs).toFixed(3)),
+      unit: 'time ratio',
+      target: '<= 1.0',
+    },
+    {
+      name: '  agreement with the native render (relative RMS difference)',
+      value: Number(Math.sqrt(e / s2).toExponential(2)),
+      unit: '',
+      target: '< 1e-5 (32-bit float)',
+    },
   ];
 }
 
@@ -103,7 +120,8 @@ async function versusOdex(): Promise<BenchResult[]> {
   const sys = system(ventedBox(28, 38, 7), { d: { xmaxMm: 5, xlimMm: 15 } });
   const p = wooferParams(sys, 1 / fs);
   const track = synthesizeDemoTrack(fs);
-  const from = Math.round(track.loudFromS * fs), n = Math.round(0.5 * fs);
+  const from = Math.round(track.loudFromS * fs),
+    n = Math.round(0.5 * fs);
   const xo = designCrossover({ type: 'lr4', fx: 2000 }, fs);
   const lp = new BiquadCascade(xo.lp!);
   const drive = new Float64Array(n);
@@ -112,7 +130,8 @@ async function versusOdex(): Promise<BenchResult[]> {
     if (k >= from) drive[k - from] = 40 * v;
   }
   const u = (t: number) => {
-    const x = t * fs, k = Math.floor(x);
+    const x = t * fs,
+      k = Math.floor(x);
     if (k >= n - 1) return drive[n - 1];
     return drive[k] + (x - k) * (drive[k + 1] - drive[k]);
   };
@@ -125,9 +144,15 @@ async function versusOdex(): Promise<BenchResult[]> {
     s.maxSteps = 1e8;
     const x = new Float64Array(n);
     let k = 0;
-    s.solve(f, 0, [0, 0, 0, 0, 0], (n - 1) / fs, s.grid(1 / fs, (_t, y) => {
-      if (k < n) x[k++] = y[1];
-    }));
+    s.solve(
+      f,
+      0,
+      [0, 0, 0, 0, 0],
+      (n - 1) / fs,
+      s.grid(1 / fs, (_t, y) => {
+        if (k < n) x[k++] = y[1];
+      }),
+    );
     return x;
   };
   const ref = solve(1e-11);
@@ -139,7 +164,8 @@ async function versusOdex(): Promise<BenchResult[]> {
     return x;
   });
   const err = (a: Float64Array) => {
-    let e = 0, s2 = 0;
+    let e = 0,
+      s2 = 0;
     for (let k = 0; k < n; k++) {
       e += (a[k] - ref[k]) ** 2;
       s2 += ref[k] ** 2;
@@ -150,7 +176,8 @@ async function versusOdex(): Promise<BenchResult[]> {
   let peak = 0;
   for (const x of ref) peak = Math.max(peak, Math.abs(x));
   // The loosest odex tolerance that is at least as accurate as the fixed-step model.
-  let odexMs = 0, odexErr = 0;
+  let odexMs = 0,
+    odexErr = 0;
   for (let tol = 1e-2; tol >= 1e-11; tol /= 1.5) {
     const r = best(1, () => solve(tol));
     odexErr = err(r.value);
@@ -168,7 +195,10 @@ async function versusOdex(): Promise<BenchResult[]> {
 }
 
 function memory(): BenchResult {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', join(HERE, 'render-memory-child.ts')], { encoding: 'utf8', cwd: join(HERE, '..', '..') });
+  const r = spawnSync(process.execPath, ['--import', 'tsx', join(HERE, 'render-memory-child.ts')], {
+    encoding: 'utf8',
+    cwd: join(HERE, '..', '..'),
+  });
   if (r.status !== 0) throw new Error(`memory child failed: ${r.stderr}`);
   const j = JSON.parse(r.stdout.trim().split('\n').at(-1)!);
   return { name: '10-minute stereo render: peak memory / decoded audio', value: Number(j.ratio.toFixed(2)), unit: 'ratio', target: '<= 3' };

@@ -75,8 +75,18 @@ export async function bench(): Promise<BenchResult[]> {
     await measure(page, '[data-chart]', 10, 'store'); // warm-up: JIT, first layouts
     const all = await measure(page, '[data-chart]', 60, 'store');
     results.push(
-      { name: `ui: edit -> all ${nCharts} Curves charts redrawn, median`, value: quantile(all, 0.5), unit: 'ms', target: `< ${FRAME_MS.toFixed(1)} ms (one frame)` },
-      { name: `ui: edit -> all ${nCharts} Curves charts redrawn, p95`, value: quantile(all, 0.95), unit: 'ms', target: `< ${FRAME_MS.toFixed(1)} ms (one frame)` },
+      {
+        name: `ui: edit -> all ${nCharts} Curves charts redrawn, median`,
+        value: quantile(all, 0.5),
+        unit: 'ms',
+        target: `< ${FRAME_MS.toFixed(1)} ms (one frame)`,
+      },
+      {
+        name: `ui: edit -> all ${nCharts} Curves charts redrawn, p95`,
+        value: quantile(all, 0.95),
+        unit: 'ms',
+        target: `< ${FRAME_MS.toFixed(1)} ms (one frame)`,
+      },
       { name: 'ui: frame budget / median redraw', value: FRAME_MS / quantile(all, 0.5), unit: 'x', target: '> 1' },
     );
 
@@ -85,8 +95,18 @@ export async function bench(): Promise<BenchResult[]> {
     await page.waitForSelector('.glance [data-chart=spl] canvas');
     await measure(page, '.glance [data-chart]', 10, 'input');
     const typed = await measure(page, '.glance [data-chart]', 60, 'input');
-    results.push({ name: 'ui: typing Vb on Cabinet -> sheet, figures and charts redrawn, median', value: quantile(typed, 0.5), unit: 'ms', target: `< ${FRAME_MS.toFixed(1)} ms (one frame)` });
-    results.push({ name: 'ui: typing Vb on Cabinet -> sheet, figures and charts redrawn, p95', value: quantile(typed, 0.95), unit: 'ms', target: `< ${FRAME_MS.toFixed(1)} ms (one frame)` });
+    results.push({
+      name: 'ui: typing Vb on Cabinet -> sheet, figures and charts redrawn, median',
+      value: quantile(typed, 0.5),
+      unit: 'ms',
+      target: `< ${FRAME_MS.toFixed(1)} ms (one frame)`,
+    });
+    results.push({
+      name: 'ui: typing Vb on Cabinet -> sheet, figures and charts redrawn, p95',
+      value: quantile(typed, 0.95),
+      unit: 'ms',
+      target: `< ${FRAME_MS.toFixed(1)} ms (one frame)`,
+    });
     if (browser.offHost.length) throw new Error(`requests left the machine: ${browser.offHost.join(', ')}`);
     return results;
   } finally {
@@ -97,5 +117,6 @@ export async function bench(): Promise<BenchResult[]> {
 
 // Run on its own: `npx tsx test/bench/ui-redraw.ts`.
 if (import.meta.url === `file://${process.argv[1]}`) {
-  for (const r of await bench()) console.log(`${r.name.padEnd(72)} ${r.value.toFixed(2).padStart(8)} ${r.unit.padEnd(3)} target ${r.target}`);
+  for (const r of await bench())
+    console.log(`${r.name.padEnd(72)} ${r.value.toFixed(2).padStart(8)} ${r.unit.padEnd(3)} target ${r.target}`);
 }

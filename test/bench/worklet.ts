@@ -31,8 +31,10 @@ export async function bench(): Promise<BenchRow[]> {
   const sr = 48000;
   const Ctor = await processorClass(sr);
   const demo = synthesizeDemoTrack(sr);
-  const a = exampleSystem('sealed'), b = exampleSystem('vented');
-  const va = resolveVolts(a, demo.channels, sr, {}).volts, vb = resolveVolts(b, demo.channels, sr, {}).volts;
+  const a = exampleSystem('sealed'),
+    b = exampleSystem('vented');
+  const va = resolveVolts(a, demo.channels, sr, {}).volts,
+    vb = resolveVolts(b, demo.channels, sr, {}).volts;
   const p = new Ctor();
   const send = (m: unknown) => p.port.onmessage!({ data: m });
   send({ type: 'track', channels: demo.channels.map((c) => c.slice()) });
@@ -54,8 +56,18 @@ export async function bench(): Promise<BenchRow[]> {
   const quantumMs = (128 / sr) * 1000;
   const perQuantum = ms / quanta;
   return [
-    { name: 'worklet process(), A + B + reference, per 128-frame quantum', value: Number((perQuantum * 1000).toFixed(1)), unit: 'µs', target: `quantum is ${(quantumMs * 1000).toFixed(0)} µs` },
-    { name: 'worklet load: process() time / quantum real time', value: Number((perQuantum / quantumMs).toFixed(4)), unit: 'ratio', target: '<= 0.25' },
+    {
+      name: 'worklet process(), A + B + reference, per 128-frame quantum',
+      value: Number((perQuantum * 1000).toFixed(1)),
+      unit: 'µs',
+      target: `quantum is ${(quantumMs * 1000).toFixed(0)} µs`,
+    },
+    {
+      name: 'worklet load: process() time / quantum real time',
+      value: Number((perQuantum / quantumMs).toFixed(4)),
+      unit: 'ratio',
+      target: '<= 0.25',
+    },
   ];
 }
 

@@ -55,7 +55,8 @@ export const tests = [
       const dlg = p.getByRole('dialog', { name: 'Before you start' });
       await dlg.waitFor();
       const text = await dlg.innerText();
-      for (const word of ['hearing', 'estimate', 'mains', 'local codes']) assert.match(text, new RegExp(word, 'i'), `cautions mention ${word}`);
+      for (const word of ['hearing', 'estimate', 'mains', 'local codes'])
+        assert.match(text, new RegExp(word, 'i'), `cautions mention ${word}`);
       await dlg.getByRole('button', { name: 'I understand' }).click();
       await dlg.waitFor({ state: 'detached' });
       assert.equal(await p.title(), 'preheard');
@@ -147,7 +148,9 @@ export const tests = [
         crossover: { type: 'lr4', fx_hz: 2000 },
         listening: { distance_m: 3, space: 'half' },
       };
-      await p.locator('[data-testid=import-file]').setInputFiles({ name: 'broken.preheard.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(broken)) });
+      await p
+        .locator('[data-testid=import-file]')
+        .setInputFiles({ name: 'broken.preheard.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(broken)) });
       const dlg = p.getByRole('dialog', { name: /broken\.preheard\.json was not imported/ });
       await dlg.waitFor();
       const items = await dlg.locator('[data-testid=problem-list] li.error').allInnerTexts();
@@ -157,7 +160,9 @@ export const tests = [
       await dlg.getByRole('button', { name: 'Close' }).click();
       assert.equal(await p.locator('.pair-name').first().innerText(), nameA, 'design A is unchanged');
       // A file that is not JSON at all.
-      await p.locator('[data-testid=import-file]').setInputFiles({ name: 'notes.txt.json', mimeType: 'application/json', buffer: Buffer.from('{"format": "preheard-design",') });
+      await p
+        .locator('[data-testid=import-file]')
+        .setInputFiles({ name: 'notes.txt.json', mimeType: 'application/json', buffer: Buffer.from('{"format": "preheard-design",') });
       const dlg2 = p.getByRole('dialog', { name: /was not imported/ });
       await dlg2.waitFor();
       assert.match(await dlg2.innerText(), /not valid JSON/);
@@ -208,7 +213,10 @@ export const tests = [
       const rows = await details.locator('tbody tr').allInnerTexts();
       // Rows sit at the grid point nearest each preferred frequency (ISO 266 third-octave series).
       const near100 = rows.map((r) => r.trim().split(/\s+/).map(Number)).find((c) => c[0] > 90 && c[0] < 110);
-      assert.ok(near100 && near100.length >= 3 && near100.slice(1).every((v) => v > 40 && v < 120), `a row near 100 Hz with SPL values: ${rows.join(' | ')}`);
+      assert.ok(
+        near100 && near100.length >= 3 && near100.slice(1).every((v) => v > 40 && v < 120),
+        `a row near 100 Hz with SPL values: ${rows.join(' | ')}`,
+      );
       const [png] = await Promise.all([p.waitForEvent('download'), p.getByRole('button', { name: 'Save SPL at the seat as PNG' }).click()]);
       assert.equal(png.suggestedFilename(), 'preheard-spl.png');
       const bytes = await streamBytes(await png.createReadStream());
@@ -277,7 +285,10 @@ export const tests = [
       await p.waitForSelector('[data-chart=spl] canvas');
       await tab(p, 'Cabinet');
       assert.equal(await p.getByLabel('Net volume Vb, design A', { exact: true }).inputValue(), ctx.state.newVb);
-      assert.deepEqual(ctx.state.errors.filter((e) => !/ERR_CONNECTION_REFUSED|Failed to load resource/.test(e)), []);
+      assert.deepEqual(
+        ctx.state.errors.filter((e) => !/ERR_CONNECTION_REFUSED|Failed to load resource/.test(e)),
+        [],
+      );
     },
   },
   {

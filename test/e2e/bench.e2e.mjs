@@ -91,8 +91,23 @@ export const tests = [
       await p.waitForSelector('[data-testid=offline-results]', { timeout: 30_000 });
       await tab(p, 'Stress strip');
       await p.waitForSelector('[data-testid=strip-source]:has-text("offline render")');
-      const rows = await p.locator('[data-testid=event-list] tr[data-slot=a]').evaluateAll((trs) => trs.map((tr) => ({ kind: tr.dataset.kind, start: Number(tr.dataset.start) })));
-      const cli = spawnSync(process.execPath, [join(ROOT, 'src/cli/preheard.mjs'), 'render', join(dir, 'a.json'), join(dir, 'burst.wav'), '-o', join(dir, 'out.wav'), '--events', join(dir, 'events.json')], { cwd: ROOT, encoding: 'utf8' });
+      const rows = await p
+        .locator('[data-testid=event-list] tr[data-slot=a]')
+        .evaluateAll((trs) => trs.map((tr) => ({ kind: tr.dataset.kind, start: Number(tr.dataset.start) })));
+      const cli = spawnSync(
+        process.execPath,
+        [
+          join(ROOT, 'src/cli/preheard.mjs'),
+          'render',
+          join(dir, 'a.json'),
+          join(dir, 'burst.wav'),
+          '-o',
+          join(dir, 'out.wav'),
+          '--events',
+          join(dir, 'events.json'),
+        ],
+        { cwd: ROOT, encoding: 'utf8' },
+      );
       assert.equal(cli.status, 0, cli.stderr);
       const ref = JSON.parse(readFileSync(join(dir, 'events.json'), 'utf8'));
       assert.ok(ref.length > 0, 'the CLI finds stress at the burst');
@@ -142,7 +157,10 @@ export const tests = [
         assert.equal(Number(d.blockFrame) % Number(d.quantum), 0, `switch at ${d.blockFrame} is on a ${d.quantum}-frame boundary`);
         assert.equal(Number(d.quantum), 128);
         assert.equal(Number(d.fadeFrames), Math.round(0.005 * ctx.state.benchRate));
-        assert.ok(Number(d.worstRatio) <= 1, `largest step ${d.maxStep} within what the crossfade allows (${d.allowedStep}), ratio ${d.worstRatio}`);
+        assert.ok(
+          Number(d.worstRatio) <= 1,
+          `largest step ${d.maxStep} within what the crossfade allows (${d.allowedStep}), ratio ${d.worstRatio}`,
+        );
         assert.ok(Number(d.maxStep) > 0, 'music was playing through the switch');
         await p.waitForTimeout(120);
       }
@@ -173,10 +191,11 @@ export const tests = [
       const s = w.getSamples(false, Float64Array);
       assert.equal(s[0].length, ctx.state.benchFrames);
       let peak = 0;
-      for (const ch of s) for (const v of ch) {
-        assert.ok(Number.isFinite(v));
-        peak = Math.max(peak, Math.abs(v));
-      }
+      for (const ch of s)
+        for (const v of ch) {
+          assert.ok(Number.isFinite(v));
+          peak = Math.max(peak, Math.abs(v));
+        }
       assert.ok(peak > 0, 'the distortion at the burst is in the file');
     },
   },

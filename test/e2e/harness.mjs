@@ -37,9 +37,11 @@ export function ensurePoppler() {
   if (has()) return;
   const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
   if (!isRoot) {
-    throw new Error('The Client sheet test reads the printed PDF with poppler-utils, which is missing.\nInstall it with:  sudo apt-get update && sudo apt-get install -y poppler-utils');
+    throw new Error(
+      'The Client sheet test reads the printed PDF with poppler-utils, which is missing.\nInstall it with:  sudo apt-get update && sudo apt-get install -y poppler-utils',
+    );
   }
-  console.log('[e2e] pdftotext is missing: installing Debian\'s poppler-utils with apt-get');
+  console.log("[e2e] pdftotext is missing: installing Debian's poppler-utils with apt-get");
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   for (const args of [['update'], ['install', '-y', 'poppler-utils']]) {
     const r = spawnSync('apt-get', args, { stdio: 'inherit', env });
@@ -92,11 +94,10 @@ async function waitForHttp(url, child, timeoutMs) {
  */
 export async function startPreview({ outDir = 'dist', port } = {}) {
   const p = port ?? (await freePort());
-  const child = spawn(
-    process.execPath,
-    [VITE, 'preview', '--host', '127.0.0.1', '--port', String(p), '--strictPort', '--outDir', outDir],
-    { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] },
-  );
+  const child = spawn(process.execPath, [VITE, 'preview', '--host', '127.0.0.1', '--port', String(p), '--strictPort', '--outDir', outDir], {
+    cwd: ROOT,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let log = '';
   child.stdout.on('data', (d) => (log += d));
   child.stderr.on('data', (d) => (log += d));

@@ -30,7 +30,9 @@ export const tests = [
       assert.match(csp, /default-src 'self'/);
       assert.match(csp, /script-src 'self' blob:;/);
       assert.doesNotMatch(csp, /unsafe-eval|https?:/);
-      const scripts = readdirSync(join(dist, 'assets')).filter((f) => f.endsWith('.js')).map((f) => join(dist, 'assets', f));
+      const scripts = readdirSync(join(dist, 'assets'))
+        .filter((f) => f.endsWith('.js'))
+        .map((f) => join(dist, 'assets', f));
       scripts.push(join(dist, 'sw.js'));
       for (const file of scripts) {
         const code = readFileSync(file, 'utf8');

@@ -29,7 +29,11 @@ try {
       console.log(`  ok   ${t.name} (${Date.now() - start} ms)`);
     } catch (e) {
       failed++;
-      console.log(`  FAIL ${t.name} (${Date.now() - start} ms)\n       ${String(e?.stack ?? e).split('\n').join('\n       ')}`);
+      console.log(
+        `  FAIL ${t.name} (${Date.now() - start} ms)\n       ${String(e?.stack ?? e)
+          .split('\n')
+          .join('\n       ')}`,
+      );
     }
   }
   if (browser.offHost.length > 0) {

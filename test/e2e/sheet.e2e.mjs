@@ -61,7 +61,9 @@ export const tests = [
       const p = await sheetPage(ctx);
       await tab(p, 'Client sheet');
       await p.getByTestId('sheet-title').fill('Okafor living room: two ways to build the monitors');
-      await p.getByTestId('sheet-notes').fill('Both boxes fit the shelf. The vented one needs the port at the front, 10 cm clear of the wall.');
+      await p
+        .getByTestId('sheet-notes')
+        .fill('Both boxes fit the shelf. The vented one needs the port at the front, 10 cm clear of the wall.');
       await p.waitForSelector('[data-testid=save-status][data-state=saved]');
       await p.reload();
       await p.getByTestId('client-sheet').waitFor();
@@ -105,9 +107,11 @@ export const tests = [
         assert.ok(text.includes(want), `the PDF says “${want}”`);
       }
       // The verdict in the PDF is the one on screen, sentence by sentence; it sits on page 1.
-      for (const line of verdictOnScreen) assert.ok(page1.includes(line.replace(/\s+/g, ' ').slice(0, 60)), `page 1 holds the verdict line “${line.slice(0, 60)}…”`);
+      for (const line of verdictOnScreen)
+        assert.ok(page1.includes(line.replace(/\s+/g, ' ').slice(0, 60)), `page 1 holds the verdict line “${line.slice(0, 60)}…”`);
       // Nothing of the app's chrome is printed.
-      for (const chrome of ['Undo', 'Share link', 'Print or save as PDF', 'Listening bench']) assert.ok(!text.includes(chrome), `the PDF leaves out “${chrome}”`);
+      for (const chrome of ['Undo', 'Share link', 'Print or save as PDF', 'Listening bench'])
+        assert.ok(!text.includes(chrome), `the PDF leaves out “${chrome}”`);
 
       mkdirSync(SHOTS, { recursive: true });
       run('pdftoppm', ['-png', '-r', '80', pdf, join(SHOTS, 'client-sheet-pdf')]);
@@ -122,7 +126,9 @@ export const tests = [
       // A short track of our own on the bench: 3 s stereo, a quiet 55 Hz line, then a loud 38 Hz
       // burst from 1.5 s, as 32-bit float at the bench's own rate so decoding gives these very samples.
       await tab(p, 'Listening bench');
-      const rate = Number(await (await p.waitForSelector('[data-testid=track-name][data-rate]', { timeout: 20_000 })).getAttribute('data-rate'));
+      const rate = Number(
+        await (await p.waitForSelector('[data-testid=track-name][data-rate]', { timeout: 20_000 })).getAttribute('data-rate'),
+      );
       const n = 3 * rate;
       const l = new Float32Array(n);
       const r = new Float32Array(n);
@@ -153,7 +159,8 @@ export const tests = [
 
       // The progress bar may show only briefly on a short track: record every state it shows.
       await p.evaluate(() => {
-        const seen = (window.__probeProgress = []);
+        const seen = [];
+        window.__probeProgress = seen;
         new MutationObserver(() => {
           const bar = document.querySelector('[data-testid=probe-progress]');
           if (bar) seen.push(bar.parentElement.innerText);
@@ -163,7 +170,15 @@ export const tests = [
       await p.getByTestId('probe-results').waitFor({ timeout: 60_000 });
       const cli = await cliRuns;
       const cell = (s, id) => p.getByTestId(`probe-${s}-${id}`).innerText();
-      const words = { excursion: 'cone travel (Xmax)', xlim: 'the suspension limit (Xlim)', 'coil-temperature': 'coil heat', 'port-speed': 'port air speed', 'amplifier-clip': 'amplifier power', compression: 'power compression', distortion: 'distortion' };
+      const words = {
+        excursion: 'cone travel (Xmax)',
+        xlim: 'the suspension limit (Xlim)',
+        'coil-temperature': 'coil heat',
+        'port-speed': 'port air speed',
+        'amplifier-clip': 'amplifier power',
+        compression: 'power compression',
+        distortion: 'distortion',
+      };
       for (const [i, s] of ['a', 'b'].entries()) {
         const ref = cli[i];
         assert.equal(await cell(s, 'spl'), `${ref.clean_spl_db.toFixed(1)} dB SPL`);
@@ -172,7 +187,10 @@ export const tests = [
         if (ref.first_limit_s !== null) assert.match(await cell(s, 'time'), new RegExp(`\\(${ref.first_limit_s.toFixed(2)} s\\)$`));
       }
       const progress = await p.evaluate(() => window.__probeProgress);
-      assert.ok(progress.length > 0 && /A: render \d+ of about \d+ · B: render \d+ of about \d+/.test(progress[0]), `progress shown: ${progress[0]}`);
+      assert.ok(
+        progress.length > 0 && /A: render \d+ of about \d+ · B: render \d+ of about \d+/.test(progress[0]),
+        `progress shown: ${progress[0]}`,
+      );
       const exact = await p.evaluate(() => document.querySelector('[data-testid=probe-results]')?.getAttribute('data-exact'));
       assert.deepEqual(JSON.parse(exact), cli, 'the worker returned exactly the CLI numbers');
       const sentence = await p.getByTestId('probe-verdict').innerText();
@@ -200,7 +218,10 @@ export const tests = [
       // Only three listening choices: A, B and the reference.
       const lanes = await pres.locator('.present-lane .present-lane-label').allInnerTexts();
       assert.deepEqual(lanes, ['A', 'B', 'Reference']);
-      const size = await pres.locator('.present-lane-label').first().evaluate((e) => parseFloat(getComputedStyle(e).fontSize));
+      const size = await pres
+        .locator('.present-lane-label')
+        .first()
+        .evaluate((e) => parseFloat(getComputedStyle(e).fontSize));
       const body = await pres.evaluate((e) => parseFloat(getComputedStyle(e).fontSize));
       assert.ok(size >= 60 && body >= 20, `large type: lane ${size}px, text ${body}px`);
       assert.match(await p.getByTestId('present-level').innerText(), /Planned level: A 85 dB at the seat · B 85 dB at the seat/);
@@ -249,7 +270,9 @@ export const tests = [
       // P(X >= k) for Binomial(4, 1/2): sum of C(4, j) for j >= k over 16.
       const tail = [16, 15, 11, 5, 1][correct] / 16;
       const [dl] = await Promise.all([p.waitForEvent('download'), p.getByTestId('trial-csv').click()]);
-      const csv = readFileSync(await dl.path(), 'utf8').trim().split('\r\n');
+      const csv = readFileSync(await dl.path(), 'utf8')
+        .trim()
+        .split('\r\n');
       assert.equal(csv.length, 5);
       const head = csv[0].split(',');
       const row1 = csv[1].match(/("([^"]|"")*"|[^,]*)(,|$)/g).map((f) => f.replace(/,$/, '').replace(/^"|"$/g, '').replace(/""/g, '"'));
@@ -260,7 +283,10 @@ export const tests = [
       const [dj] = await Promise.all([p.waitForEvent('download'), p.getByTestId('trial-json').click()]);
       const json = JSON.parse(readFileSync(await dj.path(), 'utf8'));
       assert.equal(json.rounds.length, 4);
-      assert.deepEqual(json.rounds.map((r) => r.answer), answers.map((k) => (k === '1' ? 'a' : 'b')));
+      assert.deepEqual(
+        json.rounds.map((r) => r.answer),
+        answers.map((k) => (k === '1' ? 'a' : 'b')),
+      );
       assert.equal(json.tally.correct, correct);
       assert.ok(json.settings.loop && json.settings.loop.endS > json.settings.loop.startS);
       assert.equal(json.rounds.filter((r) => r.answer === r.x).length, correct);

@@ -87,7 +87,11 @@ const halfCm = (cm: number) => Math.ceil(cm * 2) / 2;
  */
 function sizePort(system: SpeakerSystem, vbL: number, fbHz: number): { ports: PortDoc[]; note: string } {
   const trial: PortDoc = { diameter_cm: 5, count: 1 };
-  const box = BOX_KINDS.vented.build({ type: 'vented', vb_l: vbL, fb_hz: fbHz, ports: [trial] }, { air: system.air, driver: system.driver, rs: system.amplifier.rs }, 'box').box;
+  const box = BOX_KINDS.vented.build(
+    { type: 'vented', vb_l: vbL, fb_hz: fbHz, ports: [trial] },
+    { air: system.air, driver: system.driver, rs: system.amplifier.rs },
+    'box',
+  ).box;
   if (!box || box.type !== 'vented') return { ports: [trial], note: 'port could not be sized' };
   const trialSystem: SpeakerSystem = { ...system, box };
   const d = system.driver;
@@ -103,7 +107,11 @@ function sizePort(system: SpeakerSystem, vbL: number, fbHz: number): { ports: Po
   for (const count of [1, 2, 3, 4]) {
     const diameter = halfCm(200 * Math.sqrt(svNeeded / count / Math.PI));
     const ports = [{ diameter_cm: diameter, count }];
-    const built = BOX_KINDS.vented.build({ type: 'vented', vb_l: vbL, fb_hz: fbHz, ports }, { air: system.air, driver: d, rs: system.amplifier.rs }, 'box');
+    const built = BOX_KINDS.vented.build(
+      { type: 'vented', vb_l: vbL, fb_hz: fbHz, ports },
+      { air: system.air, driver: d, rs: system.amplifier.rs },
+      'box',
+    );
     if (built.box && !built.issues.some((i) => i.severity === 'error' || i.message.includes('longer than'))) {
       return { ports, note: `port sized for at most ${PORT_SPEED_LIMIT} m/s at the rated power or Xmax, whichever comes first` };
     }
@@ -111,10 +119,21 @@ function sizePort(system: SpeakerSystem, vbL: number, fbHz: number): { ports: Po
   // No port fast enough fits: offer the largest single port that does, and say how fast it runs.
   for (let diameter = halfCm(200 * Math.sqrt(svNeeded / Math.PI)); diameter >= 2; diameter -= 0.5) {
     const ports = [{ diameter_cm: diameter, count: 1 }];
-    const built = BOX_KINDS.vented.build({ type: 'vented', vb_l: vbL, fb_hz: fbHz, ports }, { air: system.air, driver: d, rs: system.amplifier.rs }, 'box');
-    if (built.box && built.box.type === 'vented' && !built.issues.some((i) => i.severity === 'error' || i.message.includes('longer than'))) {
+    const built = BOX_KINDS.vented.build(
+      { type: 'vented', vb_l: vbL, fb_hz: fbHz, ports },
+      { air: system.air, driver: d, rs: system.amplifier.rs },
+      'box',
+    );
+    if (
+      built.box &&
+      built.box.type === 'vented' &&
+      !built.issues.some((i) => i.severity === 'error' || i.message.includes('longer than'))
+    ) {
       const speed = (worst * box.sv) / built.box.sv;
-      return { ports, note: `the largest port that fits reaches about ${speed.toFixed(0)} m/s at the rated power or Xmax: expect port noise at high level, or use a passive radiator` };
+      return {
+        ports,
+        note: `the largest port that fits reaches about ${speed.toFixed(0)} m/s at the rated power or Xmax: expect port noise at high level, or use a passive radiator`,
+      };
     }
   }
   return { ports: [trial], note: 'no round port fits this box at this tuning' };

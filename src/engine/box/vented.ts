@@ -21,17 +21,14 @@ export interface PortGeometry {
 
 export function portGeometry(port: PortDoc): PortGeometry {
   const area =
-    port.diameter_cm !== undefined
-      ? Math.PI * (port.diameter_cm / 200) ** 2
-      : ((port.width_cm ?? 0) / 100) * ((port.height_cm ?? 0) / 100);
+    port.diameter_cm !== undefined ? Math.PI * (port.diameter_cm / 200) ** 2 : ((port.width_cm ?? 0) / 100) * ((port.height_cm ?? 0) / 100);
   const radius = Math.sqrt(area / Math.PI);
   const endCorrection = radius * (END_CORRECTION[port.outer_end ?? 'flanged'] + END_CORRECTION[port.inner_end ?? 'free']);
   return { area, radius, count: port.count ?? 1, endCorrection };
 }
 
 /** Helmholtz resonance of a box with one port of effective length leff: fb = c/(2 pi)·sqrt(Sv/(Vb·Leff)). */
-export const helmholtzHz = (c: number, sv: number, vb: number, leff: number): number =>
-  (c / (2 * Math.PI)) * Math.sqrt(sv / (vb * leff));
+export const helmholtzHz = (c: number, sv: number, vb: number, leff: number): number => (c / (2 * Math.PI)) * Math.sqrt(sv / (vb * leff));
 
 /**
  * Physical length L shared by all ports that tunes the box to fb:
@@ -93,14 +90,15 @@ export const vented: BoxKind<VentedDoc, VentedBox> = {
     const portVolume = sv * length;
     if (portVolume >= vbNet) {
       issues.push(
-        error(`${path}.ports`, `the ports (${fmt(portVolume * 1000)} l, ${fmt(length * 100)} cm long) are larger than the ${fmt(doc.vb_l)} l box`),
+        error(
+          `${path}.ports`,
+          `the ports (${fmt(portVolume * 1000)} l, ${fmt(length * 100)} cm long) are larger than the ${fmt(doc.vb_l)} l box`,
+        ),
       );
       return { box: null, issues };
     }
     if (portVolume > 0.15 * vbNet) {
-      issues.push(
-        warning(`${path}.ports`, `the ports take ${fmt(portVolume * 1000)} l; the gross box must be that much larger than vb_l`),
-      );
+      issues.push(warning(`${path}.ports`, `the ports take ${fmt(portVolume * 1000)} l; the gross box must be that much larger than vb_l`));
     }
     const maxLength = longestInnerDimension(vbNet) - geoms[0].radius;
     if (length > maxLength) {

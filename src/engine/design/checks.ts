@@ -15,19 +15,34 @@ export function plausibility(system: SpeakerSystem): Issue[] {
   const { driver: d, box } = system;
   const xmaxMm = d.xmax * 1000;
   // Home bass drivers have a few mm of travel, large PA bass drivers about 25 mm (common practice, no source).
-  if (xmaxMm > 30) out.push(warning('driver.xmax_mm', `${fmt(xmaxMm)} mm is beyond even large PA bass drivers (about 25 mm); check the value`));
-  if (xmaxMm < 0.3 && d.sd > 30e-4) out.push(warning('driver.xmax_mm', `${fmt(xmaxMm)} mm is very little travel for a ${fmt(d.sd * 1e4)} cm² cone; check the value`));
+  if (xmaxMm > 30)
+    out.push(warning('driver.xmax_mm', `${fmt(xmaxMm)} mm is beyond even large PA bass drivers (about 25 mm); check the value`));
+  if (xmaxMm < 0.3 && d.sd > 30e-4)
+    out.push(warning('driver.xmax_mm', `${fmt(xmaxMm)} mm is very little travel for a ${fmt(d.sd * 1e4)} cm² cone; check the value`));
   if (d.fs < 10 || d.fs > 300) out.push(warning('driver.fs_hz', `${fmt(d.fs)} Hz is unusual for a bass driver (10 to 300 Hz)`));
   if (d.qts > 1.5) out.push(warning('driver.qes', `Qts ${fmt(d.qts)} is very high; the box response will peak strongly`));
   const displacement = estimatedDriverDisplacement(d.sd);
   if (box.vbNet < displacement) {
-    out.push(error('box.vb_l', `${fmt(box.vbNet * 1000)} l is smaller than the driver's own displacement of about ${fmt(displacement * 1000)} l`));
+    out.push(
+      error('box.vb_l', `${fmt(box.vbNet * 1000)} l is smaller than the driver's own displacement of about ${fmt(displacement * 1000)} l`),
+    );
   } else if (box.vbNet < 3 * displacement) {
-    out.push(warning('box.vb_l', `${fmt(box.vbNet * 1000)} l is barely larger than the driver's own displacement of about ${fmt(displacement * 1000)} l`));
+    out.push(
+      warning(
+        'box.vb_l',
+        `${fmt(box.vbNet * 1000)} l is barely larger than the driver's own displacement of about ${fmt(displacement * 1000)} l`,
+      ),
+    );
   }
   if (box.type !== 'sealed') {
     const h = box.fb / d.fs;
-    if (h > 3 || h < 0.3) out.push(warning(box.type === 'vented' ? 'box.fb_hz' : 'box.radiator', `fb ${fmt(box.fb)} Hz is far from fs ${fmt(d.fs)} Hz (ratio ${fmt(h)})`));
+    if (h > 3 || h < 0.3)
+      out.push(
+        warning(
+          box.type === 'vented' ? 'box.fb_hz' : 'box.radiator',
+          `fb ${fmt(box.fb)} Hz is far from fs ${fmt(d.fs)} Hz (ratio ${fmt(h)})`,
+        ),
+      );
   }
   if (box.type === 'vented') {
     // Port air speed with the rated power into Re: over 10% of c the port is unusable.

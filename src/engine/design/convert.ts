@@ -57,7 +57,12 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
     xlimMm = defaultXlimMm(d.xmax_mm);
     issues.push(warning('driver.xlim_mm', `not given; estimated as ${fmt(xlimMm)} mm (twice Xmax)`));
   } else if (xlimMm <= d.xmax_mm) {
-    issues.push(error('driver.xlim_mm', `${fmt(xlimMm)} mm must be larger than xmax_mm ${fmt(d.xmax_mm)} mm (the mechanical limit lies beyond the linear travel)`));
+    issues.push(
+      error(
+        'driver.xlim_mm',
+        `${fmt(xlimMm)} mm must be larger than xmax_mm ${fmt(d.xmax_mm)} mm (the mechanical limit lies beyond the linear travel)`,
+      ),
+    );
   }
   const rs = doc.amplifier.rs_ohm ?? 0;
   if (doc.crossover.type !== 'none' && doc.crossover.fx_hz === undefined) {
@@ -65,12 +70,17 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
   }
   if ((doc.listening.baffle_width_cm ?? 0) > 0 && doc.listening.space !== 'full') {
     issues.push(
-      warning('listening.baffle_width_cm', `the baffle step models a free-standing cabinet; with ${doc.listening.space} space it adds its 6 dB on top of the boundaries`),
+      warning(
+        'listening.baffle_width_cm',
+        `the baffle step models a free-standing cabinet; with ${doc.listening.space} space it adds its 6 dB on top of the boundaries`,
+      ),
     );
   }
   const hpHz = doc.crossover.highpass_hz ?? 0;
   if (hpHz > 0 && doc.crossover.type !== 'none' && doc.crossover.fx_hz !== undefined && hpHz * 4 > doc.crossover.fx_hz) {
-    issues.push(error('crossover.highpass_hz', `${fmt(hpHz)} Hz must lie at least two octaves below the crossover at ${fmt(doc.crossover.fx_hz)} Hz`));
+    issues.push(
+      error('crossover.highpass_hz', `${fmt(hpHz)} Hz must lie at least two octaves below the crossover at ${fmt(doc.crossover.fx_hz)} Hz`),
+    );
   }
   if (!derived.values || issues.some((i) => i.severity === 'error')) return { system: null, issues };
 

@@ -13,8 +13,7 @@ function num(min: number, max: number, unit = '') {
     v.maxValue(max, `must be from ${min} to ${max}${u}`),
   );
 }
-const int = (min: number, max: number) =>
-  v.pipe(num(min, max), v.integer(`must be a whole number from ${min} to ${max}`));
+const int = (min: number, max: number) => v.pipe(num(min, max), v.integer(`must be a whole number from ${min} to ${max}`));
 const coefficients = v.pipe(
   v.array(num(-10, 10, 'per mm^k'), 'must be an array of numbers [c1, c2, ...]'),
   v.maxLength(8, 'must have at most 8 coefficients'),

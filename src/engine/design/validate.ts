@@ -59,7 +59,11 @@ export function parseDesign(input: unknown): ParseResult {
   }
   const obj = raw as Record<string, unknown>;
   if (obj.format !== DESIGN_FORMAT) {
-    return { ok: false, errors: [error('format', `must be "${DESIGN_FORMAT}", got ${shown(obj.format)}: this is not a preheard design`)], warnings: [] };
+    return {
+      ok: false,
+      errors: [error('format', `must be "${DESIGN_FORMAT}", got ${shown(obj.format)}: this is not a preheard design`)],
+      warnings: [],
+    };
   }
   const migrated = migrate(obj);
   if ('issue' in migrated) return { ok: false, errors: [migrated.issue], warnings: [] };

@@ -30,7 +30,8 @@ export function polyTrim(a: Poly): Poly {
 
 /** Value at s = (re, im). */
 export function polyEval(a: Poly, re: number, im: number): [number, number] {
-  let pr = 0, pi = 0;
+  let pr = 0,
+    pi = 0;
   for (let k = a.length - 1; k >= 0; k--) {
     const r = pr * re - pi * im + a[k];
     pi = pr * im + pi * re;
@@ -60,7 +61,8 @@ export function polyRoots(pIn: Poly): Root[] {
   if (n <= 0) return roots;
   const scale = Math.pow(Math.abs(p[0] / p[n]), 1 / n) || 1;
   const q = p.map((c, k) => (c * Math.pow(scale, k)) / (p[n] * Math.pow(scale, n)));
-  const zr = new Float64Array(n), zi = new Float64Array(n);
+  const zr = new Float64Array(n),
+    zi = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     const ang = (2 * Math.PI * k) / n + 0.4;
     zr[k] = 0.9 * Math.cos(ang);
@@ -70,16 +72,19 @@ export function polyRoots(pIn: Poly): Root[] {
     let moved = 0;
     for (let k = 0; k < n; k++) {
       let [nr, ni] = polyEval(q, zr[k], zi[k]);
-      let dr = 1, di = 0;
+      let dr = 1,
+        di = 0;
       for (let j = 0; j < n; j++) {
         if (j === k) continue;
-        const er = zr[k] - zr[j], ei = zi[k] - zi[j];
+        const er = zr[k] - zr[j],
+          ei = zi[k] - zi[j];
         const r = dr * er - di * ei;
         di = dr * ei + di * er;
         dr = r;
       }
       const d2 = dr * dr + di * di || 1e-300;
-      const cr = (nr * dr + ni * di) / d2, ci = (ni * dr - nr * di) / d2;
+      const cr = (nr * dr + ni * di) / d2,
+        ci = (ni * dr - nr * di) / d2;
       zr[k] -= cr;
       zi[k] -= ci;
       moved = Math.max(moved, Math.hypot(cr, ci));
@@ -87,7 +92,8 @@ export function polyRoots(pIn: Poly): Root[] {
     if (moved < 1e-15) break;
   }
   for (let k = 0; k < n; k++) {
-    let re = zr[k] * scale, im = zi[k] * scale;
+    let re = zr[k] * scale,
+      im = zi[k] * scale;
     if (Math.abs(im) < 1e-9 * Math.hypot(re, im)) im = 0;
     roots.push({ re, im });
   }
@@ -109,7 +115,8 @@ function rootsToFactors(roots: Root[]): Poly[] {
  * Returns packed sections and an overall gain.
  */
 export function rationalToBiquads(num: Poly, den: Poly, sampleRate: number, fWarp?: number): { coef: Float64Array; gain: number } {
-  let n = polyTrim(num), d = polyTrim(den);
+  let n = polyTrim(num),
+    d = polyTrim(den);
   // Cancel common factors of s exactly (a lossless sealed box has one).
   while (n.length > 1 && d.length > 1 && n[0] === 0 && d[0] === 0) {
     n = n.slice(1);

@@ -83,8 +83,13 @@ export class BiquadCascade {
     const g = this.gain;
     if (g !== 1) for (let j = start; j < end; j++) buf[j] *= g;
     for (let k = 0, o = 0; k < this.n; k++, o += 5) {
-      const b0 = c[o], b1 = c[o + 1], b2 = c[o + 2], a1 = c[o + 3], a2 = c[o + 4];
-      let z1 = this.s1[k], z2 = this.s2[k];
+      const b0 = c[o],
+        b1 = c[o + 1],
+        b2 = c[o + 2],
+        a1 = c[o + 3],
+        a2 = c[o + 4];
+      let z1 = this.s1[k],
+        z2 = this.s2[k];
       for (let j = start; j < end; j++) {
         const x = buf[j];
         const y = b0 * x + z1;
@@ -101,9 +106,12 @@ export class BiquadCascade {
 /** Complex response of a packed cascade at f Hz (for tests and charts). Returns [re, im]. */
 export function cascadeResponse(coef: Float64Array, gain: number, f: number, sampleRate: number): [number, number] {
   const w = (2 * Math.PI * f) / sampleRate;
-  const c1 = Math.cos(w), s1 = -Math.sin(w);
-  const c2 = Math.cos(2 * w), s2 = -Math.sin(2 * w);
-  let re = gain, im = 0;
+  const c1 = Math.cos(w),
+    s1 = -Math.sin(w);
+  const c2 = Math.cos(2 * w),
+    s2 = -Math.sin(2 * w);
+  let re = gain,
+    im = 0;
   for (let o = 0; o < coef.length; o += 5) {
     const nr = coef[o] + coef[o + 1] * c1 + coef[o + 2] * c2;
     const ni = coef[o + 1] * s1 + coef[o + 2] * s2;

@@ -5,7 +5,8 @@
 // the taps, and the symmetric taps are folded.
 
 function besselI0(x: number): number {
-  let sum = 1, term = 1;
+  let sum = 1,
+    term = 1;
   for (let k = 1; k < 50; k++) {
     term *= (x / (2 * k)) * (x / (2 * k));
     sum += term;
@@ -77,7 +78,10 @@ export class Upsampler2 {
     this.buf[this.pos] = x;
     this.buf[this.pos + n2] = x;
     // Window w[i] = x[n - i], i = 0 .. 2t-1; taps g[2i] are the odd-offset taps, mirrored.
-    const b = this.buf, p = this.pos, odd = this.odd, t = this.t;
+    const b = this.buf,
+      p = this.pos,
+      odd = this.odd,
+      t = this.t;
     let acc = 0;
     for (let j = 0; j < t; j++) acc += odd[j] * (b[p + t - 1 - j] + b[p + t + j]);
     out[o] = 2 * acc;
@@ -118,7 +122,9 @@ export class Decimator2 {
     this.ev[p + n2] = a;
     this.od[p] = b;
     this.od[p + n2] = b;
-    const e = this.ev, odd = this.odd, t = this.t;
+    const e = this.ev,
+      odd = this.odd,
+      t = this.t;
     let acc = 0;
     for (let j = 0; j < t; j++) acc += odd[j] * (e[p + t - 1 - j] + e[p + t + j]);
     return acc + 0.5 * this.od[p + t];

@@ -21,7 +21,8 @@ export class ResidualMeter {
    */
   processBlock(out: Float64Array, res: Float64Array, n: number, floor2: number, ratio: Float64Array): void {
     const a = this.alpha;
-    let eOut = this.eOut, eRes = this.eRes;
+    let eOut = this.eOut,
+      eRes = this.eRes;
     for (let k = 0; k < n; k++) {
       eOut += a * (out[k] * out[k] - eOut);
       eRes += a * (res[k] * res[k] - eRes);
@@ -38,7 +39,8 @@ export class ResidualMeter {
 /** Amplitude of the component at f Hz (Goertzel over whole periods of the window), for tests and reports. */
 export function toneAmplitude(x: ArrayLike<number>, start: number, length: number, f: number, sampleRate: number): number {
   const w = (2 * Math.PI * f) / sampleRate;
-  let c = 0, s = 0;
+  let c = 0,
+    s = 0;
   for (let k = 0; k < length; k++) {
     const v = x[start + k];
     c += v * Math.cos(w * k);

@@ -48,7 +48,10 @@ export function integratedLoudness(channels: ArrayLike<number>[], sampleRate: nu
   channels.forEach((x, c) => {
     const g = channelWeight(c, channels.length);
     if (g === 0) return;
-    let z1 = 0, z2 = 0, w1 = 0, w2 = 0;
+    let z1 = 0,
+      z2 = 0,
+      w1 = 0,
+      w2 = 0;
     for (let h = 0; h < nHops; h++) {
       let sum = 0;
       for (let k = h * hop; k < (h + 1) * hop; k++) {

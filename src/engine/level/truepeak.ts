@@ -12,14 +12,16 @@ function interpolationTaps(): Float64Array {
   // Kaiser-windowed sinc (beta 6) for phases 1..3 of 4.
   const t = new Float64Array(PHASES * TAPS);
   const i0 = (x: number) => {
-    let s = 1, term = 1;
+    let s = 1,
+      term = 1;
     for (let k = 1; k < 40; k++) {
       term *= (x / (2 * k)) ** 2;
       s += term;
     }
     return s;
   };
-  const beta = 6, i0b = i0(beta);
+  const beta = 6,
+    i0b = i0(beta);
   for (let ph = 0; ph < PHASES; ph++) {
     for (let k = 0; k < TAPS; k++) {
       const pos = k - (HALF - 1) - ph / PHASES; // sample offset from the interpolated point
@@ -186,10 +188,13 @@ export class TruePeakGuard {
   }
 
   private delayBlock(input: Float64Array[], n: number, scale: number, out: (Float32Array | Float64Array)[], offset: number): void {
-    const len = this.len, lat = this.latency;
+    const len = this.len,
+      lat = this.latency;
     let p = this.pos;
     for (let c = 0; c < this.channels; c++) {
-      const h = this.hist[c], x = input[c], o = out[c];
+      const h = this.hist[c],
+        x = input[c],
+        o = out[c];
       p = this.pos;
       for (let k = 0; k < n; k++) {
         p = p === 0 ? len - 1 : p - 1;

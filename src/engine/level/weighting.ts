@@ -20,8 +20,7 @@ export function cWeightingDb(f: number): number {
 export function aWeightingDb(f: number): number {
   const f2 = f * f;
   return (
-    20 * Math.log10((F4 * F4 * f2 * f2) / ((f2 + F1 * F1) * Math.sqrt(f2 + F2 * F2) * Math.sqrt(f2 + F3 * F3) * (f2 + F4 * F4))) -
-    A1000
+    20 * Math.log10((F4 * F4 * f2 * f2) / ((f2 + F1 * F1) * Math.sqrt(f2 + F2 * F2) * Math.sqrt(f2 + F3 * F3) * (f2 + F4 * F4))) - A1000
   );
 }
 
@@ -35,13 +34,17 @@ function highPoleSection(sampleRate: number): Float64Array {
   const p = Math.exp(-w4 / sampleRate);
   const dbAt = (q: number, f: number) => {
     const w = (2 * Math.PI * f) / sampleRate;
-    const nr = 1 + q * Math.cos(w), ni = -q * Math.sin(w), dr = 1 - p * Math.cos(w), di = p * Math.sin(w);
+    const nr = 1 + q * Math.cos(w),
+      ni = -q * Math.sin(w),
+      dr = 1 - p * Math.cos(w),
+      di = p * Math.sin(w);
     return 10 * Math.log10(((nr * nr + ni * ni) / (dr * dr + di * di)) ** 2);
   };
   const analog = (f: number) => 20 * Math.log10((w4 * w4) / ((2 * Math.PI * f) ** 2 + w4 * w4));
   const fFit = 0.25 * sampleRate;
   const err = (q: number) => dbAt(q, fFit) - dbAt(q, 1000) - (analog(fFit) - analog(1000));
-  let lo = -0.9, hi = 0.99;
+  let lo = -0.9,
+    hi = 0.99;
   for (let k = 0; k < 80; k++) {
     const mid = 0.5 * (lo + hi);
     if (err(mid) > 0) lo = mid;
@@ -61,7 +64,9 @@ export function cWeightingFilter(sampleRate: number): BiquadCascade {
 
 /** Digital A-weighting as biquads (bilinear below, matched 12.2 kHz poles). */
 export function aWeightingFilter(sampleRate: number): BiquadCascade {
-  const w1 = 2 * Math.PI * F1, w2 = 2 * Math.PI * F2, w3 = 2 * Math.PI * F3;
+  const w1 = 2 * Math.PI * F1,
+    w2 = 2 * Math.PI * F2,
+    w3 = 2 * Math.PI * F3;
   const k = bilinearK(sampleRate);
   const s1 = bilinearSection({ b: [0, 0, 1], a: [w1 * w1, 2 * w1, 1] }, k);
   const s2 = bilinearSection({ b: [0, 0, 1], a: [w2 * w3, w2 + w3, 1] }, k);

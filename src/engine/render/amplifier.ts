@@ -65,7 +65,10 @@ export class OversampledClipper {
 
   /** Interpolated pair for the input `back` samples before the newest. */
   private interp(back: number, out: Float64Array): void {
-    const b = this.hist, p = this.hpos + back, odd = this.odd, t = this.t;
+    const b = this.hist,
+      p = this.hpos + back,
+      odd = this.odd,
+      t = this.t;
     let acc = 0;
     for (let j = 0; j < t; j++) acc += odd[j] * (b[p + t - 1 - j] + b[p + t + j]);
     out[0] = 2 * acc;
@@ -75,7 +78,10 @@ export class OversampledClipper {
   private decimate(a: number, b: number): number {
     const n2 = 2 * this.t;
     this.dpos = this.dpos === 0 ? n2 - 1 : this.dpos - 1;
-    const p = this.dpos, e = this.ev, odd = this.odd, t = this.t;
+    const p = this.dpos,
+      e = this.ev,
+      odd = this.odd,
+      t = this.t;
     e[p] = a;
     e[p + n2] = a;
     this.od[p] = b;
@@ -93,7 +99,10 @@ export class OversampledClipper {
    */
   process(u: Float64Array, n: number, rail: number, soft: boolean, clipped: Float64Array, delayed: Float64Array): void {
     const thr = 0.6 * rail;
-    const hl = this.hlen, hist = this.hist, d = this.delay, pair = this.pair;
+    const hl = this.hlen,
+      hist = this.hist,
+      d = this.delay,
+      pair = this.pair;
     for (let k = 0; k < n; k++) {
       const x = u[k];
       this.hpos = this.hpos === 0 ? hl - 1 : this.hpos - 1;

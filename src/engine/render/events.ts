@@ -83,7 +83,10 @@ export class EventLog {
 
   private grow(): void {
     const n = this.kind.length * 2;
-    const k = new Int8Array(n), s = new Float64Array(n), e = new Float64Array(n), p = new Float64Array(n);
+    const k = new Int8Array(n),
+      s = new Float64Array(n),
+      e = new Float64Array(n),
+      p = new Float64Array(n);
     k.set(this.kind);
     s.set(this.start);
     e.set(this.end);

@@ -85,7 +85,12 @@ function defaultClock(): () => number {
   return perf ? () => perf.now() : () => Date.now();
 }
 
-export function resolveVolts(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: { voltsFs?: number; splDb?: number }): { volts: number; spl: number } {
+export function resolveVolts(
+  sys: SpeakerSystem,
+  channels: ArrayLike<number>[],
+  sampleRate: number,
+  opt: { voltsFs?: number; splDb?: number },
+): { volts: number; spl: number } {
   const level = sys.listening.level;
   const explicit = opt.voltsFs ?? (opt.splDb === undefined && level.mode === 'volts' ? level.voltsFs : undefined);
   if (explicit !== undefined) {
@@ -104,14 +109,26 @@ export function resolveVolts(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   return { volts, spl: l1 + 20 * Math.log10(volts) };
 }
 
-export function renderBuffer(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: RenderBufferOptions = {}): RenderResult {
+export function renderBuffer(
+  sys: SpeakerSystem,
+  channels: ArrayLike<number>[],
+  sampleRate: number,
+  opt: RenderBufferOptions = {},
+): RenderResult {
   const nCh = channels.length;
   const frames = channels[0]?.length ?? 0;
   if (nCh === 0 || frames === 0) throw new RangeError('the audio is empty');
   const { volts, spl } = resolveVolts(sys, channels, sampleRate, opt);
   const clock = opt.clock ?? defaultClock();
   const t0 = clock();
-  const r = createRenderer(sys, { sampleRate, channels: nCh, voltsFs: volts, mode: opt.mode, paPerFs: opt.paPerFs, extraStreams: opt.extraStreams });
+  const r = createRenderer(sys, {
+    sampleRate,
+    channels: nCh,
+    voltsFs: volts,
+    mode: opt.mode,
+    paPerFs: opt.paPerFs,
+    extraStreams: opt.extraStreams,
+  });
   const lat = r.latencyFrames;
   const block = opt.blockFrames ?? 4096;
   const keep = !opt.analysisOnly;
@@ -141,7 +158,8 @@ export function renderBuffer(sys: SpeakerSystem, channels: ArrayLike<number>[], 
     r.process(views, outB, n, extra);
     if (keep) {
       // Drop the first `lat` output frames: the result is aligned with the input.
-      const j0 = Math.max(0, lat - s), j1 = Math.min(n, frames + lat - s);
+      const j0 = Math.max(0, lat - s),
+        j1 = Math.min(n, frames + lat - s);
       if (j1 > j0) {
         for (let c = 0; c < nCh; c++) {
           audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
@@ -192,7 +210,12 @@ export interface Headroom {
  * The highest drive with no stress event on this track: bracket by 6 dB steps, then bisect the
  * gap in dB to tolDb (default 0.25), relying on stress growing with level.
  */
-export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: { tolDb?: number; startVolts?: number; onRender?: () => void } = {}): Headroom {
+export function findHeadroom(
+  sys: SpeakerSystem,
+  channels: ArrayLike<number>[],
+  sampleRate: number,
+  opt: { tolDb?: number; startVolts?: number; onRender?: () => void } = {},
+): Headroom {
   const tol = opt.tolDb ?? 0.25;
   const l1 = seatLeqCPerVolt(sys, channels, sampleRate);
   let renders = 0;
@@ -208,7 +231,9 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   const step = Math.pow(10, 6 / 20);
   let v = opt.startVolts ?? sys.amplifier.vPeak / peakIn;
   let ev = probe(v);
-  let lo = 0, hi = 0, hiEvents = ev;
+  let lo = 0,
+    hi = 0,
+    hiEvents = ev;
   if (ev.length > 0) {
     hi = v;
     for (let k = 0; k < 40; k++) {
@@ -234,7 +259,14 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
       lo = v;
     }
   }
-  if (hi === 0) return { clean_volts: r3(lo), clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)), first_limit: null, first_limit_s: null, renders };
+  if (hi === 0)
+    return {
+      clean_volts: r3(lo),
+      clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)),
+      first_limit: null,
+      first_limit_s: null,
+      renders,
+    };
   if (lo === 0) throw new RangeError('no clean level found down to -240 dB: the design overloads at any level');
   while (20 * Math.log10(hi / lo) > tol) {
     const mid = Math.sqrt(lo * hi);

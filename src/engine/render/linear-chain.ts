@@ -44,7 +44,12 @@ export class LinearChain {
   private readonly design: LinearChainDesign;
   private readonly mono: boolean;
 
-  constructor(sys: SpeakerSystem, sampleRate: number, readonly channels: number, voltsFs: number) {
+  constructor(
+    sys: SpeakerSystem,
+    sampleRate: number,
+    readonly channels: number,
+    voltsFs: number,
+  ) {
     this.design = designLinearChain(sys, sampleRate);
     this.mono = sys.listening.channels === 'mono-sum' && channels > 1;
     const nw = this.mono ? 1 : channels;
@@ -76,7 +81,8 @@ export class LinearChain {
       for (let c = 1; c < this.channels; c++) outputs[c].set(w.subarray(0, frames));
     } else {
       for (let c = 0; c < this.channels; c++) {
-        const o = outputs[c], inp = inputs[Math.min(c, nIn - 1)];
+        const o = outputs[c],
+          inp = inputs[Math.min(c, nIn - 1)];
         for (let j = 0; j < frames; j++) o[j] = inp[j];
         this.woofer[c].processInPlace(o, 0, frames);
       }

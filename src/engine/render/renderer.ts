@@ -16,17 +16,7 @@ import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
 import { TruePeakGuard } from '../level/truepeak.ts';
 import { ResidualMeter } from '../level/distortion.ts';
 import { OversampledClipper } from './amplifier.ts';
-import {
-  EventLog,
-  EV_CLIP,
-  EV_COIL,
-  EV_COMPRESSION,
-  EV_DISTORTION,
-  EV_EXCURSION,
-  EV_PORT,
-  EV_RADIATOR,
-  EV_XLIM,
-} from './events.ts';
+import { EventLog, EV_CLIP, EV_COIL, EV_COMPRESSION, EV_DISTORTION, EV_EXCURSION, EV_PORT, EV_RADIATOR, EV_XLIM } from './events.ts';
 
 export type RenderMode = 'nonlinear' | 'linear' | 'residual';
 export type SampleBuffer = Float32Array | Float64Array;
@@ -174,9 +164,7 @@ export class Renderer {
   private readonly traceEvery: number;
   private traceCount = 0;
   private tX = 0;
-  private tT = 0;
   private tP = 0;
-  private tC = 0;
   private tR = 0;
   private readonly trX = new Growable(1024);
   private readonly trT = new Growable(1024);
@@ -185,8 +173,10 @@ export class Renderer {
   private readonly trR = new Growable(1024);
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
-    if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000)) throw new RangeError(`sampleRate must be 8000..384000 Hz, got ${opt.sampleRate}`);
-    if (!(Number.isInteger(opt.channels) && opt.channels >= 1 && opt.channels <= 8)) throw new RangeError(`channels must be 1..8, got ${opt.channels}`);
+    if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
+      throw new RangeError(`sampleRate must be 8000..384000 Hz, got ${opt.sampleRate}`);
+    if (!(Number.isInteger(opt.channels) && opt.channels >= 1 && opt.channels <= 8))
+      throw new RangeError(`channels must be 1..8, got ${opt.channels}`);
     if (!(opt.voltsFs > 0 && opt.voltsFs < 1e4)) throw new RangeError(`voltsFs must be > 0 and < 10000 V, got ${opt.voltsFs}`);
     this.system = sys;
     this.sampleRate = opt.sampleRate;
@@ -334,11 +324,14 @@ export class Renderer {
     n: number,
     extra?: { linear?: SampleBuffer[]; residual?: SampleBuffer[] },
   ): void {
-    const nCh = this.channels, nIn = inputs.length;
-    const lanes = this.lanes, nLanes = lanes.length;
-    const volts = this.voltsFs, rail = this.rail, soft = this.soft;
+    const nCh = this.channels,
+      nIn = inputs.length;
+    const lanes = this.lanes,
+      nLanes = lanes.length;
+    const volts = this.voltsFs,
+      rail = this.rail,
+      soft = this.soft;
     const p = this.params;
-    const fsr = this.sampleRate;
     // 1. Woofer lanes: crossover, amplifier (oversampled clipping), the model, its linear part.
     for (let w = 0; w < nLanes; w++) {
       const lane = lanes[w];
@@ -393,13 +386,19 @@ export class Renderer {
     const mode = this.mode;
     const dl = this.stageDelay + 1;
     const hpPos0 = this.hpPos;
-    const outN = this.outN, outL = this.outL, outR = this.outR;
+    const outN = this.outN,
+      outL = this.outL,
+      outR = this.outR;
     for (let c = 0; c < nCh; c++) {
       const lane = lanes[this.mono ? 0 : c];
-      const pN = lane.pN, pL = lane.pL;
-      const on = outN[c], ol = outL[c], or = outR[c];
+      const pN = lane.pN,
+        pL = lane.pL;
+      const on = outN[c],
+        ol = outL[c],
+        or = outR[c];
       if (this.hp) {
-        const line = this.hpDelay[c], hb = this.hpBuf[c];
+        const line = this.hpDelay[c],
+          hb = this.hpBuf[c];
         let pos = hpPos0;
         for (let k = 0; k < n; k++) {
           line[pos] = hb[k];
@@ -432,14 +431,22 @@ export class Renderer {
   }
 
   private stress(n: number, ratio: Float64Array): void {
-    const lanes = this.lanes, nLanes = lanes.length;
+    const lanes = this.lanes,
+      nLanes = lanes.length;
     const p = this.params;
-    const ev = this.events, st = this.stats;
+    const ev = this.events,
+      st = this.stats;
     const fsr = this.sampleRate;
-    const t0 = (this.frames - this.stageDelay) / fsr, dt = 1 / fsr;
-    const vented = p.boxCode === 1, radiator = p.boxCode === 2;
-    const rail = this.rail, xmax = this.xmax, xlimHit = this.xlimHit, xmaxP = this.xmaxP;
-    let rMax = 0, riseMax = 0;
+    const t0 = (this.frames - this.stageDelay) / fsr,
+      dt = 1 / fsr;
+    const vented = p.boxCode === 1,
+      radiator = p.boxCode === 2;
+    const rail = this.rail,
+      xmax = this.xmax,
+      xlimHit = this.xlimHit,
+      xmaxP = this.xmaxP;
+    let rMax = 0,
+      riseMax = 0;
     for (let w = 0; w < nLanes; w++) {
       if (lanes[w].sim.r > rMax) rMax = lanes[w].sim.r;
       if (lanes[w].sim.riseV > riseMax) riseMax = lanes[w].sim.riseV;
@@ -449,11 +456,18 @@ export class Renderer {
     if (tempC > st.peakCoilTempC) st.peakCoilTempC = tempC;
     if (compDb > st.maxCompressionDb) st.maxCompressionDb = compDb;
     // Worst lane per frame, and the chunk's maxima.
-    const xAbs = this.xAbs, aux = this.aux, dem = this.dem;
-    let peakX = 0, peakA = 0, peakD = 0, peakR = 0;
+    const xAbs = this.xAbs,
+      aux = this.aux,
+      dem = this.dem;
+    let peakX = 0,
+      peakA = 0,
+      peakD = 0,
+      peakR = 0;
     for (let w = 0; w < nLanes; w++) {
       const lane = lanes[w];
-      const lx = lane.x, lp = lane.port, ld = lane.uDel;
+      const lx = lane.x,
+        lp = lane.port,
+        ld = lane.uDel;
       const first = w === 0;
       for (let k = 0; k < n; k++) {
         const xv = lx[k] < 0 ? -lx[k] : lx[k];
@@ -470,9 +484,16 @@ export class Renderer {
     for (let k = 0; k < n; k++) if (ratio[k] > peakR) peakR = ratio[k];
     const invSv = vented ? 1 / p.sv : 0;
     const ratioLim = Math.pow(10, -DISTORTION_WITHIN_DB / 10);
-    const coilHot = tempC > this.coilMax, compHot = rMax > this.r1dB;
+    const coilHot = tempC > this.coilMax,
+      compHot = rMax > this.r1dB;
     const anyEvent =
-      peakX > xmax || (vented && peakA * invSv > PORT_SPEED_LIMIT) || (radiator && peakA > xmaxP) || peakD > rail || coilHot || compHot || peakR > ratioLim;
+      peakX > xmax ||
+      (vented && peakA * invSv > PORT_SPEED_LIMIT) ||
+      (radiator && peakA > xmaxP) ||
+      peakD > rail ||
+      coilHot ||
+      compHot ||
+      peakR > ratioLim;
     if (anyEvent) {
       // Frame by frame only when some limit is crossed in this chunk.
       for (let k = 0; k < n; k++) {
@@ -541,7 +562,16 @@ export class Renderer {
 }
 
 function emptyStats(): RenderStats {
-  return { frames: 0, peakExcursionMm: 0, peakRadiatorMm: 0, peakCoilTempC: 0, peakPortSpeed: 0, ampClipFrames: 0, maxCompressionDb: 0, limiterDb: 0 };
+  return {
+    frames: 0,
+    peakExcursionMm: 0,
+    peakRadiatorMm: 0,
+    peakCoilTempC: 0,
+    peakPortSpeed: 0,
+    ampClipFrames: 0,
+    maxCompressionDb: 0,
+    limiterDb: 0,
+  };
 }
 
 function replaceCascade(old: BiquadCascade | null, coef: Float64Array | null): BiquadCascade | null {

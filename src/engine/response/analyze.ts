@@ -99,7 +99,7 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const driveV = options.driveV ?? SENSITIVITY_VOLTS;
   const freqHz = logGrid(options.fMinHz ?? 10, options.fMaxHz ?? 2000, options.pointsPerOctave ?? 48);
   const n = freqHz.length;
-  const { box, driver, crossover } = system;
+  const { box } = system;
   const vented = box.type === 'vented';
   const radiator = box.type === 'passive-radiator';
   const hasOutlet = box.type !== 'sealed';
@@ -149,7 +149,7 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   }
 
   const figures = computeFigures(system, curves, driveV, planned);
-  return { system, driveV, figures, curves, warnings: levelWarnings(system, curves, figures) };
+  return { system, driveV, figures, curves, warnings: levelWarnings(system, figures) };
 }
 
 function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, planned: number): Figures {
@@ -219,7 +219,7 @@ function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, p
 }
 
 /** What the planned level does to this design, as warnings with numbers. */
-function levelWarnings(system: SpeakerSystem, curves: Curves, figures: Figures): Issue[] {
+function levelWarnings(system: SpeakerSystem, figures: Figures): Issue[] {
   const out: Issue[] = [];
   const worstX = figures.plannedPeakExcursionMm;
   const worstXHz = figures.plannedPeakExcursionHz;
@@ -243,7 +243,10 @@ function levelWarnings(system: SpeakerSystem, curves: Curves, figures: Figures):
     );
   } else if (worstPort > PORT_SPEED_LIMIT) {
     out.push(
-      warning('box.ports', `port air speed reaches ${fmt(worstPort)} m/s at ${fmt(worstPortHz)} Hz at the planned level (limit about ${PORT_SPEED_LIMIT} m/s)`),
+      warning(
+        'box.ports',
+        `port air speed reaches ${fmt(worstPort)} m/s at ${fmt(worstPortHz)} Hz at the planned level (limit about ${PORT_SPEED_LIMIT} m/s)`,
+      ),
     );
   }
   return out;

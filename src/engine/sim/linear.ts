@@ -17,8 +17,11 @@ export interface LinearModel {
 
 export function linearModel(p: WooferParams): LinearModel {
   const n = p.boxCode === BOX_VENTED ? 5 : p.boxCode === BOX_RADIATOR ? 6 : 4;
-  const m = new Float64Array(n * n), a = new Float64Array(n * n);
-  const b = new Float64Array(n), theta = new Float64Array(n).fill(0.5), c = new Float64Array(n);
+  const m = new Float64Array(n * n),
+    a = new Float64Array(n * n);
+  const b = new Float64Array(n),
+    theta = new Float64Array(n).fill(0.5),
+    c = new Float64Array(n);
   const set = (arr: Float64Array, r: number, col: number, val: number) => (arr[r * n + col] = val);
   const R = p.re0 + p.rs;
   theta[0] = p.thetaE;
@@ -124,7 +127,11 @@ export class LinearRecurrence {
 
   /** Rebuilds the matrices for another coil resistance (R = Re(T) + Rs); the state is kept. */
   rebuild(r: number): void {
-    const lm = this.lm, n = this.n, h = this.h, S = this.S, B = this.B;
+    const lm = this.lm,
+      n = this.n,
+      h = this.h,
+      S = this.S,
+      B = this.B;
     this.r = r;
     lm.a[0] = -r;
     const k = n + 2;
@@ -175,17 +182,71 @@ export class LinearRecurrence {
    * six entries and the matrices held in locals for the whole block.
    */
   processBlock(u: Float64Array, out: Float64Array, n: number): void {
-    const P = this.phi6, G0 = this.g06, G1 = this.g16, C = this.c6, Y = this.y6;
-    const p00 = P[0], p01 = P[1], p02 = P[2], p03 = P[3], p04 = P[4], p05 = P[5];
-    const p10 = P[6], p11 = P[7], p12 = P[8], p13 = P[9], p14 = P[10], p15 = P[11];
-    const p20 = P[12], p21 = P[13], p22 = P[14], p23 = P[15], p24 = P[16], p25 = P[17];
-    const p30 = P[18], p31 = P[19], p32 = P[20], p33 = P[21], p34 = P[22], p35 = P[23];
-    const p40 = P[24], p41 = P[25], p42 = P[26], p43 = P[27], p44 = P[28], p45 = P[29];
-    const p50 = P[30], p51 = P[31], p52 = P[32], p53 = P[33], p54 = P[34], p55 = P[35];
-    const a0 = G0[0], a1 = G0[1], a2 = G0[2], a3 = G0[3], a4 = G0[4], a5 = G0[5];
-    const b0 = G1[0], b1 = G1[1], b2 = G1[2], b3 = G1[3], b4 = G1[4], b5 = G1[5];
-    const c0 = C[0], c1 = C[1], c2 = C[2], c3 = C[3], c4 = C[4], c5 = C[5];
-    let y0 = Y[0], y1 = Y[1], y2 = Y[2], y3 = Y[3], y4 = Y[4], y5 = Y[5];
+    const P = this.phi6,
+      G0 = this.g06,
+      G1 = this.g16,
+      C = this.c6,
+      Y = this.y6;
+    const p00 = P[0],
+      p01 = P[1],
+      p02 = P[2],
+      p03 = P[3],
+      p04 = P[4],
+      p05 = P[5];
+    const p10 = P[6],
+      p11 = P[7],
+      p12 = P[8],
+      p13 = P[9],
+      p14 = P[10],
+      p15 = P[11];
+    const p20 = P[12],
+      p21 = P[13],
+      p22 = P[14],
+      p23 = P[15],
+      p24 = P[16],
+      p25 = P[17];
+    const p30 = P[18],
+      p31 = P[19],
+      p32 = P[20],
+      p33 = P[21],
+      p34 = P[22],
+      p35 = P[23];
+    const p40 = P[24],
+      p41 = P[25],
+      p42 = P[26],
+      p43 = P[27],
+      p44 = P[28],
+      p45 = P[29];
+    const p50 = P[30],
+      p51 = P[31],
+      p52 = P[32],
+      p53 = P[33],
+      p54 = P[34],
+      p55 = P[35];
+    const a0 = G0[0],
+      a1 = G0[1],
+      a2 = G0[2],
+      a3 = G0[3],
+      a4 = G0[4],
+      a5 = G0[5];
+    const b0 = G1[0],
+      b1 = G1[1],
+      b2 = G1[2],
+      b3 = G1[3],
+      b4 = G1[4],
+      b5 = G1[5];
+    const c0 = C[0],
+      c1 = C[1],
+      c2 = C[2],
+      c3 = C[3],
+      c4 = C[4],
+      c5 = C[5];
+    let y0 = Y[0],
+      y1 = Y[1],
+      y2 = Y[2],
+      y3 = Y[3],
+      y4 = Y[4],
+      y5 = Y[5];
     let u0 = this.u0;
     for (let k = 0; k < n; k++) {
       const u1 = u[k];

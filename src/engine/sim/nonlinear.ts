@@ -78,7 +78,9 @@ export function toPerMetre(rel: number[]): Float64Array {
 
 /** Evaluates p(x), p'(x), p''(x) of a per-metre coefficient array into out[0..2]. */
 export function polyWithDerivatives(c: Float64Array, x: number, out: Float64Array): void {
-  let p = 0, d1 = 0, d2 = 0;
+  let p = 0,
+    d1 = 0,
+    d2 = 0;
   for (let k = c.length - 1; k >= 0; k--) {
     d2 = d2 * x + 2 * d1;
     d1 = d1 * x + p;

@@ -63,7 +63,8 @@ export interface ParamOptions {
 export function wooferParams(sys: SpeakerSystem, h: number, opt: ParamOptions = {}): WooferParams {
   const d = sys.driver;
   const box = sys.box;
-  const rho = sys.air.rho, c = sys.air.c;
+  const rho = sys.air.rho,
+    c = sys.air.c;
   const nl = effectiveNonlinear(d);
   const linear = opt.linear === true;
   const one = Float64Array.of(1);

@@ -29,7 +29,8 @@ export function thermalStep(
   const disc = Math.sqrt(Math.max(tr * tr - 4 * det, 0));
   const l1 = (tr + disc) / 2;
   const l2 = (tr - disc) / 2;
-  const e1 = Math.exp(l1 * dt), e2 = Math.exp(l2 * dt);
+  const e1 = Math.exp(l1 * dt),
+    e2 = Math.exp(l2 * dt);
   // e^{A dt} = (e1 (A - l2 I) - e2 (A - l1 I)) / (l1 - l2)  (Sylvester's formula).
   const d = l1 - l2 || 1e-300;
   const p11 = (e1 * (a11 - l2) - e2 * (a11 - l1)) / d;
@@ -38,8 +39,10 @@ export function thermalStep(
   const p22 = (e1 * (a22 - l2) - e2 * (a22 - l1)) / d;
   // Gamma = A^{-1} (Phi - I) B, B = [1/Ctv, 0].
   const b1 = 1 / t.ctv;
-  const m11 = p11 - 1, m21 = p21;
-  const x1 = m11 * b1, x2 = m21 * b1;
+  const m11 = p11 - 1,
+    m21 = p21;
+  const x1 = m11 * b1,
+    x2 = m21 * b1;
   const g1 = (a22 * x1 - a12 * x2) / det;
   const g2 = (-a21 * x1 + a11 * x2) / det;
   out.p11 = p11;

@@ -112,25 +112,78 @@ export class WooferSim {
    */
   processBlock(u: Float64Array, n: number, pOut: Float64Array, aux: Float64Array, portOut?: Float64Array): number {
     const p = this.p;
-    const h = p.h, th = 0.5, te = p.thetaE, tt = th * th;
+    const h = p.h,
+      th = 0.5,
+      te = p.thetaE,
+      tt = th * th;
     const box = p.boxCode;
-    const R = this.r, mms = p.mms, rms = p.rms, sd = p.sd, cab = p.cab, g = p.g;
-    const map = p.map, portLoss = p.portLoss, mmp = p.mmp, rmp = p.rmp, sp = p.sp, kmp0 = p.kmp0;
-    const bl0 = p.bl0, k0 = p.k0, le0 = p.le0, xlim = p.xlim, xlimP = p.xlimP, kOut = p.kOut;
-    const blC = p.blC, kmsC = p.kmsC, leC = p.leC, kmpC = p.kmpC;
-    const nBl = blC.length, nK = kmsC.length, nL = leC.length, nKp = kmpC.length;
-    const invMms = 1 / mms, invMap = map > 0 ? 1 / map : 0, gOverCab = g / cab;
-    const cab_h = cab / h, map_h = map / h, mmp_h = mmp / h, mms_h = mms / h;
+    const R = this.r,
+      mms = p.mms,
+      rms = p.rms,
+      sd = p.sd,
+      cab = p.cab,
+      g = p.g;
+    const map = p.map,
+      portLoss = p.portLoss,
+      mmp = p.mmp,
+      rmp = p.rmp,
+      sp = p.sp,
+      kmp0 = p.kmp0;
+    const bl0 = p.bl0,
+      k0 = p.k0,
+      le0 = p.le0,
+      xlim = p.xlim,
+      xlimP = p.xlimP,
+      kOut = p.kOut;
+    const blC = p.blC,
+      kmsC = p.kmsC,
+      leC = p.leC,
+      kmpC = p.kmpC;
+    const nBl = blC.length,
+      nK = kmsC.length,
+      nL = leC.length,
+      nKp = kmpC.length;
+    const invMms = 1 / mms,
+      invMap = map > 0 ? 1 / map : 0,
+      gOverCab = g / cab;
+    const cab_h = cab / h,
+      map_h = map / h,
+      mmp_h = mmp / h,
+      mms_h = mms / h;
     const hasLe = le0 > 0;
-    let i = this.i, x = this.x, v = this.v, pb = this.pb, q = this.q, xp = this.xp, vp = this.vp;
-    let u0 = this.u0, f1 = this.f1, f2 = this.f2, f3 = this.f3, f4 = this.f4, f5 = this.f5, f6 = this.f6;
-    let leNow = this.leNow, le1 = this.le1, j12 = this.j12, j13 = this.j13, j31 = this.j31, j32 = this.j32, kp1 = this.kp1;
-    let i2 = 0, stopped = false, out = this.out;
+    let i = this.i,
+      x = this.x,
+      v = this.v,
+      pb = this.pb,
+      q = this.q,
+      xp = this.xp,
+      vp = this.vp;
+    let u0 = this.u0,
+      f1 = this.f1,
+      f2 = this.f2,
+      f3 = this.f3,
+      f4 = this.f4,
+      f5 = this.f5,
+      f6 = this.f6;
+    let leNow = this.leNow,
+      le1 = this.le1,
+      j12 = this.j12,
+      j13 = this.j13,
+      j31 = this.j31,
+      j32 = this.j32,
+      kp1 = this.kp1;
+    let i2 = 0,
+      stopped = false,
+      out = this.out;
     for (let k = 0; k < n; k++) {
       const u1 = u[k];
       // --- the step: (M/h - Theta·J)·Δ = f + Theta·b·Δu, rows eliminated by hand ---
       const r1 = f1 + te * (u1 - u0);
-      let d4: number, r4p: number, d5 = 1, d6 = 1, r6p = 0;
+      let d4: number,
+        r4p: number,
+        d5 = 1,
+        d6 = 1,
+        r6p = 0;
       if (box === BOX_VENTED) {
         d5 = map_h + th * 2 * portLoss * (q < 0 ? -q : q);
         d4 = cab_h + th * g + tt / d5;
@@ -144,7 +197,8 @@ export class WooferSim {
         d4 = cab_h + th * g;
         r4p = f4;
       }
-      const P0 = r4p / d4, P1 = (-th * sd) / d4;
+      const P0 = r4p / d4,
+        P1 = (-th * sd) / d4;
       let d1 = leNow / h + te * (R + le1 * v);
       if (d1 < 1e-9) d1 = 1e-9;
       const I0 = (r1 + te * j12 * h * f2) / d1;
@@ -185,7 +239,8 @@ export class WooferSim {
       }
       i2 += i * i;
       // --- f(y, u) and the Jacobian at the new state ---
-      let bl = 0, bl1 = 0;
+      let bl = 0,
+        bl1 = 0;
       for (let c = nBl - 1; c >= 0; c--) {
         bl1 = bl1 * x + bl;
         bl = bl * x + blC[c];
@@ -196,7 +251,8 @@ export class WooferSim {
       }
       bl *= bl0;
       bl1 *= bl0;
-      let kr = 0, kr1 = 0;
+      let kr = 0,
+        kr1 = 0;
       for (let c = nK - 1; c >= 0; c--) {
         kr1 = kr1 * x + kr;
         kr = kr * x + kmsC[c];
@@ -207,9 +263,12 @@ export class WooferSim {
       }
       const fk = k0 * x * kr;
       const fk1 = k0 * (kr + x * kr1);
-      let le2 = 0, lrel1 = 0;
+      let le2 = 0,
+        lrel1 = 0;
       if (hasLe) {
-        let lr = 0, l1 = 0, l2 = 0;
+        let lr = 0,
+          l1 = 0,
+          l2 = 0;
         for (let c = nL - 1; c >= 0; c--) {
           l2 = l2 * x + 2 * l1;
           l1 = l1 * x + lr;
@@ -240,7 +299,8 @@ export class WooferSim {
         dU += f5 * invMap;
         if (portOut) portOut[k] = q;
       } else if (box === BOX_RADIATOR) {
-        let kpr = 0, kpr1 = 0;
+        let kpr = 0,
+          kpr1 = 0;
         for (let c = nKp - 1; c >= 0; c--) {
           kpr1 = kpr1 * xp + kpr;
           kpr = kpr * xp + kmpC[c];

@@ -9,7 +9,8 @@ function logChoose(n: number, k: number): number {
 
 /** P(X >= correct) for X ~ Binomial(trials, p): the chance of scoring at least `correct` by guessing. */
 export function probabilityAtLeast(correct: number, trials: number, p = 0.5): number {
-  if (!Number.isInteger(trials) || trials < 0 || !Number.isInteger(correct)) throw new RangeError('trials and correct must be whole numbers');
+  if (!Number.isInteger(trials) || trials < 0 || !Number.isInteger(correct))
+    throw new RangeError('trials and correct must be whole numbers');
   if (correct <= 0) return 1;
   if (correct > trials) return 0;
   let sum = 0;

@@ -99,7 +99,10 @@ export function verdict(
           `(${one(Math.max(ha.cleanSplDb, hb.cleanSplDb))} against ${one(Math.min(ha.cleanSplDb, hb.cleanSplDb))} dB at the seat)`;
     out.push({ id: 'headroom', text: `${lead}; ${first(na, ha)}, ${first(nb, hb)}.` });
   }
-  for (const [name, an] of [[na, a], [nb, b]] as const) {
+  for (const [name, an] of [
+    [na, a],
+    [nb, b],
+  ] as const) {
     const speed = an.curves.plannedPortAirSpeed;
     if (!speed) continue;
     let worst = 0;

@@ -21,11 +21,20 @@ export function HearingDialog(p: { kind: 'first' | 'loud'; requestedDb: number; 
     >
       {first ? (
         <>
-          <p>The bench plays modelled overload on purpose: distortion, port noise and clipping can be sudden and loud. Sound at high levels damages hearing, and the damage is permanent.</p>
-          <p>Turn your headphones or speakers down before you start. The monitor gain starts low; raise it slowly. The planned level of each design decides its physics, not how loud you listen.</p>
+          <p>
+            The bench plays modelled overload on purpose: distortion, port noise and clipping can be sudden and loud. Sound at high levels
+            damages hearing, and the damage is permanent.
+          </p>
+          <p>
+            Turn your headphones or speakers down before you start. The monitor gain starts low; raise it slowly. The planned level of each
+            design decides its physics, not how loud you listen.
+          </p>
         </>
       ) : (
-        <p>Above −12 dB the monitor can get loud on ordinary headphones or speakers. Sudden overload in the track will be as loud as the music around it or louder. Lower your system's volume first if you go on.</p>
+        <p>
+          Above −12 dB the monitor can get loud on ordinary headphones or speakers. Sudden overload in the track will be as loud as the
+          music around it or louder. Lower your system's volume first if you go on.
+        </p>
       )}
     </Dialog>
   );

@@ -9,7 +9,16 @@ import { clock, colourOf, describeEvent, KIND_LABEL } from './palette.ts';
 import { useAnimationFrame } from './useBench.ts';
 
 /** Drawing order: the most serious kinds last, so they sit on top. */
-const ORDER: EventKind[] = ['distortion', 'compression', 'coil-temperature', 'port-speed', 'radiator-excursion', 'excursion', 'amplifier-clip', 'xlim'];
+const ORDER: EventKind[] = [
+  'distortion',
+  'compression',
+  'coil-temperature',
+  'port-speed',
+  'radiator-excursion',
+  'excursion',
+  'amplifier-clip',
+  'xlim',
+];
 const GUTTER = 74;
 const AXIS_H = 20;
 const LANE_H = 30;
@@ -104,15 +113,19 @@ export function Overview(p: Props) {
       const { min, max } = track.overview;
       const nb = min.length;
       g.fillStyle = wave;
-      const mid = waveH / 2, amp = waveH / 2 - 4;
+      const mid = waveH / 2,
+        amp = waveH / 2 - 4;
       for (let px = 0; px < plotW; px++) {
-        const b0 = Math.floor((px / plotW) * nb), b1 = Math.max(b0 + 1, Math.floor(((px + 1) / plotW) * nb));
-        let lo = 0, hi = 0;
+        const b0 = Math.floor((px / plotW) * nb),
+          b1 = Math.max(b0 + 1, Math.floor(((px + 1) / plotW) * nb));
+        let lo = 0,
+          hi = 0;
         for (let b = b0; b < b1 && b < nb; b++) {
           if (min[b] < lo) lo = min[b];
           if (max[b] > hi) hi = max[b];
         }
-        const y0 = mid - hi * amp, y1 = mid - lo * amp;
+        const y0 = mid - hi * amp,
+          y1 = mid - lo * amp;
         g.fillRect(GUTTER + px, y0, 1, Math.max(1, y1 - y0));
       }
     }
@@ -138,7 +151,8 @@ export function Overview(p: Props) {
         g.fillStyle = colourOf(kind, p.theme);
         for (const e of list) {
           if (e.kind !== kind) continue;
-          const x0 = xOf(e.start_s), x1 = Math.max(x0 + 2, xOf(e.end_s));
+          const x0 = xOf(e.start_s),
+            x1 = Math.max(x0 + 2, xOf(e.end_s));
           g.fillRect(x0, y + 4, x1 - x0, LANE_H - 8);
         }
       }
@@ -146,7 +160,8 @@ export function Overview(p: Props) {
     // Loop region.
     const loop = p.state.loop;
     if (track && loop) {
-      const x0 = xOf(loop.startFrame / track.sampleRate), x1 = xOf(loop.endFrame / track.sampleRate);
+      const x0 = xOf(loop.startFrame / track.sampleRate),
+        x1 = xOf(loop.endFrame / track.sampleRate);
       const h = total - AXIS_H;
       g.fillStyle = focus;
       g.globalAlpha = 0.1;
@@ -185,7 +200,8 @@ export function Overview(p: Props) {
   }, [width, total, track, p.events, p.state.loop, p.theme, lanes.length]);
 
   const drawFrame = useCallback(() => {
-    const el = canvas.current, off = layer.current;
+    const el = canvas.current,
+      off = layer.current;
     if (!el || !off) return;
     const g = el.getContext('2d');
     if (!g) return;
@@ -227,7 +243,8 @@ export function Overview(p: Props) {
   };
   const eventsAt = (slot: DesignSlot, x: number) => {
     const list = p.events?.[slot] ?? [];
-    const t = tOf(x), pad = (3 / plotW) * duration;
+    const t = tOf(x),
+      pad = (3 / plotW) * duration;
     return list.filter((e) => e.start_s - pad <= t && t <= e.end_s + pad).sort((a, b) => ORDER.indexOf(b.kind) - ORDER.indexOf(a.kind));
   };
 
@@ -303,8 +320,16 @@ export function Overview(p: Props) {
         onKeyDown={onKey}
       />
       {tip ? (
-        <div class="strip-tip" role="tooltip" style={{ left: `${Math.min(tip.x + 12, width - 330)}px`, top: `${tip.y + 14}px` }} data-testid="strip-tip">
-          <strong>Design {tip.slot.toUpperCase()}{p.names ? ` · ${p.names[tip.slot]}` : ''}</strong>
+        <div
+          class="strip-tip"
+          role="tooltip"
+          style={{ left: `${Math.min(tip.x + 12, width - 330)}px`, top: `${tip.y + 14}px` }}
+          data-testid="strip-tip"
+        >
+          <strong>
+            Design {tip.slot.toUpperCase()}
+            {p.names ? ` · ${p.names[tip.slot]}` : ''}
+          </strong>
           {tip.items.map((ev) => (
             <span class="tip-row">
               <i style={{ background: colourOf(ev.kind, p.theme) }} />

@@ -41,7 +41,8 @@ function windowed(bench: BenchAudio, state: BenchState, t0: number, t1: number):
   const r = bench.offlineFresh() ? state.offline.results : null;
   if (r) {
     const hz = r.a.traces.hz;
-    const i0 = Math.max(0, Math.floor(t0 * hz)), i1 = Math.min(r.a.traces.excursionMm.length - 1, Math.ceil(t1 * hz));
+    const i0 = Math.max(0, Math.floor(t0 * hz)),
+      i1 = Math.min(r.a.traces.excursionMm.length - 1, Math.ceil(t1 * hz));
     for (let i = i0; i <= i1; i++) {
       out.t.push(i / hz);
       for (const slot of ['a', 'b'] as const) {
@@ -95,11 +96,12 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
     const cols = width > 900 ? 2 : 1;
     const w = Math.floor((width - (cols - 1) * 14) / cols) - 2;
     const font = '11.5px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
-    plots.current.forEach((u) => u.destroy());
+    for (const u of plots.current) u.destroy();
     plots.current = [];
     const boxes = el.querySelectorAll<HTMLElement>('.trace-plot');
     shown.forEach((m, i) => {
-      const limA = limitOf(m.id, p.systems.a), limB = limitOf(m.id, p.systems.b);
+      const limA = limitOf(m.id, p.systems.a),
+        limB = limitOf(m.id, p.systems.b);
       const opts: uPlot.Options = {
         width: w,
         height: 128,
@@ -125,8 +127,22 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
           { stroke: pal.b, width: 1, dash: [2, 3], points: { show: false } },
         ],
         axes: [
-          { stroke: pal.axis, font, size: 26, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => clock(v, s.length > 1 && s[1] - s[0] < 1 ? 1 : 0)) },
-          { stroke: pal.axis, font, size: 52, grid: { stroke: pal.grid, width: 1 }, ticks: { stroke: pal.grid }, values: (_u, s) => s.map((v) => num(v, 3)) },
+          {
+            stroke: pal.axis,
+            font,
+            size: 26,
+            grid: { stroke: pal.grid, width: 1 },
+            ticks: { stroke: pal.grid },
+            values: (_u, s) => s.map((v) => clock(v, s.length > 1 && s[1] - s[0] < 1 ? 1 : 0)),
+          },
+          {
+            stroke: pal.axis,
+            font,
+            size: 52,
+            grid: { stroke: pal.grid, width: 1 },
+            ticks: { stroke: pal.grid },
+            values: (_u, s) => s.map((v) => num(v, 3)),
+          },
         ],
         hooks: {
           draw: [
@@ -147,10 +163,22 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
           ],
         },
       };
-      plots.current.push(new uPlot(opts, [[0, 1], [null, null], [null, null], [null, null], [null, null]] as unknown as uPlot.AlignedData, boxes[i]));
+      plots.current.push(
+        new uPlot(
+          opts,
+          [
+            [0, 1],
+            [null, null],
+            [null, null],
+            [null, null],
+            [null, null],
+          ] as unknown as uPlot.AlignedData,
+          boxes[i],
+        ),
+      );
     });
     return () => {
-      plots.current.forEach((u) => u.destroy());
+      for (const u of plots.current) u.destroy();
       plots.current = [];
     };
   }, [width, p.theme, p.systems.a, p.systems.b, shown.length]);
@@ -163,13 +191,15 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
       if (!st.track) return;
       const dur = st.track.frames / st.track.sampleRate;
       const now = p.bench.positionNow() / st.track.sampleRate;
-      const t0 = Math.max(0, Math.min(now - HALF_WINDOW_S, dur - 2 * HALF_WINDOW_S)), t1 = Math.min(dur, t0 + 2 * HALF_WINDOW_S);
+      const t0 = Math.max(0, Math.min(now - HALF_WINDOW_S, dur - 2 * HALF_WINDOW_S)),
+        t1 = Math.min(dur, t0 + 2 * HALF_WINDOW_S);
       const win = windowed(p.bench, st, t0, t1);
       shown.forEach((m, i) => {
         const u = plots.current[i];
         if (!u) return;
         const k = METRICS.indexOf(m);
-        const limA = limitOf(m.id, p.systems.a), limB = limitOf(m.id, p.systems.b);
+        const limA = limitOf(m.id, p.systems.a),
+          limB = limitOf(m.id, p.systems.b);
         const n = win.t.length;
         const xs = n ? win.t : [t0, t1];
         const fill = (v: number | null) => (n ? win.t.map(() => v) : [v, v]);
@@ -187,11 +217,18 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
     return () => clearInterval(timer);
   }, [p.state.playing, p.state.position, p.state.offline, p.state.history.length === 0, width, p.theme, shown.length]);
 
-  const src = p.bench.offlineFresh() ? 'from the offline render of the whole track' : p.state.playing || p.state.history.length ? 'live, while playing' : 'play the track or render it offline to see them';
+  const src = p.bench.offlineFresh()
+    ? 'from the offline render of the whole track'
+    : p.state.playing || p.state.history.length
+      ? 'live, while playing'
+      : 'play the track or render it offline to see them';
   return (
     <section class="traces" aria-label="Traces around the playhead" ref={host}>
       <h3>
-        Around the playhead <span class="fine">±{HALF_WINDOW_S} s, {src}</span>
+        Around the playhead{' '}
+        <span class="fine">
+          ±{HALF_WINDOW_S} s, {src}
+        </span>
       </h3>
       <div class={`trace-grid${width > 900 ? ' two' : ''}`}>
         {shown.map((m) => (

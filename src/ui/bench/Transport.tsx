@@ -72,7 +72,14 @@ export function Transport(p: { bench: BenchAudio; state: BenchState; store: Stor
   return (
     <div class={`transport${p.full ? ' transport-full' : ''}`}>
       <div class="transport-main">
-        <button type="button" class="primary play" onClick={toggle} disabled={!ready} aria-label={state.playing ? 'Pause' : 'Play'} data-testid="play">
+        <button
+          type="button"
+          class="primary play"
+          onClick={toggle}
+          disabled={!ready}
+          aria-label={state.playing ? 'Pause' : 'Play'}
+          data-testid="play"
+        >
           <span aria-hidden="true" class={state.playing ? 'icon-pause' : 'icon-play'} />
           {state.playing ? 'Pause' : 'Play'}
         </button>
@@ -85,7 +92,11 @@ export function Transport(p: { bench: BenchAudio; state: BenchState; store: Stor
               aria-checked={state.lane === l}
               class={`lane lane-${l}${state.lane === l ? ' on' : ''}`}
               onClick={() => bench.selectLane(l)}
-              title={l === 'ref' ? 'The ideal flat system at the same calibration and latency (key 3)' : `Design ${LANE_TEXT[l]}: ${p.names[l]} (key ${l === 'a' ? 1 : 2})`}
+              title={
+                l === 'ref'
+                  ? 'The ideal flat system at the same calibration and latency (key 3)'
+                  : `Design ${LANE_TEXT[l]}: ${p.names[l]} (key ${l === 'a' ? 1 : 2})`
+              }
               data-testid={`lane-${l}`}
             >
               <span class={`chip chip-${l === 'ref' ? 'ref' : l}`}>{l === 'ref' ? 'R' : LANE_TEXT[l]}</span>
@@ -167,11 +178,17 @@ export function Transport(p: { bench: BenchAudio; state: BenchState; store: Stor
               data-lane={state.lastSwitch.lane}
               title="The worklet checks every switch: it begins on a block boundary and no output step exceeds what the crossfade of the two lanes allows"
             >
-              Switched to {LANE_TEXT[state.lastSwitch.lane]} at sample {state.lastSwitch.blockFrame.toLocaleString('en')} (block {state.lastSwitch.blockFrame / state.lastSwitch.quantum}),{' '}
-              {((state.lastSwitch.fadeFrames / (state.sampleRate || 48000)) * 1000).toFixed(0)} ms crossfade{state.lastSwitch.worstRatio <= 1 ? ', clean' : ', with a step beyond the crossfade'}
+              Switched to {LANE_TEXT[state.lastSwitch.lane]} at sample {state.lastSwitch.blockFrame.toLocaleString('en')} (block{' '}
+              {state.lastSwitch.blockFrame / state.lastSwitch.quantum}),{' '}
+              {((state.lastSwitch.fadeFrames / (state.sampleRate || 48000)) * 1000).toFixed(0)} ms crossfade
+              {state.lastSwitch.worstRatio <= 1 ? ', clean' : ', with a step beyond the crossfade'}
             </span>
           ) : null}
-          <span class={`load${state.struggling ? ' over' : ''}`} title="Time the audio engine spends per block, against the block's real time" data-testid="load">
+          <span
+            class={`load${state.struggling ? ' over' : ''}`}
+            title="Time the audio engine spends per block, against the block's real time"
+            data-testid="load"
+          >
             Engine load <b>{state.playing || state.load > 0 ? `${(state.load * 100).toFixed(0)} %` : '—'}</b>
             <span class="load-bar" aria-hidden="true">
               <i style={{ width: `${Math.min(100, (state.load / LOAD_LIMIT) * 100)}%` }} />

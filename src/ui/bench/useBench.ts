@@ -8,7 +8,8 @@ import type { AppState, Store } from '../store.ts';
 let attached: Store | null = null;
 
 function systemsOf(state: AppState) {
-  const a = validate(state.designs.a), b = validate(state.designs.b);
+  const a = validate(state.designs.a),
+    b = validate(state.designs.b);
   return { a: a.ok ? a.system : null, b: b.ok ? b.system : null };
 }
 

@@ -124,7 +124,9 @@ function options(spec: ChartSpec, width: number, height: number, p: Palette, onD
           dash: st.dash,
           points: { show: false },
           value: (_u: uPlot, v: number | null, _si: number, idx: number | null) =>
-            v == null || !Number.isFinite(v) ? '—' : `${num(v, spec.digits)} ${spec.unit}${s.annotate && idx !== null ? ` · ${s.annotate(idx)}` : ''}`,
+            v == null || !Number.isFinite(v)
+              ? '—'
+              : `${num(v, spec.digits)} ${spec.unit}${s.annotate && idx !== null ? ` · ${s.annotate(idx)}` : ''}`,
         } satisfies uPlot.Series;
       }),
     ],

@@ -4,7 +4,18 @@ import { PORT_SPEED_LIMIT } from '../engine.ts';
 import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 
-export type Role = 'a' | 'b' | 'reference' | 'limit' | 'limit-a' | 'limit-b' | 'limit-hard' | 'limit-hard-a' | 'limit-hard-b' | 'a-aux' | 'b-aux';
+export type Role =
+  | 'a'
+  | 'b'
+  | 'reference'
+  | 'limit'
+  | 'limit-a'
+  | 'limit-b'
+  | 'limit-hard'
+  | 'limit-hard-a'
+  | 'limit-hard-b'
+  | 'a-aux'
+  | 'b-aux';
 
 export interface SeriesSpec {
   label: string;
@@ -67,17 +78,31 @@ function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | 
 
 const constant = (n: number, v: number) => new Float64Array(n).fill(v);
 
-
 export function buildCharts(pair: Pair): ChartSpec[] {
   const f = grid(pair);
   if (!f) {
-    return CHART_IDS.map((id) => ({ id, title: TITLES[id], unit: '', digits: 3, freqHz: new Float64Array(0), series: [], summary: [], empty: 'Neither design is valid yet: fix the marked fields.' }));
+    return CHART_IDS.map((id) => ({
+      id,
+      title: TITLES[id],
+      unit: '',
+      digits: 3,
+      freqHz: new Float64Array(0),
+      series: [],
+      summary: [],
+      empty: 'Neither design is valid yet: fix the marked fields.',
+    }));
   }
   const n = f.length;
   const per = (pick: (a: Analysis) => ArrayLike<number> | null, extra?: Partial<SeriesSpec>): SeriesSpec[] =>
     SLOTS.map((s) => {
       const an = pair[s];
-      return { label: `${SLOT_LABEL[s]}`, longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined, role: s, values: an ? onGrid(f, an, pick(an)) : null, ...extra };
+      return {
+        label: `${SLOT_LABEL[s]}`,
+        longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined,
+        role: s,
+        values: an ? onGrid(f, an, pick(an)) : null,
+        ...extra,
+      };
     });
   const present = SLOTS.filter((s) => pair[s] !== null) as Slot[];
   const fig = (s: Slot) => pair[s]!.figures;
@@ -101,9 +126,13 @@ export function buildCharts(pair: Pair): ChartSpec[] {
   const exSeries = per((a) => a.curves.plannedExcursionMm);
   for (const s of SLOTS) {
     const an = pair[s];
-    if (an?.curves.radiatorExcursionMm) exSeries.push({ label: `${SLOT_LABEL[s]} radiator`, role: `${s}-aux` as Role, values: onGrid(f, an, an.curves.radiatorExcursionMm) });
+    if (an?.curves.radiatorExcursionMm)
+      exSeries.push({ label: `${SLOT_LABEL[s]} radiator`, role: `${s}-aux` as Role, values: onGrid(f, an, an.curves.radiatorExcursionMm) });
   }
-  exSeries.push(...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±', 'limit'), ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±', 'limit-hard'));
+  exSeries.push(
+    ...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±', 'limit'),
+    ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±', 'limit-hard'),
+  );
   const excursion: ChartSpec = {
     id: 'excursion',
     title: TITLES.excursion,
@@ -129,7 +158,9 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     yMin: 0,
     freqHz: f,
     series: per((a) => a.curves.impedanceOhm),
-    summary: present.map((s) => `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(sys(s).driver.re, 3)} Ω).`),
+    summary: present.map(
+      (s) => `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(sys(s).driver.re, 3)} Ω).`,
+    ),
   };
 
   const phase: ChartSpec = {
@@ -171,7 +202,12 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     digits: 3,
     yMin: 0,
     freqHz: f,
-    series: anyPort ? [...per((a) => a.curves.plannedPortAirSpeed), { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT) }] : [],
+    series: anyPort
+      ? [
+          ...per((a) => a.curves.plannedPortAirSpeed),
+          { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT) },
+        ]
+      : [],
     summary: present.map((s) => {
       const pk = peakOf(pair[s]!.curves.plannedPortAirSpeed);
       return pk
@@ -242,4 +278,3 @@ function sameValues(a: ArrayLike<number>, b: ArrayLike<number>) {
   for (let i = 0; i < a.length; i++) if (Math.abs(a[i] - b[i]) > 1e-9) return false;
   return true;
 }
-

@@ -2,7 +2,14 @@
 import type { ComponentChildren } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
 
-export function Dialog(p: { title: string; onClose: () => void; children: ComponentChildren; actions?: ComponentChildren; tone?: 'error' | 'plain'; id: string }) {
+export function Dialog(p: {
+  title: string;
+  onClose: () => void;
+  children: ComponentChildren;
+  actions?: ComponentChildren;
+  tone?: 'error' | 'plain';
+  id: string;
+}) {
   const box = useRef<HTMLDivElement>(null);
   useEffect(() => {
     const before = document.activeElement as HTMLElement | null;
@@ -14,7 +21,9 @@ export function Dialog(p: { title: string; onClose: () => void; children: Compon
         p.onClose();
       }
       if (e.key === 'Tab' && box.current) {
-        const items = [...box.current.querySelectorAll<HTMLElement>('button, input, [href], select, textarea, summary')].filter((x) => !x.hasAttribute('disabled'));
+        const items = [...box.current.querySelectorAll<HTMLElement>('button, input, [href], select, textarea, summary')].filter(
+          (x) => !x.hasAttribute('disabled'),
+        );
         if (items.length === 0) return;
         const i = items.indexOf(document.activeElement as HTMLElement);
         if (e.shiftKey && i <= 0) {
@@ -34,10 +43,23 @@ export function Dialog(p: { title: string; onClose: () => void; children: Compon
   }, []);
   return (
     <div class="scrim" onClick={(e) => e.target === e.currentTarget && p.onClose()}>
-      <div class={`dialog${p.tone === 'error' ? ' dialog-error' : ''}`} role="dialog" aria-modal="true" aria-labelledby={`${p.id}-title`} ref={box} id={p.id}>
+      <div
+        class={`dialog${p.tone === 'error' ? ' dialog-error' : ''}`}
+        role="dialog"
+        aria-modal="true"
+        aria-labelledby={`${p.id}-title`}
+        ref={box}
+        id={p.id}
+      >
         <h2 id={`${p.id}-title`}>{p.title}</h2>
         <div class="dialog-body">{p.children}</div>
-        <div class="dialog-actions">{p.actions ?? <button type="button" onClick={p.onClose}>Close</button>}</div>
+        <div class="dialog-actions">
+          {p.actions ?? (
+            <button type="button" onClick={p.onClose}>
+              Close
+            </button>
+          )}
+        </div>
       </div>
     </div>
   );

@@ -16,7 +16,9 @@ export function Sheet(p: { title: string; id: string; children: ComponentChildre
       {p.intro ? <p class="sheet-intro">{p.intro}</p> : null}
       <div class="sheet-grid" role="table" aria-label={p.title}>
         <div class="sheet-head" role="row">
-          <span role="columnheader" class="qty">Quantity</span>
+          <span role="columnheader" class="qty">
+            Quantity
+          </span>
           {SLOTS.map((s) => (
             <span role="columnheader" class={`slot-head slot-${s}`}>
               <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {state.designs[s].name}
@@ -34,7 +36,11 @@ export function Group(p: { title: string; children: ComponentChildren; note?: st
     <>
       <div class="sheet-group" role="row">
         <span role="cell">{p.title}</span>
-        {p.note ? <span role="cell" class="group-note">{p.note}</span> : null}
+        {p.note ? (
+          <span role="cell" class="group-note">
+            {p.note}
+          </span>
+        ) : null}
       </div>
       {p.children}
     </>
@@ -143,11 +149,21 @@ export function Num(p: NumProps) {
           value={typeof value === 'number' ? toSlider(value, p.slider) : 0}
           aria-label={`${p.label}, design ${SLOT_LABEL[p.slot]}, slider`}
           aria-valuetext={typeof value === 'number' ? `${value}${p.unit ? ' ' + p.unit : ''}` : undefined}
-          onInput={(e) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: fromSlider(Number((e.currentTarget as HTMLInputElement).value), p.slider!) })}
+          onInput={(e) =>
+            dispatch({
+              type: 'edit',
+              slot: p.slot,
+              path: p.path,
+              value: fromSlider(Number((e.currentTarget as HTMLInputElement).value), p.slider!),
+            })
+          }
         />
       ) : null}
       {showModel ? (
-        <span class={`model${m.stale ? ' stale' : ''}${differs ? ' differs' : ''}`} title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}>
+        <span
+          class={`model${m.stale ? ' stale' : ''}${differs ? ' differs' : ''}`}
+          title={m.stale ? 'from the last valid version of this design' : 'value the model uses'}
+        >
           {typed ? (
             <>
               <span class="model-tag">model</span> {num(modelValue, p.modelDigits ?? 3)}
@@ -245,7 +261,10 @@ export function Coefficients(p: { slot: Slot; path: string; label: string; unitH
         onChange={(e) => {
           const raw = (e.currentTarget as HTMLInputElement).value.trim();
           if (raw === '') return dispatch({ type: 'edit', slot: p.slot, path: p.path, value: undefined });
-          const parts = raw.split(/[,;\s]+/).filter(Boolean).map(Number);
+          const parts = raw
+            .split(/[,;\s]+/)
+            .filter(Boolean)
+            .map(Number);
           if (parts.some((x) => !Number.isFinite(x))) {
             localError = 'Enter numbers separated by commas.';
             (e.currentTarget as HTMLInputElement).setCustomValidity(localError);

@@ -11,8 +11,24 @@ import { SLOTS, SLOT_LABEL } from '../store.ts';
 import { useBench } from '../bench/useBench.ts';
 import { useSystems } from '../sheet/hooks.ts';
 import {
-  answer, checkSettings, DEFAULT_ROUNDS, isDone, laneToPlay, listen, MAX_ROUNDS, MIN_ROUNDS, newTrial, resultSentence, tally, toCsv, toJson, TRIAL_KEYS,
-  type Pick, type Trial, type TrialLane, type TrialSettings,
+  answer,
+  checkSettings,
+  DEFAULT_ROUNDS,
+  isDone,
+  laneToPlay,
+  listen,
+  MAX_ROUNDS,
+  MIN_ROUNDS,
+  newTrial,
+  resultSentence,
+  tally,
+  toCsv,
+  toJson,
+  TRIAL_KEYS,
+  type Pick,
+  type Trial,
+  type TrialLane,
+  type TrialSettings,
 } from '../trial.ts';
 
 /** The trial outlives a visit to another screen. */
@@ -28,7 +44,8 @@ export function BlindTrial() {
   const rounds = state.settings.trialRounds ?? DEFAULT_ROUNDS;
   const durationS = bench.track ? bench.track.frames / bench.track.sampleRate : null;
   const defaultLoop = () => {
-    if (bench.loop && bench.track) return { startS: bench.loop.startFrame / bench.track.sampleRate, endS: bench.loop.endFrame / bench.track.sampleRate };
+    if (bench.loop && bench.track)
+      return { startS: bench.loop.startFrame / bench.track.sampleRate, endS: bench.loop.endFrame / bench.track.sampleRate };
     const from = bench.track?.loudFromS ?? 0;
     return { startS: from, endS: Math.min(from + 8, durationS ?? from + 8) };
   };
@@ -123,8 +140,9 @@ export function BlindTrial() {
     <section class="sheet trial" aria-labelledby="trial-h">
       <h2 id="trial-h">Blind trial</h2>
       <p class="sheet-intro">
-        A and B are the two designs; X is one of them, chosen by a cryptographic coin toss each round and not shown until the end. Listen as often as you like, then
-        say which one X is. Levels are matched, so loudness gives nothing away. After the last round you see the score and how likely it is by guessing alone.
+        A and B are the two designs; X is one of them, chosen by a cryptographic coin toss each round and not shown until the end. Listen as
+        often as you like, then say which one X is. Levels are matched, so loudness gives nothing away. After the last round you see the
+        score and how likely it is by guessing alone.
       </p>
       {!trial ? (
         <div class="trial-setup" data-testid="trial-setup">
@@ -144,17 +162,34 @@ export function BlindTrial() {
             />
           </label>
           <label class="check">
-            <input type="checkbox" checked={loopOn} onChange={(e) => setLoopOn((e.currentTarget as HTMLInputElement).checked)} /> Loop a fixed region
+            <input type="checkbox" checked={loopOn} onChange={(e) => setLoopOn((e.currentTarget as HTMLInputElement).checked)} /> Loop a
+            fixed region
           </label>
           {loopOn ? (
             <span class="inline">
               <label class="inline">
                 from
-                <input type="number" min={0} step={0.5} value={fixed(loop.startS, 2)} data-testid="trial-loop-start" onChange={(e) => setLoop({ ...loop, startS: Number((e.currentTarget as HTMLInputElement).value) })} /> s
+                <input
+                  type="number"
+                  min={0}
+                  step={0.5}
+                  value={fixed(loop.startS, 2)}
+                  data-testid="trial-loop-start"
+                  onChange={(e) => setLoop({ ...loop, startS: Number((e.currentTarget as HTMLInputElement).value) })}
+                />{' '}
+                s
               </label>
               <label class="inline">
                 to
-                <input type="number" min={0} step={0.5} value={fixed(loop.endS, 2)} data-testid="trial-loop-end" onChange={(e) => setLoop({ ...loop, endS: Number((e.currentTarget as HTMLInputElement).value) })} /> s
+                <input
+                  type="number"
+                  min={0}
+                  step={0.5}
+                  value={fixed(loop.endS, 2)}
+                  data-testid="trial-loop-end"
+                  onChange={(e) => setLoop({ ...loop, endS: Number((e.currentTarget as HTMLInputElement).value) })}
+                />{' '}
+                s
               </label>
             </span>
           ) : null}
@@ -162,7 +197,9 @@ export function BlindTrial() {
             {busy ? 'Starting the audio…' : 'Start the trial'}
           </button>
           <p class="fine">
-            Track: {bench.track ? `${bench.track.name} (${clock(durationS!)})` : 'the demo track, unless you load one on the Listening bench'}. Heard {LISTEN_MODE_LABEL[bench.mode]}.
+            Track:{' '}
+            {bench.track ? `${bench.track.name} (${clock(durationS!)})` : 'the demo track, unless you load one on the Listening bench'}.
+            Heard {LISTEN_MODE_LABEL[bench.mode]}.
           </p>
           {problems.length ? (
             <ul class="problems" role="alert" data-testid="trial-problems">
@@ -173,15 +210,34 @@ export function BlindTrial() {
           ) : null}
         </div>
       ) : !isDone(trial) ? (
-        <Round trial={trial} playing={bench.playing} onHear={hear} onAnswer={decide} onPlay={() => (bench.playing ? audio.pause() : void audio.play())} onStop={() => (audio.pause(), setTrial({ ...trial, rounds: trial.rounds.slice(0, trial.current), current: trial.current }))} />
+        <Round
+          trial={trial}
+          playing={bench.playing}
+          onHear={hear}
+          onAnswer={decide}
+          onPlay={() => (bench.playing ? audio.pause() : void audio.play())}
+          onStop={() => (audio.pause(), setTrial({ ...trial, rounds: trial.rounds.slice(0, trial.current), current: trial.current }))}
+        />
       ) : (
-        <Result trial={trial} onExportCsv={() => downloadText(toCsv(trial), `${stem}.csv`, 'text/csv')} onExportJson={() => downloadText(toJson(trial), `${stem}.json`)} onAgain={() => setTrial(null)} />
+        <Result
+          trial={trial}
+          onExportCsv={() => downloadText(toCsv(trial), `${stem}.csv`, 'text/csv')}
+          onExportJson={() => downloadText(toJson(trial), `${stem}.json`)}
+          onAgain={() => setTrial(null)}
+        />
       )}
     </section>
   );
 }
 
-function Round(p: { trial: Trial; playing: boolean; onHear: (l: TrialLane) => void; onAnswer: (x: Pick) => void; onPlay: () => void; onStop: () => void }) {
+function Round(p: {
+  trial: Trial;
+  playing: boolean;
+  onHear: (l: TrialLane) => void;
+  onAnswer: (x: Pick) => void;
+  onPlay: () => void;
+  onStop: () => void;
+}) {
   const t = p.trial;
   const tl = tally(t);
   return (
@@ -191,7 +247,13 @@ function Round(p: { trial: Trial; playing: boolean; onHear: (l: TrialLane) => vo
       </p>
       <div class="trial-listen" role="group" aria-label="Listen">
         {(['a', 'b', 'x'] as const).map((l) => (
-          <button type="button" class={`trial-lane${t.listening === l ? ' on' : ''}`} aria-pressed={t.listening === l} onClick={() => p.onHear(l)} data-testid={`trial-hear-${l}`}>
+          <button
+            type="button"
+            class={`trial-lane${t.listening === l ? ' on' : ''}`}
+            aria-pressed={t.listening === l}
+            onClick={() => p.onHear(l)}
+            data-testid={`trial-hear-${l}`}
+          >
             <span class="big">{l.toUpperCase()}</span>
             <kbd>{l.toUpperCase()}</kbd>
           </button>
@@ -209,7 +271,8 @@ function Round(p: { trial: Trial; playing: boolean; onHear: (l: TrialLane) => vo
         </button>
       </div>
       <p class="fine">
-        {tl.answered} answered so far; the score is shown at the end. {t.settings.loop ? `Looping ${fixed(t.settings.loop.startS, 1)}–${fixed(t.settings.loop.endS, 1)} s.` : 'Playing the whole track.'}{' '}
+        {tl.answered} answered so far; the score is shown at the end.{' '}
+        {t.settings.loop ? `Looping ${fixed(t.settings.loop.startS, 1)}–${fixed(t.settings.loop.endS, 1)} s.` : 'Playing the whole track.'}{' '}
         <button type="button" class="small ghost" onClick={p.onStop}>
           End the trial here
         </button>
@@ -227,15 +290,15 @@ function Result(p: { trial: Trial; onExportCsv: () => void; onExportJson: () => 
         {resultSentence(tl)}
       </p>
       <table class="figures trial-table">
-        <caption>
-          Each round: {SLOTS.map((s) => `${SLOT_LABEL[s]} was ${t.names[s]}`).join('; ')}
-        </caption>
+        <caption>Each round: {SLOTS.map((s) => `${SLOT_LABEL[s]} was ${t.names[s]}`).join('; ')}</caption>
         <thead>
           <tr>
             <th scope="col">Round</th>
             <th scope="col">X was</th>
             <th scope="col">You said</th>
-            <th scope="col" class="n">Listens A / B / X</th>
+            <th scope="col" class="n">
+              Listens A / B / X
+            </th>
           </tr>
         </thead>
         <tbody>

@@ -27,7 +27,9 @@ function Lossless(p: { slot: Slot }) {
       <input
         type="checkbox"
         checked={lossless}
-        onChange={(e) => dispatch({ type: 'edit', slot: p.slot, path: 'box.ql', value: (e.currentTarget as HTMLInputElement).checked ? null : undefined })}
+        onChange={(e) =>
+          dispatch({ type: 'edit', slot: p.slot, path: 'box.ql', value: (e.currentTarget as HTMLInputElement).checked ? null : undefined })
+        }
       />{' '}
       lossless
     </label>
@@ -43,7 +45,10 @@ function PortSpeed(p: { slot: Slot }) {
   const over = peak.value > PORT_SPEED_LIMIT;
   return (
     <output class={`out${m.stale ? ' stale' : ''}${over ? ' over' : ''}`}>
-      {num(peak.value, 3)} m/s <span class="out-note">at {num(c.freqHz[peak.index], 3)} Hz · limit {PORT_SPEED_LIMIT} m/s{over ? ' — likely audible port noise' : ''}</span>
+      {num(peak.value, 3)} m/s{' '}
+      <span class="out-note">
+        at {num(c.freqHz[peak.index], 3)} Hz · limit {PORT_SPEED_LIMIT} m/s{over ? ' — likely audible port noise' : ''}
+      </span>
     </output>
   );
 }
@@ -61,9 +66,15 @@ function Suggestions(p: { slot: Slot }) {
       <thead>
         <tr>
           <th scope="col">Alignment</th>
-          <th scope="col" class="n">Vb</th>
-          <th scope="col" class="n">fb / fc</th>
-          <th scope="col" class="n">f3</th>
+          <th scope="col" class="n">
+            Vb
+          </th>
+          <th scope="col" class="n">
+            fb / fc
+          </th>
+          <th scope="col" class="n">
+            f3
+          </th>
           <th scope="col">
             <span class="visually-hidden">Apply</span>
           </th>
@@ -89,7 +100,14 @@ function Suggestions(p: { slot: Slot }) {
                     type="button"
                     class="small"
                     aria-label={`Apply ${s.label} to design ${SLOT_LABEL[p.slot]}`}
-                    onClick={() => dispatch({ type: 'replace', slot: p.slot, design: { ...store.get().designs[p.slot], box: structuredClone(s.box) }, reason: `apply ${s.label} to ${SLOT_LABEL[p.slot]}` })}
+                    onClick={() =>
+                      dispatch({
+                        type: 'replace',
+                        slot: p.slot,
+                        design: { ...store.get().designs[p.slot], box: structuredClone(s.box) },
+                        reason: `apply ${s.label} to ${SLOT_LABEL[p.slot]}`,
+                      })
+                    }
                   >
                     Apply
                   </button>
@@ -124,11 +142,45 @@ export function Cabinet() {
   const radiatorOnly = (slot: Slot, f: () => preact.VNode) => (state.designs[slot].box.type === 'passive-radiator' ? f() : null);
   return (
     <>
-      <Sheet id="cabinet" title="Cabinet" intro="The enclosure of each design. Volumes are net internal volumes; the port length shown is the physical length of one port for the tuning asked.">
+      <Sheet
+        id="cabinet"
+        title="Cabinet"
+        intro="The enclosure of each design. Volumes are net internal volumes; the port length shown is the physical length of one port for the tuning asked."
+      >
         <Group title="Enclosure">
-          <Row label="Type" cell={(s) => <Choice<BoxType> slot={s} path="box.type" label="Enclosure type" value={state.designs[s].box.type} options={BOX_TYPES} onChange={(t) => setType(s, t)} />} />
-          <Row label="Net volume" symbol="Vb" cell={(s) => <Num slot={s} path="box.vb_l" label="Net volume Vb" unit="L" step={0.5} model={(y) => y.box.vbNet * K.litres} slider={{ min: 2, max: 200, log: true }} />} />
-          <Row label="Acoustic volume" hint="with fill" cell={(s) => <DerivedOut slot={s} pick={(m) => m.system!.box.vb * K.litres} unit="L" />} />
+          <Row
+            label="Type"
+            cell={(s) => (
+              <Choice<BoxType>
+                slot={s}
+                path="box.type"
+                label="Enclosure type"
+                value={state.designs[s].box.type}
+                options={BOX_TYPES}
+                onChange={(t) => setType(s, t)}
+              />
+            )}
+          />
+          <Row
+            label="Net volume"
+            symbol="Vb"
+            cell={(s) => (
+              <Num
+                slot={s}
+                path="box.vb_l"
+                label="Net volume Vb"
+                unit="L"
+                step={0.5}
+                model={(y) => y.box.vbNet * K.litres}
+                slider={{ min: 2, max: 200, log: true }}
+              />
+            )}
+          />
+          <Row
+            label="Acoustic volume"
+            hint="with fill"
+            cell={(s) => <DerivedOut slot={s} pick={(m) => m.system!.box.vb * K.litres} unit="L" />}
+          />
           <Row
             label="Box losses"
             symbol="QL"
@@ -156,19 +208,47 @@ export function Cabinet() {
             <Row
               label="Fill"
               hint="0 none … 1 densely filled"
-              cell={(s) => (state.designs[s].box.type === 'sealed' ? <Num slot={s} path="box.fill" label="Fill" step={0.05} min={0} max={1} /> : null)}
+              cell={(s) =>
+                state.designs[s].box.type === 'sealed' ? <Num slot={s} path="box.fill" label="Fill" step={0.05} min={0} max={1} /> : null
+              }
             />
           ) : null}
         </Group>
         {anySealed ? (
           <Group title="Closed-box result">
-            <Row label="System resonance" symbol="fc" cell={(s) => (state.designs[s].box.type === 'sealed' ? <DerivedOut slot={s} pick={(m) => m.analysis?.figures.fcHz} unit="Hz" /> : null)} />
-            <Row label="System Q" symbol="Qtc" cell={(s) => (state.designs[s].box.type === 'sealed' ? <DerivedOut slot={s} pick={(m) => m.analysis?.figures.qtc} /> : null)} />
+            <Row
+              label="System resonance"
+              symbol="fc"
+              cell={(s) =>
+                state.designs[s].box.type === 'sealed' ? <DerivedOut slot={s} pick={(m) => m.analysis?.figures.fcHz} unit="Hz" /> : null
+              }
+            />
+            <Row
+              label="System Q"
+              symbol="Qtc"
+              cell={(s) => (state.designs[s].box.type === 'sealed' ? <DerivedOut slot={s} pick={(m) => m.analysis?.figures.qtc} /> : null)}
+            />
           </Group>
         ) : null}
         {anyVented ? (
           <Group title="Port">
-            <Row label="Tuning" symbol="fb" cell={(s) => ventedOnly(s, () => <Num slot={s} path="box.fb_hz" label="Tuning fb" unit="Hz" step={0.5} model={(y) => ('fb' in y.box ? y.box.fb : null)} slider={{ min: 15, max: 120, log: true }} />)} />
+            <Row
+              label="Tuning"
+              symbol="fb"
+              cell={(s) =>
+                ventedOnly(s, () => (
+                  <Num
+                    slot={s}
+                    path="box.fb_hz"
+                    label="Tuning fb"
+                    unit="Hz"
+                    step={0.5}
+                    model={(y) => ('fb' in y.box ? y.box.fb : null)}
+                    slider={{ min: 15, max: 120, log: true }}
+                  />
+                ))
+              }
+            />
             <Row
               label="Port shape"
               cell={(s) =>
@@ -187,17 +267,36 @@ export function Cabinet() {
                 ))
               }
             />
-            <Row label="Port count" cell={(s) => ventedOnly(s, () => <Num slot={s} path="box.ports.0.count" label="Port count" step={1} min={1} placeholder="1" />)} />
+            <Row
+              label="Port count"
+              cell={(s) =>
+                ventedOnly(s, () => <Num slot={s} path="box.ports.0.count" label="Port count" step={1} min={1} placeholder="1" />)
+              }
+            />
             <Row
               label="Port size"
               hint="inner"
               cell={(s) =>
                 ventedOnly(s, (_b, port) =>
                   portShape(port) === 'round' ? (
-                    <Num slot={s} path="box.ports.0.diameter_cm" label="Port diameter" unit="cm ⌀" step={0.1} alsoPaths={['box.ports', 'box.ports.0']} />
+                    <Num
+                      slot={s}
+                      path="box.ports.0.diameter_cm"
+                      label="Port diameter"
+                      unit="cm ⌀"
+                      step={0.1}
+                      alsoPaths={['box.ports', 'box.ports.0']}
+                    />
                   ) : (
                     <div class="pair">
-                      <Num slot={s} path="box.ports.0.width_cm" label="Slot width" unit="cm wide" step={0.1} alsoPaths={['box.ports', 'box.ports.0']} />
+                      <Num
+                        slot={s}
+                        path="box.ports.0.width_cm"
+                        label="Slot width"
+                        unit="cm wide"
+                        step={0.1}
+                        alsoPaths={['box.ports', 'box.ports.0']}
+                      />
                       <Num slot={s} path="box.ports.0.height_cm" label="Slot height" unit="cm high" step={0.1} />
                     </div>
                   ),
@@ -222,29 +321,83 @@ export function Cabinet() {
                 ))
               }
             />
-            <Row label="Port length" hint="physical, one port" cell={(s) => ventedOnly(s, () => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.portLengthCm} unit="cm" />)} />
+            <Row
+              label="Port length"
+              hint="physical, one port"
+              cell={(s) => ventedOnly(s, () => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.portLengthCm} unit="cm" />)}
+            />
             <Row label="Port air speed" hint="peak, at the planned level" cell={(s) => ventedOnly(s, () => <PortSpeed slot={s} />)} />
           </Group>
         ) : null}
         {anyRadiator ? (
           <Group title="Passive radiator">
-            <Row label="Radiator area" symbol="Sp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.sd_cm2" label="Radiator area" unit="cm²" step={1} alsoPaths={['box.radiator']} />)} />
-            <Row label="Moving mass" symbol="Mmp" hint="with added mass" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.mmp_g" label="Radiator moving mass" unit="g" step={1} />)} />
-            <Row label="Compliance" symbol="Cmp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.cmp_mm_per_n" label="Radiator compliance" unit="mm/N" step={0.01} />)} />
-            <Row label="Mechanical Q" symbol="Qmp" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.qmp" label="Radiator mechanical Q" step={0.5} />)} />
-            <Row label="Linear excursion" symbol="Xmax" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.xmax_mm" label="Radiator Xmax" unit="mm" step={0.1} />)} />
-            <Row label="Radiator count" cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.count" label="Radiator count" step={1} min={1} placeholder="1" />)} />
-            <Row label="Tuning" symbol="fb" hint="derived" cell={(s) => radiatorOnly(s, () => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.fbHz} unit="Hz" />)} />
-            <Row label="Free-air resonance" symbol="fp" hint="the notch" cell={(s) => radiatorOnly(s, () => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.fpHz} unit="Hz" />)} />
+            <Row
+              label="Radiator area"
+              symbol="Sp"
+              cell={(s) =>
+                radiatorOnly(s, () => (
+                  <Num slot={s} path="box.radiator.sd_cm2" label="Radiator area" unit="cm²" step={1} alsoPaths={['box.radiator']} />
+                ))
+              }
+            />
+            <Row
+              label="Moving mass"
+              symbol="Mmp"
+              hint="with added mass"
+              cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.mmp_g" label="Radiator moving mass" unit="g" step={1} />)}
+            />
+            <Row
+              label="Compliance"
+              symbol="Cmp"
+              cell={(s) =>
+                radiatorOnly(s, () => <Num slot={s} path="box.radiator.cmp_mm_per_n" label="Radiator compliance" unit="mm/N" step={0.01} />)
+              }
+            />
+            <Row
+              label="Mechanical Q"
+              symbol="Qmp"
+              cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.qmp" label="Radiator mechanical Q" step={0.5} />)}
+            />
+            <Row
+              label="Linear excursion"
+              symbol="Xmax"
+              cell={(s) => radiatorOnly(s, () => <Num slot={s} path="box.radiator.xmax_mm" label="Radiator Xmax" unit="mm" step={0.1} />)}
+            />
+            <Row
+              label="Radiator count"
+              cell={(s) =>
+                radiatorOnly(s, () => <Num slot={s} path="box.radiator.count" label="Radiator count" step={1} min={1} placeholder="1" />)
+              }
+            />
+            <Row
+              label="Tuning"
+              symbol="fb"
+              hint="derived"
+              cell={(s) => radiatorOnly(s, () => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.fbHz} unit="Hz" />)}
+            />
+            <Row
+              label="Free-air resonance"
+              symbol="fp"
+              hint="the notch"
+              cell={(s) => radiatorOnly(s, () => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.fpHz} unit="Hz" />)}
+            />
           </Group>
         ) : null}
         <Group title="Result">
-          <Row label="Low-frequency limit" symbol="f3" hint="−3 dB" cell={(s) => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.f3Hz} unit="Hz" testId={`f3-${s}`} />} />
+          <Row
+            label="Low-frequency limit"
+            symbol="f3"
+            hint="−3 dB"
+            cell={(s) => <DerivedOut slot={s} pick={(m) => m.analysis?.figures.f3Hz} unit="Hz" testId={`f3-${s}`} />}
+          />
         </Group>
       </Sheet>
       <section class="sheet" aria-labelledby="suggest-h">
         <h2 id="suggest-h">Alignment suggestions</h2>
-        <p class="sheet-intro">Published alignments for each design's driver, with a port sized for the air-speed limit. Apply replaces that design's enclosure; Undo brings it back.</p>
+        <p class="sheet-intro">
+          Published alignments for each design's driver, with a port sized for the air-speed limit. Apply replaces that design's enclosure;
+          Undo brings it back.
+        </p>
         <div class="two-col">
           {SLOTS.map((s) => (
             <div class={`col col-${s}`}>
@@ -260,7 +413,13 @@ export function Cabinet() {
   );
 }
 
-function DerivedOut(p: { slot: Slot; pick: (m: ReturnType<typeof useModel>) => number | null | undefined; unit?: string; digits?: number; testId?: string }) {
+function DerivedOut(p: {
+  slot: Slot;
+  pick: (m: ReturnType<typeof useModel>) => number | null | undefined;
+  unit?: string;
+  digits?: number;
+  testId?: string;
+}) {
   const m = useModel(p.slot);
   return (
     <span data-testid={p.testId}>

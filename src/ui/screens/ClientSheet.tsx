@@ -14,7 +14,12 @@ import '../sheet/sheet.css';
 
 const SHEET_CHARTS = ['spl', 'excursion', 'port-speed', 'max-spl'] as const;
 const BOX_NAME = { sealed: 'Sealed', vented: 'Vented (ported)', 'passive-radiator': 'Passive radiator' } as const;
-const SPACE = { full: 'free space', half: 'against a wall (half space)', quarter: 'in an edge (quarter space)', eighth: 'in a corner (eighth space)' } as const;
+const SPACE = {
+  full: 'free space',
+  half: 'against a wall (half space)',
+  quarter: 'in an edge (quarter space)',
+  eighth: 'in a corner (eighth space)',
+} as const;
 export const DEFAULT_SHEET_TITLE = 'Loudspeaker design comparison';
 
 interface ParamRow {
@@ -22,12 +27,19 @@ interface ParamRow {
   value: (a: Analysis) => string | null;
 }
 
-const u = (v: number | null | undefined, digits: number, unit: string) => (v === null || v === undefined ? null : `${num(v, digits)} ${unit}`);
+const u = (v: number | null | undefined, digits: number, unit: string) =>
+  v === null || v === undefined ? null : `${num(v, digits)} ${unit}`;
 
 const PARAMS: ParamRow[] = [
   { label: 'Enclosure', value: (a) => `${BOX_NAME[a.system.box.type]}, ${num(a.system.box.vbNet * K.litres, 3)} l net` },
   { label: 'Tuning fb', value: (a) => (a.system.box.type === 'sealed' ? null : u(a.system.box.fb, 3, 'Hz')) },
-  { label: 'Port', value: (a) => (a.system.box.type === 'vented' ? `${a.system.box.portCount} × ${num(a.system.box.portRadius * 2 * K.cm, 3)} cm equivalent diameter, ${num(a.figures.portLengthCm, 3)} cm long` : null) },
+  {
+    label: 'Port',
+    value: (a) =>
+      a.system.box.type === 'vented'
+        ? `${a.system.box.portCount} × ${num(a.system.box.portRadius * 2 * K.cm, 3)} cm equivalent diameter, ${num(a.figures.portLengthCm, 3)} cm long`
+        : null,
+  },
   { label: 'Driver fs / Qts', value: (a) => `${num(a.system.driver.fs, 3)} Hz / ${num(a.system.driver.qts, 3)}` },
   { label: 'Vas', value: (a) => u(a.system.driver.vas * K.litres, 3, 'l') },
   { label: 'Sd', value: (a) => u(a.system.driver.sd * K.cm2, 3, 'cm²') },
@@ -39,7 +51,9 @@ const PARAMS: ParamRow[] = [
     label: 'Planned level',
     value: (a) => {
       const lv = a.system.listening.level;
-      return lv.mode === 'spl' ? `${num(lv.splDb, 3)} dB(C) long-term average at the seat` : `${num(lv.voltsFs, 3)} V peak at digital full scale`;
+      return lv.mode === 'spl'
+        ? `${num(lv.splDb, 3)} dB(C) long-term average at the seat`
+        : `${num(lv.voltsFs, 3)} V peak at digital full scale`;
     },
   },
 ];
@@ -61,15 +75,31 @@ export function ClientSheet() {
     <section class="client" aria-labelledby="client-h">
       <div class="client-controls no-print">
         <h2 id="client-h">Client sheet</h2>
-        <p class="sheet-intro">A one-page summary for your client: edit the title and notes here, then print it or save it as PDF from the print dialog. The sheet below is what prints.</p>
+        <p class="sheet-intro">
+          A one-page summary for your client: edit the title and notes here, then print it or save it as PDF from the print dialog. The
+          sheet below is what prints.
+        </p>
         <div class="client-fields">
           <label class="stack">
             <span>Title</span>
-            <input type="text" value={title} placeholder={DEFAULT_SHEET_TITLE} maxLength={120} data-testid="sheet-title" onInput={(e) => dispatch({ type: 'settings', patch: { sheetTitle: (e.currentTarget as HTMLInputElement).value } })} />
+            <input
+              type="text"
+              value={title}
+              placeholder={DEFAULT_SHEET_TITLE}
+              maxLength={120}
+              data-testid="sheet-title"
+              onInput={(e) => dispatch({ type: 'settings', patch: { sheetTitle: (e.currentTarget as HTMLInputElement).value } })}
+            />
           </label>
           <label class="stack">
             <span>Your notes for the client</span>
-            <textarea rows={4} maxLength={2000} value={notes} data-testid="sheet-notes" onInput={(e) => dispatch({ type: 'settings', patch: { sheetNotes: (e.currentTarget as HTMLTextAreaElement).value } })} />
+            <textarea
+              rows={4}
+              maxLength={2000}
+              value={notes}
+              data-testid="sheet-notes"
+              onInput={(e) => dispatch({ type: 'settings', patch: { sheetNotes: (e.currentTarget as HTMLTextAreaElement).value } })}
+            />
           </label>
           <div class="client-actions">
             <button type="button" class="primary" onClick={() => window.print()} data-testid="sheet-print">
@@ -85,7 +115,8 @@ export function ClientSheet() {
           <div>
             <h1 data-testid="paper-title">{title.trim() || DEFAULT_SHEET_TITLE}</h1>
             <p class="paper-sub">
-              Two designs compared: {SLOTS.map((s, i) => (
+              Two designs compared:{' '}
+              {SLOTS.map((s, i) => (
                 <span>
                   {i ? ' and ' : ''}
                   <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {state.designs[s].name}
@@ -93,12 +124,18 @@ export function ClientSheet() {
               ))}
             </p>
           </div>
-          <p class="paper-date" data-testid="paper-date">{today()}</p>
+          <p class="paper-date" data-testid="paper-date">
+            {today()}
+          </p>
         </header>
 
         {SLOTS.some((s) => derived[s].stale) ? (
           <p class="paper-warn" role="note">
-            Design {SLOTS.filter((s) => derived[s].stale).map((s) => SLOT_LABEL[s]).join(' and ')} has errors being edited: this sheet shows its last valid version.
+            Design{' '}
+            {SLOTS.filter((s) => derived[s].stale)
+              .map((s) => SLOT_LABEL[s])
+              .join(' and ')}{' '}
+            has errors being edited: this sheet shows its last valid version.
           </p>
         ) : null}
         <section class="paper-section">
@@ -139,15 +176,14 @@ export function ClientSheet() {
                   <td>{driverName(s) ?? '—'}</td>
                 ))}
               </tr>
-              {PARAMS.filter((r) => SLOTS.some((s) => an[s] && r.value(an[s]!) !== null))
-                .map((r) => (
-                  <tr>
-                    <th scope="row">{r.label}</th>
-                    {SLOTS.map((s) => (
-                      <td>{(an[s] && r.value(an[s]!)) ?? '—'}</td>
-                    ))}
-                  </tr>
-                ))}
+              {PARAMS.filter((r) => SLOTS.some((s) => an[s] && r.value(an[s]!) !== null)).map((r) => (
+                <tr>
+                  <th scope="row">{r.label}</th>
+                  {SLOTS.map((s) => (
+                    <td>{(an[s] && r.value(an[s]!)) ?? '—'}</td>
+                  ))}
+                </tr>
+              ))}
             </tbody>
           </table>
           <FigureTable />
@@ -155,7 +191,10 @@ export function ClientSheet() {
 
         <section class="paper-section paper-curves">
           <h2>Curves</h2>
-          <p class="paper-fine">Model estimates. SPL at the seat for 2.83 V; excursion and port air speed for a sine at each design's planned level. A deep teal, B amber, the ideal reference grey dashed, limits red.</p>
+          <p class="paper-fine">
+            Model estimates. SPL at the seat for 2.83 V; excursion and port air speed for a sine at each design's planned level. A deep
+            teal, B amber, the ideal reference grey dashed, limits red.
+          </p>
           <div class="paper-charts">
             {SHEET_CHARTS.map((id) => charts.find((c) => c.id === id)!).map((c) => (
               <figure class="paper-chart">
@@ -188,7 +227,8 @@ export function ClientSheet() {
           </ul>
         </section>
         <footer class="paper-foot">
-          Prepared with preheard {__APP_VERSION__} on {today()}. All figures are estimates from a model of the driver and box, not measurements.
+          Prepared with preheard {__APP_VERSION__} on {today()}. All figures are estimates from a model of the driver and box, not
+          measurements.
         </footer>
       </article>
     </section>

@@ -26,7 +26,9 @@ function ValuesTable({ spec }: { spec: ChartSpec }) {
       </details>
     );
   }
-  const cols = spec.series.filter((s) => s.values && (s.role === 'a' || s.role === 'b' || s.role === 'reference' || s.role.endsWith('-aux')));
+  const cols = spec.series.filter(
+    (s) => s.values && (s.role === 'a' || s.role === 'b' || s.role === 'reference' || s.role.endsWith('-aux')),
+  );
   const f = spec.freqHz;
   const idx = TABLE_HZ.filter((hz) => f.length && hz >= f[0] && hz <= f[f.length - 1]).map((hz) => nearestIndex(f, hz));
   return (
@@ -88,7 +90,8 @@ export function Curves({ theme }: { theme: string }) {
       <div class="curves-head">
         <h2 id="curves-h">Curves</h2>
         <p class="sheet-intro">
-          Small-signal model. SPL, impedance and group delay at 2.83 V; excursion and port air speed at each design's planned level. Hover a chart for readouts; the charts follow one cursor.
+          Small-signal model. SPL, impedance and group delay at 2.83 V; excursion and port air speed at each design's planned level. Hover a
+          chart for readouts; the charts follow one cursor.
         </p>
       </div>
       <div class="curves-layout">

@@ -35,11 +35,40 @@ export function DriveSeat() {
     dispatch({ type: 'edit', slot: s, path: 'listening.level', value: next });
   };
   return (
-    <Sheet id="drive" title="Drive & seat" intro="What drives each design and where it is heard. The planned level sets the drive used for the excursion and port-speed curves and for listening.">
+    <Sheet
+      id="drive"
+      title="Drive & seat"
+      intro="What drives each design and where it is heard. The planned level sets the drive used for the excursion and port-speed curves and for listening."
+    >
       <Group title="Amplifier">
-        <Row label="Rated power" hint="into the rated load" cell={(s) => <Num slot={s} path="amplifier.power_w" label="Amplifier rated power" unit="W" step={1} model={(y) => y.amplifier.power} />} />
-        <Row label="Rated load" cell={(s) => <Num slot={s} path="amplifier.load_ohm" label="Amplifier rated load" unit="Ω" step={1} model={(y) => y.amplifier.load} />} />
-        <Row label="Series resistance" hint="output plus cable" cell={(s) => <Num slot={s} path="amplifier.rs_ohm" label="Series resistance" unit="Ω" step={0.01} model={(y) => y.amplifier.rs} emptyTag="default" />} />
+        <Row
+          label="Rated power"
+          hint="into the rated load"
+          cell={(s) => (
+            <Num slot={s} path="amplifier.power_w" label="Amplifier rated power" unit="W" step={1} model={(y) => y.amplifier.power} />
+          )}
+        />
+        <Row
+          label="Rated load"
+          cell={(s) => (
+            <Num slot={s} path="amplifier.load_ohm" label="Amplifier rated load" unit="Ω" step={1} model={(y) => y.amplifier.load} />
+          )}
+        />
+        <Row
+          label="Series resistance"
+          hint="output plus cable"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="amplifier.rs_ohm"
+              label="Series resistance"
+              unit="Ω"
+              step={0.01}
+              model={(y) => y.amplifier.rs}
+              emptyTag="default"
+            />
+          )}
+        />
         <Row label="Peak output" hint="rail, derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.amplifier.vPeak} unit="V" />} />
         <Row
           label="Clipping"
@@ -72,11 +101,56 @@ export function DriveSeat() {
             />
           )}
         />
-        <Row label="Crossover frequency" symbol="fx" cell={(s) => (state.designs[s].crossover.type === 'none' ? null : <Num slot={s} path="crossover.fx_hz" label="Crossover frequency" unit="Hz" step={10} model={(y) => y.crossover.fx} emptyTag="default" />)} />
-        <Row label="Subsonic high-pass" hint="12 dB/octave before the amplifier; 0 = none" cell={(s) => <Num slot={s} path="crossover.highpass_hz" label="Subsonic high-pass" unit="Hz" step={1} min={0} model={(y) => y.crossover.highpassHz ?? 0} emptyTag="default" />} />
+        <Row
+          label="Crossover frequency"
+          symbol="fx"
+          cell={(s) =>
+            state.designs[s].crossover.type === 'none' ? null : (
+              <Num
+                slot={s}
+                path="crossover.fx_hz"
+                label="Crossover frequency"
+                unit="Hz"
+                step={10}
+                model={(y) => y.crossover.fx}
+                emptyTag="default"
+              />
+            )
+          }
+        />
+        <Row
+          label="Subsonic high-pass"
+          hint="12 dB/octave before the amplifier; 0 = none"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="crossover.highpass_hz"
+              label="Subsonic high-pass"
+              unit="Hz"
+              step={1}
+              min={0}
+              model={(y) => y.crossover.highpassHz ?? 0}
+              emptyTag="default"
+            />
+          )}
+        />
       </Group>
       <Group title="Listening seat">
-        <Row label="Distance" hint="speaker to seat" cell={(s) => <Num slot={s} path="listening.distance_m" label="Listening distance" unit="m" step={0.1} model={(y) => y.listening.distance} slider={{ min: 0.5, max: 20, log: true }} />} />
+        <Row
+          label="Distance"
+          hint="speaker to seat"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="listening.distance_m"
+              label="Listening distance"
+              unit="m"
+              step={0.1}
+              model={(y) => y.listening.distance}
+              slider={{ min: 0.5, max: 20, log: true }}
+            />
+          )}
+        />
         <Row
           label="Placement"
           cell={(s) => (
@@ -106,8 +180,38 @@ export function DriveSeat() {
             />
           )}
         />
-        <Row label="Room gain corner" hint="0 = none; small rooms, cars" cell={(s) => <Num slot={s} path="listening.room_gain_hz" label="Room gain corner" unit="Hz" step={1} min={0} model={(y) => y.listening.roomGainHz} emptyTag="default" />} />
-        <Row label="Baffle width" hint="free-standing cabinet: 6 dB step near 115/width; 0 = none" cell={(s) => <Num slot={s} path="listening.baffle_width_cm" label="Baffle width" unit="cm" step={1} min={0} model={(y) => (y.listening.baffleWidth ?? 0) * 100} emptyTag="default" />} />
+        <Row
+          label="Room gain corner"
+          hint="0 = none; small rooms, cars"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="listening.room_gain_hz"
+              label="Room gain corner"
+              unit="Hz"
+              step={1}
+              min={0}
+              model={(y) => y.listening.roomGainHz}
+              emptyTag="default"
+            />
+          )}
+        />
+        <Row
+          label="Baffle width"
+          hint="free-standing cabinet: 6 dB step near 115/width; 0 = none"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="listening.baffle_width_cm"
+              label="Baffle width"
+              unit="cm"
+              step={1}
+              min={0}
+              model={(y) => (y.listening.baffleWidth ?? 0) * 100}
+              emptyTag="default"
+            />
+          )}
+        />
       </Group>
       <Group title="Planned level">
         <Row
@@ -130,19 +234,62 @@ export function DriveSeat() {
           label="Level"
           cell={(s) =>
             (level(s)?.mode ?? 'spl') === 'spl' ? (
-              <Num slot={s} path="listening.level.spl_db" label="Planned SPL at the seat" unit="dB(C)" step={1} model={(_y, a) => a?.figures.plannedSplDb ?? null} slider={{ min: 60, max: 120 }} />
+              <Num
+                slot={s}
+                path="listening.level.spl_db"
+                label="Planned SPL at the seat"
+                unit="dB(C)"
+                step={1}
+                model={(_y, a) => a?.figures.plannedSplDb ?? null}
+                slider={{ min: 60, max: 120 }}
+              />
             ) : (
               <Num slot={s} path="listening.level.volts_fs" label="Amplifier peak volts at full scale" unit="V peak" step={0.5} />
             )
           }
         />
-        <Row label="Drive for that level" hint="amplifier, rms, derived" cell={(s) => <Derived slot={s} pick={(m) => m.analysis?.figures.plannedVoltsRms} unit="V rms" />} />
+        <Row
+          label="Drive for that level"
+          hint="amplifier, rms, derived"
+          cell={(s) => <Derived slot={s} pick={(m) => m.analysis?.figures.plannedVoltsRms} unit="V rms" />}
+        />
       </Group>
       <Group title="Air">
-        <Row label="Temperature" cell={(s) => <Num slot={s} path="air.temperature_c" label="Air temperature" unit="°C" step={1} model={(y) => y.air.temperatureC} emptyTag="default" />} />
-        <Row label="Pressure" cell={(s) => <Num slot={s} path="air.pressure_kpa" label="Air pressure" unit="kPa" step={0.1} model={(y) => y.air.pressurePa / 1000} modelDigits={4} emptyTag="default" />} />
+        <Row
+          label="Temperature"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="air.temperature_c"
+              label="Air temperature"
+              unit="°C"
+              step={1}
+              model={(y) => y.air.temperatureC}
+              emptyTag="default"
+            />
+          )}
+        />
+        <Row
+          label="Pressure"
+          cell={(s) => (
+            <Num
+              slot={s}
+              path="air.pressure_kpa"
+              label="Air pressure"
+              unit="kPa"
+              step={0.1}
+              model={(y) => y.air.pressurePa / 1000}
+              modelDigits={4}
+              emptyTag="default"
+            />
+          )}
+        />
         <Row label="Speed of sound" hint="derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.c} unit="m/s" digits={4} />} />
-        <Row label="Air density" hint="derived" cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.rho} unit="kg/m³" digits={4} />} />
+        <Row
+          label="Air density"
+          hint="derived"
+          cell={(s) => <Derived slot={s} pick={(m) => m.system!.air.rho} unit="kg/m³" digits={4} />}
+        />
       </Group>
     </Sheet>
   );

@@ -38,9 +38,9 @@ export function HeadroomProbe() {
     <section class="sheet probe" aria-labelledby="probe-h">
       <h2 id="probe-h">Headroom probe</h2>
       <p class="sheet-intro">
-        For each design, the loudest level at which it plays this track with no stress event at all — cone travel, the suspension limit, coil heat, port air speed,
-        amplifier clipping, power compression or distortion — and the limit that arrives first just above it. Each level is a full render of the track; the search
-        narrows to 0.25 dB.
+        For each design, the loudest level at which it plays this track with no stress event at all — cone travel, the suspension limit,
+        coil heat, port air speed, amplifier clipping, power compression or distortion — and the limit that arrives first just above it.
+        Each level is a full render of the track; the search narrows to 0.25 dB.
       </p>
       <div class="probe-bar">
         <span class="probe-track" data-testid="probe-track" data-rate={bench.track?.sampleRate ?? DEMO_RATE}>
@@ -62,7 +62,10 @@ export function HeadroomProbe() {
         <div class="probe-progress" role="status" aria-live="polite">
           <progress max={100} value={pct} data-testid="probe-progress" />
           <span>
-            {SLOTS.map((s) => `${SLOT_LABEL[s]}: render ${Math.min(probe.slots[s].renders + 1, probe.slots[s].estimate)} of about ${probe.slots[s].estimate}`).join(' · ')}
+            {SLOTS.map(
+              (s) =>
+                `${SLOT_LABEL[s]}: render ${Math.min(probe.slots[s].renders + 1, probe.slots[s].estimate)} of about ${probe.slots[s].estimate}`,
+            ).join(' · ')}
           </span>
         </div>
       ) : null}
@@ -76,14 +79,25 @@ export function HeadroomProbe() {
       ) : null}
       {probe.status === 'done' || probe.status === 'error' ? (
         <>
-          {stale ? <p class="banner-inline">The designs or the track changed since this search: search again for current numbers.</p> : null}
+          {stale ? (
+            <p class="banner-inline">The designs or the track changed since this search: search again for current numbers.</p>
+          ) : null}
           <table
             class="figures probe-table"
             data-testid="probe-results"
-            data-exact={JSON.stringify(SLOTS.map((s) => {
-              const r = probe.slots[s].result;
-              return r && { clean_volts: r.clean_volts, clean_spl_db: r.clean_spl_db, first_limit: r.first_limit, first_limit_s: r.first_limit_s };
-            }))}
+            data-exact={JSON.stringify(
+              SLOTS.map((s) => {
+                const r = probe.slots[s].result;
+                return (
+                  r && {
+                    clean_volts: r.clean_volts,
+                    clean_spl_db: r.clean_spl_db,
+                    first_limit: r.first_limit,
+                    first_limit_s: r.first_limit_s,
+                  }
+                );
+              }),
+            )}
           >
             <caption>
               On “{probe.track?.name}”, searched in {fixed(probe.elapsedMs / 1000, 1)} s
@@ -99,8 +113,16 @@ export function HeadroomProbe() {
               </tr>
             </thead>
             <tbody>
-              <ResultRow label="Clean up to, at the seat (Leq, C-weighted)" id="spl" cell={(s) => withUnit(probe.slots[s].result?.clean_spl_db, 1, 'dB SPL')} />
-              <ResultRow label="Amplifier drive (peak volts at digital full scale)" id="volts" cell={(s) => withUnit(probe.slots[s].result?.clean_volts, 1, 'V')} />
+              <ResultRow
+                label="Clean up to, at the seat (Leq, C-weighted)"
+                id="spl"
+                cell={(s) => withUnit(probe.slots[s].result?.clean_spl_db, 1, 'dB SPL')}
+              />
+              <ResultRow
+                label="Amplifier drive (peak volts at digital full scale)"
+                id="volts"
+                cell={(s) => withUnit(probe.slots[s].result?.clean_volts, 1, 'V')}
+              />
               <ResultRow
                 label="Against the planned level"
                 id="margin"
@@ -132,8 +154,8 @@ export function HeadroomProbe() {
         </>
       ) : null}
       <p class="fine">
-        A model estimate: real drivers can fail earlier than modelled, so treat these levels as limits, not targets. The clean level is the track's long-term average at
-        the seat; its peaks are far higher.
+        A model estimate: real drivers can fail earlier than modelled, so treat these levels as limits, not targets. The clean level is the
+        track's long-term average at the seat; its peaks are far higher.
       </p>
     </section>
   );

@@ -20,7 +20,9 @@ function plannedText(d: DesignDoc): string {
   const lv = l.level;
   const space = { full: 'free field', half: 'half space', quarter: 'quarter space', eighth: 'eighth space' }[l.space];
   if (!lv) return `default level, ${num(l.distance_m, 3)} m, ${space}`;
-  return lv.mode === 'spl' ? `${num(lv.spl_db, 3)} dB(C) Leq at ${num(l.distance_m, 3)} m, ${space}` : `${num(lv.volts_fs, 3)} V peak at full scale`;
+  return lv.mode === 'spl'
+    ? `${num(lv.spl_db, 3)} dB(C) Leq at ${num(l.distance_m, 3)} m, ${space}`
+    : `${num(lv.volts_fs, 3)} V peak at full scale`;
 }
 
 function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
@@ -52,14 +54,23 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
             <b>{t.name}</b>
             <span class="fine">
               {clock(t.frames / t.sampleRate)} · {(t.sampleRate / 1000).toFixed(1)} kHz · {t.channels === 1 ? 'mono' : 'stereo'}
-              {t.loudnessLufs !== undefined && Number.isFinite(t.loudnessLufs) ? <span title="Integrated loudness of the file itself (ITU-R BS.1770)"> · {t.loudnessLufs.toFixed(1).replace("-", "\u2212")} LUFS</span> : null}
+              {t.loudnessLufs !== undefined && Number.isFinite(t.loudnessLufs) ? (
+                <span title="Integrated loudness of the file itself (ITU-R BS.1770)">
+                  {' '}
+                  · {t.loudnessLufs.toFixed(1).replace('-', '\u2212')} LUFS
+                </span>
+              ) : null}
               {t.droppedChannels ? ` (first 2 of ${t.channels + t.droppedChannels} channels)` : ''}
             </span>
           </p>
         ) : (
           <p class="fine">{p.state.status === 'starting' ? 'Starting the audio engine…' : 'No track yet.'}</p>
         )}
-        {p.state.loading ? <p class="fine" aria-live="polite">{p.state.loading}</p> : null}
+        {p.state.loading ? (
+          <p class="fine" aria-live="polite">
+            {p.state.loading}
+          </p>
+        ) : null}
         {p.state.fileError ? (
           <p class="msg error" role="alert" data-testid="file-error">
             {p.state.fileError}
@@ -99,7 +110,9 @@ function LevelsCard(p: { state: BenchState; docs: Record<DesignSlot, DesignDoc> 
   return (
     <div class="bench-card">
       <h3>Levels</h3>
-      <p class="fine">The planned level sets each design's drive and so its physics; the monitor gain above only sets how loud you listen.</p>
+      <p class="fine">
+        The planned level sets each design's drive and so its physics; the monitor gain above only sets how loud you listen.
+      </p>
       <table class="figures bench-table" data-testid="levels">
         <thead>
           <tr>
@@ -154,7 +167,12 @@ function LevelsCard(p: { state: BenchState; docs: Record<DesignSlot, DesignDoc> 
 
 export function OfflineProgress(p: { bench: BenchAudio; state: BenchState }) {
   const o = p.state.offline;
-  if (o.status !== 'running') return o.message ? <p class="fine" aria-live="polite" data-testid="offline-message">{o.message}</p> : null;
+  if (o.status !== 'running')
+    return o.message ? (
+      <p class="fine" aria-live="polite" data-testid="offline-message">
+        {o.message}
+      </p>
+    ) : null;
   return (
     <div class="progress-row">
       <span class="fine">{o.job === 'export' ? 'Exporting…' : 'Rendering A and B…'}</span>
@@ -180,7 +198,10 @@ function OfflineCard(p: { bench: BenchAudio; state: BenchState }) {
     ? [
         { label: 'Peak excursion', get: (s) => `${num(r[s].summary.peak_excursion_mm, 3)} mm` },
         { label: 'Peak coil temperature', get: (s) => `${num(r[s].summary.peak_coil_temp_c, 3)} °C` },
-        { label: 'Peak port air speed', get: (s) => (r[s].summary.peak_port_speed_m_s === null ? 'no port' : `${num(r[s].summary.peak_port_speed_m_s, 3)} m/s`) },
+        {
+          label: 'Peak port air speed',
+          get: (s) => (r[s].summary.peak_port_speed_m_s === null ? 'no port' : `${num(r[s].summary.peak_port_speed_m_s, 3)} m/s`),
+        },
         { label: 'Most compression', get: (s) => `${num(r[s].summary.max_compression_db, 2)} dB` },
         { label: 'Amplifier clipping', get: (s) => `${num(r[s].summary.amp_clip_s, 3)} s` },
         { label: 'Stress events', get: (s) => String(r[s].summary.events.length) },
@@ -197,9 +218,18 @@ function OfflineCard(p: { bench: BenchAudio; state: BenchState }) {
   return (
     <div class="bench-card offline-card">
       <h3>Offline render</h3>
-      <p class="fine">Renders the whole track through both designs in the background, at their planned levels: every stress event, the traces, and WAV files to keep.</p>
+      <p class="fine">
+        Renders the whole track through both designs in the background, at their planned levels: every stress event, the traces, and WAV
+        files to keep.
+      </p>
       <div class="inline">
-        <button type="button" class="primary" onClick={() => void p.bench.renderOffline()} disabled={!can || busy} data-testid="render-offline">
+        <button
+          type="button"
+          class="primary"
+          onClick={() => void p.bench.renderOffline()}
+          disabled={!can || busy}
+          data-testid="render-offline"
+        >
           {r && !fresh ? 'Render again (designs changed)' : 'Render A and B offline'}
         </button>
       </div>
@@ -233,7 +263,12 @@ function OfflineCard(p: { bench: BenchAudio; state: BenchState }) {
       <div class="export-row">
         <label class="ctl">
           <span>Export</span>
-          <select value={slot} onChange={(e) => setSlot((e.currentTarget as HTMLSelectElement).value as DesignSlot)} aria-label="Design to export" data-testid="export-slot">
+          <select
+            value={slot}
+            onChange={(e) => setSlot((e.currentTarget as HTMLSelectElement).value as DesignSlot)}
+            aria-label="Design to export"
+            data-testid="export-slot"
+          >
             {SLOTS.map((s) => (
               <option value={s}>Design {SLOT_LABEL[s]}</option>
             ))}
@@ -241,7 +276,12 @@ function OfflineCard(p: { bench: BenchAudio; state: BenchState }) {
         </label>
         <label class="ctl">
           <span>as</span>
-          <select value={mode} onChange={(e) => setMode((e.currentTarget as HTMLSelectElement).value as ListenMode)} aria-label="Stream to export" data-testid="export-mode">
+          <select
+            value={mode}
+            onChange={(e) => setMode((e.currentTarget as HTMLSelectElement).value as ListenMode)}
+            aria-label="Stream to export"
+            data-testid="export-mode"
+          >
             {LISTEN_MODES.map((m) => (
               <option value={m}>{LISTEN_MODE_LABEL[m]}</option>
             ))}
@@ -249,7 +289,12 @@ function OfflineCard(p: { bench: BenchAudio; state: BenchState }) {
         </label>
         <label class="ctl">
           <span>in</span>
-          <select value={format} onChange={(e) => setFormat((e.currentTarget as HTMLSelectElement).value as ExportFormat)} aria-label="Sample format" data-testid="export-format">
+          <select
+            value={format}
+            onChange={(e) => setFormat((e.currentTarget as HTMLSelectElement).value as ExportFormat)}
+            aria-label="Sample format"
+            data-testid="export-format"
+          >
             <option value="16">16-bit PCM</option>
             <option value="f32">32-bit float</option>
           </select>
@@ -277,12 +322,14 @@ export function BenchNotices(p: { bench: BenchAudio; state: BenchState }) {
       ) : null}
       {s.designsMissing.length ? (
         <p class="msg warning" role="status">
-          Design {s.designsMissing.map((d) => SLOT_LABEL[d]).join(' and ')} has errors: its last valid version is heard until they are fixed.
+          Design {s.designsMissing.map((d) => SLOT_LABEL[d]).join(' and ')} has errors: its last valid version is heard until they are
+          fixed.
         </p>
       ) : null}
       {s.struggling ? (
         <div class="banner banner-warn" role="alert" data-testid="struggling">
-          This machine is not keeping up with live rendering (engine load {(s.load * 100).toFixed(0)} %{s.lateBlocks ? `, ${s.lateBlocks} late blocks` : ''}): you may hear dropouts that are not in the design.
+          This machine is not keeping up with live rendering (engine load {(s.load * 100).toFixed(0)} %
+          {s.lateBlocks ? `, ${s.lateBlocks} late blocks` : ''}): you may hear dropouts that are not in the design.
           <button type="button" class="small" onClick={() => void p.bench.renderOffline()}>
             Render offline instead
           </button>
@@ -300,7 +347,8 @@ export function ListeningBench(_p: { theme: string }) {
     <section class="sheet bench" aria-labelledby="bench-title" data-testid="bench">
       <h2 id="bench-title">Listening bench</h2>
       <p class="sheet-intro">
-        Hear a track through design A, design B and the ideal flat reference, side by side and sample-synchronous: switching is instant, through a 5 ms crossfade. Keys: space plays, 1 / 2 / 3 pick A, B, reference.
+        Hear a track through design A, design B and the ideal flat reference, side by side and sample-synchronous: switching is instant,
+        through a 5 ms crossfade. Keys: space plays, 1 / 2 / 3 pick A, B, reference.
       </p>
       <BenchNotices bench={bench} state={state} />
       <TrackCard bench={bench} state={state} />

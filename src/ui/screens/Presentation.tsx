@@ -44,7 +44,9 @@ export function Presentation() {
       if (e.key === 'Escape') leave();
       else if (e.key === ' ') bench.playing ? audio.pause() : void audio.play();
       else {
-        const lane = LANES.find((l) => l.key === e.key || l.label.toLowerCase() === e.key.toLowerCase() || (l.id === 'ref' && e.key.toLowerCase() === 'r'));
+        const lane = LANES.find(
+          (l) => l.key === e.key || l.label.toLowerCase() === e.key.toLowerCase() || (l.id === 'ref' && e.key.toLowerCase() === 'r'),
+        );
         if (!lane) return;
         choose(lane.id);
       }
@@ -73,7 +75,13 @@ export function Presentation() {
       </header>
       <div class="present-lanes" role="group" aria-label="What you hear">
         {LANES.map((l) => (
-          <button type="button" class={`present-lane lane-${l.id}${bench.lane === l.id && bench.playing ? ' on' : ''}`} aria-pressed={bench.lane === l.id} onClick={() => choose(l.id)} data-testid={`present-${l.id}`}>
+          <button
+            type="button"
+            class={`present-lane lane-${l.id}${bench.lane === l.id && bench.playing ? ' on' : ''}`}
+            aria-pressed={bench.lane === l.id}
+            onClick={() => choose(l.id)}
+            data-testid={`present-${l.id}`}
+          >
             <span class="present-lane-label">{l.label}</span>
             <span class="present-lane-name">{name(l.id)}</span>
             <kbd>{l.key}</kbd>
@@ -81,7 +89,13 @@ export function Presentation() {
         ))}
       </div>
       <div class="present-transport">
-        <button type="button" class="present-play" onClick={() => (bench.playing ? audio.pause() : void audio.play())} disabled={starting} data-testid="present-play">
+        <button
+          type="button"
+          class="present-play"
+          onClick={() => (bench.playing ? audio.pause() : void audio.play())}
+          disabled={starting}
+          data-testid="present-play"
+        >
           {starting ? 'Starting…' : bench.playing ? 'Pause' : 'Play'}
         </button>
         <span class="present-track">{bench.track ? bench.track.name : 'Demo track (built in)'}</span>

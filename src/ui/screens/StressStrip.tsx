@@ -27,7 +27,8 @@ export function StressStrip({ theme }: { theme: string }) {
   const systems = { a: derived.a.parse.ok ? derived.a.parse.system : null, b: derived.b.parse.ok ? derived.b.parse.system : null };
   const fresh = bench.offlineFresh();
   const o = state.offline;
-  const events: Record<DesignSlot, StressEvent[]> = fresh && o.results ? { a: o.results.a.summary.events, b: o.results.b.summary.events } : state.liveEvents;
+  const events: Record<DesignSlot, StressEvent[]> =
+    fresh && o.results ? { a: o.results.a.summary.events, b: o.results.b.summary.events } : state.liveEvents;
   const dur = state.track ? state.track.frames / state.track.sampleRate : 0;
 
   // A short track is rendered offline as soon as the strip opens, and again after design edits.
@@ -59,11 +60,17 @@ export function StressStrip({ theme }: { theme: string }) {
         <div>
           <h2 id="strip-title">Stress strip</h2>
           <p class="sheet-intro">
-            Where each design runs out of travel, heat, port or amplifier on this track, at its planned level. Hover a mark for its cause, click it to hear that moment.
+            Where each design runs out of travel, heat, port or amplifier on this track, at its planned level. Hover a mark for its cause,
+            click it to hear that moment.
           </p>
         </div>
         <div class="strip-render">
-          <button type="button" onClick={() => void bench.renderOffline()} disabled={!state.track || !state.levels || o.status === 'running' || state.designsMissing.length > 0} data-testid="strip-render">
+          <button
+            type="button"
+            onClick={() => void bench.renderOffline()}
+            disabled={!state.track || !state.levels || o.status === 'running' || state.designsMissing.length > 0}
+            data-testid="strip-render"
+          >
             {fresh ? 'Render again' : 'Render offline'}
           </button>
           <OfflineProgress bench={bench} state={state} />
@@ -93,7 +100,12 @@ export function StressStrip({ theme }: { theme: string }) {
       </div>
       <div class="bench-card">
         <h3>
-          Events <span class="fine">{total ? `${events.a.length} in A, ${events.b.length} in B${total > LIST_LIMIT ? `, first ${LIST_LIMIT} listed` : ''}` : 'none so far'}</span>
+          Events{' '}
+          <span class="fine">
+            {total
+              ? `${events.a.length} in A, ${events.b.length} in B${total > LIST_LIMIT ? `, first ${LIST_LIMIT} listed` : ''}`
+              : 'none so far'}
+          </span>
         </h3>
         {list.length ? (
           <table class="figures bench-table events-table" data-testid="event-list">
@@ -118,7 +130,11 @@ export function StressStrip({ theme }: { theme: string }) {
                     <i class="swatch" style={{ background: colourOf(e.kind, theme) }} /> {KIND_LABEL[e.kind]}
                   </td>
                   <td class="n">{clock(e.start_s, 2)}</td>
-                  <td class="n">{e.end_s - e.start_s < 1 ? `${Math.max(1, Math.round((e.end_s - e.start_s) * 1000))} ms` : `${num(e.end_s - e.start_s, 3)} s`}</td>
+                  <td class="n">
+                    {e.end_s - e.start_s < 1
+                      ? `${Math.max(1, Math.round((e.end_s - e.start_s) * 1000))} ms`
+                      : `${num(e.end_s - e.start_s, 3)} s`}
+                  </td>
                   <td class="n">
                     {num(e.peak, 3)} {e.unit}
                   </td>
@@ -126,7 +142,12 @@ export function StressStrip({ theme }: { theme: string }) {
                     {num(e.limit, 3)} {e.unit}
                   </td>
                   <td>
-                    <button type="button" class="small" onClick={() => (bench.seek(Math.max(0, e.start_s - 0.5)), bench.selectLane(s))} aria-label={`Hear ${KIND_LABEL[e.kind]} in design ${SLOT_LABEL[s]} at ${clock(e.start_s, 2)}`}>
+                    <button
+                      type="button"
+                      class="small"
+                      onClick={() => (bench.seek(Math.max(0, e.start_s - 0.5)), bench.selectLane(s))}
+                      aria-label={`Hear ${KIND_LABEL[e.kind]} in design ${SLOT_LABEL[s]} at ${clock(e.start_s, 2)}`}
+                    >
                       Hear it
                     </button>
                   </td>

@@ -81,7 +81,15 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
   };
   const shown = spec.series.filter((s) => s.values);
   return (
-    <svg class="print-chart" viewBox={`0 0 ${width} ${height}`} width={width} height={height} role="img" aria-label={`${spec.title}: ${spec.summary.join(' ')}`} data-chart={spec.id}>
+    <svg
+      class="print-chart"
+      viewBox={`0 0 ${width} ${height}`}
+      width={width}
+      height={height}
+      role="img"
+      aria-label={`${spec.title}: ${spec.summary.join(' ')}`}
+      data-chart={spec.id}
+    >
       <rect x={m.l} y={m.t} width={w} height={h} fill="#fff" stroke="#b9c2c4" stroke-width="0.75" />
       {X_TICKS.filter((t) => t >= f0 && t <= f1).map((t) => (
         <g>
@@ -111,7 +119,16 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
       <g clip-path={`url(#clip-${spec.id})`}>
         {shown.map((s) => {
           const st = strokeOf(s.role);
-          return <path d={path(s.values!)} fill="none" stroke={st.color} stroke-width={st.width} stroke-dasharray={st.dash} stroke-linejoin="round" />;
+          return (
+            <path
+              d={path(s.values!)}
+              fill="none"
+              stroke={st.color}
+              stroke-width={st.width}
+              stroke-dasharray={st.dash}
+              stroke-linejoin="round"
+            />
+          );
         })}
       </g>
       <g transform={`translate(${m.l + w - 4}, ${m.t + 6})`}>

@@ -49,5 +49,5 @@ export function useVerdict(names: [string, string] = ['A', 'B']): VerdictView | 
   if (!a || !b) return null;
   const found = headroomProbe().findings(systems);
   const lines = verdict(a, b, names, found);
-  return { lines, withHeadroom: !!found && lines.some((l) => l.id === 'headroom'), trackName: found ? probe.track?.name ?? null : null };
+  return { lines, withHeadroom: !!found && lines.some((l) => l.id === 'headroom'), trackName: found ? (probe.track?.name ?? null) : null };
 }

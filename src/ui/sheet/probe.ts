@@ -30,7 +30,15 @@ export function currentTrack(): ProbeTrack {
   // The bench keeps its decoded samples to itself; the probe only reads them (bracket access to a
   // private field, until the bench offers a getter).
   const channels = bench.trackChannels() as Float32Array[] | null;
-  if (info && channels) return { name: info.name, source: info.source, channels, sampleRate: info.sampleRate, durationS: info.frames / info.sampleRate, key: info };
+  if (info && channels)
+    return {
+      name: info.name,
+      source: info.source,
+      channels,
+      sampleRate: info.sampleRate,
+      durationS: info.frames / info.sampleRate,
+      key: info,
+    };
   if (!demo) {
     const t = synthesizeDemoTrack(DEMO_RATE);
     demo = { name: 'Demo track (built in)', source: 'demo', channels: t.channels, sampleRate: DEMO_RATE, durationS: t.durationS, key: {} };
@@ -116,7 +124,8 @@ export class HeadroomProbe {
         if (run !== this.run) return;
         const r = e.data;
         if (r.type === 'progress') this.setSlot(slot, { renders: r.renders, estimate: r.estimate });
-        else if (r.type === 'result') this.setSlot(slot, { status: 'done', renders: r.result.renders, estimate: r.result.renders, result: r.result });
+        else if (r.type === 'result')
+          this.setSlot(slot, { status: 'done', renders: r.result.renders, estimate: r.result.renders, result: r.result });
         else this.setSlot(slot, { status: 'error', message: r.message });
         this.settle(run, t0);
       };
@@ -126,7 +135,13 @@ export class HeadroomProbe {
         this.settle(run, t0);
       };
       // Each worker gets its own copy of the samples; the track stays usable here.
-      w.postMessage({ type: 'headroom', id: run, system: systems[slot], channels: track.channels.map((c) => c.slice()), sampleRate: track.sampleRate });
+      w.postMessage({
+        type: 'headroom',
+        id: run,
+        system: systems[slot],
+        channels: track.channels.map((c) => c.slice()),
+        sampleRate: track.sampleRate,
+      });
     }
   }
 
@@ -134,7 +149,8 @@ export class HeadroomProbe {
     const s = this.state.slots;
     if (SLOTS.some((k) => s[k].status === 'running')) return;
     this.stopWorkers();
-    if (run === this.run) this.set({ status: SLOTS.some((k) => s[k].status === 'error') ? 'error' : 'done', elapsedMs: performance.now() - t0 });
+    if (run === this.run)
+      this.set({ status: SLOTS.some((k) => s[k].status === 'error') ? 'error' : 'done', elapsedMs: performance.now() - t0 });
   }
 
   cancel(): void {
@@ -150,7 +166,10 @@ export class HeadroomProbe {
   }
 
   /** The findings for the verdict, when they belong to these designs and this track; otherwise undefined. */
-  findings(systems: Record<Slot, SpeakerSystem | null>, trackKey: object | null = currentTrackKey()): [HeadroomFinding | null, HeadroomFinding | null] | undefined {
+  findings(
+    systems: Record<Slot, SpeakerSystem | null>,
+    trackKey: object | null = currentTrackKey(),
+  ): [HeadroomFinding | null, HeadroomFinding | null] | undefined {
     const st = this.state;
     if (st.status !== 'done' || !st.systems || !st.track || st.track.key !== trackKey) return undefined;
     if (st.systems.a !== systems.a || st.systems.b !== systems.b) return undefined;
