@@ -1,8 +1,8 @@
 // Hand-built SI systems for the renderer's tests (an invented 6.5-inch woofer, our own numbers).
 // Derived values use the standard relations: Cms = Vas/(rho c^2 Sd^2), Mms = 1/((2 pi fs)^2 Cms),
 // Bl = sqrt(2 pi fs Mms Re / Qes), Rms = 2 pi fs Mms / Qms (Small, JAES 1972).
-import type { SpeakerSystem, Box } from '../src/engine/system.ts';
-import { estimateThermal, ALPHA_R } from '../src/engine/design/convert.ts';
+import type { SpeakerSystem, Box, DriverWay, Way } from '../src/engine/system.ts';
+import { estimateThermal, ALPHA_R, drivenPaPerV } from '../src/engine/design/convert.ts';
 
 export const AIR = { c: 343.2, rho: 1.2041, temperatureC: 20, pressurePa: 101325 };
 
@@ -128,20 +128,52 @@ export function system(
 ): SpeakerSystem {
   const power = opts.powerW ?? 100,
     load = 8;
+  const rs = opts.rs ?? 0.05;
+  const type = opts.xo ?? 'lr4';
+  const fx = opts.fx ?? 2000;
+  const split = type !== 'none';
+  const listening = {
+    distance: 2,
+    space: 'half' as const,
+    omega: 2 * Math.PI,
+    channels: opts.channels ?? 'pair',
+    level: { mode: 'volts' as const, voltsFs: 10 },
+    roomGainHz: 0,
+  };
+  const d = driver(opts.d);
+  const none = { type: 'active' as const, highpass: null, lowpass: null, gain: 1, delay: 0 };
+  const ways: Way[] = [
+    {
+      kind: 'driver',
+      name: 'woofer',
+      driver: d,
+      unit: d,
+      count: 1,
+      wiring: 'parallel',
+      box,
+      filter: split ? { ...none, lowpass: { shape: type, hz: fx } } : none,
+      polarity: 1,
+      offset: 0,
+    },
+  ];
+  if (split) {
+    ways.push({
+      kind: 'flat',
+      name: 'upper band',
+      filter: { ...none, highpass: { shape: type, hz: fx } },
+      polarity: type === 'lr2' ? -1 : 1,
+      offset: 0,
+      paPerV: drivenPaPerV(d, rs, AIR, listening),
+    });
+  }
   return {
     name: 'test',
     air: AIR,
-    driver: driver(opts.d),
-    box,
-    amplifier: { power, load, rs: opts.rs ?? 0.05, vPeak: Math.sqrt(2 * power * load), clip: opts.clip ?? 'hard' },
-    crossover: { type: opts.xo ?? 'lr4', fx: opts.fx ?? 2000 },
-    listening: {
-      distance: 2,
-      space: 'half',
-      omega: 2 * Math.PI,
-      channels: opts.channels ?? 'pair',
-      level: { mode: 'volts', voltsFs: 10 },
-      roomGainHz: 0,
-    },
+    ways,
+    amplifier: { power, load, rs, vPeak: Math.sqrt(2 * power * load), clip: opts.clip ?? 'hard' },
+    listening,
   };
 }
+
+/** The first (driver) way of a fixture system. */
+export const wooferOf = (sys: SpeakerSystem): DriverWay => sys.ways[0] as DriverWay;

@@ -7,6 +7,7 @@
 //    low and going above a threshold needs an explicit confirmation (hearing caution).
 // "Match levels" scales the heard lanes so A and B have the same passband level, so the ear judges
 // bass and overload rather than loudness.
+import { P_REF } from '../engine/units.ts';
 import type { LaneId } from './lanes.ts';
 
 export interface LaneLevel {
@@ -98,7 +99,6 @@ export function restoredMonitorGain(savedDb: number | undefined): number {
 }
 
 /** Reference sound pressure, Pa (ISO 1683). */
-const P_REF = 20e-6;
 
 /** SPL at the seat of a full-scale sine in the passband whose peak pressure is `peakPa`, dB. */
 export function fullScaleSineSplDb(peakPa: number): number {

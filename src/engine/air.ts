@@ -4,8 +4,6 @@ import type { Air } from './system.ts';
 export const R_AIR = 287.05;
 export const STANDARD_TEMPERATURE_C = 20;
 export const STANDARD_PRESSURE_KPA = 101.325;
-/** Reference sound pressure, Pa. */
-export const P_REF = 20e-6;
 
 /** Speed of sound and density of dry air (ideal gas; c = 331.3·sqrt(1 + theta/273.15)). */
 export function airAt(temperatureC = STANDARD_TEMPERATURE_C, pressureKpa = STANDARD_PRESSURE_KPA): Air {

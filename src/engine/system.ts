@@ -129,12 +129,53 @@ export interface Amplifier {
   clip: 'hard' | 'soft';
 }
 
-export interface Crossover {
-  type: 'lr2' | 'lr4' | 'lr8' | 'none';
-  fx: number;
-  /** Subsonic 2nd-order Butterworth high-pass on the woofer's drive, Hz; 0 = none. */
-  highpassHz?: number;
+/** One filter band of a way: a Linkwitz-Riley or Butterworth slope at a corner frequency. */
+export interface FilterBand {
+  shape: 'lr2' | 'lr4' | 'lr8' | 'bw2' | 'bw3' | 'bw4';
+  hz: number;
 }
+
+/** An active filter in front of a way's amplifier channel. */
+export interface ActiveFilter {
+  type: 'active';
+  highpass: FilterBand | null;
+  lowpass: FilterBand | null;
+  /** Linear gain (from gain_db). */
+  gain: number;
+  /** Signal delay, s. */
+  delay: number;
+}
+
+interface WayCommon {
+  name: string;
+  filter: ActiveFilter;
+  /** 1 or -1. */
+  polarity: number;
+  /** Acoustic-centre depth behind the baffle reference, m: a delay of offset/c in the sum. */
+  offset: number;
+}
+
+/**
+ * A way of driven drivers in its own box. `driver` is the electrical and mechanical equivalent of
+ * all `count` drivers as wired (what the physics uses); `unit` is one of them as entered.
+ */
+export interface DriverWay extends WayCommon {
+  kind: 'driver';
+  driver: Driver;
+  unit: Driver;
+  count: number;
+  wiring: 'series' | 'parallel';
+  box: Box;
+}
+
+/** An ideal flat band at a given passband pressure per volt (the first version's upper path). */
+export interface FlatWay extends WayCommon {
+  kind: 'flat';
+  /** Seat pressure per amplifier volt in the passband, Pa/V (at the design's distance and space). */
+  paPerV: number;
+}
+
+export type Way = DriverWay | FlatWay;
 
 export type PlannedLevel = { mode: 'spl'; splDb: number } | { mode: 'volts'; voltsFs: number };
 
@@ -154,9 +195,8 @@ export interface Listening {
 export interface SpeakerSystem {
   name: string;
   air: Air;
-  driver: Driver;
-  box: Box;
+  /** One to four ways; at least one is a driver way. */
+  ways: Way[];
   amplifier: Amplifier;
-  crossover: Crossover;
   listening: Listening;
 }

@@ -1,14 +1,18 @@
-// The registry of box types: one line per type.
-import type { BoxDoc } from '../design/document.ts';
+// The registry of box kinds: one line per kind. The design schema is built from the kinds' own schemas.
+import { makeDesignSchema } from '../design/schema.ts';
 import type { BoxKind } from './types.ts';
 import { sealed } from './sealed.ts';
 import { vented } from './vented.ts';
 import { passiveRadiator } from './passive-radiator.ts';
 
-export const BOX_KINDS: Record<BoxDoc['type'], BoxKind<any, any>> = {
-  sealed,
-  vented,
-  'passive-radiator': passiveRadiator,
-};
+const KINDS = [sealed, vented, passiveRadiator] as const;
+
+export const designSchema = makeDesignSchema([sealed.schema, vented.schema, passiveRadiator.schema]);
+
+export type BoxType = (typeof KINDS)[number]['type'];
+/** Dispatch by the box's type; each kind checks its own document and box shapes. */
+// biome-ignore lint/suspicious/noExplicitAny: the registry erases each kind's own types
+export const BOX_KINDS = Object.fromEntries(KINDS.map((k) => [k.type, k])) as Record<BoxType, BoxKind<any, any>>;
+export const BOX_TYPES = KINDS.map((k) => k.type);
 
 export type { BoxKind, BoxContext } from './types.ts';

@@ -1,16 +1,30 @@
 import type { Air, PassiveRadiatorBox } from '../system.ts';
-import type { BoxDoc } from '../design/document.ts';
+import * as v from 'valibot';
+import { int, num, qlSchema, volumeSchema } from '../design/schema.ts';
 import type { BoxKind } from './types.ts';
 import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { bulkModulus } from '../air.ts';
 import { fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
 
-type RadiatorDoc = Extract<BoxDoc, { type: 'passive-radiator' }>;
+const schema = v.strictObject({
+  type: v.literal('passive-radiator'),
+  vb_l: volumeSchema,
+  ql: qlSchema,
+  radiator: v.strictObject({
+    sd_cm2: num(0.5, 20000, 'cm²'),
+    mmp_g: num(0.1, 50000, 'g'),
+    cmp_mm_per_n: num(0.0001, 1000, 'mm/N'),
+    qmp: v.optional(v.nullable(num(0.5, 1000))),
+    xmax_mm: num(0.1, 100, 'mm'),
+    count: v.optional(int(1, 8)),
+  }),
+});
 
-export const passiveRadiator: BoxKind<RadiatorDoc, PassiveRadiatorBox> = {
+export const passiveRadiator: BoxKind<typeof schema, PassiveRadiatorBox> = {
   type: 'passive-radiator',
   label: 'Passive radiator',
+  schema,
   build(doc, { air, driver }, path) {
     const issues: Issue[] = [];
     const r = doc.radiator;

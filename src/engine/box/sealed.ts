@@ -1,10 +1,16 @@
 import type { SealedBox } from '../system.ts';
-import type { BoxDoc } from '../design/document.ts';
+import * as v from 'valibot';
+import { num, qlSchema, volumeSchema } from '../design/schema.ts';
 import type { BoxKind } from './types.ts';
 import { boxCompliance, leakageResistance } from './common.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 
-type SealedDoc = Extract<BoxDoc, { type: 'sealed' }>;
+const schema = v.strictObject({
+  type: v.literal('sealed'),
+  vb_l: volumeSchema,
+  ql: qlSchema,
+  fill: v.optional(num(0, 1)),
+});
 
 /**
  * Fill raises the effective volume: the adiabatic-to-isothermal bound is 1.4x (Small 1972);
@@ -18,9 +24,10 @@ export function sealedAlignment(fs: number, qts: number, vas: number, vb: number
   return { alpha, fc: fs * Math.sqrt(1 + alpha), qtc: qts * Math.sqrt(1 + alpha) };
 }
 
-export const sealed: BoxKind<SealedDoc, SealedBox> = {
+export const sealed: BoxKind<typeof schema, SealedBox> = {
   type: 'sealed',
   label: 'Sealed',
+  schema,
   build(doc, { air, driver, rs }) {
     const vbNet = doc.vb_l / 1000;
     const vb = vbNet * (1 + FILL_VOLUME_GAIN * (doc.fill ?? 0));

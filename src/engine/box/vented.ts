@@ -1,11 +1,19 @@
 import type { Air, VentedBox } from '../system.ts';
-import type { BoxDoc, PortDoc } from '../design/document.ts';
+import * as v from 'valibot';
+import type { PortDoc } from '../design/document.ts';
+import { num, portsSchema, qlSchema, volumeSchema } from '../design/schema.ts';
 import type { BoxKind } from './types.ts';
 import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
 
-type VentedDoc = Extract<BoxDoc, { type: 'vented' }>;
+const schema = v.strictObject({
+  type: v.literal('vented'),
+  vb_l: volumeSchema,
+  fb_hz: num(5, 2000, 'Hz'),
+  ql: qlSchema,
+  ports: portsSchema,
+});
 
 /** End corrections per unit radius. Flanged: Rayleigh's 8/(3 pi); free: Levine & Schwinger (1948). */
 export const END_CORRECTION = { flanged: 8 / (3 * Math.PI), free: 0.6133 } as const;
@@ -63,9 +71,10 @@ export function portLengthFor(ports: PortGeometry[], vb: number, fb: number, c: 
 /** Longest inner dimension of a box of golden proportions 0.618 : 1 : 1.618, m (common practice, no source). */
 export const longestInnerDimension = (vb: number): number => 1.618 * Math.cbrt(vb);
 
-export const vented: BoxKind<VentedDoc, VentedBox> = {
+export const vented: BoxKind<typeof schema, VentedBox> = {
   type: 'vented',
   label: 'Vented',
+  schema,
   build(doc, { air }, path) {
     const issues: Issue[] = [];
     const vbNet = doc.vb_l / 1000;

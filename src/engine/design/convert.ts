@@ -1,6 +1,7 @@
 // DesignDoc (document units) -> SpeakerSystem (SI). The only place units are converted on the way in.
-import type { DesignDoc } from './document.ts';
-import type { Driver, Listening, SpeakerSystem, ThermalParams } from '../system.ts';
+import type { DesignDoc, DriverDoc, FilterDoc, FlatWayDoc } from './document.ts';
+import type { ActiveFilter, Air, Driver, FlatWay, Listening, SpeakerSystem, ThermalParams, Way } from '../system.ts';
+import { P_REF, SENSITIVITY_VOLTS } from '../units.ts';
 import { airAt } from '../air.ts';
 import { deriveSmallSignal, totalQ, type SmallSignalInput } from '../driver.ts';
 import { BOX_KINDS } from '../box/index.ts';
@@ -34,10 +35,29 @@ export function estimateThermal(peW: number, coilMaxC: number, ambientC: number)
 /** Default Xlim when not given: twice Xmax (an estimate, reported as a warning). */
 export const defaultXlimMm = (xmaxMm: number): number => 2 * xmaxMm;
 
-export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues: Issue[] } {
-  const issues: Issue[] = [];
-  const air = airAt(doc.air?.temperature_c, doc.air?.pressure_kpa);
-  const d = doc.driver;
+/** Drivers per way: the electrical and mechanical equivalent of `count` identical drivers as wired. */
+export function combineDrivers(unit: Driver, count: number, wiring: 'series' | 'parallel'): Driver {
+  if (count === 1) return unit;
+  // Parallel: the same voltage on each coil, currents add; series: the same current, voltages add.
+  // Either way masses, stiffnesses, losses and areas add; fs and the Qs stay those of one driver.
+  const e = wiring === 'series' ? count : 1 / count;
+  return {
+    ...unit,
+    vas: unit.vas * count,
+    re: unit.re * e,
+    le: unit.le * e,
+    sd: unit.sd * count,
+    bl: wiring === 'series' ? unit.bl * count : unit.bl,
+    mms: unit.mms * count,
+    cms: unit.cms / count,
+    rms: unit.rms * count,
+    pe: unit.pe * count,
+    thermal: { ...unit.thermal, rtv: unit.thermal.rtv / count, ctv: unit.thermal.ctv * count, rtm: unit.thermal.rtm / count, ctm: unit.thermal.ctm * count },
+  };
+}
+
+/** One driver as entered, in SI; issues carry paths under `path`. */
+function toDriver(d: DriverDoc, air: Air, path: string, issues: Issue[]): Driver | null {
   const re = d.re_ohm;
   const sd = d.sd_cm2 * 1e-4;
   const given: SmallSignalInput = {};
@@ -49,46 +69,27 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
   if (d.mms_g !== undefined) given.mms = d.mms_g / 1000;
   if (d.cms_mm_per_n !== undefined) given.cms = d.cms_mm_per_n / 1000;
   if (d.rms_kg_s !== undefined) given.rms = d.rms_kg_s;
-  const derived = deriveSmallSignal(given, re, sd, air, 'driver');
+  const derived = deriveSmallSignal(given, re, sd, air, path);
   issues.push(...derived.issues);
 
   let xlimMm = d.xlim_mm;
   if (xlimMm === undefined) {
     xlimMm = defaultXlimMm(d.xmax_mm);
-    issues.push(warning('driver.xlim_mm', `not given; estimated as ${fmt(xlimMm)} mm (twice Xmax)`));
+    issues.push(warning(`${path}.xlim_mm`, `not given; estimated as ${fmt(xlimMm)} mm (twice Xmax)`));
   } else if (xlimMm <= d.xmax_mm) {
     issues.push(
       error(
-        'driver.xlim_mm',
+        `${path}.xlim_mm`,
         `${fmt(xlimMm)} mm must be larger than xmax_mm ${fmt(d.xmax_mm)} mm (the mechanical limit lies beyond the linear travel)`,
       ),
     );
   }
-  const rs = doc.amplifier.rs_ohm ?? 0;
-  if (doc.crossover.type !== 'none' && doc.crossover.fx_hz === undefined) {
-    issues.push(error('crossover.fx_hz', `is required for a ${doc.crossover.type} crossover (20 to 5000 Hz)`));
-  }
-  if ((doc.listening.baffle_width_cm ?? 0) > 0 && doc.listening.space !== 'full') {
-    issues.push(
-      warning(
-        'listening.baffle_width_cm',
-        `the baffle step models a free-standing cabinet; with ${doc.listening.space} space it adds its 6 dB on top of the boundaries`,
-      ),
-    );
-  }
-  const hpHz = doc.crossover.highpass_hz ?? 0;
-  if (hpHz > 0 && doc.crossover.type !== 'none' && doc.crossover.fx_hz !== undefined && hpHz * 4 > doc.crossover.fx_hz) {
-    issues.push(
-      error('crossover.highpass_hz', `${fmt(hpHz)} Hz must lie at least two octaves below the crossover at ${fmt(doc.crossover.fx_hz)} Hz`),
-    );
-  }
-  if (!derived.values || issues.some((i) => i.severity === 'error')) return { system: null, issues };
-
+  if (!derived.values) return null;
   const v = derived.values;
   const material = d.coil_material ?? 'copper';
   const coilMaxC = d.coil_max_c ?? DEFAULT_COIL_MAX_C;
   const estimate = estimateThermal(d.pe_w, coilMaxC, air.temperatureC);
-  const driver: Driver = {
+  return {
     fs: v.fs,
     qes: v.qes,
     qms: v.qms,
@@ -118,16 +119,92 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
       coilMaxC,
     },
   };
-  const built = BOX_KINDS[doc.box.type].build(doc.box, { air, driver, rs }, 'box');
-  issues.push(...built.issues);
-  if (!built.box || issues.some((i) => i.severity === 'error')) return { system: null, issues };
+}
 
+function toFilter(doc: FilterDoc | undefined): ActiveFilter {
+  return {
+    type: 'active',
+    highpass: doc?.highpass ? { shape: doc.highpass.shape, hz: doc.highpass.hz } : null,
+    lowpass: doc?.lowpass ? { shape: doc.lowpass.shape, hz: doc.lowpass.hz } : null,
+    gain: 10 ** ((doc?.gain_db ?? 0) / 20),
+    delay: (doc?.delay_ms ?? 0) / 1000,
+  };
+}
+
+/** Passband seat pressure per amplifier volt of a driver way: rho·Bl·Sd/((Re + Rs)·Mms·Omega·r). */
+export function drivenPaPerV(driver: Driver, rs: number, air: Air, listening: Listening): number {
+  const kOut = air.rho / (listening.omega * listening.distance);
+  return (kOut * driver.bl * driver.sd) / ((driver.re + rs) * driver.mms);
+}
+
+export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues: Issue[] } {
+  const issues: Issue[] = [];
+  const air = airAt(doc.air?.temperature_c, doc.air?.pressure_kpa);
+  const rs = doc.amplifier.rs_ohm ?? 0;
+  if ((doc.listening.baffle_width_cm ?? 0) > 0 && doc.listening.space !== 'full') {
+    issues.push(
+      warning(
+        'listening.baffle_width_cm',
+        `the baffle step models a free-standing cabinet; with ${doc.listening.space} space it adds its 6 dB on top of the boundaries`,
+      ),
+    );
+  }
   const level = doc.listening.level ?? { mode: 'spl', spl_db: 85 };
+  const listening: Listening = {
+    distance: doc.listening.distance_m,
+    space: doc.listening.space,
+    omega: SOLID_ANGLE[doc.listening.space],
+    channels: doc.listening.channels ?? 'pair',
+    level: level.mode === 'spl' ? { mode: 'spl', splDb: level.spl_db } : { mode: 'volts', voltsFs: level.volts_fs },
+    roomGainHz: doc.listening.room_gain_hz ?? 0,
+    baffleWidth: (doc.listening.baffle_width_cm ?? 0) / 100,
+  };
+  const names = new Set<string>();
+  doc.ways.forEach((w, k) => {
+    if (names.has(w.name)) issues.push(error(`ways[${k}].name`, `"${w.name}" is the name of an earlier way; each way needs its own name`));
+    names.add(w.name);
+    const hp = w.filter?.highpass?.hz;
+    const lp = w.filter?.lowpass?.hz;
+    if (hp !== undefined && lp !== undefined && hp >= lp) {
+      issues.push(error(`ways[${k}].filter.highpass.hz`, `${fmt(hp)} Hz must lie below the low-pass at ${fmt(lp)} Hz`));
+    }
+  });
+  if (!doc.ways.some((w) => w.kind === 'driver')) issues.push(error('ways', 'needs at least one way with a driver'));
+
+  const ways: Way[] = [];
+  const pending: { k: number; w: FlatWayDoc }[] = [];
+  doc.ways.forEach((w, k) => {
+    const path = `ways[${k}]`;
+    const common = { name: w.name, filter: toFilter(w.filter), polarity: w.polarity ?? 1, offset: (w.offset_mm ?? 0) / 1000 };
+    if (w.kind === 'flat') {
+      pending.push({ k, w });
+      ways.push({ kind: 'flat', ...common, paPerV: 0 });
+      return;
+    }
+    const unit = toDriver(w.driver, air, `${path}.driver`, issues);
+    if (!unit) return;
+    const count = w.count ?? 1;
+    const wiring = w.wiring ?? 'parallel';
+    const driver = combineDrivers(unit, count, wiring);
+    const built = BOX_KINDS[w.box.type].build(w.box as never, { air, driver, rs }, `${path}.box`);
+    issues.push(...built.issues);
+    if (!built.box) return;
+    ways.push({ kind: 'driver', ...common, driver, unit, count, wiring, box: built.box });
+  });
+  if (issues.some((i) => i.severity === 'error')) return { system: null, issues };
+  const firstDriven = ways.find((w) => w.kind === 'driver');
+  for (const { k, w } of pending) {
+    const way = ways[k] as FlatWay;
+    // A flat way without its own sensitivity plays at the first driver way's passband level.
+    way.paPerV =
+      w.sensitivity_db === undefined
+        ? drivenPaPerV(firstDriven!.driver, rs, air, listening)
+        : (P_REF * 10 ** (w.sensitivity_db / 20)) / (SENSITIVITY_VOLTS * listening.distance);
+  }
   const system: SpeakerSystem = {
     name: doc.name,
     air,
-    driver,
-    box: built.box,
+    ways,
     amplifier: {
       power: doc.amplifier.power_w,
       load: doc.amplifier.load_ohm,
@@ -135,16 +212,7 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
       vPeak: Math.sqrt(2 * doc.amplifier.power_w * doc.amplifier.load_ohm),
       clip: doc.amplifier.clip ?? 'hard',
     },
-    crossover: { type: doc.crossover.type, fx: doc.crossover.fx_hz ?? 0, highpassHz: doc.crossover.highpass_hz ?? 0 },
-    listening: {
-      distance: doc.listening.distance_m,
-      space: doc.listening.space,
-      omega: SOLID_ANGLE[doc.listening.space],
-      channels: doc.listening.channels ?? 'pair',
-      level: level.mode === 'spl' ? { mode: 'spl', splDb: level.spl_db } : { mode: 'volts', voltsFs: level.volts_fs },
-      roomGainHz: doc.listening.room_gain_hz ?? 0,
-      baffleWidth: (doc.listening.baffle_width_cm ?? 0) / 100,
-    },
+    listening,
   };
   return { system, issues };
 }

@@ -1,10 +1,17 @@
 // The structural schema of the design document: types, units and the physically possible ranges.
-// Ranges here refuse; plausibility (warnings with numbers) lives in checks.ts.
+// Ranges here refuse; plausibility (warnings with numbers) lives in checks.ts. The document's
+// TypeScript types are inferred from these schemas (document.ts), so there is one definition.
 import * as v from 'valibot';
-import { DESIGN_FORMAT, DESIGN_VERSION } from './document.ts';
+
+export const DESIGN_FORMAT = 'preheard-design';
+export const DESIGN_VERSION = 2;
+/** A design has one to this many ways. */
+export const MAX_WAYS = 4;
+/** Identical drivers in one way, at most. */
+export const MAX_DRIVERS_PER_WAY = 8;
 
 /** A finite number in [min, max]; the message names the range and the unit. */
-function num(min: number, max: number, unit = '') {
+export function num(min: number, max: number, unit = '') {
   const u = unit ? ` ${unit}` : '';
   return v.pipe(
     v.number(`must be a number (${unit || 'no unit'})`),
@@ -13,18 +20,19 @@ function num(min: number, max: number, unit = '') {
     v.maxValue(max, `must be from ${min} to ${max}${u}`),
   );
 }
-const int = (min: number, max: number) => v.pipe(num(min, max), v.integer(`must be a whole number from ${min} to ${max}`));
+export const int = (min: number, max: number) => v.pipe(num(min, max), v.integer(`must be a whole number from ${min} to ${max}`));
 const coefficients = v.pipe(
   v.array(num(-10, 10, 'per mm^k'), 'must be an array of numbers [c1, c2, ...]'),
   v.maxLength(8, 'must have at most 8 coefficients'),
 );
+const text = (max: number) => v.pipe(v.string('must be a text'), v.maxLength(max, `must be at most ${max} characters`));
 
 export const driverSchema = v.strictObject({
-  name: v.optional(v.pipe(v.string(), v.maxLength(200))),
-  fs_hz: v.optional(num(1, 2000, 'Hz')),
+  name: v.optional(text(200)),
+  fs_hz: v.optional(num(1, 5000, 'Hz')),
   qes: v.optional(num(0.02, 50)),
   qms: v.optional(num(0.2, 100000)),
-  vas_l: v.optional(num(0.001, 20000, 'l')),
+  vas_l: v.optional(num(0.0001, 20000, 'l')),
   re_ohm: num(0.1, 200, 'ohm'),
   le_mh: v.optional(num(0, 50, 'mH')),
   sd_cm2: num(0.5, 20000, 'cm²'),
@@ -46,7 +54,7 @@ export const driverSchema = v.strictObject({
   coil_max_c: v.optional(num(50, 400, '°C')),
 });
 
-const portSchema = v.strictObject({
+export const portSchema = v.strictObject({
   diameter_cm: v.optional(num(0.5, 100, 'cm')),
   width_cm: v.optional(num(0.2, 200, 'cm')),
   height_cm: v.optional(num(0.2, 200, 'cm')),
@@ -54,81 +62,103 @@ const portSchema = v.strictObject({
   outer_end: v.optional(v.picklist(['flanged', 'free'], 'must be "flanged" or "free"')),
   inner_end: v.optional(v.picklist(['flanged', 'free'], 'must be "flanged" or "free"')),
 });
-
-const qlSchema = v.optional(v.nullable(num(0.5, 1000)));
-
-export const boxSchema = v.variant(
-  'type',
-  [
-    v.strictObject({
-      type: v.literal('sealed'),
-      vb_l: num(0.05, 20000, 'l'),
-      ql: qlSchema,
-      fill: v.optional(num(0, 1)),
-    }),
-    v.strictObject({
-      type: v.literal('vented'),
-      vb_l: num(0.05, 20000, 'l'),
-      fb_hz: num(5, 500, 'Hz'),
-      ql: qlSchema,
-      ports: v.pipe(v.array(portSchema, 'must be a list of ports'), v.minLength(1, 'needs at least one port'), v.maxLength(8)),
-    }),
-    v.strictObject({
-      type: v.literal('passive-radiator'),
-      vb_l: num(0.05, 20000, 'l'),
-      ql: qlSchema,
-      radiator: v.strictObject({
-        sd_cm2: num(0.5, 20000, 'cm²'),
-        mmp_g: num(0.1, 50000, 'g'),
-        cmp_mm_per_n: num(0.0001, 1000, 'mm/N'),
-        qmp: v.optional(v.nullable(num(0.5, 1000))),
-        xmax_mm: num(0.1, 100, 'mm'),
-        count: v.optional(int(1, 8)),
-      }),
-    }),
-  ],
-  'type must be "sealed", "vented" or "passive-radiator"',
+export const portsSchema = v.pipe(
+  v.array(portSchema, 'must be a list of ports'),
+  v.minLength(1, 'needs at least one port'),
+  v.maxLength(8, 'must have at most 8 port entries'),
 );
 
-export const designSchema = v.strictObject({
-  format: v.literal(DESIGN_FORMAT, `must be "${DESIGN_FORMAT}"`),
-  version: v.literal(DESIGN_VERSION, `must be ${DESIGN_VERSION}`),
-  name: v.pipe(v.string('must be a text'), v.maxLength(200, 'must be at most 200 characters')),
-  notes: v.optional(v.pipe(v.string(), v.maxLength(20000))),
-  driver: driverSchema,
-  box: boxSchema,
-  amplifier: v.strictObject({
-    power_w: num(0.1, 100000, 'W'),
-    load_ohm: num(1, 64, 'ohm'),
-    rs_ohm: v.optional(num(0, 20, 'ohm')),
-    clip: v.optional(v.picklist(['hard', 'soft'], 'must be "hard" or "soft"')),
-  }),
-  crossover: v.strictObject({
-    type: v.picklist(['lr2', 'lr4', 'lr8', 'none'], 'must be "lr2", "lr4", "lr8" or "none"'),
-    fx_hz: v.optional(num(20, 5000, 'Hz')),
-    highpass_hz: v.optional(num(0, 200, 'Hz')),
-  }),
-  listening: v.strictObject({
-    distance_m: num(0.1, 200, 'm'),
-    space: v.picklist(['full', 'half', 'quarter', 'eighth'], 'must be "full", "half", "quarter" or "eighth"'),
-    channels: v.optional(v.picklist(['pair', 'mono-sum'], 'must be "pair" or "mono-sum"')),
-    level: v.optional(
-      v.variant(
-        'mode',
-        [
-          v.strictObject({ mode: v.literal('spl'), spl_db: num(30, 150, 'dB SPL') }),
-          v.strictObject({ mode: v.literal('volts'), volts_fs: num(0.01, 2000, 'V') }),
-        ],
-        'mode must be "spl" or "volts"',
-      ),
-    ),
-    room_gain_hz: v.optional(num(0, 200, 'Hz')),
-    baffle_width_cm: v.optional(num(0, 300, 'cm')),
-  }),
-  air: v.optional(
-    v.strictObject({
-      temperature_c: v.optional(num(-40, 60, '°C')),
-      pressure_kpa: v.optional(num(50, 110, 'kPa')),
-    }),
-  ),
+export const qlSchema = v.optional(v.nullable(num(0.5, 1000)));
+export const volumeSchema = num(0.005, 20000, 'l');
+
+export const FILTER_SHAPES = ['lr2', 'lr4', 'lr8', 'bw2', 'bw3', 'bw4'] as const;
+const filterBandSchema = v.strictObject({
+  shape: v.picklist(FILTER_SHAPES, `must be one of ${FILTER_SHAPES.map((s) => `"${s}"`).join(', ')}`),
+  hz: num(5, 40000, 'Hz'),
 });
+
+export const activeFilterSchema = v.strictObject({
+  type: v.literal('active', 'must be "active"'),
+  highpass: v.optional(filterBandSchema),
+  lowpass: v.optional(filterBandSchema),
+  gain_db: v.optional(num(-60, 20, 'dB')),
+  delay_ms: v.optional(num(0, 50, 'ms')),
+});
+
+const wayCommon = {
+  name: v.pipe(text(40), v.minLength(1, 'must not be empty')),
+  filter: v.optional(activeFilterSchema),
+  polarity: v.optional(v.picklist([1, -1], 'must be 1 or -1')),
+  offset_mm: v.optional(num(-500, 500, 'mm')),
+};
+
+export const amplifierSchema = v.strictObject({
+  power_w: num(0.1, 100000, 'W'),
+  load_ohm: num(1, 64, 'ohm'),
+  rs_ohm: v.optional(num(0, 20, 'ohm')),
+  clip: v.optional(v.picklist(['hard', 'soft'], 'must be "hard" or "soft"')),
+});
+
+export const listeningSchema = v.strictObject({
+  distance_m: num(0.1, 200, 'm'),
+  space: v.picklist(['full', 'half', 'quarter', 'eighth'], 'must be "full", "half", "quarter" or "eighth"'),
+  channels: v.optional(v.picklist(['pair', 'mono-sum'], 'must be "pair" or "mono-sum"')),
+  level: v.optional(
+    v.variant(
+      'mode',
+      [
+        v.strictObject({ mode: v.literal('spl'), spl_db: num(30, 150, 'dB SPL') }),
+        v.strictObject({ mode: v.literal('volts'), volts_fs: num(0.01, 2000, 'V') }),
+      ],
+      'mode must be "spl" or "volts"',
+    ),
+  ),
+  room_gain_hz: v.optional(num(0, 200, 'Hz')),
+  baffle_width_cm: v.optional(num(0, 300, 'cm')),
+});
+
+export const airSchema = v.optional(
+  v.strictObject({
+    temperature_c: v.optional(num(-40, 60, '°C')),
+    pressure_kpa: v.optional(num(50, 110, 'kPa')),
+  }),
+);
+
+/**
+ * The design schema for a given list of box schemas (one per registered box kind, see box/index.ts,
+ * which builds the design schema: the box kinds own their own document shape).
+ */
+export function makeDesignSchema<const B extends v.ObjectSchema<any, any>[] | v.StrictObjectSchema<any, any>[]>(boxSchemas: B) {
+  const types = boxSchemas.map((s) => `"${(s.entries.type as v.LiteralSchema<string, undefined>).literal}"`).join(', ');
+  const boxSchema = v.variant('type', boxSchemas, `type must be one of ${types}`);
+  const driverWaySchema = v.strictObject({
+    kind: v.literal('driver'),
+    ...wayCommon,
+    driver: driverSchema,
+    count: v.optional(int(1, MAX_DRIVERS_PER_WAY)),
+    wiring: v.optional(v.picklist(['series', 'parallel'], 'must be "series" or "parallel"')),
+    box: boxSchema,
+  });
+  // An ideal flat band (the first version's upper path): at the passband level of the first
+  // driver way unless its own sensitivity is given.
+  const flatWaySchema = v.strictObject({
+    kind: v.literal('flat'),
+    ...wayCommon,
+    sensitivity_db: v.optional(num(40, 130, 'dB at 2.83 V, 1 m')),
+  });
+  const waySchema = v.variant('kind', [driverWaySchema, flatWaySchema], 'kind must be "driver" or "flat"');
+  return v.strictObject({
+    format: v.literal(DESIGN_FORMAT, `must be "${DESIGN_FORMAT}"`),
+    version: v.literal(DESIGN_VERSION, `must be ${DESIGN_VERSION}`),
+    name: text(200),
+    notes: v.optional(text(20000)),
+    ways: v.pipe(
+      v.array(waySchema, 'must be a list of ways'),
+      v.minLength(1, 'needs at least one way'),
+      v.maxLength(MAX_WAYS, `must have at most ${MAX_WAYS} ways`),
+    ),
+    amplifier: amplifierSchema,
+    listening: listeningSchema,
+    air: airSchema,
+  });
+}

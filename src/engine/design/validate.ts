@@ -2,7 +2,7 @@
 // Every problem is reported at once with its field path; nothing is half-loaded.
 import * as v from 'valibot';
 import { DESIGN_FORMAT, DESIGN_VERSION, type DesignDoc } from './document.ts';
-import { designSchema } from './schema.ts';
+import { designSchema } from '../box/index.ts';
 import { toSystem } from './convert.ts';
 import { plausibility } from './checks.ts';
 import { error, type Issue } from '../issues.ts';
@@ -33,7 +33,34 @@ function schemaIssue(issue: v.BaseIssue<unknown>): Issue {
   return error(path, `${issue.message}, got ${shown(issue.input)}`);
 }
 
-/** Brings older document versions up to the current one. Version 1 is the first; nothing to migrate yet. */
+/**
+ * Version 1 -> 2: the one woofer becomes way "woofer" (the crossover low-pass and the subsonic
+ * high-pass become its filter), and the first version's flat upper band becomes a flat way with
+ * the complementary high-pass (inverted for LR2, as the first version summed it). Lossless: every
+ * field is carried over, optional ones only when present.
+ */
+function migrateV1(d: Record<string, unknown>): Record<string, unknown> {
+  const { crossover, driver, box, version: _v, ...rest } = d;
+  const xo = (crossover ?? {}) as Record<string, unknown>;
+  const type = xo.type;
+  const split = type === 'lr2' || type === 'lr4' || type === 'lr8';
+  const filter: Record<string, unknown> = { type: 'active' };
+  if (split && xo.fx_hz !== undefined) filter.lowpass = { shape: type, hz: xo.fx_hz };
+  if (typeof xo.highpass_hz === 'number' && xo.highpass_hz > 0) filter.highpass = { shape: 'bw2', hz: xo.highpass_hz };
+  const ways: Record<string, unknown>[] = [{ kind: 'driver', name: 'woofer', driver, box, filter }];
+  if (split && xo.fx_hz !== undefined) {
+    ways.push({
+      kind: 'flat',
+      name: 'upper band',
+      filter: { type: 'active', highpass: { shape: type, hz: xo.fx_hz } },
+      ...(type === 'lr2' ? { polarity: -1 } : {}),
+    });
+  }
+  const { format, name, notes, ...others } = rest;
+  return { format, version: 2, name, ...(notes !== undefined ? { notes } : {}), ways, ...others };
+}
+
+/** Brings older document versions up to the current one; version 1 stays readable forever. */
 export function migrate(raw: Record<string, unknown>): { doc: Record<string, unknown> } | { issue: Issue } {
   const version = raw.version;
   if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) {
@@ -41,6 +68,16 @@ export function migrate(raw: Record<string, unknown>): { doc: Record<string, unk
   }
   if (version > DESIGN_VERSION) {
     return { issue: error('version', `${version} is newer than this app understands (${DESIGN_VERSION}); update preheard`) };
+  }
+  if (version === 1) {
+    if (typeof raw.crossover !== 'object' || raw.crossover === null || Array.isArray(raw.crossover)) {
+      return { issue: error('crossover', 'is required in a version 1 design') };
+    }
+    const xo = raw.crossover as Record<string, unknown>;
+    if (xo.type !== 'none' && xo.fx_hz === undefined) {
+      return { issue: error('crossover.fx_hz', `is required for a ${String(xo.type)} crossover (20 to 5000 Hz)`) };
+    }
+    return { doc: migrateV1(raw) };
   }
   return { doc: raw };
 }

@@ -3,13 +3,8 @@
 import type { SpeakerSystem } from '../system.ts';
 import { LinearChain } from '../render/linear-chain.ts';
 import { cWeightingFilter } from './weighting.ts';
+import { splDbOfMeanSquare } from '../units.ts';
 
-/** Reference sound pressure, Pa (ISO 1683). */
-export const P_REF = 20e-6;
-
-export function splDb(meanSquarePa: number): number {
-  return 10 * Math.log10(meanSquarePa / (P_REF * P_REF));
-}
 
 /**
  * Long-term average C-weighted SPL (Leq,C) at the seat for 1 V per full scale. Pair: the two
@@ -43,7 +38,7 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
   }
   const ms = energy / frames;
   if (!(ms > 0)) throw new RangeError('the audio is silent in the band the design plays: a level cannot be set from it');
-  return splDb(ms);
+  return splDbOfMeanSquare(ms);
 }
 
 /** Volts per full scale that make the track's Leq,C at the seat equal splDb. */

@@ -37,8 +37,7 @@ export interface RendererOptions {
   extraStreams?: boolean;
 }
 
-/** Port air speed over which the port is said to chuff (common practice, roughly 5% of c). */
-export const PORT_SPEED_LIMIT = 17;
+import { PORT_SPEED_LIMIT } from '../units.ts';
 /** The residual within this many dB of the output counts as audible distortion. */
 export const DISTORTION_WITHIN_DB = 20;
 /** Sliding window of the distortion measure, s (one-pole energy averages). */

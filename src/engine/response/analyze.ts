@@ -1,6 +1,6 @@
 // Small-signal analysis of one design: curves on a log grid and the figures a designer reads first.
 import type { SpeakerSystem } from '../system.ts';
-import { P_REF } from '../air.ts';
+import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
 import { abs, arg, div } from '../complex.ts';
 import { fmt, warning, type Issue } from '../issues.ts';
 import { passbandPressure, respond, type PointResponse } from './frequency.ts';
@@ -8,10 +8,6 @@ import type { Analysis, Curves, Figures, MaxSplLimit } from './types.ts';
 import { sealedAlignment } from '../box/sealed.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 
-/** Sensitivity is quoted for 2.83 V (1 W into 8 ohm) at 1 m (common practice). */
-export const SENSITIVITY_VOLTS = 2.83;
-/** Peak port air speed above which port noise is likely: about 5% of c (common practice, no source). */
-export const PORT_SPEED_LIMIT = 17;
 /** "-3 dB" is the half-power point, 10·log10(2) = 3.0103 dB down, as in the published F3 tables. */
 export const HALF_POWER_DB = 10 * Math.log10(2);
 
@@ -23,7 +19,7 @@ export interface AnalyzeOptions {
   pointsPerOctave?: number;
 }
 
-export const splDb = (pressureRms: number): number => 20 * Math.log10(Math.max(pressureRms, 1e-30) / P_REF);
+export { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb };
 
 export function logGrid(fMin: number, fMax: number, perOctave: number): Float64Array {
   const n = Math.ceil(Math.log2(fMax / fMin) * perOctave) + 1;

@@ -6,7 +6,8 @@
 // Leaked air leaves the box too, so it radiates with the cone and port: the net radiated volume
 // velocity is the box's compression flow, -jwCab·pb, which gives Small's s^4/D(s) form (JAES 1973).
 // Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
-import type { SpeakerSystem } from '../system.ts';
+import type { DriverWay, SpeakerSystem, Way } from '../system.ts';
+import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import { add, cx, div, inv, mul, scale, type Complex } from '../complex.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { boxCompliance } from '../box/common.ts';
@@ -35,13 +36,6 @@ export function roomGain(f: number, cornerHz: number): number {
   return cornerHz > 0 ? Math.sqrt(1 + (cornerHz / f) ** 4) : 1;
 }
 
-/** The subsonic 2nd-order Butterworth high-pass s^2/(s^2 + sqrt2·w0·s + w0^2) at w; 1 when off. */
-export function subsonicGain(w: number, hz: number): Complex {
-  if (!(hz > 0)) return cx(1);
-  const w0 = 2 * Math.PI * hz;
-  return div(cx(-w * w), cx(w0 * w0 - w * w, Math.SQRT2 * w0 * w));
-}
-
 /** The baffle step (1 + s/wz)/(1 + s/wp) at w, with the corners of filters/room.ts; 1 when off. */
 export function baffleGain(w: number, widthM: number): Complex {
   if (!(widthM > 0)) return cx(1);
@@ -49,12 +43,17 @@ export function baffleGain(w: number, widthM: number): Complex {
   return div(cx(1, w / wz), cx(1, w / wp));
 }
 
-export function respond(system: SpeakerSystem, f: number, volts: number, withRoomGain = true): PointResponse {
-  const { air, driver: d, box, amplifier, listening } = system;
+/**
+ * One driver way at frequency f for `volts` rms at the amplifier's input: the way's filter (gain and
+ * delay included) in front of the amplifier, then the driver in its box. Polarity and the acoustic
+ * offset are left to `wayPressure`, which places the way in the sum.
+ */
+export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain = true): PointResponse {
+  const { air, amplifier, listening } = system;
+  const { driver: d, box } = way;
   const w = 2 * Math.PI * f;
   const jw = cx(0, w);
-  // The amplifier's drive after the subsonic filter (the crossover low-pass is left out of the curves).
-  const drive = scale(subsonicGain(w, system.crossover.highpassHz ?? 0), volts);
+  const drive = scale(wayFilterAt(way.filter, w), volts);
   const ze = cx(d.re + amplifier.rs, w * d.le);
   const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
   const yo = BOX_KINDS[box.type].outletAdmittance(box, air, w) ?? cx(0);
@@ -89,7 +88,32 @@ export function respond(system: SpeakerSystem, f: number, volts: number, withRoo
  * Passband pressure for `volts` rms well above resonance and below the Le corner:
  * p = rho·Sd·Bl·e / ((Re + Rs)·Mms·Omega·r) — the level Small's reference efficiency predicts.
  */
-export function passbandPressure(system: SpeakerSystem, volts: number, distance = system.listening.distance): number {
-  const { air, driver: d, amplifier, listening } = system;
+export function passbandPressure(system: SpeakerSystem, way: Way, volts: number, distance = system.listening.distance): number {
+  if (way.kind === 'flat') return (way.paPerV * volts * system.listening.distance) / distance;
+  const { air, amplifier, listening } = system;
+  const d = way.driver;
   return (air.rho * d.sd * d.bl * volts) / ((d.re + amplifier.rs) * d.mms * listening.omega * distance);
+}
+
+/** Time of flight of a way's acoustic offset, s (its depth behind the baffle reference over c). */
+export const offsetDelay = (system: SpeakerSystem, way: Way): number => way.offset / system.air.c;
+
+/**
+ * A way's complex pressure at the seat as it enters the sum: filter, driver (or the flat band at its
+ * passband level, with the baffle step), polarity, and the acoustic offset as a delay.
+ */
+export function wayPressure(system: SpeakerSystem, way: Way, f: number, volts: number, withRoomGain = true): Complex {
+  const w = 2 * Math.PI * f;
+  const own =
+    way.kind === 'driver'
+      ? respond(system, way, f, volts, withRoomGain).pressure
+      : mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0));
+  return scale(mul(own, delayAt(w, offsetDelay(system, way))), way.polarity);
+}
+
+/** The whole system's complex pressure at the seat: the sum of its ways. */
+export function systemPressure(system: SpeakerSystem, f: number, volts: number, withRoomGain = true): Complex {
+  let sum = cx(0);
+  for (const way of system.ways) sum = add(sum, wayPressure(system, way, f, volts, withRoomGain));
+  return sum;
 }

@@ -1,6 +1,6 @@
 // Constants of the large-signal model for one design at one step length, SI units, computed once
 // when the design changes (never per sample).
-import type { SpeakerSystem } from '../system.ts';
+import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { effectiveNonlinear, toPerMetre, fitDefaultNonlinear } from './nonlinear.ts';
 
 /** Loss coefficient K of the port's Δp = ½·rho·K·u·|u| (K of order 1 for sharp edges: Backman, AES 1995). */
@@ -60,9 +60,10 @@ export interface ParamOptions {
   portLossK?: number;
 }
 
-export function wooferParams(sys: SpeakerSystem, h: number, opt: ParamOptions = {}): WooferParams {
-  const d = sys.driver;
-  const box = sys.box;
+/** The constants of one driver way's model (the way's equivalent driver in its box). */
+export function wooferParams(sys: SpeakerSystem, way: DriverWay, h: number, opt: ParamOptions = {}): WooferParams {
+  const d = way.driver;
+  const box = way.box;
   const rho = sys.air.rho,
     c = sys.air.c;
   const nl = effectiveNonlinear(d);
