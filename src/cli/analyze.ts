@@ -1,13 +1,15 @@
 // preheard analyze: the small-signal figures and curves of one design.
 import { analyze } from '../engine/response/analyze.ts';
-import type { Analysis } from '../engine/response/types.ts';
+import type { Analysis, WayAnalysis } from '../engine/response/types.ts';
 import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 
 const HELP = `usage: preheard analyze <design.json> [--json] [--volts V]
 
-Small-signal analysis of a design: f3, box figures, sensitivity and the curves
-(SPL at the listening seat, excursion, impedance, group delay, port air speed, max SPL).
+Small-signal analysis of a design: for each way with drivers its f3, box figures,
+sensitivity and curves (SPL at the listening seat through the way's filter, excursion,
+impedance, group delay, port air speed, max SPL), and for the whole system the summed
+response at the seat with its f3 and sensitivity.
 
   --volts V   drive voltage for the curves, V rms at the amplifier (default 2.83)
   --json      print one JSON object instead of the table
@@ -19,11 +21,14 @@ exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
 const round = (x: number, digits = 4) => (Number.isFinite(x) ? Number(x.toPrecision(digits)) : null);
 const list = (a: ArrayLike<number> | null) => (a ? Array.from(a, (x) => round(x, 5)) : null);
 
-export function analysisJson(a: Analysis) {
-  const { driver: d, box } = a.system;
-  const f = a.figures;
+/** One driver way's figures and curves, with the first version's field names. */
+function wayJson(a: Analysis, wa: WayAnalysis) {
+  const { driver: d, box } = wa.way;
+  const f = wa.figures;
   return {
-    name: a.system.name,
+    name: wa.way.name,
+    count: wa.way.count,
+    wiring: wa.way.wiring,
     box_type: box.type,
     driver: {
       fs_hz: round(d.fs),
@@ -62,32 +67,68 @@ export function analysisJson(a: Analysis) {
     spl_40_db: round(f.spl40Db),
     spl_50_db: round(f.spl50Db),
     group_delay_40_ms: round(f.groupDelay40Ms),
-    warnings: a.warnings.map((w) => ({ path: w.path, message: w.message })),
+    warnings: wa.warnings.map((w) => ({ path: w.path, message: w.message })),
     curves: {
-      freq_hz: list(a.curves.freqHz),
-      spl_db: list(a.curves.splDb),
-      cone_spl_db: list(a.curves.coneSplDb),
-      port_spl_db: list(a.curves.portSplDb),
-      excursion_mm: list(a.curves.excursionMm),
-      impedance_ohm: list(a.curves.impedanceOhm),
-      phase_deg: list(a.curves.phaseDeg),
-      group_delay_ms: list(a.curves.groupDelayMs),
-      port_air_speed_m_s: list(a.curves.portAirSpeed),
-      radiator_excursion_mm: list(a.curves.radiatorExcursionMm),
-      max_spl_db: list(a.curves.maxSplDb),
-      max_spl_limit: a.curves.maxSplLimit,
+      freq_hz: list(wa.curves.freqHz),
+      spl_db: list(wa.curves.splDb),
+      cone_spl_db: list(wa.curves.coneSplDb),
+      port_spl_db: list(wa.curves.portSplDb),
+      excursion_mm: list(wa.curves.excursionMm),
+      impedance_ohm: list(wa.curves.impedanceOhm),
+      phase_deg: list(wa.curves.phaseDeg),
+      group_delay_ms: list(wa.curves.groupDelayMs),
+      port_air_speed_m_s: list(wa.curves.portAirSpeed),
+      radiator_excursion_mm: list(wa.curves.radiatorExcursionMm),
+      max_spl_db: list(wa.curves.maxSplDb),
+      max_spl_limit: wa.curves.maxSplLimit,
     },
   };
 }
 
-function table(a: Analysis): string {
-  const j = analysisJson(a);
+/** The whole system at the seat: the summed response and its figures. */
+function sumJson(a: Analysis) {
+  const f = a.sum.figures;
+  return {
+    f3_hz: round(f.f3Hz),
+    f6_hz: round(f.f6Hz),
+    f10_hz: round(f.f10Hz),
+    sensitivity_db: round(f.sensitivityDb),
+    passband_spl_db: round(f.passbandSplDb),
+    planned_volts_rms: round(f.plannedVoltsRms),
+    planned_spl_db: round(f.plannedSplDb),
+    group_delay_40_ms: round(f.groupDelay40Ms),
+    curves: {
+      freq_hz: list(a.sum.curves.freqHz),
+      spl_db: list(a.sum.curves.splDb),
+      phase_deg: list(a.sum.curves.phaseDeg),
+      group_delay_ms: list(a.sum.curves.groupDelayMs),
+      ways: a.sum.curves.ways.map((w) => ({ name: w.name, kind: w.kind, spl_db: list(w.splDb) })),
+    },
+  };
+}
+
+/**
+ * The first version's top-level fields (for the first driver way, the woofer of a first-version
+ * design), every driver way under `ways` and the summed system under `system`.
+ */
+export function analysisJson(a: Analysis) {
+  const { name: _wayName, count: _count, wiring: _wiring, warnings: _w, ...first } = wayJson(a, a);
+  return {
+    name: a.system.name,
+    ...first,
+    warnings: a.warnings.map((w) => ({ path: w.path, message: w.message })),
+    ways: a.ways.map((wa) => wayJson(a, wa)),
+    system: sumJson(a),
+  };
+}
+
+function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][] {
   const rows: [string, string][] = [
-    ['design', a.system.name],
     ['box', `${j.box_type}, ${j.vb_l} l net (${j.vb_effective_l} l acoustic)`],
     ['fs / Qts / Vas', `${j.driver.fs_hz} Hz / ${j.driver.qts} / ${j.driver.vas_l} l`],
     ['Bl / Mms / Cms', `${j.driver.bl_tm} T·m / ${j.driver.mms_g} g / ${j.driver.cms_mm_per_n} mm/N`],
   ];
+  if (j.count > 1) rows.unshift(['drivers', `${j.count} in ${j.wiring} (figures for all of them together)`]);
   if (j.fc_hz !== undefined) rows.push(['fc / Qtc', `${j.fc_hz} Hz / ${j.qtc}`]);
   if (j.fb_hz !== undefined) rows.push(['fb', `${j.fb_hz} Hz`]);
   if (j.fp_hz !== undefined) rows.push(['fp (radiator)', `${j.fp_hz} Hz`]);
@@ -104,13 +145,34 @@ function table(a: Analysis): string {
     ['peak excursion', `${j.peak_excursion_mm} mm at ${j.drive_v} V (Xmax ${j.driver.xmax_mm} mm)`],
   );
   if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${j.peak_port_speed_m_s} m/s at ${j.drive_v} V`]);
-  rows.push(
-    ['minimum impedance', `${j.z_min_ohm} ohm`],
-    ['group delay at 40 Hz', `${j.group_delay_40_ms} ms`],
-    ['planned level', `${j.planned_volts_rms} V rms`],
-  );
-  const width = Math.max(...rows.map(([k]) => k.length));
-  const lines = rows.map(([k, v]) => `${k.padEnd(width)}  ${v}`);
+  rows.push(['minimum impedance', `${j.z_min_ohm} ohm`], ['group delay at 40 Hz', `${j.group_delay_40_ms} ms`]);
+  return rows;
+}
+
+function table(a: Analysis): string {
+  const j = analysisJson(a);
+  const sections: { title: string | null; rows: [string, string][] }[] = [{ title: null, rows: [['design', a.system.name]] }];
+  if (j.ways.length === 1) {
+    sections[0].rows.push(...wayRows(j.ways[0], a), ['planned level', `${j.planned_volts_rms} V rms`]);
+  } else {
+    for (const w of j.ways) sections.push({ title: `way "${w.name}"`, rows: wayRows(w, a) });
+    const s = j.system;
+    sections.push({
+      title: 'system (all ways summed at the seat)',
+      rows: [
+        ['f3 / f6 / f10', `${s.f3_hz} / ${s.f6_hz} / ${s.f10_hz} Hz`],
+        ['sensitivity', `${s.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space)`],
+        [`at ${j.drive_v} V, ${a.system.listening.distance} m`, `passband ${s.passband_spl_db} dB`],
+        ['group delay at 40 Hz', `${s.group_delay_40_ms} ms`],
+        ['planned level', `${s.planned_volts_rms} V rms`],
+      ],
+    });
+  }
+  const width = Math.max(...sections.flatMap((s) => s.rows.map(([k]) => k.length)));
+  const lines = sections.flatMap((s) => [
+    ...(s.title ? ['', s.title] : []),
+    ...s.rows.map(([k, v]) => `${s.title ? '  ' : ''}${k.padEnd(width)}  ${v}`),
+  ]);
   if (a.warnings.length) lines.push('', ...a.warnings.map(formatIssue));
   return lines.join('\n') + '\n';
 }

@@ -1,9 +1,9 @@
 // One step of a sweep: a design variant analysed and probed for headroom on the track.
 // Pure apart from its inputs; runs in a worker thread or in the main thread alike.
 import { parseDesign } from '../engine/design/validate.ts';
-import { analyze } from '../engine/response/analyze.ts';
+import { HALF_POWER_DB, rolloffHz } from '../engine/response/analyze.ts';
 import { findHeadroom } from '../engine/render/index.ts';
-import type { DesignDoc } from '../engine/design/document.ts';
+import type { DesignDoc, DriverWayDoc } from '../engine/design/document.ts';
 
 export interface SweepPoint {
   vb_l: number;
@@ -20,17 +20,25 @@ export interface SweepRow extends SweepPoint {
   error: string | null;
 }
 
-export function variant(design: DesignDoc, point: SweepPoint): DesignDoc {
-  const box = { ...design.box, vb_l: point.vb_l } as DesignDoc['box'];
-  if (point.fb_hz !== null && box.type === 'vented') box.fb_hz = point.fb_hz;
-  return { ...design, box };
+/** The design with the way at `wayIndex` given the point's box volume and (vented) tuning. */
+export function variant(design: DesignDoc, point: SweepPoint, wayIndex: number): DesignDoc {
+  const ways = design.ways.map((way, k) => {
+    if (k !== wayIndex || way.kind !== 'driver') return way;
+    const box = { ...way.box, vb_l: point.vb_l } as DriverWayDoc['box'];
+    if (point.fb_hz !== null && box.type === 'vented') box.fb_hz = point.fb_hz;
+    return { ...way, box };
+  });
+  return { ...design, ways };
 }
 
-export function sweepStep(design: DesignDoc, point: SweepPoint, channels: Float32Array[], sampleRate: number): SweepRow {
+/** One step: the swept way's f3 and the whole design's headroom on the track. */
+export function sweepStep(design: DesignDoc, wayIndex: number, point: SweepPoint, channels: Float32Array[], sampleRate: number): SweepRow {
   const empty = { f3_hz: null, clean_spl_db: null, clean_volts: null, first_limit: null, first_limit_s: null };
-  const parsed = parseDesign(variant(design, point));
+  const parsed = parseDesign(variant(design, point, wayIndex));
   if (!parsed.ok) return { ...point, ...empty, error: parsed.errors.map((e) => `${e.path}: ${e.message}`).join('; ') };
-  const f3 = analyze(parsed.system).figures.f3Hz;
+  const way = parsed.system.ways[wayIndex];
+  if (way.kind !== 'driver') throw new Error('the swept way has a driver');
+  const f3 = rolloffHz(parsed.system, way, HALF_POWER_DB);
   try {
     const h = findHeadroom(parsed.system, channels, sampleRate);
     return {

@@ -9,14 +9,16 @@ import type { SweepPoint, SweepRow } from './sweep-step.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
 
-const HELP = `usage: preheard sweep <design.json> <in.wav> [--vb FROM:TO:STEP] [--fb FROM:TO:STEP] [--json] [--threads N]
+const HELP = `usage: preheard sweep <design.json> <in.wav> [--vb FROM:TO:STEP] [--fb FROM:TO:STEP] [--way NAME] [--json] [--threads N]
 
-For each box volume (litres) and/or tuning (Hz, vented boxes) in the ranges, prints f3, the
-highest clean level on this track (dB SPL at the seat and amplifier volts per full scale) and the
-limit that arrives first. Both ranges together sweep every combination.
+For each box volume (litres) and/or tuning (Hz, vented boxes) of one way's box in the ranges,
+prints that way's f3, the whole design's highest clean level on this track (dB SPL at the seat
+and amplifier volts per full scale) and the limit that arrives first. Both ranges together sweep
+every combination.
 
   --vb FROM:TO:STEP   net box volumes, litres, e.g. 20:60:5
   --fb FROM:TO:STEP   tunings, Hz (vented only), e.g. 30:50:2.5
+  --way NAME          the way whose box is swept (default: the first way with a driver)
   --threads N         worker threads (default: every core)
   --json              print {steps: [...]} instead of the table
   --help              this text
@@ -39,6 +41,7 @@ export function parseRange(text: string, option: string, min: number, max: numbe
 
 function runPool(
   design: DesignDoc,
+  wayIndex: number,
   points: SweepPoint[],
   channels: Float32Array[],
   sampleRate: number,
@@ -61,7 +64,7 @@ function runPool(
       else resolve(rows);
     };
     for (let t = 0; t < Math.min(threads, points.length); t++) {
-      const w = new Worker(new URL('./sweep-worker.mjs', import.meta.url), { workerData: { design, channels: shared, sampleRate } });
+      const w = new Worker(new URL('./sweep-worker.mjs', import.meta.url), { workerData: { design, wayIndex, channels: shared, sampleRate } });
       workers.push(w);
       const feed = () => {
         if (next < points.length) {
@@ -107,6 +110,7 @@ export const sweepCommand: Command = {
       const { values, positionals } = parseCommandArgs(argv, {
         vb: { type: 'string' },
         fb: { type: 'string' },
+        way: { type: 'string' },
         threads: { type: 'string' },
         json: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
@@ -121,15 +125,22 @@ export const sweepCommand: Command = {
       if (!Number.isInteger(threads) || threads < 1 || threads > 64)
         throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
       const { design } = await loadDesignFile(positionals[0]);
-      if (values.fb !== undefined && design.box.type !== 'vented')
-        throw new InputError(`--fb needs a vented design; ${positionals[0]} is ${design.box.type}`);
-      const vbs = values.vb === undefined ? [design.box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
-      const fbs =
-        values.fb === undefined ? [design.box.type === 'vented' ? design.box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
+      const wayIndex =
+        values.way === undefined ? design.ways.findIndex((w) => w.kind === 'driver') : design.ways.findIndex((w) => w.name === values.way);
+      const way = design.ways[wayIndex];
+      if (!way || way.kind !== 'driver') {
+        const names = design.ways.filter((w) => w.kind === 'driver').map((w) => `"${w.name}"`);
+        throw new InputError(`${positionals[0]} has no way with a driver named "${values.way}"; its driver ways are ${names.join(', ')}`);
+      }
+      const { box } = way;
+      if (values.fb !== undefined && box.type !== 'vented')
+        throw new InputError(`--fb needs a vented box; way "${way.name}" of ${positionals[0]} is ${box.type}`);
+      const vbs = values.vb === undefined ? [box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
+      const fbs = values.fb === undefined ? [box.type === 'vented' ? box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
-      const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads);
-      process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, design.box.type === 'vented'));
+      const rows = await runPool(design, wayIndex, points, audio.channels, audio.sampleRate, threads);
+      process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, box.type === 'vented'));
       return EXIT_OK;
     }),
 };

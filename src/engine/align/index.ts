@@ -1,11 +1,11 @@
 // Alignment suggestions: closed boxes for target Qtc (Small 1972) and vented alignments from
 // Thiele's (1971) families, each with a port sized to keep air speed under the limit.
 import type { BoxDoc, PortDoc } from '../design/document.ts';
-import type { SpeakerSystem } from '../system.ts';
+import type { Box, DriverWay, SpeakerSystem } from '../system.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { respond } from '../response/frequency.ts';
-import { HALF_POWER_DB, rolloffHz, PORT_SPEED_LIMIT } from '../response/analyze.ts';
+import { firstDriverWay, withoutLowpass, HALF_POWER_DB, rolloffHz, PORT_SPEED_LIMIT } from '../response/analyze.ts';
 import { abs } from '../complex.ts';
 
 export interface AlignmentSuggestion {
@@ -80,24 +80,31 @@ export function ventedAlignment(qt: number): VentedAlignment | null {
 /** Round up to a half centimetre. */
 const halfCm = (cm: number) => Math.ceil(cm * 2) / 2;
 
+/** The way in another box, and the system with that way in place of the original. */
+function inBox(system: SpeakerSystem, way: DriverWay, box: Box): { system: SpeakerSystem; way: DriverWay } {
+  const moved: DriverWay = { ...way, box };
+  return { system: { ...system, ways: system.ways.map((w) => (w === way ? moved : w)) }, way: moved };
+}
+
 /**
  * The smallest round port (in 0.5 cm steps, one or two ports) whose peak air speed stays under the
  * limit wherever the driver reaches its rated power or Xmax first. In the lossless-port model the
  * port's volume velocity at a given fb does not depend on its area, so speed scales as 1/Sv.
+ * The way's drive keeps its high-pass (it protects the port) and leaves its low-pass out.
  */
-function sizePort(system: SpeakerSystem, vbL: number, fbHz: number): { ports: PortDoc[]; note: string } {
+function sizePort(system: SpeakerSystem, way: DriverWay, vbL: number, fbHz: number): { ports: PortDoc[]; note: string } {
   const trial: PortDoc = { diameter_cm: 5, count: 1 };
+  const d = way.driver;
   const box = BOX_KINDS.vented.build(
     { type: 'vented', vb_l: vbL, fb_hz: fbHz, ports: [trial] },
-    { air: system.air, driver: system.driver, rs: system.amplifier.rs },
+    { air: system.air, driver: d, rs: system.amplifier.rs },
     'box',
   ).box;
   if (!box || box.type !== 'vented') return { ports: [trial], note: 'port could not be sized' };
-  const trialSystem: SpeakerSystem = { ...system, box };
-  const d = system.driver;
+  const trial2 = inBox(system, withoutLowpass(way), box);
   let worst = 0;
   for (let f = 10; f <= 400; f *= 1.02) {
-    const r = respond(trialSystem, f, 1);
+    const r = respond(trial2.system, trial2.way, f, 1);
     const vXmax = d.xmax / (Math.SQRT2 * abs(r.excursion));
     const vPe = Math.sqrt(d.pe / (abs(r.current) ** 2 * d.re));
     const v = Math.min(vXmax, vPe);
@@ -146,13 +153,17 @@ const SEALED_TARGETS: { qtc: number; label: string }[] = [
   { qtc: 1.0, label: 'Sealed, Qtc 1.0 (compact, 1.25 dB peak)' },
 ];
 
-export function suggestAlignments(system: SpeakerSystem): AlignmentSuggestion[] {
-  const { driver: d, amplifier } = system;
+/** Boxes for one driver way (by default the first: the bass way of a first-version design). */
+export function suggestAlignments(system: SpeakerSystem, way: DriverWay = firstDriverWay(system)): AlignmentSuggestion[] {
+  const { amplifier } = system;
+  const d = way.driver;
   const qts = totalQ(qesWithSeries(d.qes, d.re, amplifier.rs), d.qms);
   const out: AlignmentSuggestion[] = [];
   const analyseBox = (box: BoxDoc) => {
     const built = BOX_KINDS[box.type].build(box as never, { air: system.air, driver: d, rs: amplifier.rs }, 'box');
-    return built.box ? rolloffHz({ ...system, box: built.box }, HALF_POWER_DB) : NaN;
+    if (!built.box) return NaN;
+    const moved = inBox(system, way, built.box);
+    return rolloffHz(moved.system, moved.way, HALF_POWER_DB);
   };
   for (const t of SEALED_TARGETS) {
     if (t.qtc <= qts * 1.02) continue;
@@ -175,7 +186,7 @@ export function suggestAlignments(system: SpeakerSystem): AlignmentSuggestion[] 
   if (v) {
     const vbL = Number(((d.vas / v.alpha) * 1000).toPrecision(3));
     const fbHz = Number((v.h * d.fs).toPrecision(3));
-    const port = sizePort(system, vbL, fbHz);
+    const port = sizePort(system, way, vbL, fbHz);
     const box: BoxDoc = { type: 'vented', vb_l: vbL, fb_hz: fbHz, ql: 7, ports: port.ports };
     const built = BOX_KINDS.vented.build(box, { air: system.air, driver: d, rs: amplifier.rs }, 'box').box;
     out.push({

@@ -1,10 +1,12 @@
-// Small-signal analysis of one design: curves on a log grid and the figures a designer reads first.
-import type { SpeakerSystem } from '../system.ts';
+// Small-signal analysis of one design: each driver way's curves and figures, and the summed output
+// of all ways at the seat.
+import type { Box, DriverWay, SpeakerSystem } from '../system.ts';
 import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
-import { abs, arg, div } from '../complex.ts';
+import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { fmt, warning, type Issue } from '../issues.ts';
-import { passbandPressure, respond, type PointResponse } from './frequency.ts';
-import type { Analysis, Curves, Figures, MaxSplLimit } from './types.ts';
+import { offsetDelay, passbandPressure, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
+import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
+import type { Analysis, Curves, Figures, MaxSplLimit, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
 import { sealedAlignment } from '../box/sealed.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 
@@ -15,6 +17,7 @@ export interface AnalyzeOptions {
   /** Drive for the curves, V rms at the amplifier; default 2.83. */
   driveV?: number;
   fMinHz?: number;
+  /** Default 2 kHz for a design with one driver way (the first version's grid), 20 kHz with more. */
   fMaxHz?: number;
   pointsPerOctave?: number;
 }
@@ -28,39 +31,73 @@ export function logGrid(fMin: number, fMax: number, perOctave: number): Float64A
   return grid;
 }
 
-/** Group delay -d(phase)/dw from the ratio of two nearby responses (no unwrapping needed). */
-function groupDelay(system: SpeakerSystem, f: number): number {
-  const eps = 1e-4;
-  const hi = respond(system, f * (1 + eps), 1).pressure;
-  const lo = respond(system, f * (1 - eps), 1).pressure;
-  return -arg(div(hi, lo)) / (2 * Math.PI * f * 2 * eps);
+/** The first driver way: the first version's woofer, and the way the single-way views show. */
+export function firstDriverWay(system: SpeakerSystem): DriverWay {
+  const way = system.ways.find((w): w is DriverWay => w.kind === 'driver');
+  if (!way) throw new Error('a system has at least one driver way');
+  return way;
 }
 
-/** Amplifier volts (rms) for the planned level: SPL at the seat in the passband, or volts at full scale. */
+/** The way with its low-pass left out: its low end as the box and the high-pass shape it. */
+export const withoutLowpass = (way: DriverWay): DriverWay => ({ ...way, filter: { ...way.filter, lowpass: null } });
+
+/** The way with no filter at all: the drivers in their box alone. */
+export const unfiltered = (way: DriverWay): DriverWay => ({
+  ...way,
+  filter: { type: 'active', highpass: null, lowpass: null, gain: 1, delay: 0 },
+});
+
+/** Group delay -d(phase)/dw from the ratio of two nearby responses (no unwrapping needed). */
+function groupDelayOf(pressure: (f: number) => Complex, f: number): number {
+  const eps = 1e-4;
+  return -arg(div(pressure(f * (1 + eps)), pressure(f * (1 - eps)))) / (2 * Math.PI * f * 2 * eps);
+}
+
+const wayGroupDelay = (system: SpeakerSystem, way: DriverWay, f: number) => groupDelayOf((x) => respond(system, way, x, 1).pressure, f);
+const sumGroupDelay = (system: SpeakerSystem, f: number) => groupDelayOf((x) => systemPressure(system, x, 1), f);
+
+/**
+ * The passband pressure of the whole system per amplifier volt, Pa/V at `distance`: each way
+ * replaced by its flat passband level (Small's reference efficiency; a flat way's own level) through
+ * its filter, polarity and offset, summed, and the median magnitude taken over 20 Hz to 20 kHz:
+ * the level most of the band sits at. A Linkwitz-Riley split of ways at one level sums all-pass,
+ * so this is exactly that level; a first-version design keeps its woofer's passband.
+ */
+export function sumPassbandPerVolt(system: SpeakerSystem, distance = system.listening.distance): number {
+  const grid = logGrid(20, 20000, 12);
+  const levels = Array.from(grid, (f) => {
+    const w = 2 * Math.PI * f;
+    let sum = cx(0);
+    for (const way of system.ways) {
+      const h = mul(wayFilterAt(way.filter, w), delayAt(w, offsetDelay(system, way)));
+      sum = add(sum, scale(h, way.polarity * passbandPressure(system, way, 1, distance)));
+    }
+    return abs(sum);
+  }).sort((a, b) => a - b);
+  return levels[(levels.length - 1) / 2];
+}
+
+/** Amplifier volts (rms) for the planned level: SPL of the sum's passband at the seat, or volts at full scale. */
 export function plannedVoltsRms(system: SpeakerSystem): number {
   const level = system.listening.level;
   if (level.mode === 'volts') return level.voltsFs / Math.SQRT2;
-  const perVolt = splDb(passbandPressure(system, 1));
-  return 10 ** ((level.splDb - perVolt) / 20);
+  return 10 ** ((level.splDb - splDb(sumPassbandPerVolt(system))) / 20);
 }
 
 /**
- * The frequency below the passband where the anechoic response first falls `dropDb` under the
- * passband level, scanning downward from well inside the passband; refined by bisection.
+ * The frequency where `relDb(f)` first falls under -dropDb, scanning downward from `startHz` (well
+ * inside the passband); refined by bisection.
  */
-export function rolloffHz(system: SpeakerSystem, dropDb: number): number {
-  const ref = splDb(passbandPressure(system, 1));
-  const rel = (f: number) => splDb(abs(respond(system, f, 1, false).pressure)) - ref;
-  const tuning = Math.max(system.driver.fs, 'fb' in system.box ? system.box.fb : 0);
-  let prev = 4 * tuning;
+function rolloff(relDb: (f: number) => number, startHz: number, dropDb: number): number {
+  let prev = startHz;
   const step = 2 ** (-1 / 48);
   for (let f = prev * step; f > 0.5; f *= step) {
-    if (rel(f) < -dropDb) {
+    if (relDb(f) < -dropDb) {
       let lo = f;
       let hi = prev;
       for (let k = 0; k < 60; k++) {
         const mid = Math.sqrt(lo * hi);
-        if (rel(mid) < -dropDb) lo = mid;
+        if (relDb(mid) < -dropDb) lo = mid;
         else hi = mid;
       }
       return Math.sqrt(lo * hi);
@@ -70,109 +107,149 @@ export function rolloffHz(system: SpeakerSystem, dropDb: number): number {
   return 0.5;
 }
 
+/** A way's passband level through its filter's gain, Pa per amplifier volt at the seat. */
+const wayPassbandPerVolt = (system: SpeakerSystem, way: DriverWay) => passbandPressure(system, way, 1) * Math.abs(way.filter.gain);
+
+/** Where the scan for a way's low end starts: well above its resonance and its high-pass corner. */
+const scanStartHz = (way: DriverWay) => Math.max(4 * Math.max(way.driver.fs, boxFigures(way).fbHz ?? 0), 2 * (way.filter.highpass?.hz ?? 0));
+
+/**
+ * Where a way's anechoic low end first falls `dropDb` under its passband level (its high-pass,
+ * gain and delay included, its low-pass left out).
+ */
+export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number): number {
+  const low = withoutLowpass(way);
+  const ref = splDb(wayPassbandPerVolt(system, way));
+  return rolloff((f) => splDb(abs(respond(system, low, f, 1, false).pressure)) - ref, scanStartHz(way), dropDb);
+}
+
+/** Where the sum's anechoic low end first falls `dropDb` under the sum's passband level. */
+export function sumRolloffHz(system: SpeakerSystem, dropDb: number): number {
+  const ref = splDb(sumPassbandPerVolt(system));
+  const start = Math.min(...system.ways.filter((w): w is DriverWay => w.kind === 'driver').map(scanStartHz));
+  return rolloff((f) => splDb(abs(systemPressure(system, f, 1, false))) - ref, start, dropDb);
+}
+
 /** Small's reference efficiency eta0 = rho·Bl^2·Sd^2 / (2 pi·c·Re·Mms^2) (half space). */
-export function referenceEfficiency(system: SpeakerSystem): number {
-  const { air, driver: d } = system;
+export function referenceEfficiency(system: SpeakerSystem, way: DriverWay): number {
+  const { air } = system;
+  const d = way.driver;
   return (air.rho * d.bl * d.bl * d.sd * d.sd) / (2 * Math.PI * air.c * d.re * d.mms * d.mms);
 }
 
-function maxVolts(system: SpeakerSystem, r: PointResponse, volts: number, f: number): { v: number; limit: MaxSplLimit } {
-  const { driver: d, box, amplifier } = system;
+// --- Box-kind figures and probes, one small function per concern (they move into the box kinds). ---
+
+/** The box's own figures: sealed fc and Qtc (Small 1972), tuning, radiator notch, port length. */
+function boxFigures(way: DriverWay, rs = 0): Pick<Figures, 'fcHz' | 'qtc' | 'fbHz' | 'fpHz' | 'portLengthCm'> {
+  const { box, driver } = way;
+  const sealed =
+    box.type === 'sealed'
+      ? sealedAlignment(driver.fs, totalQ(qesWithSeries(driver.qes, driver.re, rs), driver.qms), driver.vas, box.vb)
+      : null;
+  return {
+    fcHz: sealed ? sealed.fc : null,
+    qtc: sealed ? sealed.qtc : null,
+    fbHz: box.type === 'sealed' ? null : box.fb,
+    fpHz: box.type === 'passive-radiator' ? box.fp : null,
+    portLengthCm: box.type === 'vented' ? box.portLength * 100 : null,
+  };
+}
+
+/** Peak port air speed, m/s, for an rms outlet flow; null when the box has no port. */
+function portAirSpeed(box: Box, outletFlow: Complex): number | null {
+  return box.type === 'vented' ? (Math.SQRT2 * abs(outletFlow)) / box.sv : null;
+}
+
+/** Peak one-way radiator excursion, m, for an rms outlet flow at f; null without a radiator. */
+function radiatorExcursion(box: Box, outletFlow: Complex, f: number): number | null {
+  return box.type === 'passive-radiator' ? (Math.SQRT2 * abs(outletFlow)) / (2 * Math.PI * f * box.sp) : null;
+}
+
+/** The largest drive, V rms at the amplifier's input, before the way reaches a limit for a sine at f. */
+function maxVolts(system: SpeakerSystem, way: DriverWay, r: PointResponse, volts: number, f: number): { v: number; limit: MaxSplLimit } {
+  const d = way.driver;
+  const filterGain = abs(wayFilterAt(way.filter, 2 * Math.PI * f));
   const candidates: { v: number; limit: MaxSplLimit }[] = [
     { v: (volts * d.xmax) / (Math.SQRT2 * abs(r.excursion)), limit: 'excursion' },
     // Thermal: the rated power dissipated in the coil's resistance.
     { v: volts * Math.sqrt(d.pe / (abs(r.current) ** 2 * d.re)), limit: 'thermal' },
-    { v: amplifier.vPeak / Math.SQRT2, limit: 'amplifier' },
+    // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
+    { v: system.amplifier.vPeak / (Math.SQRT2 * filterGain), limit: 'amplifier' },
   ];
-  if (box.type === 'passive-radiator') {
-    const xp = abs(r.outletFlow) / (2 * Math.PI * f * box.sp);
-    candidates.push({ v: (volts * box.xmax) / (Math.SQRT2 * xp), limit: 'radiator' });
-  }
+  const xp = radiatorExcursion(way.box, r.outletFlow, f);
+  if (xp !== null && way.box.type === 'passive-radiator') candidates.push({ v: (volts * way.box.xmax) / xp, limit: 'radiator' });
   return candidates.reduce((a, b) => (b.v < a.v ? b : a));
 }
 
-export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): Analysis {
-  const driveV = options.driveV ?? SENSITIVITY_VOLTS;
-  const freqHz = logGrid(options.fMinHz ?? 10, options.fMaxHz ?? 2000, options.pointsPerOctave ?? 48);
+function wayCurves(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, driveV: number, planned: number): Curves {
   const n = freqHz.length;
-  const { box } = system;
-  const vented = box.type === 'vented';
-  const radiator = box.type === 'passive-radiator';
+  const { box } = way;
   const hasOutlet = box.type !== 'sealed';
-  const planned = plannedVoltsRms(system);
-
   const curves: Curves = {
     freqHz,
     splDb: new Float64Array(n),
     coneSplDb: new Float64Array(n),
     portSplDb: hasOutlet ? new Float64Array(n) : null,
-    referenceSplDb: new Float64Array(n).fill(splDb(passbandPressure(system, driveV))),
+    referenceSplDb: new Float64Array(n).fill(splDb(wayPassbandPerVolt(system, way) * driveV)),
     excursionMm: new Float64Array(n),
     plannedExcursionMm: new Float64Array(n),
-    radiatorExcursionMm: radiator ? new Float64Array(n) : null,
+    radiatorExcursionMm: box.type === 'passive-radiator' ? new Float64Array(n) : null,
     impedanceOhm: new Float64Array(n),
     phaseDeg: new Float64Array(n),
     groupDelayMs: new Float64Array(n),
-    portAirSpeed: vented ? new Float64Array(n) : null,
-    plannedPortAirSpeed: vented ? new Float64Array(n) : null,
+    portAirSpeed: box.type === 'vented' ? new Float64Array(n) : null,
+    plannedPortAirSpeed: box.type === 'vented' ? new Float64Array(n) : null,
     maxSplDb: new Float64Array(n),
     maxSplLimit: new Array<MaxSplLimit>(n),
   };
-
   for (let k = 0; k < n; k++) {
     const f = freqHz[k];
-    const r = respond(system, f, driveV);
+    const r = respond(system, way, f, driveV);
     curves.splDb[k] = splDb(abs(r.pressure));
     curves.coneSplDb[k] = splDb(abs(r.conePressure));
     if (curves.portSplDb) curves.portSplDb[k] = splDb(abs(r.outletPressure));
     const xPeakMm = Math.SQRT2 * abs(r.excursion) * 1000;
     curves.excursionMm[k] = xPeakMm;
     curves.plannedExcursionMm[k] = (xPeakMm * planned) / driveV;
-    if (curves.radiatorExcursionMm && box.type === 'passive-radiator') {
-      curves.radiatorExcursionMm[k] = (Math.SQRT2 * abs(r.outletFlow) * 1000) / (2 * Math.PI * f * box.sp);
-    }
+    const xp = radiatorExcursion(box, r.outletFlow, f);
+    if (curves.radiatorExcursionMm && xp !== null) curves.radiatorExcursionMm[k] = xp * 1000;
     curves.impedanceOhm[k] = abs(r.impedance);
     curves.phaseDeg[k] = (arg(r.impedance) * 180) / Math.PI;
-    curves.groupDelayMs[k] = groupDelay(system, f) * 1000;
-    if (curves.portAirSpeed && curves.plannedPortAirSpeed && box.type === 'vented') {
-      const speed = (Math.SQRT2 * abs(r.outletFlow)) / box.sv;
+    curves.groupDelayMs[k] = wayGroupDelay(system, way, f) * 1000;
+    const speed = portAirSpeed(box, r.outletFlow);
+    if (curves.portAirSpeed && curves.plannedPortAirSpeed && speed !== null) {
       curves.portAirSpeed[k] = speed;
       curves.plannedPortAirSpeed[k] = (speed * planned) / driveV;
     }
-    const lim = maxVolts(system, r, driveV, f);
+    const lim = maxVolts(system, way, r, driveV, f);
     curves.maxSplDb[k] = curves.splDb[k] + 20 * Math.log10(lim.v / driveV);
     curves.maxSplLimit[k] = lim.limit;
   }
-
-  const figures = computeFigures(system, curves, driveV, planned);
-  return { system, driveV, figures, curves, warnings: levelWarnings(system, figures) };
+  return curves;
 }
 
-function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, planned: number): Figures {
-  const { box, driver, amplifier, crossover } = system;
+/** The largest value of `values` over the grid from `fromHz` up, and where. */
+function peakOver(freqHz: Float64Array, values: Float64Array | null, fromHz: number): { value: number; hz: number } {
+  let value = 0;
+  let hz = freqHz[0];
+  for (let k = 0; k < freqHz.length; k++) {
+    if (freqHz[k] < fromHz || !values) continue;
+    if (values[k] > value) [value, hz] = [values[k], freqHz[k]];
+  }
+  return { value, hz };
+}
+
+function wayFigures(system: SpeakerSystem, way: DriverWay, curves: Curves, driveV: number, planned: number): Figures {
   const { freqHz } = curves;
-  const at = (f: number) => respond(system, f, driveV);
-  const upTo = crossover.type === 'none' ? freqHz[freqHz.length - 1] : crossover.fx;
-  let peakX = 0;
-  let peakXHz = freqHz[0];
-  let peakPort = 0;
-  for (let k = 0; k < freqHz.length && freqHz[k] <= upTo; k++) {
-    if (curves.excursionMm[k] > peakX) [peakX, peakXHz] = [curves.excursionMm[k], freqHz[k]];
-    if (curves.portAirSpeed && curves.portAirSpeed[k] > peakPort) peakPort = curves.portAirSpeed[k];
-  }
-  let plannedX = 0;
-  let plannedXHz = freqHz[0];
-  let plannedPort = 0;
-  let plannedPortHz = freqHz[0];
-  for (let k = 0; k < freqHz.length && freqHz[k] <= upTo; k++) {
-    if (freqHz[k] < 20) continue;
-    if (curves.plannedExcursionMm[k] > plannedX) [plannedX, plannedXHz] = [curves.plannedExcursionMm[k], freqHz[k]];
-    const ps = curves.plannedPortAirSpeed?.[k] ?? 0;
-    if (ps > plannedPort) [plannedPort, plannedPortHz] = [ps, freqHz[k]];
-  }
-  // Nominal-impedance minimum: above the highest-frequency impedance peak below 500 Hz.
+  const peakX = peakOver(freqHz, curves.excursionMm, 0);
+  const plannedX = peakOver(freqHz, curves.plannedExcursionMm, 20);
+  const plannedPort = peakOver(freqHz, curves.plannedPortAirSpeed, 20);
+  const vented = curves.portAirSpeed !== null;
+  // Nominal-impedance minimum: above the highest-frequency impedance peak below 500 Hz (for a
+  // way whose resonance lies higher, above its highest peak below 4·fs).
+  const peakBelow = Math.max(500, 4 * way.driver.fs);
   let lastPeak = 0;
-  for (let k = 1; k < freqHz.length - 1 && freqHz[k] < 500; k++) {
+  for (let k = 1; k < freqHz.length - 1 && freqHz[k] < peakBelow; k++) {
     if (curves.impedanceOhm[k] > curves.impedanceOhm[k - 1] && curves.impedanceOhm[k] >= curves.impedanceOhm[k + 1]) lastPeak = k;
   }
   let zMin = Infinity;
@@ -180,70 +257,129 @@ function computeFigures(system: SpeakerSystem, curves: Curves, driveV: number, p
   for (let k = lastPeak; k < freqHz.length; k++) {
     if (curves.impedanceOhm[k] < zMin) [zMin, zMinHz] = [curves.impedanceOhm[k], freqHz[k]];
   }
-  const qts = totalQ(qesWithSeries(driver.qes, driver.re, amplifier.rs), driver.qms);
-  const sealed = box.type === 'sealed' ? sealedAlignment(driver.fs, qts, driver.vas, box.vb) : null;
-  const spl = (f: number) => splDb(abs(at(f).pressure));
+  const spl = (f: number) => splDb(abs(respond(system, way, f, driveV).pressure));
   const sensitivitySystem = { ...system, listening: { ...system.listening, roomGainHz: 0 } };
   return {
-    f3Hz: rolloffHz(system, HALF_POWER_DB),
-    f6Hz: rolloffHz(system, 6),
-    f10Hz: rolloffHz(system, 10),
-    fcHz: sealed ? sealed.fc : null,
-    qtc: sealed ? sealed.qtc : null,
-    fbHz: box.type === 'sealed' ? null : box.fb,
-    fpHz: box.type === 'passive-radiator' ? box.fp : null,
-    portLengthCm: box.type === 'vented' ? box.portLength * 100 : null,
-    eta0Pct: referenceEfficiency(system) * 100,
-    sensitivityDb: splDb(passbandPressure(sensitivitySystem, SENSITIVITY_VOLTS, 1)),
-    passbandSplDb: splDb(passbandPressure(system, driveV)),
-    peakExcursionMm: peakX,
-    peakExcursionHz: peakXHz,
-    peakPortSpeed: box.type === 'vented' ? peakPort : null,
-    plannedPeakExcursionMm: plannedX,
-    plannedPeakExcursionHz: plannedXHz,
-    plannedPeakPortSpeed: box.type === 'vented' ? plannedPort : null,
-    plannedPeakPortSpeedHz: box.type === 'vented' ? plannedPortHz : null,
+    f3Hz: rolloffHz(system, way, HALF_POWER_DB),
+    f6Hz: rolloffHz(system, way, 6),
+    f10Hz: rolloffHz(system, way, 10),
+    ...boxFigures(way, system.amplifier.rs),
+    eta0Pct: referenceEfficiency(system, way) * 100,
+    sensitivityDb: splDb(passbandPressure(sensitivitySystem, way, SENSITIVITY_VOLTS, 1)),
+    passbandSplDb: splDb(wayPassbandPerVolt(system, way) * driveV),
+    peakExcursionMm: peakX.value,
+    peakExcursionHz: peakX.hz,
+    peakPortSpeed: vented ? peakOver(freqHz, curves.portAirSpeed, 0).value : null,
+    plannedPeakExcursionMm: plannedX.value,
+    plannedPeakExcursionHz: plannedX.hz,
+    plannedPeakPortSpeed: vented ? plannedPort.value : null,
+    plannedPeakPortSpeedHz: vented ? plannedPort.hz : null,
     zMinOhm: zMin,
     zMinHz,
     plannedVoltsRms: planned,
-    plannedSplDb: splDb(passbandPressure(system, planned)),
+    plannedSplDb: splDb(wayPassbandPerVolt(system, way) * planned),
     spl30Db: spl(30),
     spl40Db: spl(40),
     spl50Db: spl(50),
-    groupDelay40Ms: groupDelay(system, 40) * 1000,
+    groupDelay40Ms: wayGroupDelay(system, way, 40) * 1000,
   };
 }
 
-/** What the planned level does to this design, as warnings with numbers. */
-function levelWarnings(system: SpeakerSystem, figures: Figures): Issue[] {
+/** What the planned level does to one way, as warnings with numbers. */
+function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>): Issue[] {
+  const { figures, way, index } = wa;
   const out: Issue[] = [];
+  const several = system.ways.filter((w) => w.kind === 'driver').length > 1;
+  const who = several ? `the ${way.name}: ` : '';
   const worstX = figures.plannedPeakExcursionMm;
-  const worstXHz = figures.plannedPeakExcursionHz;
-  const worstPort = figures.plannedPeakPortSpeed ?? 0;
-  const worstPortHz = figures.plannedPeakPortSpeedHz ?? 0;
-  const xmaxMm = system.driver.xmax * 1000;
+  const xmaxMm = way.unit.xmax * 1000;
   if (worstX > xmaxMm) {
     out.push(
       warning(
         'listening.level',
-        `a sine at the planned level (${fmt(figures.plannedVoltsRms)} V rms) moves the cone ${fmt(worstX)} mm at ${fmt(worstXHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
+        `${who}a sine at the planned level (${fmt(figures.plannedVoltsRms)} V rms) moves the cone ${fmt(worstX)} mm at ${fmt(figures.plannedPeakExcursionHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
       ),
     );
   }
+  const worstPort = figures.plannedPeakPortSpeed ?? 0;
+  const worstPortHz = figures.plannedPeakPortSpeedHz ?? 0;
+  const path = `ways[${index}].box.ports`;
   if (worstPort > 2 * PORT_SPEED_LIMIT) {
     out.push(
       warning(
-        'box.ports',
-        `port air speed reaches ${fmt(worstPort)} m/s at ${fmt(worstPortHz)} Hz at the planned level, over 10% of c: port noise will be clearly audible`,
+        path,
+        `${who}port air speed reaches ${fmt(worstPort)} m/s at ${fmt(worstPortHz)} Hz at the planned level, over 10% of c: port noise will be clearly audible`,
       ),
     );
   } else if (worstPort > PORT_SPEED_LIMIT) {
     out.push(
       warning(
-        'box.ports',
-        `port air speed reaches ${fmt(worstPort)} m/s at ${fmt(worstPortHz)} Hz at the planned level (limit about ${PORT_SPEED_LIMIT} m/s)`,
+        path,
+        `${who}port air speed reaches ${fmt(worstPort)} m/s at ${fmt(worstPortHz)} Hz at the planned level (limit about ${PORT_SPEED_LIMIT} m/s)`,
       ),
     );
   }
   return out;
+}
+
+/** One driver way of the system on the grid, at the analysis drive and the planned drive. */
+export function analyzeWay(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, driveV: number, planned: number): WayAnalysis {
+  const curves = wayCurves(system, way, freqHz, driveV, planned);
+  const wa = { way, index: system.ways.indexOf(way), figures: wayFigures(system, way, curves, driveV, planned), curves };
+  return { ...wa, warnings: levelWarnings(system, wa) };
+}
+
+function analyzeSum(system: SpeakerSystem, freqHz: Float64Array, driveV: number, planned: number): SumAnalysis {
+  const n = freqHz.length;
+  const curves: SumCurves = {
+    freqHz,
+    splDb: new Float64Array(n),
+    phaseDeg: new Float64Array(n),
+    groupDelayMs: new Float64Array(n),
+    ways: system.ways.map((w) => ({ name: w.name, kind: w.kind, splDb: new Float64Array(n) })),
+  };
+  for (let k = 0; k < n; k++) {
+    const f = freqHz[k];
+    let sum = cx(0);
+    system.ways.forEach((way, j) => {
+      const p = wayPressure(system, way, f, driveV);
+      curves.ways[j].splDb[k] = splDb(abs(p));
+      sum = add(sum, p);
+    });
+    curves.splDb[k] = splDb(abs(sum));
+    curves.phaseDeg[k] = (arg(sum) * 180) / Math.PI;
+    curves.groupDelayMs[k] = sumGroupDelay(system, f) * 1000;
+  }
+  const perVolt = sumPassbandPerVolt(system);
+  return {
+    curves,
+    figures: {
+      f3Hz: sumRolloffHz(system, HALF_POWER_DB),
+      f6Hz: sumRolloffHz(system, 6),
+      f10Hz: sumRolloffHz(system, 10),
+      sensitivityDb: splDb(sumPassbandPerVolt(system, 1) * SENSITIVITY_VOLTS),
+      passbandSplDb: splDb(perVolt * driveV),
+      plannedVoltsRms: planned,
+      plannedSplDb: splDb(perVolt * planned),
+      groupDelay40Ms: sumGroupDelay(system, 40) * 1000,
+    },
+  };
+}
+
+export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): Analysis {
+  const driveV = options.driveV ?? SENSITIVITY_VOLTS;
+  const driverWays = system.ways.filter((w): w is DriverWay => w.kind === 'driver');
+  const fMax = options.fMaxHz ?? (driverWays.length > 1 ? 20000 : 2000);
+  const freqHz = logGrid(options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48);
+  const planned = plannedVoltsRms(system);
+  const ways = driverWays.map((way) => analyzeWay(system, way, freqHz, driveV, planned));
+  const first = ways[0];
+  return {
+    ...first,
+    system,
+    driveV,
+    ways,
+    sum: analyzeSum(system, freqHz, driveV, planned),
+    warnings: ways.flatMap((w) => w.warnings),
+  };
 }

@@ -1,9 +1,13 @@
-import type { SpeakerSystem } from '../system.ts';
+import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
 
 export type MaxSplLimit = 'excursion' | 'thermal' | 'amplifier' | 'radiator';
 
-/** Small-signal curves on one log-spaced frequency grid; all arrays have freqHz.length entries. */
+/**
+ * Small-signal curves of one driver way on one log-spaced frequency grid; all arrays have
+ * freqHz.length entries. Each way is shown as it plays: through its whole filter (high-pass,
+ * low-pass, gain and delay), before its polarity and acoustic offset place it in the sum.
+ */
 export interface Curves {
   freqHz: Float64Array;
   /** SPL at the listening seat for the analysis drive voltage (rms), dB re 20 µPa. */
@@ -11,27 +15,33 @@ export interface Curves {
   /** Cone alone and port (or radiator) alone, same drive and seat. */
   coneSplDb: Float64Array;
   portSplDb: Float64Array | null;
-  /** Flat passband level of the ideal system (the reference line). */
+  /** The way's flat passband level through its filter's gain (the reference line). */
   referenceSplDb: Float64Array;
   /** Peak one-way cone excursion at the analysis drive, mm. */
   excursionMm: Float64Array;
   /** Peak one-way cone excursion at the planned level, mm. */
   plannedExcursionMm: Float64Array;
   radiatorExcursionMm: Float64Array | null;
-  /** Driver terminal impedance (series resistance excluded). */
+  /** Terminal impedance of the way as the amplifier sees it (all its drivers as wired; series resistance excluded). */
   impedanceOhm: Float64Array;
+  /** Phase of that impedance, degrees. */
   phaseDeg: Float64Array;
+  /** Group delay of the way's acoustic output, filter included. */
   groupDelayMs: Float64Array;
   /** Peak port air speed at the analysis drive, m/s (vented only). */
   portAirSpeed: Float64Array | null;
   /** Peak port air speed at the planned level, m/s (vented only). */
   plannedPortAirSpeed: Float64Array | null;
-  /** Highest SPL at the seat for a sine at each frequency, and what limits it. */
+  /** Highest SPL of the way at the seat for a sine at each frequency, and what limits it. */
   maxSplDb: Float64Array;
   maxSplLimit: MaxSplLimit[];
 }
 
 export interface Figures {
+  /**
+   * Where the way's low end falls 3/6/10 dB under its passband level: its high-pass, gain and
+   * delay included, its low-pass left out (the upper edge belongs to the crossover and the sum).
+   */
   f3Hz: number;
   f6Hz: number;
   f10Hz: number;
@@ -44,18 +54,18 @@ export interface Figures {
   fpHz: number | null;
   /** Physical length of one port, cm (vented). */
   portLengthCm: number | null;
-  /** Small's reference efficiency (half space), percent. */
+  /** Small's reference efficiency (half space) of the way's drivers together, percent. */
   eta0Pct: number;
-  /** Passband SPL for 2.83 V at 1 m in the design's own space (series resistance included). */
+  /** Passband SPL of the way's drivers in their box for 2.83 V at 1 m in the design's own space (no filter; series resistance included). */
   sensitivityDb: number;
-  /** Passband SPL at the seat for the analysis drive. */
+  /** Passband SPL at the seat for the analysis drive, through the filter's gain. */
   passbandSplDb: number;
-  /** Peak excursion over 10 Hz..fx at the analysis drive, mm, and where. */
+  /** Peak excursion over the grid at the analysis drive, mm, and where. */
   peakExcursionMm: number;
   peakExcursionHz: number;
   /** Peak port air speed over the grid at the analysis drive, m/s. */
   peakPortSpeed: number | null;
-  /** Peak excursion (20 Hz..fx) and port air speed for a sine at the planned level, and where. */
+  /** Peak excursion (20 Hz and up) and port air speed for a sine at the planned level, and where. */
   plannedPeakExcursionMm: number;
   plannedPeakExcursionHz: number;
   plannedPeakPortSpeed: number | null;
@@ -63,8 +73,9 @@ export interface Figures {
   /** Minimum impedance above the first resonance, ohm. */
   zMinOhm: number;
   zMinHz: number;
-  /** Amplifier volts (rms) for the planned level, from the design's sensitivity. */
+  /** Amplifier volts (rms) for the planned level: the system's (one drive for every way). */
   plannedVoltsRms: number;
+  /** The way's passband SPL at the seat at the planned drive. */
   plannedSplDb: number;
   /** SPL at the seat at 30/40/50 Hz for the analysis drive. */
   spl30Db: number;
@@ -73,11 +84,58 @@ export interface Figures {
   groupDelay40Ms: number;
 }
 
-export interface Analysis {
+/** One driver way's analysis. */
+export interface WayAnalysis {
+  way: DriverWay;
+  /** Its index in system.ways. */
+  index: number;
+  figures: Figures;
+  curves: Curves;
+  /** What the planned level does to this way. */
+  warnings: Issue[];
+}
+
+/** The summed output of every way at the seat, on the same grid as the ways' curves. */
+export interface SumCurves {
+  freqHz: Float64Array;
+  /** SPL of the complex sum (each way's filter, polarity and offset delay included). */
+  splDb: Float64Array;
+  /** Acoustic phase of the sum, degrees (the time of flight to the seat left out). */
+  phaseDeg: Float64Array;
+  groupDelayMs: Float64Array;
+  /** Each way's SPL as it enters the sum, in system.ways order (flat ways included). */
+  ways: { name: string; kind: 'driver' | 'flat'; splDb: Float64Array }[];
+}
+
+export interface SumFigures {
+  /** Where the sum's low end falls 3/6/10 dB under its passband level (no room gain). */
+  f3Hz: number;
+  f6Hz: number;
+  f10Hz: number;
+  /** Passband SPL of the sum for 2.83 V at 1 m in the design's own space. */
+  sensitivityDb: number;
+  /** Passband SPL of the sum at the seat for the analysis drive. */
+  passbandSplDb: number;
+  /** Amplifier volts (rms) for the planned level. */
+  plannedVoltsRms: number;
+  plannedSplDb: number;
+  groupDelay40Ms: number;
+}
+
+export interface SumAnalysis {
+  figures: SumFigures;
+  curves: SumCurves;
+}
+
+/**
+ * The analysis of a design. The top-level way fields (`way`, `figures`, `curves`) are those of the
+ * first driver way, as the first version's single woofer; `ways` has every driver way and `sum`
+ * the whole system at the seat. `warnings` gathers every way's.
+ */
+export interface Analysis extends WayAnalysis {
   system: SpeakerSystem;
   /** Analysis drive, V rms at the amplifier (default 2.83). */
   driveV: number;
-  figures: Figures;
-  curves: Curves;
-  warnings: Issue[];
+  ways: WayAnalysis[];
+  sum: SumAnalysis;
 }

@@ -45,6 +45,13 @@ const one = (x: number) => x.toFixed(1);
 const hz = (x: number) => (x < 100 ? x.toFixed(1) : x.toFixed(0));
 export const clock = (s: number) => `${Math.floor(s / 60)}:${String(Math.floor(s % 60)).padStart(2, '0')}`;
 
+/** The boxes of a design: the one box, or each driver way's box by name. */
+function boxText(an: Analysis): string {
+  const boxOf = (w: Analysis['way']) => `${w.box.type} ${one(w.box.vbNet * 1000)} l`;
+  if (an.ways.length === 1) return boxOf(an.way);
+  return an.ways.map((w) => `${w.way.name} ${boxOf(w.way)}`).join(' and ');
+}
+
 function louder(nameA: string, nameB: string, dbA: number, dbB: number, what: string): string {
   const d = dbB - dbA;
   if (Math.abs(d) < 0.5) return `${nameA} and ${nameB} are within 0.5 dB of each other ${what}.`;
@@ -83,7 +90,7 @@ export function verdict(
   });
   out.push({
     id: 'size',
-    text: `Box: ${na} ${a.system.box.type} ${one(a.system.box.vbNet * 1000)} l, ${nb} ${b.system.box.type} ${one(b.system.box.vbNet * 1000)} l.`,
+    text: `Box: ${na} ${boxText(a)}, ${nb} ${boxText(b)}.`,
   });
   if (headroom && headroom[0] && headroom[1]) {
     const [ha, hb] = headroom;
@@ -99,10 +106,12 @@ export function verdict(
           `(${one(Math.max(ha.cleanSplDb, hb.cleanSplDb))} against ${one(Math.min(ha.cleanSplDb, hb.cleanSplDb))} dB at the seat)`;
     out.push({ id: 'headroom', text: `${lead}; ${first(na, ha)}, ${first(nb, hb)}.` });
   }
-  for (const [name, an] of [
-    [na, a],
-    [nb, b],
-  ] as const) {
+  // Every way with a port speaks for itself; a one-way design is named as before.
+  const ported = ([na, nb] as const).flatMap((name, k) => {
+    const { ways } = k === 0 ? a : b;
+    return ways.map((w) => [ways.length > 1 ? `${name}'s ${w.way.name}` : name, w] as const);
+  });
+  for (const [name, an] of ported) {
     const speed = an.curves.plannedPortAirSpeed;
     if (!speed) continue;
     let worst = 0;
