@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
@@ -25,6 +25,65 @@ describe('preheard analyze', () => {
     }
   });
 
+  it('adds every driver way under ways and the summed system under system; the top level is the first way', () => {
+    const j = JSON.parse(cli('analyze', 'public/examples/living-room-vented.json', '--json').stdout);
+    expect(j.ways).toHaveLength(1);
+    const [w] = j.ways;
+    expect(w.name).toBe('woofer');
+    for (const k of ['f3_hz', 'fb_hz', 'sensitivity_db', 'peak_excursion_mm', 'group_delay_40_ms']) expect(w[k], k).toBe(j[k]);
+    expect(w.curves.spl_db).toEqual(j.curves.spl_db);
+    // The upper band of a first-version design sits at the woofer's passband: the sum has the same.
+    expect(j.system.sensitivity_db).toBeCloseTo(j.sensitivity_db, 2);
+    expect(j.system.planned_volts_rms).toBe(j.planned_volts_rms);
+    expect(Math.abs(j.system.f3_hz / j.f3_hz - 1)).toBeLessThan(0.005);
+    expect(j.system.curves.ways.map((x: { name: string }) => x.name)).toEqual(['woofer', 'upper band']);
+    for (const k of ['spl_db', 'phase_deg', 'group_delay_ms']) expect(j.system.curves[k]).toHaveLength(j.system.curves.freq_hz.length);
+    // The woofer is shown through its crossover low-pass (LR4 at 2.2 kHz: -6.02 dB there,
+    // Linkwitz 1976) while the sum stays near the passband.
+    const k = j.curves.freq_hz.findIndex((f: number) => f >= 1000);
+    expect(j.system.curves.spl_db[k] - j.passband_spl_db).toBeGreaterThan(-1);
+  });
+
+  it('prints each way and the system for a two-way design', () => {
+    const example = JSON.parse(readFileSync('public/examples/living-room-sealed.json', 'utf8'));
+    const twoWay = {
+      format: 'preheard-design',
+      version: 2,
+      name: 'two-way',
+      ways: [
+        {
+          kind: 'driver',
+          name: 'woofer',
+          driver: example.driver,
+          box: example.box,
+          filter: { type: 'active', lowpass: { shape: 'lr4', hz: 2200 } },
+        },
+        {
+          kind: 'driver',
+          name: 'tweeter',
+          driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
+          box: { type: 'sealed', vb_l: 0.03 },
+          filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3 },
+        },
+      ],
+      amplifier: example.amplifier,
+      listening: example.listening,
+      air: example.air,
+    };
+    const file = join(dir, 'two-way.json');
+    writeFileSync(file, JSON.stringify(twoWay));
+    const table = cli('analyze', file);
+    expect(table.status).toBe(0);
+    expect(table.stdout).toMatch(/way "woofer"/);
+    expect(table.stdout).toMatch(/way "tweeter"/);
+    expect(table.stdout).toMatch(/system \(all ways summed at the seat\)/);
+    const j = JSON.parse(cli('analyze', file, '--json').stdout);
+    expect(j.ways.map((w: { name: string }) => w.name)).toEqual(['woofer', 'tweeter']);
+    expect(j.ways[1].fc_hz).toBeGreaterThan(800);
+    expect(j.curves.freq_hz.at(-1)).toBeCloseTo(20000, 0);
+    expect(j.f3_hz).toBe(j.ways[0].f3_hz);
+  });
+
   it('gives fc and Qtc for a sealed box and honours --volts', () => {
     const a = JSON.parse(cli('analyze', 'public/examples/living-room-sealed.json', '--json').stdout);
     const b = JSON.parse(cli('analyze', 'public/examples/living-room-sealed.json', '--json', '--volts', '28.3').stdout);
@@ -47,7 +106,7 @@ describe('preheard analyze', () => {
     for (const [file, pattern] of [
       [join(dir, 'nope.json'), /cannot read design file/],
       [bad, /not valid JSON/],
-      [invalid, /driver: is required/],
+      [invalid, /crossover: is required/],
     ] as const) {
       const r = cli('analyze', file, '--json');
       expect(r.status).toBe(1);

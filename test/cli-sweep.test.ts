@@ -1,14 +1,33 @@
 import { describe, expect, it, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { writeWav } from '../src/cli/wav.ts';
 import { parseRange } from '../src/cli/sweep.ts';
+import { sweptWayIndex, variant } from '../src/cli/sweep-variant.ts';
+import { parseDesign } from '../src/engine/design/validate.ts';
+import type { DesignDoc } from '../src/engine/design/document.ts';
 
 const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-sweep-'));
 const wav = join(dir, 'burst.wav');
+
+/** The vented example as a two-way design: its woofer way and a closed-back tweeter way (ours). */
+function twoWay(): DesignDoc {
+  const r = parseDesign(readFileSync('public/examples/living-room-vented.json', 'utf8'));
+  if (!r.ok) throw new Error('example');
+  const d = structuredClone(r.design);
+  d.ways[1] = {
+    kind: 'driver',
+    name: 'tweeter',
+    driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
+    box: { type: 'sealed', vb_l: 0.03 },
+    filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3 },
+  };
+  return d;
+}
+const twoWayFile = join(dir, 'two-way.json');
 
 beforeAll(async () => {
   // 2 s: a quiet 45 Hz tone with a loud second in the middle.
@@ -16,12 +35,39 @@ beforeAll(async () => {
   const ch = new Float32Array(2 * sr);
   for (let k = 0; k < ch.length; k++) ch[k] = (k > sr / 2 && k < 1.5 * sr ? 0.9 : 0.05) * Math.sin((2 * Math.PI * 45 * k) / sr);
   await writeWav(wav, [ch], sr, '16');
+  writeFileSync(twoWayFile, JSON.stringify(twoWay()));
 });
 
 describe('preheard sweep', () => {
   it('parses FROM:TO:STEP inclusively', () => {
     expect(parseRange('20:60:5', '--vb', 0.05, 20000)).toEqual([20, 25, 30, 35, 40, 45, 50, 55, 60]);
     expect(parseRange('30:31:0.5', '--fb', 5, 500)).toEqual([30, 30.5, 31]);
+  });
+
+  it("varies only the chosen way's box: volume, and tuning for a vented box", () => {
+    const d = twoWay();
+    expect(sweptWayIndex(d, undefined)).toBe(0);
+    expect(sweptWayIndex(d, 'tweeter')).toBe(1);
+    expect(sweptWayIndex(d, 'midrange')).toBe(-1);
+    const woofer = variant(d, { vb_l: 30, fb_hz: 35 }, 0);
+    expect(woofer.ways[0].kind === 'driver' && woofer.ways[0].box).toMatchObject({ type: 'vented', vb_l: 30, fb_hz: 35 });
+    expect(woofer.ways[1]).toEqual(d.ways[1]);
+    const tweeter = variant(d, { vb_l: 0.05, fb_hz: null }, 1);
+    expect(tweeter.ways[1].kind === 'driver' && tweeter.ways[1].box).toEqual({ type: 'sealed', vb_l: 0.05 });
+    expect(tweeter.ways[0]).toEqual(d.ways[0]);
+    expect(d.ways[1].kind === 'driver' && d.ways[1].box.vb_l).toBe(0.03); // the original is untouched
+  });
+
+  it('sweeps the way named by --way, and refuses a name that is not a driver way (exit 1)', () => {
+    const r = cli('sweep', twoWayFile, wav, '--vb', '0.02:0.04:0.02', '--way', 'tweeter', '--json', '--threads', '1');
+    expect(r.status).toBe(0);
+    const rows = JSON.parse(r.stdout).steps;
+    expect(rows.map((x: { vb_l: number }) => x.vb_l)).toEqual([0.02, 0.04]);
+    // A larger closed back lowers the tweeter's resonance, and with it its f3 (Small 1972), a little.
+    expect(rows[1].f3_hz).toBeLessThan(rows[0].f3_hz);
+    const bad = cli('sweep', twoWayFile, wav, '--vb', '10:20:10', '--way', 'midrange');
+    expect(bad.status).toBe(1);
+    expect(bad.stderr).toMatch(/no way with a driver named "midrange".*"woofer", "tweeter"/);
   });
 
   it('gives the same rows on one thread as on several, one row per volume', () => {

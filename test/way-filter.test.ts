@@ -84,7 +84,13 @@ describe('the way filter as a whole', () => {
   it('applies its gain and delay: |H| = gain, phase -w·delay, with both bands in series', () => {
     const f = 300;
     const w = 2 * Math.PI * f;
-    const plain: ActiveFilter = { type: 'active', highpass: { shape: 'bw2', hz: 30 }, lowpass: { shape: 'lr4', hz: 3000 }, gain: 1, delay: 0 };
+    const plain: ActiveFilter = {
+      type: 'active',
+      highpass: { shape: 'bw2', hz: 30 },
+      lowpass: { shape: 'lr4', hz: 3000 },
+      gain: 1,
+      delay: 0,
+    };
     const padded = { ...plain, gain: 10 ** (-3 / 20), delay: 0.0005 };
     const a = wayFilterAt(plain, w);
     const b = wayFilterAt(padded, w);

@@ -123,6 +123,8 @@ export function analysisJson(a: Analysis) {
 }
 
 function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][] {
+  // The bass figures (30/40/50 Hz, group delay at 40 Hz) only for a way that plays bass.
+  const bass = (j.f3_hz ?? Infinity) < 200;
   const rows: [string, string][] = [
     ['box', `${j.box_type}, ${j.vb_l} l net (${j.vb_effective_l} l acoustic)`],
     ['fs / Qts / Vas', `${j.driver.fs_hz} Hz / ${j.driver.qts} / ${j.driver.vas_l} l`],
@@ -140,12 +142,13 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
     ['sensitivity', `${j.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space)`],
     [
       `at ${j.drive_v} V, ${a.system.listening.distance} m`,
-      `passband ${j.passband_spl_db} dB; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB`,
+      `passband ${j.passband_spl_db} dB` + (bass ? `; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB` : ''),
     ],
     ['peak excursion', `${j.peak_excursion_mm} mm at ${j.drive_v} V (Xmax ${j.driver.xmax_mm} mm)`],
   );
   if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${j.peak_port_speed_m_s} m/s at ${j.drive_v} V`]);
-  rows.push(['minimum impedance', `${j.z_min_ohm} ohm`], ['group delay at 40 Hz', `${j.group_delay_40_ms} ms`]);
+  rows.push(['minimum impedance', `${j.z_min_ohm} ohm`]);
+  if (bass) rows.push(['group delay at 40 Hz', `${j.group_delay_40_ms} ms`]);
   return rows;
 }
 

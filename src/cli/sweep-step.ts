@@ -3,12 +3,10 @@
 import { parseDesign } from '../engine/design/validate.ts';
 import { HALF_POWER_DB, rolloffHz } from '../engine/response/analyze.ts';
 import { findHeadroom } from '../engine/render/index.ts';
-import type { DesignDoc, DriverWayDoc } from '../engine/design/document.ts';
+import type { DesignDoc } from '../engine/design/document.ts';
+import { variant, type SweepPoint } from './sweep-variant.ts';
 
-export interface SweepPoint {
-  vb_l: number;
-  fb_hz: number | null;
-}
+export type { SweepPoint };
 
 export interface SweepRow extends SweepPoint {
   f3_hz: number | null;
@@ -18,17 +16,6 @@ export interface SweepRow extends SweepPoint {
   first_limit_s: number | null;
   /** Why this step has no numbers (an impossible variant). */
   error: string | null;
-}
-
-/** The design with the way at `wayIndex` given the point's box volume and (vented) tuning. */
-export function variant(design: DesignDoc, point: SweepPoint, wayIndex: number): DesignDoc {
-  const ways = design.ways.map((way, k) => {
-    if (k !== wayIndex || way.kind !== 'driver') return way;
-    const box = { ...way.box, vb_l: point.vb_l } as DriverWayDoc['box'];
-    if (point.fb_hz !== null && box.type === 'vented') box.fb_hz = point.fb_hz;
-    return { ...way, box };
-  });
-  return { ...design, ways };
 }
 
 /** One step: the swept way's f3 and the whole design's headroom on the track. */

@@ -6,6 +6,9 @@ register();
 const { sweepStep } = await import('./sweep-step.ts');
 const channels = workerData.channels.map((sab) => new Float32Array(sab));
 parentPort.on('message', (msg) => {
-  parentPort.postMessage({ index: msg.index, row: sweepStep(workerData.design, workerData.wayIndex, msg.point, channels, workerData.sampleRate) });
+  parentPort.postMessage({
+    index: msg.index,
+    row: sweepStep(workerData.design, workerData.wayIndex, msg.point, channels, workerData.sampleRate),
+  });
 });
 parentPort.postMessage({ ready: true });

@@ -5,7 +5,8 @@ import { Worker } from 'node:worker_threads';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { loadDesignFile } from './design-file.ts';
 import { readInputAudio } from './render-common.ts';
-import type { SweepPoint, SweepRow } from './sweep-step.ts';
+import type { SweepRow } from './sweep-step.ts';
+import { sweptWayIndex, type SweepPoint } from './sweep-variant.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
 
@@ -64,7 +65,9 @@ function runPool(
       else resolve(rows);
     };
     for (let t = 0; t < Math.min(threads, points.length); t++) {
-      const w = new Worker(new URL('./sweep-worker.mjs', import.meta.url), { workerData: { design, wayIndex, channels: shared, sampleRate } });
+      const w = new Worker(new URL('./sweep-worker.mjs', import.meta.url), {
+        workerData: { design, wayIndex, channels: shared, sampleRate },
+      });
       workers.push(w);
       const feed = () => {
         if (next < points.length) {
@@ -125,10 +128,8 @@ export const sweepCommand: Command = {
       if (!Number.isInteger(threads) || threads < 1 || threads > 64)
         throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
       const { design } = await loadDesignFile(positionals[0]);
-      const wayIndex =
-        values.way === undefined ? design.ways.findIndex((w) => w.kind === 'driver') : design.ways.findIndex((w) => w.name === values.way);
-      const way = design.ways[wayIndex];
-      if (!way || way.kind !== 'driver') {
+      const way = design.ways[sweptWayIndex(design, values.way)];
+      if (way?.kind !== 'driver') {
         const names = design.ways.filter((w) => w.kind === 'driver').map((w) => `"${w.name}"`);
         throw new InputError(`${positionals[0]} has no way with a driver named "${values.way}"; its driver ways are ${names.join(', ')}`);
       }
@@ -139,7 +140,7 @@ export const sweepCommand: Command = {
       const fbs = values.fb === undefined ? [box.type === 'vented' ? box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
-      const rows = await runPool(design, wayIndex, points, audio.channels, audio.sampleRate, threads);
+      const rows = await runPool(design, design.ways.indexOf(way), points, audio.channels, audio.sampleRate, threads);
       process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, box.type === 'vented'));
       return EXIT_OK;
     }),

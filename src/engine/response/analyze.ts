@@ -111,7 +111,8 @@ function rolloff(relDb: (f: number) => number, startHz: number, dropDb: number):
 const wayPassbandPerVolt = (system: SpeakerSystem, way: DriverWay) => passbandPressure(system, way, 1) * Math.abs(way.filter.gain);
 
 /** Where the scan for a way's low end starts: well above its resonance and its high-pass corner. */
-const scanStartHz = (way: DriverWay) => Math.max(4 * Math.max(way.driver.fs, boxFigures(way).fbHz ?? 0), 2 * (way.filter.highpass?.hz ?? 0));
+const scanStartHz = (way: DriverWay) =>
+  Math.max(4 * Math.max(way.driver.fs, boxFigures(way).fbHz ?? 0), 2 * (way.filter.highpass?.hz ?? 0));
 
 /**
  * Where a way's anechoic low end first falls `dropDb` under its passband level (its high-pass,
