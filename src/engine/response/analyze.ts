@@ -47,14 +47,36 @@ export const unfiltered = (way: DriverWay): DriverWay => ({
   filter: { type: 'active', highpass: null, lowpass: null, gain: 1, delay: 0 },
 });
 
-/** Group delay -d(phase)/dw from the ratio of two nearby responses (no unwrapping needed). */
+/** Relative frequency step of the group-delay difference quotient. */
+const GD_EPS = 1e-4;
+
+/** Group delay -d(phase)/dw from the ratio of the responses at f·(1 -/+ GD_EPS) (no unwrapping needed). */
+const groupDelayFrom = (below: Complex, above: Complex, f: number): number => -arg(div(above, below)) / (2 * Math.PI * f * 2 * GD_EPS);
+
 function groupDelayOf(pressure: (f: number) => Complex, f: number): number {
-  const eps = 1e-4;
-  return -arg(div(pressure(f * (1 + eps)), pressure(f * (1 - eps)))) / (2 * Math.PI * f * 2 * eps);
+  return groupDelayFrom(pressure(f * (1 - GD_EPS)), pressure(f * (1 + GD_EPS)), f);
 }
 
 const wayGroupDelay = (system: SpeakerSystem, way: DriverWay, f: number) => groupDelayOf((x) => respond(system, way, x, 1).pressure, f);
 const sumGroupDelay = (system: SpeakerSystem, f: number) => groupDelayOf((x) => systemPressure(system, x, 1), f);
+
+/**
+ * Every way's pressure as it enters the sum (`wayPressure`) on the grid and just below and above
+ * each grid frequency, for the sum and the group delays: each evaluated once.
+ */
+interface Placed {
+  below: Complex[];
+  at: Complex[];
+  above: Complex[];
+}
+
+function placeWays(system: SpeakerSystem, freqHz: Float64Array, volts: number): Placed[] {
+  return system.ways.map((way) => ({
+    below: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 - GD_EPS), volts)),
+    at: Array.from(freqHz, (f) => wayPressure(system, way, f, volts)),
+    above: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 + GD_EPS), volts)),
+  }));
+}
 
 /**
  * The passband pressure of the whole system per amplifier volt, Pa/V at `distance`: each way
@@ -78,10 +100,10 @@ export function sumPassbandPerVolt(system: SpeakerSystem, distance = system.list
 }
 
 /** Amplifier volts (rms) for the planned level: SPL of the sum's passband at the seat, or volts at full scale. */
-export function plannedVoltsRms(system: SpeakerSystem): number {
+export function plannedVoltsRms(system: SpeakerSystem, sumPerVolt = sumPassbandPerVolt(system)): number {
   const level = system.listening.level;
   if (level.mode === 'volts') return level.voltsFs / Math.SQRT2;
-  return 10 ** ((level.splDb - splDb(sumPassbandPerVolt(system))) / 20);
+  return 10 ** ((level.splDb - splDb(sumPerVolt)) / 20);
 }
 
 /**
@@ -125,8 +147,8 @@ export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number)
 }
 
 /** Where the sum's anechoic low end first falls `dropDb` under the sum's passband level. */
-export function sumRolloffHz(system: SpeakerSystem, dropDb: number): number {
-  const ref = splDb(sumPassbandPerVolt(system));
+export function sumRolloffHz(system: SpeakerSystem, dropDb: number, sumPerVolt = sumPassbandPerVolt(system)): number {
+  const ref = splDb(sumPerVolt);
   const start = Math.min(...system.ways.filter((w): w is DriverWay => w.kind === 'driver').map(scanStartHz));
   return rolloff((f) => splDb(abs(systemPressure(system, f, 1, false))) - ref, start, dropDb);
 }
@@ -182,7 +204,7 @@ function maxVolts(system: SpeakerSystem, way: DriverWay, r: PointResponse, volts
   return candidates.reduce((a, b) => (b.v < a.v ? b : a));
 }
 
-function wayCurves(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, driveV: number, planned: number): Curves {
+function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz: Float64Array, driveV: number, planned: number): Curves {
   const n = freqHz.length;
   const { box } = way;
   const hasOutlet = box.type !== 'sealed';
@@ -216,7 +238,8 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, 
     if (curves.radiatorExcursionMm && xp !== null) curves.radiatorExcursionMm[k] = xp * 1000;
     curves.impedanceOhm[k] = abs(r.impedance);
     curves.phaseDeg[k] = (arg(r.impedance) * 180) / Math.PI;
-    curves.groupDelayMs[k] = wayGroupDelay(system, way, f) * 1000;
+    // The way as placed in the sum, less its offset's pure delay (polarity leaves the delay alone).
+    curves.groupDelayMs[k] = (groupDelayFrom(placed.below[k], placed.above[k], f) - offsetDelay(system, way)) * 1000;
     const speed = portAirSpeed(box, r.outletFlow);
     if (curves.portAirSpeed && curves.plannedPortAirSpeed && speed !== null) {
       curves.portAirSpeed[k] = speed;
@@ -324,13 +347,27 @@ function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>)
 }
 
 /** One driver way of the system on the grid, at the analysis drive and the planned drive. */
-export function analyzeWay(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, driveV: number, planned: number): WayAnalysis {
-  const curves = wayCurves(system, way, freqHz, driveV, planned);
+function analyzeWay(
+  system: SpeakerSystem,
+  way: DriverWay,
+  placed: Placed,
+  freqHz: Float64Array,
+  driveV: number,
+  planned: number,
+): WayAnalysis {
+  const curves = wayCurves(system, way, placed, freqHz, driveV, planned);
   const wa = { way, index: system.ways.indexOf(way), figures: wayFigures(system, way, curves, driveV, planned), curves };
   return { ...wa, warnings: levelWarnings(system, wa) };
 }
 
-function analyzeSum(system: SpeakerSystem, freqHz: Float64Array, driveV: number, planned: number): SumAnalysis {
+function analyzeSum(
+  system: SpeakerSystem,
+  placed: Placed[],
+  freqHz: Float64Array,
+  driveV: number,
+  sumPerVolt: number,
+  planned: number,
+): SumAnalysis {
   const n = freqHz.length;
   const curves: SumCurves = {
     freqHz,
@@ -340,28 +377,27 @@ function analyzeSum(system: SpeakerSystem, freqHz: Float64Array, driveV: number,
     ways: system.ways.map((w) => ({ name: w.name, kind: w.kind, splDb: new Float64Array(n) })),
   };
   for (let k = 0; k < n; k++) {
-    const f = freqHz[k];
-    let sum = cx(0);
-    system.ways.forEach((way, j) => {
-      const p = wayPressure(system, way, f, driveV);
-      curves.ways[j].splDb[k] = splDb(abs(p));
-      sum = add(sum, p);
+    let [below, at, above] = [cx(0), cx(0), cx(0)];
+    placed.forEach((p, j) => {
+      curves.ways[j].splDb[k] = splDb(abs(p.at[k]));
+      below = add(below, p.below[k]);
+      at = add(at, p.at[k]);
+      above = add(above, p.above[k]);
     });
-    curves.splDb[k] = splDb(abs(sum));
-    curves.phaseDeg[k] = (arg(sum) * 180) / Math.PI;
-    curves.groupDelayMs[k] = sumGroupDelay(system, f) * 1000;
+    curves.splDb[k] = splDb(abs(at));
+    curves.phaseDeg[k] = (arg(at) * 180) / Math.PI;
+    curves.groupDelayMs[k] = groupDelayFrom(below, above, freqHz[k]) * 1000;
   }
-  const perVolt = sumPassbandPerVolt(system);
   return {
     curves,
     figures: {
-      f3Hz: sumRolloffHz(system, HALF_POWER_DB),
-      f6Hz: sumRolloffHz(system, 6),
-      f10Hz: sumRolloffHz(system, 10),
+      f3Hz: sumRolloffHz(system, HALF_POWER_DB, sumPerVolt),
+      f6Hz: sumRolloffHz(system, 6, sumPerVolt),
+      f10Hz: sumRolloffHz(system, 10, sumPerVolt),
       sensitivityDb: splDb(sumPassbandPerVolt(system, 1) * SENSITIVITY_VOLTS),
-      passbandSplDb: splDb(perVolt * driveV),
+      passbandSplDb: splDb(sumPerVolt * driveV),
       plannedVoltsRms: planned,
-      plannedSplDb: splDb(perVolt * planned),
+      plannedSplDb: splDb(sumPerVolt * planned),
       groupDelay40Ms: sumGroupDelay(system, 40) * 1000,
     },
   };
@@ -372,15 +408,17 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const driverWays = system.ways.filter((w): w is DriverWay => w.kind === 'driver');
   const fMax = options.fMaxHz ?? (driverWays.length > 1 ? 20000 : 2000);
   const freqHz = logGrid(options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48);
-  const planned = plannedVoltsRms(system);
-  const ways = driverWays.map((way) => analyzeWay(system, way, freqHz, driveV, planned));
+  const sumPerVolt = sumPassbandPerVolt(system);
+  const planned = plannedVoltsRms(system, sumPerVolt);
+  const placed = placeWays(system, freqHz, driveV);
+  const ways = driverWays.map((way) => analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned));
   const first = ways[0];
   return {
     ...first,
     system,
     driveV,
     ways,
-    sum: analyzeSum(system, freqHz, driveV, planned),
+    sum: analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned),
     warnings: ways.flatMap((w) => w.warnings),
   };
 }
