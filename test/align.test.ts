@@ -5,6 +5,7 @@ import { respond } from '../src/engine/response/frequency.ts';
 import { abs } from '../src/engine/complex.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { doc, qesFor, system, woofer } from './helpers/designs.ts';
+import type { DriverWay } from '../src/engine/system.ts';
 
 describe('alignment suggestions', () => {
   const base = doc(
@@ -43,5 +44,45 @@ describe('alignment suggestions', () => {
     expect(worst).toBeLessThanOrEqual(PORT_SPEED_LIMIT * 1.005);
     expect(worst).toBeGreaterThan(PORT_SPEED_LIMIT * 0.7); // and not absurdly oversized
     expect(parseDesign(design).ok).toBe(true);
+  });
+
+  it('suggests boxes for the way asked for: closed backs for a tweeter from its own Vas and Qts', () => {
+    const two = parseDesign({
+      format: 'preheard-design',
+      version: 2,
+      name: 'two-way',
+      ways: [
+        {
+          kind: 'driver',
+          name: 'woofer',
+          driver: base.driver,
+          box: base.box,
+          filter: { type: 'active', lowpass: { shape: 'lr4', hz: 2200 } },
+        },
+        {
+          kind: 'driver',
+          name: 'tweeter',
+          driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
+          box: { type: 'sealed', vb_l: 0.03 },
+          filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 } },
+        },
+      ],
+      amplifier: base.amplifier,
+      listening: base.listening,
+      air: base.air,
+    });
+    if (!two.ok) throw new Error(two.errors.map((e) => e.message).join());
+    const tweeter = two.system.ways[1];
+    if (tweeter.kind !== 'driver') throw new Error('way kind');
+    const list = suggestAlignments(two.system, tweeter);
+    const butterworth = list.find((a) => a.qtc === 0.707)!;
+    // Small 1972: Vb = Vas/((Qtc/Qts)^2 - 1), Qts with the series resistance (none here) in Qes.
+    const qts = (0.7 * 2.5) / (0.7 + 2.5);
+    expect(butterworth.vbL).toBeCloseTo(0.0103 / ((0.707 / qts) ** 2 - 1), 3);
+    // fc = fs·sqrt(1 + alpha) = fs·Qtc/Qts for the closed box.
+    expect(butterworth.fcHz).toBeCloseTo((800 * 0.707) / qts, 6);
+    // Without a way named, the first driver way: the woofer.
+    expect(suggestAlignments(two.system)).toEqual(suggestAlignments(two.system, two.system.ways[0] as DriverWay));
+    expect(suggestAlignments(two.system)[0].vbL).toBeGreaterThan(10);
   });
 });

@@ -132,4 +132,26 @@ describe('a two-way active design (woofer + closed-back tweeter, LR4 at 2.2 kHz,
     // The tweeter's low end is set by its high-pass: its f3 lies above the crossover corner.
     expect(a.ways[1].figures.f3Hz).toBeGreaterThan(fx);
   });
+
+  it('places each way in the sum with its polarity, its filter delay and its acoustic offset (a delay of offset/c)', () => {
+    const moved = structuredClone(twoWay);
+    Object.assign(moved.ways[1], { polarity: -1, offset_mm: 30 });
+    Object.assign(moved.ways[1].filter!, { delay_ms: 0.05 });
+    const b = analyze(system(moved));
+    const lag = 0.03 / c + 0.00005;
+    let worst = 0;
+    const { freqHz, splDb, groupDelayMs } = b.sum.curves;
+    for (let k = 0; k < freqHz.length; k++) {
+      const w = 2 * Math.PI * freqHz[k];
+      const low = mul(woofer(w), lr4(w, 2 * Math.PI * fx, false));
+      const high = mul(mul(tweeter(w), lr4(w, 2 * Math.PI * fx, true)), [-pad * Math.cos(w * lag), pad * Math.sin(w * lag)]);
+      worst = Math.max(worst, Math.abs(splDb[k] - db([(low[0] + high[0]) * b.driveV, (low[1] + high[1]) * b.driveV])));
+    }
+    expect(worst).toBeLessThan(0.1);
+    // Far above the crossover the sum is the tweeter alone: the way's own curve carries its filter's
+    // delay, the sum adds the offset's.
+    const k = freqHz.findIndex((f) => f >= 15000);
+    expect(b.ways[1].curves.groupDelayMs[k] - a.ways[1].curves.groupDelayMs[k]).toBeCloseTo(0.05, 6);
+    expect(groupDelayMs[k] - b.ways[1].curves.groupDelayMs[k]).toBeCloseTo((0.03 / c) * 1000, 3);
+  });
 });

@@ -46,4 +46,24 @@ describe('plain-language verdict', () => {
   it('formats track times as m:ss', () => {
     expect(clock(125.9)).toBe('2:05');
   });
+
+  it('names each way of a multi-way design: its box, and its port if it has one', () => {
+    const r = parseDesign(readFileSync('public/examples/living-room-vented.json', 'utf8'));
+    if (!r.ok) throw new Error('example');
+    const d = structuredClone(r.design);
+    d.ways[1] = {
+      kind: 'driver',
+      name: 'tweeter',
+      driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
+      box: { type: 'sealed', vb_l: 0.03 },
+      filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3 },
+    };
+    const two = parseDesign(d);
+    if (!two.ok) throw new Error(two.errors.map((e) => e.message).join());
+    const lines = verdict(a, analyze(two.system));
+    expect(lines.find((l) => l.id === 'size')!.text).toBe('Box: A sealed 14.0 l, B woofer vented 20.0 l and tweeter sealed 0.03 l.');
+    const ports = lines.filter((l) => l.id === 'port');
+    expect(ports).toHaveLength(1);
+    expect(ports[0].text).toMatch(/^B's woofer's port/);
+  });
 });

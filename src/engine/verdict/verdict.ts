@@ -47,7 +47,9 @@ export const clock = (s: number) => `${Math.floor(s / 60)}:${String(Math.floor(s
 
 /** The boxes of a design: the one box, or each driver way's box by name. */
 function boxText(an: Analysis): string {
-  const boxOf = (w: Analysis['way']) => `${w.box.type} ${one(w.box.vbNet * 1000)} l`;
+  // A tweeter's back chamber holds a few hundredths of a litre: two significant digits there.
+  const litres = (l: number) => (l >= 1 ? one(l) : String(Number(l.toPrecision(2))));
+  const boxOf = (w: Analysis['way']) => `${w.box.type} ${litres(w.box.vbNet * 1000)} l`;
   if (an.ways.length === 1) return boxOf(an.way);
   return an.ways.map((w) => `${w.way.name} ${boxOf(w.way)}`).join(' and ');
 }
