@@ -6,6 +6,7 @@ import { abs } from '../src/engine/complex.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { doc, qesFor, system, woofer } from './helpers/designs.ts';
 import type { DriverWay } from '../src/engine/system.ts';
+import { tweeterWay } from './helpers/two-way.ts';
 
 describe('alignment suggestions', () => {
   const base = doc(
@@ -59,13 +60,7 @@ describe('alignment suggestions', () => {
           box: base.box,
           filter: { type: 'active', lowpass: { shape: 'lr4', hz: 2200 } },
         },
-        {
-          kind: 'driver',
-          name: 'tweeter',
-          driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
-          box: { type: 'sealed', vb_l: 0.03 },
-          filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 } },
-        },
+        { ...tweeterWay(), filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 } } },
       ],
       amplifier: base.amplifier,
       listening: base.listening,

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { twoWayFrom } from './helpers/two-way.ts';
 
 const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-cli-'));
@@ -45,31 +46,7 @@ describe('preheard analyze', () => {
   });
 
   it('prints each way and the system for a two-way design', () => {
-    const example = JSON.parse(readFileSync('public/examples/living-room-sealed.json', 'utf8'));
-    const twoWay = {
-      format: 'preheard-design',
-      version: 2,
-      name: 'two-way',
-      ways: [
-        {
-          kind: 'driver',
-          name: 'woofer',
-          driver: example.driver,
-          box: example.box,
-          filter: { type: 'active', lowpass: { shape: 'lr4', hz: 2200 } },
-        },
-        {
-          kind: 'driver',
-          name: 'tweeter',
-          driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
-          box: { type: 'sealed', vb_l: 0.03 },
-          filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3 },
-        },
-      ],
-      amplifier: example.amplifier,
-      listening: example.listening,
-      air: example.air,
-    };
+    const twoWay = twoWayFrom('public/examples/living-room-sealed.json');
     const file = join(dir, 'two-way.json');
     writeFileSync(file, JSON.stringify(twoWay));
     const table = cli('analyze', file);

@@ -1,32 +1,18 @@
 import { describe, expect, it, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { writeWav } from '../src/cli/wav.ts';
 import { parseRange } from '../src/cli/sweep.ts';
 import { sweptWayIndex, variant } from '../src/cli/sweep-variant.ts';
-import { parseDesign } from '../src/engine/design/validate.ts';
-import type { DesignDoc } from '../src/engine/design/document.ts';
+import { twoWayFrom } from './helpers/two-way.ts';
 
 const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-sweep-'));
 const wav = join(dir, 'burst.wav');
 
-/** The vented example as a two-way design: its woofer way and a closed-back tweeter way (ours). */
-function twoWay(): DesignDoc {
-  const r = parseDesign(readFileSync('public/examples/living-room-vented.json', 'utf8'));
-  if (!r.ok) throw new Error('example');
-  const d = structuredClone(r.design);
-  d.ways[1] = {
-    kind: 'driver',
-    name: 'tweeter',
-    driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
-    box: { type: 'sealed', vb_l: 0.03 },
-    filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3 },
-  };
-  return d;
-}
+const twoWay = () => twoWayFrom('public/examples/living-room-vented.json');
 const twoWayFile = join(dir, 'two-way.json');
 
 beforeAll(async () => {

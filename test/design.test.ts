@@ -4,6 +4,7 @@ import { migrate, parseDesign } from '../src/engine/design/validate.ts';
 import type { DesignDoc } from '../src/engine/design/document.ts';
 import type { DriverWay } from '../src/engine/system.ts';
 import { AIR_20C, doc, type V1Doc } from './helpers/designs.ts';
+import { tweeterWay } from './helpers/two-way.ts';
 
 const paths = (r: ReturnType<typeof parseDesign>) => (r.ok ? [] : r.errors.map((e) => e.path));
 const driver = { fs_hz: 40, qes: 0.4, qms: 4, vas_l: 30 };
@@ -127,15 +128,8 @@ describe('design version 2: ways', () => {
   ways[0].filter = { type: 'active', lowpass: { shape: 'lr4', hz: 2200 } };
   ways[0].count = 2;
   ways[0].wiring = 'series';
-  ways.push({
-    kind: 'driver',
-    name: 'tweeter',
-    driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
-    box: { type: 'sealed', vb_l: 0.03 },
-    filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3, delay_ms: 0.1 },
-    polarity: -1,
-    offset_mm: 20,
-  });
+  const tweeter = tweeterWay();
+  ways.push({ ...tweeter, filter: { ...tweeter.filter!, delay_ms: 0.1 }, polarity: -1, offset_mm: 20 });
 
   it('builds each way in SI: the filter gain linear, the delay in s, the offset in m, the drivers of a way combined', () => {
     const r = parseDesign(twoWay);

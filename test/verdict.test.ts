@@ -3,6 +3,7 @@ import { readFileSync } from 'node:fs';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { analyze } from '../src/engine/response/analyze.ts';
 import { verdict, clock } from '../src/engine/verdict/verdict.ts';
+import { twoWayFrom } from './helpers/two-way.ts';
 
 const load = (name: string) => {
   const r = parseDesign(readFileSync(`public/examples/${name}.json`, 'utf8'));
@@ -48,16 +49,7 @@ describe('plain-language verdict', () => {
   });
 
   it('names each way of a multi-way design: its box, and its port if it has one', () => {
-    const r = parseDesign(readFileSync('public/examples/living-room-vented.json', 'utf8'));
-    if (!r.ok) throw new Error('example');
-    const d = structuredClone(r.design);
-    d.ways[1] = {
-      kind: 'driver',
-      name: 'tweeter',
-      driver: { fs_hz: 800, qes: 0.7, qms: 2.5, vas_l: 0.0103, re_ohm: 5, sd_cm2: 7, xmax_mm: 0.3, xlim_mm: 0.6, pe_w: 10 },
-      box: { type: 'sealed', vb_l: 0.03 },
-      filter: { type: 'active', highpass: { shape: 'lr4', hz: 2200 }, gain_db: -3 },
-    };
+    const d = twoWayFrom('public/examples/living-room-vented.json');
     const two = parseDesign(d);
     if (!two.ok) throw new Error(two.errors.map((e) => e.message).join());
     const lines = verdict(a, analyze(two.system));
