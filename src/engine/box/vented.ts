@@ -1,4 +1,3 @@
-import type { Air, VentedBox } from '../system.ts';
 import * as v from 'valibot';
 import type { PortDoc } from '../design/document.ts';
 import { num, portsSchema, qlSchema, volumeSchema } from '../design/schema.ts';
@@ -6,6 +5,30 @@ import type { BoxKind } from './types.ts';
 import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
+import { oneChamberAcoustics, PortedChamber } from './one-chamber.ts';
+import { PORT_SPEED_LIMIT } from '../units.ts';
+
+export interface VentedBox {
+  type: 'vented';
+  vb: number;
+  vbNet: number;
+  ral: number;
+  ql: number | null;
+  fb: number;
+  /** Total port area, m^2. */
+  sv: number;
+  portCount: number;
+  /** Area of one port, m^2. */
+  portArea: number;
+  /** Equivalent radius of one port (for end corrections), m. */
+  portRadius: number;
+  /** Physical length of one port, m (may be negative if the tuning is impossible; validation reports it). */
+  portLength: number;
+  /** Effective acoustic length (physical + end corrections), m. */
+  portLeff: number;
+  /** Acoustic mass of all ports together, kg/m^4. */
+  map: number;
+}
 
 const schema = v.strictObject({
   type: v.literal('vented'),
@@ -140,5 +163,8 @@ export const vented: BoxKind<typeof schema, VentedBox> = {
     return { box, issues };
   },
   // Port as a lossless acoustic mass (its small-signal loss is lumped into QL): Y = 1/(j w Map).
-  outletAdmittance: (box: VentedBox, _air: Air, w: number) => inv(cx(0, w * box.map)),
+  acoustics: (box, air, w) => oneChamberAcoustics(box.vb, box.ral, air, w, inv(cx(0, w * box.map))),
+  chamber: (box, ctx) => new PortedChamber(box.vb, box.ral, box.map, box.sv, ctx),
+  // Port air speed over about 17 m/s (common practice, roughly 5% of c).
+  probe: (box) => ({ kind: 'port-speed', toUnit: 1 / box.sv, limit: PORT_SPEED_LIMIT }),
 };

@@ -1,8 +1,8 @@
 // The linearised model as a dense state-space recurrence, built from the same rows and the same
 // theta weights as the nonlinear step (./woofer.ts), so at low drive both give identical samples.
 //   (M/h - Theta·A)·y1 = (M/h + (I - Theta)·A)·y0 + Theta·b·u1 + (I - Theta)·b·u0
-// State order: [i, x, v, pb, (Up | xp, vp)].
-import { BOX_RADIATOR, BOX_VENTED, type WooferParams } from './params.ts';
+// State order: [i, x, v, then the box's own states (box/physics.ts)].
+import type { WooferParams } from './params.ts';
 
 export interface LinearModel {
   n: number;
@@ -16,13 +16,16 @@ export interface LinearModel {
 }
 
 export function linearModel(p: WooferParams): LinearModel {
-  const n = p.boxCode === BOX_VENTED ? 5 : p.boxCode === BOX_RADIATOR ? 6 : 4;
+  const chamber = p.newChamber();
+  const n = 3 + chamber.states;
   const m = new Float64Array(n * n),
     a = new Float64Array(n * n);
   const b = new Float64Array(n),
     theta = new Float64Array(n).fill(0.5),
     c = new Float64Array(n);
-  const set = (arr: Float64Array, r: number, col: number, val: number) => (arr[r * n + col] = val);
+  const set = (arr: Float64Array, r: number, col: number, val: number) => {
+    arr[r * n + col] = val;
+  };
   const R = p.re0 + p.rs;
   theta[0] = p.thetaE;
   set(m, 0, 0, p.le0);
@@ -35,27 +38,12 @@ export function linearModel(p: WooferParams): LinearModel {
   set(a, 2, 0, p.bl0);
   set(a, 2, 1, -p.k0);
   set(a, 2, 2, -p.rms);
-  set(a, 2, 3, p.sd);
-  set(m, 3, 3, p.cab);
-  set(a, 3, 2, -p.sd);
-  set(a, 3, 3, -p.g);
-  if (p.boxCode === BOX_VENTED) {
-    set(a, 3, 4, -1);
-    set(m, 4, 4, p.map);
-    set(a, 4, 3, 1);
-    for (let k = 0; k < n; k++) c[k] += (p.kOut * a[4 * n + k]) / p.map;
-  } else if (p.boxCode === BOX_RADIATOR) {
-    set(a, 3, 5, -p.sp);
-    set(m, 4, 4, 1);
-    set(a, 4, 5, 1);
-    set(m, 5, 5, p.mmp);
-    set(a, 5, 3, p.sp);
-    set(a, 5, 4, -p.kmp0);
-    set(a, 5, 5, -p.rmp);
-    for (let k = 0; k < n; k++) c[k] += (p.kOut * p.sp * a[5 * n + k]) / p.mmp;
+  const target = { n, m, a, c, kOut: p.kOut };
+  chamber.linearRows(target);
+  // dU/dt: the cone's own face (each row of A divided by its mass), then the box's leak.
+  for (let k = 0; k < n; k++) {
+    c[k] += (chamber.coneRadiates ? (p.kOut * p.sd * a[2 * n + k]) / p.mms : 0) + chamber.leakOut(target, k);
   }
-  // dU/dt = Sd·v' + pb'/Ral + (Up' | Sp·vp'), each row of A divided by its mass (the leak radiates).
-  for (let k = 0; k < n; k++) c[k] += (p.kOut * p.sd * a[2 * n + k]) / p.mms + (p.kOut * p.g * a[3 * n + k]) / p.cab;
   return { n, m, a, b, theta, c };
 }
 
