@@ -4,10 +4,11 @@ import type { BoxKind } from './types.ts';
 import { sealed } from './sealed.ts';
 import { vented } from './vented.ts';
 import { passiveRadiator } from './passive-radiator.ts';
+import { bandpass4 } from './bandpass4.ts';
 
-const KINDS = [sealed, vented, passiveRadiator] as const;
+const KINDS = [sealed, vented, passiveRadiator, bandpass4] as const;
 
-export const designSchema = makeDesignSchema([sealed.schema, vented.schema, passiveRadiator.schema]);
+export const designSchema = makeDesignSchema(KINDS.map((k) => k.schema));
 
 export type BoxType = (typeof KINDS)[number]['type'];
 /** Every built box: the union of the kinds' own box types. */
