@@ -40,6 +40,8 @@ export function driver(spec: DriverSpec = {}) {
     vas,
     re,
     le,
+    l2: 0,
+    r2: 0,
     sd,
     bl,
     mms,

@@ -37,6 +37,12 @@ export interface Driver {
   re: number;
   /** H */
   le: number;
+  /**
+   * Semi-inductance: a lossy inductance L2 in parallel with R2, in series with Le (the published
+   * L2R2 coil model); both 0 when not given.
+   */
+  l2: number;
+  r2: number;
   /** m^2 */
   sd: number;
   /** T·m */

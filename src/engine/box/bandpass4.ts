@@ -187,12 +187,17 @@ export const bandpass4: BoxKind<typeof schema, Bandpass4Box> = {
     const length = portLengthFor(geoms, vbFront, doc.fb_hz, air.c);
     if (length <= 0) {
       issues.push(
-        error(`${path}.ports`, `ports of ${fmt(sv * 1e4)} cm² cannot tune the ${fmt(doc.vb_front_l)} l front chamber to ${fmt(doc.fb_hz)} Hz; use a larger port area`),
+        error(
+          `${path}.ports`,
+          `ports of ${fmt(sv * 1e4)} cm² cannot tune the ${fmt(doc.vb_front_l)} l front chamber to ${fmt(doc.fb_hz)} Hz; use a larger port area`,
+        ),
       );
       return { box: null, issues };
     }
     if (sv * length >= vbFront) {
-      issues.push(error(`${path}.ports`, `the ports (${fmt(sv * length * 1000)} l) are larger than the ${fmt(doc.vb_front_l)} l front chamber`));
+      issues.push(
+        error(`${path}.ports`, `the ports (${fmt(sv * length * 1000)} l) are larger than the ${fmt(doc.vb_front_l)} l front chamber`),
+      );
       return { box: null, issues };
     }
     const wb = 2 * Math.PI * doc.fb_hz;

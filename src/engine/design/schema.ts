@@ -35,6 +35,8 @@ export const driverSchema = v.strictObject({
   vas_l: v.optional(num(0.0001, 20000, 'l')),
   re_ohm: num(0.1, 200, 'ohm'),
   le_mh: v.optional(num(0, 50, 'mH')),
+  l2_mh: v.optional(num(0.001, 50, 'mH')),
+  r2_ohm: v.optional(num(0.01, 1000, 'ohm')),
   sd_cm2: num(0.5, 20000, 'cm²'),
   bl_tm: v.optional(num(0.05, 200, 'T·m')),
   mms_g: v.optional(num(0.01, 10000, 'g')),

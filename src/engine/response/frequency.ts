@@ -5,7 +5,7 @@
 // The box kind gives zLoad and what radiates per unit cone volume velocity (box/physics.ts): in a
 // one-chamber box the leak radiates with cone and port, which gives Small's s^4/D(s) form (JAES 1973).
 // Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
-import type { DriverWay, SpeakerSystem, Way } from '../system.ts';
+import type { Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import { add, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { BOX_KINDS } from '../box/index.ts';
@@ -27,6 +27,18 @@ export interface PointResponse {
   current: Complex;
   /** Driver terminal impedance, ohm (series resistance excluded). */
   impedance: Complex;
+}
+
+/**
+ * The blocked coil: Re + jw·Le, plus the semi-inductance jw·L2·R2/(R2 + jw·L2) when given (the
+ * L2R2 lossy-inductance model: eddy currents make the coil's inductance fall and its resistance rise
+ * with frequency).
+ */
+export function coilImpedance(d: Driver, w: number): Complex {
+  const z = cx(d.re, w * d.le);
+  if (!(d.l2 > 0)) return z;
+  const jwl2 = cx(0, w * d.l2);
+  return add(z, div(scale(jwl2, d.r2), add(cx(d.r2), jwl2)));
 }
 
 /** Room or cabin gain: a 12 dB/octave rise below the corner (common practice, no source). */
@@ -52,7 +64,8 @@ export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts:
   const w = 2 * Math.PI * f;
   const jw = cx(0, w);
   const drive = scale(wayFilterAt(way.filter, w), volts);
-  const ze = cx(d.re + amplifier.rs, w * d.le);
+  const coil = coilImpedance(d, w);
+  const ze = add(coil, cx(amplifier.rs));
   const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
   const ac = BOX_KINDS[box.type].acoustics(box, air, w);
   const zmTotal = add(zm, scale(ac.zLoad, d.sd * d.sd));
@@ -77,7 +90,7 @@ export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts:
     outletFlow,
     boxPressure,
     current,
-    impedance: add(cx(d.re, w * d.le), motional),
+    impedance: add(coil, motional),
   };
 }
 

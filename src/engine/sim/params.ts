@@ -16,6 +16,9 @@ export interface WooferParams {
   rs: number;
   alphaR: number;
   le0: number;
+  /** Semi-inductance L2 ∥ R2 in series with the coil, H and ohm; l2 = 0 when absent. */
+  l2: number;
+  r2: number;
   bl0: number;
   k0: number;
   mms: number;
@@ -65,6 +68,8 @@ export function wooferParams(sys: SpeakerSystem, way: DriverWay, h: number, opt:
     rs: sys.amplifier.rs,
     alphaR: d.thermal.alphaR,
     le0: d.le,
+    l2: d.l2,
+    r2: d.r2,
     bl0: d.bl,
     k0: 1 / d.cms,
     mms: d.mms,

@@ -14,13 +14,16 @@ export interface Rational {
 
 export function speakerTransfer(p: WooferParams): Rational {
   const R = p.re0 + p.rs;
-  const ze: Poly = [R, p.le0];
+  // Ze = zeN/zeD: R + s·Le, plus s·L2·R2/(R2 + s·L2) with a semi-inductance.
+  const zeD: Poly = p.l2 > 0 ? [p.r2, p.l2] : [1];
+  const ze: Poly = p.l2 > 0 ? polyAdd(polyMul([R, p.le0], zeD), [0, p.l2 * p.r2]) : [R, p.le0];
   const { nz, dz, nr } = p.newChamber().transfer();
   const zmech: Poly = [p.k0, p.rms, p.mms];
   // s·(Zm + Sd^2·zLoad)·dz, with zLoad = nz/dz.
   const nm = polyAdd(polyMul(zmech, dz), polyMul([0, p.sd * p.sd], nz));
-  const den = polyAdd(polyMul(nm, ze), polyScale(polyMul([0, 1], dz), p.bl0 * p.bl0));
+  const dzD = p.l2 > 0 ? polyMul(dz, zeD) : dz;
+  const den = polyAdd(polyMul(nm, ze), polyScale(polyMul([0, 1], dzD), p.bl0 * p.bl0));
   // Radiated flow per cone flow nr/dz (Small 1973's net compression flow in a one-chamber box).
-  const num = polyScale(polyMul([0, 0, 1], nr), p.kOut * p.sd * p.bl0);
+  const num = polyScale(polyMul([0, 0, 1], p.l2 > 0 ? polyMul(nr, zeD) : nr), p.kOut * p.sd * p.bl0);
   return { num, den };
 }

@@ -1,6 +1,7 @@
 // The large-signal woofer-in-box model, integrated with a fixed step.
 //
-//   Le(x)·i' = u - R(T)·i - Le'(x)·v·i - Bl(x)·v                       (electrical)
+//   Le(x)·i' = u - R(T)·i - Le'(x)·v·i - Bl(x)·v [- R2·(i - j)]          (electrical)
+//   L2·j' = R2·(i - j)                   (optional semi-inductance: L2 ∥ R2 in series, j through L2)
 //   x' = v
 //   Mms·v' = Bl(x)·i - Rms·v - Kms(x)·x + Sd·P + ½·Le'(x)·i^2           (mechanical, reluctance force)
 //   the box: its own states and rows, owned by its kind (box/physics.ts); P is the net pressure it
@@ -28,6 +29,8 @@ const leFloor = LE_FLOOR;
 export class WooferSim {
   p: WooferParams;
   i = 0;
+  /** Current through the semi-inductance L2, A (0 without one). */
+  j = 0;
   x = 0;
   v = 0;
   /** The box's own states and rows. */
@@ -43,6 +46,7 @@ export class WooferSim {
   private f1 = 0;
   private f2 = 0;
   private f3 = 0;
+  private fj = 0;
   private leNow = 0;
   private le1 = 0;
   private j12 = 0;
@@ -71,7 +75,7 @@ export class WooferSim {
   /** Back to rest: f(y, u) and the Jacobian at rest follow from the parameters directly. */
   reset(): void {
     const p = this.p;
-    this.i = this.x = this.v = 0;
+    this.i = this.j = this.fj = this.x = this.v = 0;
     this.chamber.reset();
     this.riseV = this.riseM = 0;
     this.r = p.re0 + p.rs;
@@ -129,7 +133,16 @@ export class WooferSim {
     const invMms = 1 / mms;
     const mms_h = mms / h;
     const hasLe = le0 > 0;
+    const l2 = p.l2,
+      r2 = p.r2,
+      hasL2 = l2 > 0;
+    // The L2 row has its own weight: trapezoidal unless L2/R2 is shorter than a step.
+    const tj = hasL2 ? Math.max(0.5, 1 - l2 / r2 / h) : 0.5;
+    const dj = hasL2 ? l2 / h + tj * r2 : 1;
+    const jGain = hasL2 ? (tj * r2) / dj : 0;
     const coneRadiates = box.coneRadiates;
+    let j = this.j,
+      fj = this.fj;
     let i = this.i,
       x = this.x,
       v = this.v;
@@ -153,11 +166,19 @@ export class WooferSim {
       const P0 = box.p0,
         P1 = box.p1;
       let d1 = leNow / h + te * (R + le1 * v);
+      let r1j = r1;
+      if (hasL2) {
+        // The L2 row, Δj = (fj + tj·R2·Δi)/dj, eliminated into the electrical row.
+        d1 += te * r2 * (1 - jGain);
+        r1j += (te * r2 * fj) / dj;
+      }
       if (d1 < 1e-9) d1 = 1e-9;
-      const I0 = (r1 + te * j12 * h * f2) / d1;
+      const I0 = (r1j + te * j12 * h * f2) / d1;
       const I1 = (te * (j12 * h * th + j13)) / d1;
       const dv = (f3 + th * j31 * I0 + th * j32 * h * f2 + th * sd * P0) / (mms_h + th * rms - th * j31 * I1 - tt * h * j32 - th * sd * P1);
-      i += I0 + I1 * dv;
+      const di = I0 + I1 * dv;
+      i += di;
+      if (hasL2) j += (fj + tj * r2 * di) / dj;
       x += h * (f2 + th * dv);
       v += dv;
       box.advance(dv);
@@ -218,6 +239,10 @@ export class WooferSim {
         lrel1 = l1 / lr;
       }
       f1 = u1 - R * i - le1 * v * i - bl * v;
+      if (hasL2) {
+        fj = r2 * (i - j);
+        f1 -= fj;
+      }
       f2 = v;
       f3 = bl * i - rms * v - fk + sd * box.net() + 0.5 * le1 * i * i;
       // d/dx of the electrical row, with the mass-matrix term Le'(x)·i' folded in.
@@ -233,6 +258,8 @@ export class WooferSim {
       u0 = u1;
     }
     this.i = i;
+    this.j = j;
+    this.fj = fj;
     this.x = x;
     this.v = v;
     this.u0 = u0;
