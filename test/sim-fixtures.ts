@@ -87,6 +87,7 @@ export function ventedBox(vbL = 28, fb = 38, ql: number | null = 7, portDiamCm =
     portLength: leff - 1.4616 * r,
     portLeff: leff,
     map,
+    portLossK: 1,
   };
 }
 

@@ -15,7 +15,7 @@ import { PORT_SPEED_LIMIT } from '../units.ts';
 import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import type { BoxAcoustics, Chamber, ChamberContext, LinearRowsTarget } from './physics.ts';
 import type { BoxKind } from './types.ts';
-import { portGeometry, portLengthFor } from './vented.ts';
+import { pipeResonanceHz, portGeometry, portLengthFor, portsLossK } from './vented.ts';
 
 export interface Bandpass4Box {
   type: 'bandpass4';
@@ -34,6 +34,9 @@ export interface Bandpass4Box {
   portLength: number;
   /** Acoustic mass of all ports together, kg/m^4. */
   map: number;
+  /** Effective length of one port, m, and the loss coefficient of the ports' ends. */
+  portLeff: number;
+  portLossK: number;
 }
 
 const schema = v.strictObject({
@@ -82,7 +85,7 @@ class BandpassChambers implements Chamber {
     this.map = box.map;
     this.sd = ctx.sd;
     this.h = ctx.h;
-    this.portLoss = ctx.linear ? 0 : (0.5 * ctx.rho * ctx.portLossK) / (box.sv * box.sv);
+    this.portLoss = ctx.linear ? 0 : (0.5 * ctx.rho * (ctx.portLossK ?? box.portLossK)) / (box.sv * box.sv);
   }
 
   reset(): void {
@@ -215,6 +218,8 @@ export const bandpass4: BoxKind<typeof schema, Bandpass4Box> = {
       sv,
       portLength: length,
       map: 1 / (wb * wb * cf),
+      portLeff: length + geoms[0].endCorrection,
+      portLossK: portsLossK(geoms),
     };
     return { box, issues };
   },
@@ -228,4 +233,15 @@ export const bandpass4: BoxKind<typeof schema, Bandpass4Box> = {
   chamber: (box, ctx) => new BandpassChambers(box, ctx),
   // Port air speed over about 17 m/s (common practice, roughly 5% of c).
   probe: (box) => ({ kind: 'port-speed', toUnit: 1 / box.sv, limit: PORT_SPEED_LIMIT }),
+  figures: (box, air) => [
+    { id: 'fb', label: 'Front chamber tuning fb', value: box.fb, unit: 'Hz' },
+    { id: 'port-length', label: 'Port length (each)', value: box.portLength * 100, unit: 'cm' },
+    { id: 'pipe-resonance', label: 'Port pipe resonance', value: pipeResonanceHz(air.c, box.portLeff), unit: 'Hz' },
+    {
+      id: 'volumes',
+      label: 'Rear / front chamber',
+      value: box.vbRear * 1000,
+      unit: `l / ${Number((box.vbFront * 1000).toPrecision(3))} l`,
+    },
+  ],
 };

@@ -135,12 +135,13 @@ export class PortedChamber extends OneChamber {
     ral: number,
     private readonly map: number,
     sv: number,
+    portLossK: number,
     ctx: ChamberContext,
   ) {
     super(vb, ral, ctx);
     this.mapH = map / ctx.h;
     this.invMap = map > 0 ? 1 / map : 0;
-    this.portLoss = ctx.linear ? 0 : (0.5 * ctx.rho * ctx.portLossK) / (sv * sv);
+    this.portLoss = ctx.linear ? 0 : (0.5 * ctx.rho * (ctx.portLossK ?? portLossK)) / (sv * sv);
   }
 
   override reset(): void {

@@ -101,4 +101,8 @@ export const passiveRadiator: BoxKind<typeof schema, PassiveRadiatorBox> = {
   },
   chamber: (box, ctx) => new RadiatorChamber(box.vb, box.ral, box.sp, box.mmp, box.kmp, box.rmp, box.xmax, ctx),
   probe: (box) => ({ kind: 'radiator', toUnit: 1000, limit: box.xmax * 1000 }),
+  figures: (box) => [
+    { id: 'fb', label: 'Tuning fb', value: box.fb, unit: 'Hz' },
+    { id: 'fp', label: 'Radiator resonance (notch)', value: box.fp, unit: 'Hz' },
+  ],
 };

@@ -33,8 +33,16 @@ export interface ChamberContext {
   c: number;
   /** Nonlinear terms off (port loss, radiator suspension): the linearised model. */
   linear: boolean;
-  /** Loss coefficient K of the port's Δp = ½·rho·K·u·|u|. */
-  portLossK: number;
+  /** Loss coefficient K of the port's Δp = ½·rho·K·u·|u| in place of the box's own (tests); undefined = the box's. */
+  portLossK?: number;
+}
+
+/** A figure of the box for the figure tables: a number with its unit and what it means. */
+export interface BoxFigure {
+  id: string;
+  label: string;
+  value: number;
+  unit: string;
 }
 
 /** The stress a box adds to the driver's own: a probe value per sample and its limit. */

@@ -51,4 +51,6 @@ export const sealed: BoxKind<typeof schema, SealedBox> = {
   acoustics: (box, air, w) => oneChamberAcoustics(box.vb, box.ral, air, w, null),
   chamber: (box, ctx) => new ClosedChamber(box.vb, box.ral, ctx),
   probe: () => null,
+  // fc and Qtc depend on the driver too: the analysis reports them.
+  figures: () => [],
 };

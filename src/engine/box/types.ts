@@ -1,6 +1,6 @@
 import type * as v from 'valibot';
 import type { Air, Driver } from '../system.ts';
-import type { BoxAcoustics, BoxProbe, Chamber, ChamberContext } from './physics.ts';
+import type { BoxAcoustics, BoxFigure, BoxProbe, Chamber, ChamberContext } from './physics.ts';
 import type { Issue } from '../issues.ts';
 
 export interface BoxContext {
@@ -41,4 +41,6 @@ export interface BoxKind<S extends BoxSchema = BoxSchema, B extends BoxBase = Bo
   chamber(box: B, ctx: ChamberContext): Chamber;
   /** The stress this box adds (port air speed, radiator travel), or null. */
   probe(box: B): BoxProbe | null;
+  /** The box's own figures (tuning, port length, pipe resonance...). */
+  figures(box: B, air: Air): BoxFigure[];
 }

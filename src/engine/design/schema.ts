@@ -63,6 +63,8 @@ export const portSchema = v.strictObject({
   count: v.optional(int(1, 16)),
   outer_end: v.optional(v.picklist(['flanged', 'free'], 'must be "flanged" or "free"')),
   inner_end: v.optional(v.picklist(['flanged', 'free'], 'must be "flanged" or "free"')),
+  /** How the port's ends are shaped: it sets the loss that compresses the port at high air speed. */
+  end_shape: v.optional(v.picklist(['sharp', 'rounded', 'flared'], 'must be "sharp", "rounded" or "flared"')),
 });
 export const portsSchema = v.pipe(
   v.array(portSchema, 'must be a list of ports'),

@@ -4,9 +4,6 @@ import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { effectiveNonlinear, toPerMetre } from './nonlinear.ts';
 import { BOX_KINDS, type BoxProbe, type Chamber } from '../box/index.ts';
 
-/** Loss coefficient K of the port's Δp = ½·rho·K·u·|u| (K of order 1 for sharp edges: Backman, AES 1995). */
-export const PORT_LOSS_K = 1.0;
-
 export interface WooferParams {
   /** Step length, s. */
   h: number;
@@ -43,7 +40,7 @@ export interface WooferParams {
 export interface ParamOptions {
   /** Nonlinear parameters off (constant Bl, Kms, Le; no port loss): the linearised model. */
   linear?: boolean;
-  /** Port loss coefficient K (default PORT_LOSS_K). */
+  /** Port loss coefficient K in place of the one the port's end shape gives. */
   portLossK?: number;
 }
 
@@ -60,7 +57,7 @@ export function wooferParams(sys: SpeakerSystem, way: DriverWay, h: number, opt:
   const tau = d.le / rsum;
   const kOut = rho / (sys.listening.omega * sys.listening.distance);
   const kind = BOX_KINDS[box.type];
-  const ctx = { sd: d.sd, h, rho, c, linear, portLossK: opt.portLossK ?? PORT_LOSS_K };
+  const ctx = { sd: d.sd, h, rho, c, linear, portLossK: opt.portLossK };
   return {
     h,
     thetaE: Math.max(0.5, 1 - tau / h),
