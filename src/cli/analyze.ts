@@ -3,6 +3,7 @@ import { analyze } from '../engine/response/analyze.ts';
 import type { Analysis, WayAnalysis } from '../engine/response/types.ts';
 import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
+import { printable } from './user-text.ts';
 
 const HELP = `usage: preheard analyze <design.json> [--json] [--volts V]
 
@@ -52,7 +53,8 @@ function wayJson(a: Analysis, wa: WayAnalysis) {
     ...(f.fcHz !== null ? { fc_hz: round(f.fcHz), qtc: round(f.qtc!) } : {}),
     ...(f.fbHz !== null ? { fb_hz: round(f.fbHz) } : {}),
     ...(f.fpHz !== null ? { fp_hz: round(f.fpHz) } : {}),
-    ...(f.portLengthCm !== null ? { port_length_cm: round(f.portLengthCm), port_count: box.type === 'vented' ? box.portCount : 0 } : {}),
+    ...(f.portLengthCm !== null ? { port_length_cm: round(f.portLengthCm), port_count: 'portCount' in box ? box.portCount : null } : {}),
+    box_figures: f.box.map((b) => ({ id: b.id, label: b.label, value: round(b.value), unit: b.unit })),
     f3_hz: round(f.f3Hz),
     f6_hz: round(f.f6Hz),
     f10_hz: round(f.f10Hz),
@@ -135,7 +137,12 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
   if (j.fb_hz !== undefined) rows.push(['fb', `${j.fb_hz} Hz`]);
   if (j.fp_hz !== undefined) rows.push(['fp (radiator)', `${j.fp_hz} Hz`]);
   if (j.port_length_cm !== undefined)
-    rows.push(['port length', `${j.port_length_cm} cm each (${j.port_count} port${j.port_count === 1 ? '' : 's'})`]);
+    rows.push([
+      'port length',
+      `${j.port_length_cm} cm each` + (j.port_count === null ? '' : ` (${j.port_count} port${j.port_count === 1 ? '' : 's'})`),
+    ]);
+  // The box kind's other figures (pipe resonance, chamber volumes...), in its own words.
+  for (const b of j.box_figures) if (!['fb', 'fp', 'port-length'].includes(b.id)) rows.push([b.label, `${b.value} ${b.unit}`]);
   rows.push(
     ['f3 / f6 / f10', `${j.f3_hz} / ${j.f6_hz} / ${j.f10_hz} Hz`],
     ['eta0', `${j.driver.eta0_pct} %`],
@@ -154,11 +161,11 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
 
 function table(a: Analysis): string {
   const j = analysisJson(a);
-  const sections: { title: string | null; rows: [string, string][] }[] = [{ title: null, rows: [['design', a.system.name]] }];
+  const sections: { title: string | null; rows: [string, string][] }[] = [{ title: null, rows: [['design', printable(a.system.name)]] }];
   if (j.ways.length === 1) {
     sections[0].rows.push(...wayRows(j.ways[0], a), ['planned level', `${j.planned_volts_rms} V rms`]);
   } else {
-    for (const w of j.ways) sections.push({ title: `way "${w.name}"`, rows: wayRows(w, a) });
+    for (const w of j.ways) sections.push({ title: `way "${printable(w.name)}"`, rows: wayRows(w, a) });
     const s = j.system;
     sections.push({
       title: 'system (all ways summed at the seat)',

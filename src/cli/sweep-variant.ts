@@ -6,7 +6,7 @@ export interface SweepPoint {
   fb_hz: number | null;
 }
 
-/** The design with the way at `wayIndex` given the point's box volume and (vented) tuning. */
+/** The design with the way at `wayIndex` (a box of one volume) given the point's volume and (vented) tuning. */
 export function variant(design: DesignDoc, point: SweepPoint, wayIndex: number): DesignDoc {
   const ways = design.ways.map((way, k) => {
     if (k !== wayIndex || way.kind !== 'driver') return way;

@@ -1,6 +1,8 @@
 // Small-signal analysis of one design: each driver way's curves and figures, and the summed output
 // of all ways at the seat.
 import type { Box, DriverWay, SpeakerSystem } from '../system.ts';
+import { BOX_KINDS } from '../box/index.ts';
+import type { BoxFigure, BoxProbe } from '../box/physics.ts';
 import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
 import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { fmt, warning, type Issue } from '../issues.ts';
@@ -133,8 +135,8 @@ function rolloff(relDb: (f: number) => number, startHz: number, dropDb: number):
 const wayPassbandPerVolt = (system: SpeakerSystem, way: DriverWay) => passbandPressure(system, way, 1) * Math.abs(way.filter.gain);
 
 /** Where the scan for a way's low end starts: well above its resonance and its high-pass corner. */
-const scanStartHz = (way: DriverWay) =>
-  Math.max(4 * Math.max(way.driver.fs, boxFigures(way).fbHz ?? 0), 2 * (way.filter.highpass?.hz ?? 0));
+const scanStartHz = (system: SpeakerSystem, way: DriverWay) =>
+  Math.max(4 * Math.max(way.driver.fs, boxFigures(system, way).fbHz ?? 0), 2 * (way.filter.highpass?.hz ?? 0));
 
 /**
  * Where a way's anechoic low end first falls `dropDb` under its passband level (its high-pass,
@@ -142,15 +144,47 @@ const scanStartHz = (way: DriverWay) =>
  */
 export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number): number {
   const low = withoutLowpass(way);
-  const ref = splDb(wayPassbandPerVolt(system, way));
-  return rolloff((f) => splDb(abs(respond(system, low, f, 1, false).pressure)) - ref, scanStartHz(way), dropDb);
+  const level = (f: number) => splDb(abs(respond(system, low, f, 1, false).pressure));
+  let start = scanStartHz(system, way);
+  let ref = splDb(wayPassbandPerVolt(system, way));
+  if (level(start) - ref < -dropDb) {
+    // The box itself rolls the top off (a bandpass box): measure from the band's own peak, when it
+    // stays under the passband level of the drivers, and scan down from there.
+    let peak = -Infinity;
+    for (let f = start; f > start / 64; f *= 2 ** (-1 / 48)) {
+      const l = level(f);
+      if (l > peak) [peak, start] = [l, f];
+    }
+    ref = Math.min(ref, peak);
+  }
+  return rolloff((f) => level(f) - ref, start, dropDb);
 }
 
-/** Where the sum's anechoic low end first falls `dropDb` under the sum's passband level. */
+/**
+ * The sum's low end: the lowest frequency where the anechoic sum comes within `dropDb` of its
+ * passband level, scanning up from 0.5 Hz (so a dip where the ways cross over, which the sum's
+ * curve shows, does not hide how deep the system reaches); refined by bisection.
+ */
 export function sumRolloffHz(system: SpeakerSystem, dropDb: number, sumPerVolt = sumPassbandPerVolt(system)): number {
   const ref = splDb(sumPerVolt);
-  const start = Math.min(...system.ways.filter((w): w is DriverWay => w.kind === 'driver').map(scanStartHz));
-  return rolloff((f) => splDb(abs(systemPressure(system, f, 1, false))) - ref, start, dropDb);
+  const rel = (f: number) => splDb(abs(systemPressure(system, f, 1, false))) - ref;
+  const step = 2 ** (1 / 48);
+  let prev = 0.5;
+  if (rel(prev) >= -dropDb) return prev;
+  for (let f = prev * step; f < 40000; f *= step) {
+    if (rel(f) >= -dropDb) {
+      let lo = prev;
+      let hi = f;
+      for (let k = 0; k < 60; k++) {
+        const mid = Math.sqrt(lo * hi);
+        if (rel(mid) >= -dropDb) hi = mid;
+        else lo = mid;
+      }
+      return Math.sqrt(lo * hi);
+    }
+    prev = f;
+  }
+  return Number.NaN;
 }
 
 /** Small's reference efficiency eta0 = rho·Bl^2·Sd^2 / (2 pi·c·Re·Mms^2) (half space). */
@@ -160,11 +194,14 @@ export function referenceEfficiency(system: SpeakerSystem, way: DriverWay): numb
   return (air.rho * d.bl * d.bl * d.sd * d.sd) / (2 * Math.PI * air.c * d.re * d.mms * d.mms);
 }
 
-// --- Box-kind figures and probes, one small function per concern (they move into the box kinds). ---
+// --- What the box kind adds: its figures and its stress probe in small-signal form. ---
 
-/** The box's own figures: sealed fc and Qtc (Small 1972), tuning, radiator notch, port length. */
-function boxFigures(way: DriverWay, rs = 0): Pick<Figures, 'fcHz' | 'qtc' | 'fbHz' | 'fpHz' | 'portLengthCm'> {
+/** The box kind's own figures, and a closed box's fc and Qtc, which depend on the driver (Small 1972). */
+function boxFigures(system: SpeakerSystem, way: DriverWay): Pick<Figures, 'fcHz' | 'qtc' | 'fbHz' | 'fpHz' | 'portLengthCm' | 'box'> {
   const { box, driver } = way;
+  const own: BoxFigure[] = BOX_KINDS[box.type].figures(box, system.air);
+  const byId = (id: string) => own.find((x) => x.id === id)?.value ?? null;
+  const rs = system.amplifier.rs;
   const sealed =
     box.type === 'sealed'
       ? sealedAlignment(driver.fs, totalQ(qesWithSeries(driver.qes, driver.re, rs), driver.qms), driver.vas, box.vb)
@@ -172,26 +209,31 @@ function boxFigures(way: DriverWay, rs = 0): Pick<Figures, 'fcHz' | 'qtc' | 'fbH
   return {
     fcHz: sealed ? sealed.fc : null,
     qtc: sealed ? sealed.qtc : null,
-    fbHz: box.type === 'sealed' ? null : box.fb,
-    fpHz: box.type === 'passive-radiator' ? box.fp : null,
-    portLengthCm: box.type === 'vented' ? box.portLength * 100 : null,
+    fbHz: byId('fb'),
+    fpHz: byId('fp'),
+    portLengthCm: byId('port-length'),
+    box: own,
   };
 }
 
-/** Peak port air speed, m/s, for an rms outlet flow; null when the box has no port. */
-function portAirSpeed(box: Box, outletFlow: Complex): number | null {
-  return box.type === 'vented' ? (Math.SQRT2 * abs(outletFlow)) / box.sv : null;
-}
-
-/** Peak one-way radiator excursion, m, for an rms outlet flow at f; null without a radiator. */
-function radiatorExcursion(box: Box, outletFlow: Complex, f: number): number | null {
-  return box.type === 'passive-radiator' ? (Math.SQRT2 * abs(outletFlow)) / (2 * Math.PI * f * box.sp) : null;
+/**
+ * The box's stress for an rms outlet flow at w, as its kind's probe measures it in the
+ * large-signal model (peak values): port air speed in m/s, or radiator travel in mm.
+ */
+function outletStress(box: Box, outletFlow: Complex, w: number): { kind: BoxProbe['kind']; value: number; limit: number } | null {
+  const probe = BOX_KINDS[box.type].probe(box);
+  if (!probe) return null;
+  // The port probe reads the ports' volume velocity; the radiator's reads its excursion U/(jw·Sp).
+  const quantity =
+    probe.kind === 'port-speed' ? abs(outletFlow) : box.type === 'passive-radiator' ? abs(outletFlow) / (w * box.sp) : Number.NaN;
+  return { kind: probe.kind, value: Math.SQRT2 * quantity * probe.toUnit, limit: probe.limit };
 }
 
 /** The largest drive, V rms at the amplifier's input, before the way reaches a limit for a sine at f. */
 function maxVolts(system: SpeakerSystem, way: DriverWay, r: PointResponse, volts: number, f: number): { v: number; limit: MaxSplLimit } {
   const d = way.driver;
-  const filterGain = abs(wayFilterAt(way.filter, 2 * Math.PI * f));
+  const w = 2 * Math.PI * f;
+  const filterGain = abs(wayFilterAt(way.filter, w));
   const candidates: { v: number; limit: MaxSplLimit }[] = [
     { v: (volts * d.xmax) / (Math.SQRT2 * abs(r.excursion)), limit: 'excursion' },
     // Thermal: the rated power dissipated in the coil's resistance.
@@ -199,14 +241,17 @@ function maxVolts(system: SpeakerSystem, way: DriverWay, r: PointResponse, volts
     // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
     { v: system.amplifier.vPeak / (Math.SQRT2 * filterGain), limit: 'amplifier' },
   ];
-  const xp = radiatorExcursion(way.box, r.outletFlow, f);
-  if (xp !== null && way.box.type === 'passive-radiator') candidates.push({ v: (volts * way.box.xmax) / xp, limit: 'radiator' });
+  // Radiator travel is a hard limit; port air speed is noise, not a limit of the level (as before).
+  const stress = outletStress(way.box, r.outletFlow, w);
+  if (stress?.kind === 'radiator') candidates.push({ v: (volts * stress.limit) / stress.value, limit: 'radiator' });
   return candidates.reduce((a, b) => (b.v < a.v ? b : a));
 }
 
 function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz: Float64Array, driveV: number, planned: number): Curves {
   const n = freqHz.length;
   const { box } = way;
+  const probe = BOX_KINDS[box.type].probe(box);
+  const ported = probe?.kind === 'port-speed';
   const hasOutlet = box.type !== 'sealed';
   const curves: Curves = {
     freqHz,
@@ -216,12 +261,12 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
     referenceSplDb: new Float64Array(n).fill(splDb(wayPassbandPerVolt(system, way) * driveV)),
     excursionMm: new Float64Array(n),
     plannedExcursionMm: new Float64Array(n),
-    radiatorExcursionMm: box.type === 'passive-radiator' ? new Float64Array(n) : null,
+    radiatorExcursionMm: probe?.kind === 'radiator' ? new Float64Array(n) : null,
     impedanceOhm: new Float64Array(n),
     phaseDeg: new Float64Array(n),
     groupDelayMs: new Float64Array(n),
-    portAirSpeed: box.type === 'vented' ? new Float64Array(n) : null,
-    plannedPortAirSpeed: box.type === 'vented' ? new Float64Array(n) : null,
+    portAirSpeed: ported ? new Float64Array(n) : null,
+    plannedPortAirSpeed: ported ? new Float64Array(n) : null,
     maxSplDb: new Float64Array(n),
     maxSplLimit: new Array<MaxSplLimit>(n),
   };
@@ -234,16 +279,15 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
     const xPeakMm = Math.SQRT2 * abs(r.excursion) * 1000;
     curves.excursionMm[k] = xPeakMm;
     curves.plannedExcursionMm[k] = (xPeakMm * planned) / driveV;
-    const xp = radiatorExcursion(box, r.outletFlow, f);
-    if (curves.radiatorExcursionMm && xp !== null) curves.radiatorExcursionMm[k] = xp * 1000;
+    const stress = outletStress(box, r.outletFlow, 2 * Math.PI * f);
+    if (curves.radiatorExcursionMm && stress) curves.radiatorExcursionMm[k] = stress.value;
     curves.impedanceOhm[k] = abs(r.impedance);
     curves.phaseDeg[k] = (arg(r.impedance) * 180) / Math.PI;
     // The way as placed in the sum, less its offset's pure delay (polarity leaves the delay alone).
     curves.groupDelayMs[k] = (groupDelayFrom(placed.below[k], placed.above[k], f) - offsetDelay(system, way)) * 1000;
-    const speed = portAirSpeed(box, r.outletFlow);
-    if (curves.portAirSpeed && curves.plannedPortAirSpeed && speed !== null) {
-      curves.portAirSpeed[k] = speed;
-      curves.plannedPortAirSpeed[k] = (speed * planned) / driveV;
+    if (curves.portAirSpeed && curves.plannedPortAirSpeed && stress) {
+      curves.portAirSpeed[k] = stress.value;
+      curves.plannedPortAirSpeed[k] = (stress.value * planned) / driveV;
     }
     const lim = maxVolts(system, way, r, driveV, f);
     curves.maxSplDb[k] = curves.splDb[k] + 20 * Math.log10(lim.v / driveV);
@@ -287,7 +331,7 @@ function wayFigures(system: SpeakerSystem, way: DriverWay, curves: Curves, drive
     f3Hz: rolloffHz(system, way, HALF_POWER_DB),
     f6Hz: rolloffHz(system, way, 6),
     f10Hz: rolloffHz(system, way, 10),
-    ...boxFigures(way, system.amplifier.rs),
+    ...boxFigures(system, way),
     eta0Pct: referenceEfficiency(system, way) * 100,
     sensitivityDb: splDb(passbandPressure(sensitivitySystem, way, SENSITIVITY_VOLTS, 1)),
     passbandSplDb: splDb(wayPassbandPerVolt(system, way) * driveV),

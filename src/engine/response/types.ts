@@ -1,5 +1,6 @@
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
+import type { BoxFigure } from '../box/physics.ts';
 
 export type MaxSplLimit = 'excursion' | 'thermal' | 'amplifier' | 'radiator';
 
@@ -28,9 +29,9 @@ export interface Curves {
   phaseDeg: Float64Array;
   /** Group delay of the way's acoustic output, filter included. */
   groupDelayMs: Float64Array;
-  /** Peak port air speed at the analysis drive, m/s (vented only). */
+  /** Peak port air speed at the analysis drive, m/s (boxes with a port). */
   portAirSpeed: Float64Array | null;
-  /** Peak port air speed at the planned level, m/s (vented only). */
+  /** Peak port air speed at the planned level, m/s (boxes with a port). */
   plannedPortAirSpeed: Float64Array | null;
   /** Highest SPL of the way at the seat for a sine at each frequency, and what limits it. */
   maxSplDb: Float64Array;
@@ -52,8 +53,10 @@ export interface Figures {
   fbHz: number | null;
   /** Passive radiator free-air resonance (the notch). */
   fpHz: number | null;
-  /** Physical length of one port, cm (vented). */
+  /** Physical length of one port, cm (vented, bandpass). */
   portLengthCm: number | null;
+  /** Every figure the box kind gives (tuning, port length, pipe resonance, chamber volumes...). */
+  box: BoxFigure[];
   /** Small's reference efficiency (half space) of the way's drivers together, percent. */
   eta0Pct: number;
   /** Passband SPL of the way's drivers in their box for 2.83 V at 1 m in the design's own space (no filter; series resistance included). */
