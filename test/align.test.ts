@@ -6,7 +6,7 @@ import { abs } from '../src/engine/complex.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { doc, qesFor, system, woofer } from './helpers/designs.ts';
 import type { DriverWay } from '../src/engine/system.ts';
-import { tweeterWay } from './helpers/two-way.ts';
+import { tweeterWay } from './helpers/tweeter.ts';
 
 describe('alignment suggestions', () => {
   const base = doc(

@@ -3,7 +3,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { twoWayFrom } from './helpers/two-way.ts';
+import { twoWayFrom } from './helpers/tweeter.ts';
 
 const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-cli-'));

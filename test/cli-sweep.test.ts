@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { writeWav } from '../src/cli/wav.ts';
 import { parseRange } from '../src/cli/sweep.ts';
 import { sweptWayIndex, variant } from '../src/cli/sweep-variant.ts';
-import { twoWayFrom } from './helpers/two-way.ts';
+import { twoWayFrom } from './helpers/tweeter.ts';
 
 const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-sweep-'));

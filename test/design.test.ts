@@ -4,7 +4,7 @@ import { migrate, parseDesign } from '../src/engine/design/validate.ts';
 import type { DesignDoc } from '../src/engine/design/document.ts';
 import type { DriverWay } from '../src/engine/system.ts';
 import { AIR_20C, doc, type V1Doc } from './helpers/designs.ts';
-import { tweeterWay } from './helpers/two-way.ts';
+import { tweeterWay } from './helpers/tweeter.ts';
 
 const paths = (r: ReturnType<typeof parseDesign>) => (r.ok ? [] : r.errors.map((e) => e.path));
 const driver = { fs_hz: 40, qes: 0.4, qms: 4, vas_l: 30 };

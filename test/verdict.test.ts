@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { analyze } from '../src/engine/response/analyze.ts';
 import { verdict, clock } from '../src/engine/verdict/verdict.ts';
-import { twoWayFrom } from './helpers/two-way.ts';
+import { twoWayFrom } from './helpers/tweeter.ts';
 
 const load = (name: string) => {
   const r = parseDesign(readFileSync(`public/examples/${name}.json`, 'utf8'));

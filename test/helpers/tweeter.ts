@@ -1,5 +1,5 @@
-// A two-way test design: an example's woofer way and our invented 25 mm dome tweeter in a closed
-// back chamber, crossed over with LR4 at 2.2 kHz and padded 3 dB.
+// Our invented 25 mm dome tweeter in a closed back chamber as a way, and a two-way test design made
+// from an example: its woofer way and this tweeter, crossed over with LR4 at 2.2 kHz and padded 3 dB.
 import { readFileSync } from 'node:fs';
 import { parseDesign } from '../../src/engine/design/validate.ts';
 import type { DesignDoc, DriverWayDoc } from '../../src/engine/design/document.ts';
