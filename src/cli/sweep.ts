@@ -148,7 +148,7 @@ export const sweepCommand: Command = {
         );
       if (values.fb !== undefined && box.type !== 'vented')
         throw new InputError(`--fb needs a vented box; way "${printable(way.name)}" of ${positionals[0]} is ${box.type}`);
-      const vbs = values.vb === undefined ? [box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
+      const vbs = values.vb === undefined ? [box.vb_l] : parseRange(values.vb, '--vb', 0.005, 20000);
       const fbs = values.fb === undefined ? [box.type === 'vented' ? box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
       if (vbs.length * fbs.length > MAX_SWEEP_POINTS)
         throw new UsageError(
