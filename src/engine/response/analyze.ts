@@ -168,7 +168,7 @@ export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number)
 export function sumRolloffHz(system: SpeakerSystem, dropDb: number, sumPerVolt = sumPassbandPerVolt(system)): number {
   const ref = splDb(sumPerVolt);
   const rel = (f: number) => splDb(abs(systemPressure(system, f, 1, false))) - ref;
-  const step = 2 ** (1 / 48);
+  const step = 2 ** (1 / 24);
   let prev = 0.5;
   if (rel(prev) >= -dropDb) return prev;
   for (let f = prev * step; f < 40000; f *= step) {
