@@ -150,12 +150,24 @@ export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number)
   if (level(start) - ref < -dropDb) {
     // The box itself rolls the top off (a bandpass box): measure from the band's own peak, when it
     // stays under the passband level of the drivers, and scan down from there.
+    const step = 2 ** (1 / 48);
     let peak = -Infinity;
-    for (let f = start; f > start / 64; f *= 2 ** (-1 / 48)) {
+    for (let f = start; f > start / 64; f /= step) {
       const l = level(f);
       if (l > peak) [peak, start] = [l, f];
     }
-    ref = Math.min(ref, peak);
+    // Golden-section search between the grid neighbours of the highest grid point.
+    let lo = Math.log(start / step);
+    let hi = Math.log(start * step);
+    const g = (Math.sqrt(5) - 1) / 2;
+    for (let k = 0; k < 40; k++) {
+      const a = hi - g * (hi - lo);
+      const b = lo + g * (hi - lo);
+      if (level(Math.exp(a)) > level(Math.exp(b))) hi = b;
+      else lo = a;
+    }
+    start = Math.exp((lo + hi) / 2);
+    ref = Math.min(ref, Math.max(peak, level(start)));
   }
   return rolloff((f) => level(f) - ref, start, dropDb);
 }
