@@ -37,7 +37,7 @@ describe('version 1 designs render bit-identically after migration', () => {
       const { events: storedEvents, ...storedRest } = stored.summary;
       expect(rest).toEqual(storedRest);
       expect(events.map(({ way: _w, ...e }) => e)).toEqual(storedEvents);
-      for (const e of events) expect(e.way).toBe(e.kind === 'distortion' ? null : 'woofer');
+      for (const e of events) expect(e.way).toBe(e.kind === 'distortion' ? undefined : 'woofer');
       // The woofer way's own peaks are the top-level ones.
       expect(ways.map((w) => w.name)).toEqual(['woofer']);
       const { name: _n, ...woofer } = ways[0];

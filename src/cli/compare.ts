@@ -1,8 +1,7 @@
 // preheard compare: two designs through the same calibration, passband levels matched.
 import { analyze } from '../engine/response/analyze.ts';
-import { findHeadroom, renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
+import { findHeadroom, passbandPaPerV, renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
-import { wooferParams } from '../engine/sim/params.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
@@ -98,8 +97,8 @@ export const compareCommand: Command = {
         const vb = resolveVolts(B.system, channels, sampleRate, level).volts;
         checkVolts(va, A.system);
         checkVolts(vb, B.system);
-        const passA = wooferParams(A.system, 1 / sampleRate).passbandPaPerV * va;
-        const passB = wooferParams(B.system, 1 / sampleRate).passbandPaPerV * vb;
+        const passA = passbandPaPerV(A.system) * va;
+        const passB = passbandPaPerV(B.system) * vb;
         // One calibration: A's default; matching scales B so the passbands come out equal.
         const paA = 2 * passA;
         const paB = values['no-match'] ? paA : paA * (passB / passA);

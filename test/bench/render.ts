@@ -14,10 +14,10 @@ import { synthesizeDemoTrack } from '../../src/engine/demo/track.ts';
 import { wooferParams } from '../../src/engine/sim/params.ts';
 import { WooferSim } from '../../src/engine/sim/woofer.ts';
 import { exampleSystem } from '../helpers/audio-bench.ts';
-import { system, ventedBox } from '../sim-fixtures.ts';
+import { system, ventedBox, wooferOf } from '../sim-fixtures.ts';
 import { rhs, Solver } from '../sim-odex-model.ts';
 import { BiquadCascade } from '../../src/engine/filters/biquad.ts';
-import { designCrossover } from '../../src/engine/filters/crossover.ts';
+import { wayFilterBiquads } from '../../src/engine/filters/way-filter.ts';
 import type { BenchResult } from './ui-redraw.ts';
 
 const HERE = dirname(fileURLToPath(import.meta.url));
@@ -52,15 +52,16 @@ async function linearVsWebAudio(): Promise<BenchResult[]> {
   const fs = 48000;
   const track = synthesizeDemoTrack(fs);
   const n = track.channels[0].length;
-  const design = designLinearChain(sys, fs);
-  const sections = design.woofer.length / 5;
+  // The first way: the woofer band (its filter, the driver in its box).
+  const design = designLinearChain(sys, fs)[0];
+  const sections = design.coef.length / 5;
   // Ours: the woofer band's biquads over both channels (the same sections the native side runs).
   // Ours: the same cascade (crossover low-pass + the design's small-signal transfer) per channel.
   const out = [new Float64Array(n), new Float64Array(n)];
   const ours = best(5, () => {
     for (let c = 0; c < 2; c++) {
       out[c].set(track.channels[c]);
-      new BiquadCascade(design.woofer, design.wooferGain).processInPlace(out[c]);
+      new BiquadCascade(design.coef, design.gain).processInPlace(out[c]);
     }
     return out;
   });
@@ -76,13 +77,13 @@ async function linearVsWebAudio(): Promise<BenchResult[]> {
     src.buffer = buf;
     let node: AudioNode = src;
     for (let s = 0; s < sections; s++) {
-      const c = design.woofer.subarray(5 * s, 5 * s + 5);
+      const c = design.coef.subarray(5 * s, 5 * s + 5);
       const f = ctx.createIIRFilter([c[0], c[1], c[2]], [1, c[3], c[4]]);
       node.connect(f);
       node = f;
     }
     const g = ctx.createGain();
-    g.gain.value = design.wooferGain;
+    g.gain.value = design.gain;
     node.connect(g);
     g.connect(ctx.destination);
     src.start();
@@ -118,12 +119,11 @@ async function versusOdex(): Promise<BenchResult[]> {
   // demo track's woofer band (LR4 at 2 kHz) at about Xmax, linear between samples for odex.
   const fs = 48000;
   const sys = system(ventedBox(28, 38, 7), { d: { xmaxMm: 5, xlimMm: 15 } });
-  const p = wooferParams(sys, 1 / fs);
+  const p = wooferParams(sys, wooferOf(sys), 1 / fs);
   const track = synthesizeDemoTrack(fs);
   const from = Math.round(track.loudFromS * fs),
     n = Math.round(0.5 * fs);
-  const xo = designCrossover({ type: 'lr4', fx: 2000 }, fs);
-  const lp = new BiquadCascade(xo.lp!);
+  const lp = new BiquadCascade(wayFilterBiquads(wooferOf(sys).filter, fs)!);
   const drive = new Float64Array(n);
   for (let k = 0; k < from + n; k++) {
     const v = lp.step(track.channels[0][k]);

@@ -49,8 +49,8 @@ export const EVENT_UNITS: Record<EventKind, string> = {
 
 export interface StressEvent {
   kind: EventKind;
-  /** The way whose limit was crossed; null for the summed output (distortion). */
-  way: string | null;
+  /** The way whose limit was crossed; absent for the summed output's own events (distortion). */
+  way?: string;
   start_s: number;
   end_s: number;
   peak: number;
@@ -148,15 +148,13 @@ export class EventLog {
     const sourceRank = (k: number) => (this.source[k] === OUTPUT_SOURCE ? 1 << 15 : this.source[k]);
     order.sort(
       (a, b) =>
-        this.start[a] - this.start[b] ||
-        sourceRank(a) - sourceRank(b) ||
-        SAME_FRAME_RANK[this.kind[a]] - SAME_FRAME_RANK[this.kind[b]],
+        this.start[a] - this.start[b] || sourceRank(a) - sourceRank(b) || SAME_FRAME_RANK[this.kind[a]] - SAME_FRAME_RANK[this.kind[b]],
     );
     return order.map((k) => {
       const kind = EVENT_KINDS[this.kind[k]];
       return {
         kind,
-        way: this.source[k] === OUTPUT_SOURCE ? null : this.names[this.source[k]],
+        ...(this.source[k] === OUTPUT_SOURCE ? {} : { way: this.names[this.source[k]] }),
         start_s: r(Math.max(0, this.start[k]), 4),
         end_s: r(this.end[k] + endPad, 4),
         peak: r(this.peak[k], 3),

@@ -11,7 +11,7 @@
 //     renderer.update(system)       a parameter edit: new constants, the physical state carries on
 //     renderer.setVoltsFs(v)        new drive level
 //     renderer.events.list()        stress events so far [{kind, way, start_s, end_s, peak, unit,
-//                                   limit}]; `way` is the way's name (null: the summed output)
+//                                   limit}]; `way` is the way's name (absent: the summed output)
 //     renderer.traces()             decimated traces (excursion, coil temperature, port speed,
 //                                   compression per driver way; the residual level of the sum)
 //                                   at renderer.traceHz
@@ -312,7 +312,7 @@ export function findHeadroom(
     clean_volts: Number(lo.toPrecision(5)),
     clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)),
     first_limit: first.kind,
-    first_limit_way: first.way,
+    first_limit_way: first.way ?? null,
     first_limit_s: first.start_s,
     renders,
   };

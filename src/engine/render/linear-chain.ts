@@ -37,7 +37,11 @@ function designWay(sys: SpeakerSystem, way: Way, monoSum: boolean, sampleRate: n
 }
 
 /** Every way's linear chain; with `monoSum` the first driver way of a mono-sum pair plays the channels' mean. */
-export function designLinearChain(sys: SpeakerSystem, sampleRate: number, monoSum = sys.listening.channels === 'mono-sum'): LinearWayDesign[] {
+export function designLinearChain(
+  sys: SpeakerSystem,
+  sampleRate: number,
+  monoSum = sys.listening.channels === 'mono-sum',
+): LinearWayDesign[] {
   const bass = sys.ways.find((w) => w.kind === 'driver');
   return sys.ways.map((way) => designWay(sys, way, monoSum && way === bass, sampleRate));
 }
