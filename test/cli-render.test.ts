@@ -119,7 +119,7 @@ describe('preheard headroom and compare', () => {
     const r = cli('headroom', SEALED, input, '--json');
     expect(r.status).toBe(0);
     const h = JSON.parse(r.stdout);
-    expect(Object.keys(h).sort()).toEqual(['clean_spl_db', 'clean_volts', 'first_limit', 'first_limit_s']);
+    expect(Object.keys(h).sort()).toEqual(['clean_spl_db', 'clean_volts', 'first_limit', 'first_limit_s', 'first_limit_way']);
     const at = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'h0.wav'), '--volts', String(h.clean_volts), '--json').stdout);
     const above = JSON.parse(
       cli('render', SEALED, input, '-o', join(dir, 'h1.wav'), '--volts', String(h.clean_volts * 10 ** (0.5 / 20)), '--json').stdout,

@@ -3,13 +3,13 @@
 // high-pass, and the events say so by name. At low drive the rendered sum matches the small-signal
 // sum of the two ways at the seat (systemPressure, with each way's filter, polarity and delay).
 import { describe, expect, it } from 'vitest';
-import { renderBuffer } from '../src/engine/render/index.ts';
-import { respond, systemPressure } from '../src/engine/response/frequency.ts';
+import { createRenderer, renderBuffer } from '../src/engine/render/index.ts';
+import { respond, systemPressure, wayPressure } from '../src/engine/response/frequency.ts';
 import { wayFilterAt } from '../src/engine/filters/way-filter.ts';
 import { toneAmplitude } from '../src/engine/level/distortion.ts';
-import { abs } from '../src/engine/complex.ts';
+import { abs, add } from '../src/engine/complex.ts';
 import type { DriverWay } from '../src/engine/system.ts';
-import { system } from './helpers/designs.ts';
+import { doc, system } from './helpers/designs.ts';
 import { twoWayDoc } from './helpers/two-way.ts';
 
 function sine(fs: number, seconds: number, f: number, amp: number): Float32Array {
@@ -85,4 +85,51 @@ describe('two-way active render', () => {
       }
     });
   }
+
+  it('mono-sum shares the bass way only: the tweeters stay per channel', () => {
+    const base = twoWayDoc();
+    const mono = system({ ...base, listening: { ...base.listening, channels: 'mono-sum' } });
+    const pair = system(base);
+    const left = sine(fs, 0.5, 100, 0.5);
+    const right = sine(fs, 0.5, 3000, 0.5);
+    const m = renderBuffer(mono, [left, right], fs, { voltsFs: 1 });
+    const p = renderBuffer(pair, [left, right], fs, { voltsFs: 1, paPerFs: m.summary.pa_per_fs });
+    const at = (x: Float32Array, f: number) => toneAmplitude(x, 0.2 * fs, 0.2 * fs, f, fs);
+    // The bass way plays the channels' mean on both sides: half the left channel's bass, on both.
+    expect(20 * Math.log10(at(m.audio[0], 100) / at(m.audio[1], 100))).toBeCloseTo(0, 2);
+    expect(20 * Math.log10(at(m.audio[0], 100) / (0.5 * at(p.audio[0], 100)))).toBeCloseTo(0, 1);
+    // Each channel's tweeter plays its own channel only; the shared woofer leaks the mean's 3 kHz
+    // (through its low-pass) into both. In Pa, against the ways' small-signal sums. The woofer model
+    // at the audio rate is within 0.1 dB up to 2 kHz (sim-lowdrive); on its steep slope at 3 kHz,
+    // within 0.3 dB (a routing error would be 6 dB or the whole tone).
+    const [woofer, tweeter] = mono.ways;
+    const pa = (x: Float32Array, f: number) => at(x, f) * m.summary.pa_per_fs;
+    const dB = (a: number, b: number) => Math.abs(20 * Math.log10(a / b));
+    expect(dB(pa(m.audio[0], 3000), abs(wayPressure(mono, woofer, 3000, 0.25)))).toBeLessThan(0.3);
+    expect(dB(pa(m.audio[1], 3000), abs(add(wayPressure(mono, tweeter, 3000, 0.5), wayPressure(mono, woofer, 3000, 0.25))))).toBeLessThan(
+      0.1,
+    );
+    expect(at(p.audio[0], 3000)).toBeLessThan(1e-6 * at(p.audio[1], 3000));
+  });
+
+  it('a live edit keeps the running ways; a new way joins with its own stress meter', () => {
+    const one = system(doc({ fs_hz: 42, qes: 0.42, qms: 3.6, vas_l: 24 }, { type: 'sealed', vb_l: 14 }));
+    const two = system(twoWayDoc());
+    const r = createRenderer(one, { sampleRate: fs, channels: 1, voltsFs: 5 });
+    const x = sine(fs, 0.1, 60, 0.5);
+    const out = new Float32Array(x.length);
+    r.process([x], [out], x.length);
+    expect(r.getStats().ways.map((w) => w.name)).toEqual(['woofer']);
+    r.update(two);
+    r.process([x], [out], x.length);
+    expect(r.getStats().ways.map((w) => w.name)).toEqual(['woofer', 'tweeter']);
+    for (const v of out) expect(Number.isFinite(v)).toBe(true);
+    // Same shape (the tweeter's pad changed): the tweeter's cone carries on where it was.
+    const padded = system({ ...twoWayDoc(), name: 'padded' });
+    (padded.ways[1] as DriverWay).filter.gain = 0.5;
+    const before = r.lane(0, 1).sim.x;
+    r.update(padded);
+    expect(r.lane(0, 1).sim.x).toBe(before);
+    expect(before).not.toBe(0);
+  });
 });
