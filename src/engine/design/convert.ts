@@ -52,13 +52,7 @@ export function combineDrivers(unit: Driver, count: number, wiring: 'series' | '
     cms: unit.cms / count,
     rms: unit.rms * count,
     pe: unit.pe * count,
-    thermal: {
-      ...unit.thermal,
-      rtv: unit.thermal.rtv / count,
-      ctv: unit.thermal.ctv * count,
-      rtm: unit.thermal.rtm / count,
-      ctm: unit.thermal.ctm * count,
-    },
+    thermal: { ...unit.thermal, rtv: unit.thermal.rtv / count, ctv: unit.thermal.ctv * count, rtm: unit.thermal.rtm / count, ctm: unit.thermal.ctm * count },
   };
 }
 
