@@ -2,9 +2,8 @@
 // rail, coil heat, power compression), and the distortion of the summed output. Per chunk: the
 // worst lane per frame and the chunk's maxima; frame by frame only when a limit is crossed.
 import type { DriverWay, SpeakerSystem } from '../system.ts';
-import { BOX_RADIATOR, BOX_VENTED, type WooferParams } from '../sim/params.ts';
+import type { WooferParams } from '../sim/params.ts';
 import { ResidualMeter } from '../level/distortion.ts';
-import { PORT_SPEED_LIMIT } from '../units.ts';
 import type { DriverLane } from './way-chain.ts';
 import {
   type EventLog,
@@ -31,11 +30,11 @@ export const COMPRESSION_LIMIT_DB = 1;
 /** |x| at this fraction of Xlim counts as reaching the end stop. */
 export const XLIM_FRACTION = 0.98;
 
-/** What a way's box lets out besides the cone, as the stress meter watches it. */
+/** What a way's box lets out besides the cone, as the stress meter watches it (its box kind's probe). */
 export type Outlet = 'port' | 'radiator' | null;
 
 export function outletOf(p: WooferParams): Outlet {
-  return p.boxCode === BOX_VENTED ? 'port' : p.boxCode === BOX_RADIATOR ? 'radiator' : null;
+  return p.probe?.kind === 'port-speed' ? 'port' : p.probe?.kind === 'radiator' ? 'radiator' : null;
 }
 
 /** Peaks of one driver way so far. */
@@ -57,8 +56,9 @@ export class WayStress {
   private outlet: Outlet = null;
   private xmax = 0;
   private xlimHit = 0;
-  private xmaxP = 0;
-  private invSv = 0;
+  /** The box probe's value times this is its quantity (m/s, mm); and its limit in that unit. */
+  private toUnit = 0;
+  private outletLimit = 0;
   private rail = 0;
   private coilMax = 0;
   private ambient = 0;
@@ -85,8 +85,8 @@ export class WayStress {
     this.stats.outlet = this.outlet;
     this.xmax = d.xmax;
     this.xlimHit = XLIM_FRACTION * p.xlim;
-    this.xmaxP = p.xmaxP;
-    this.invSv = this.outlet === 'port' ? 1 / p.sv : 0;
+    this.toUnit = p.probe?.toUnit ?? 0;
+    this.outletLimit = p.probe?.limit ?? Infinity;
     this.rail = sys.amplifier.vPeak;
     this.coilMax = d.thermal.coilMaxC;
     this.ambient = sys.air.temperatureC;
@@ -95,9 +95,9 @@ export class WayStress {
     const s = this.source;
     events.setLimit(s, EV_EXCURSION, d.xmax * 1000);
     events.setLimit(s, EV_XLIM, p.xlim * 1000);
-    events.setLimit(s, EV_RADIATOR, p.xmaxP * 1000);
+    if (this.outlet === 'radiator') events.setLimit(s, EV_RADIATOR, this.outletLimit);
     events.setLimit(s, EV_COIL, this.coilMax);
-    events.setLimit(s, EV_PORT, PORT_SPEED_LIMIT);
+    if (this.outlet === 'port') events.setLimit(s, EV_PORT, this.outletLimit);
     events.setLimit(s, EV_CLIP, this.rail);
     events.setLimit(s, EV_COMPRESSION, COMPRESSION_LIMIT_DB);
   }
@@ -111,7 +111,8 @@ export class WayStress {
     const rail = this.rail,
       xmax = this.xmax,
       xlimHit = this.xlimHit,
-      xmaxP = this.xmaxP;
+      toUnit = this.toUnit,
+      outletLimit = this.outletLimit;
     let rMax = 0,
       riseMax = 0;
     for (const lane of lanes) {
@@ -149,11 +150,9 @@ export class WayStress {
         if (dv > peakD) peakD = dv;
       }
     }
-    const invSv = this.invSv;
     const coilHot = tempC > this.coilMax,
       compHot = rMax > this.r1dB;
-    const anyEvent =
-      peakX > xmax || (vented && peakA * invSv > PORT_SPEED_LIMIT) || (radiator && peakA > xmaxP) || peakD > rail || coilHot || compHot;
+    const anyEvent = peakX > xmax || ((vented || radiator) && peakA * toUnit > outletLimit) || peakD > rail || coilHot || compHot;
     if (anyEvent) {
       for (let k = 0; k < n; k++) {
         const t = t0 + k * dt;
@@ -164,8 +163,8 @@ export class WayStress {
         }
         const ak = aux[k];
         if (vented) {
-          if (ak * invSv > PORT_SPEED_LIMIT) ev.mark(src, EV_PORT, t, ak * invSv);
-        } else if (radiator && ak > xmaxP) ev.mark(src, EV_RADIATOR, t, ak * 1000);
+          if (ak * toUnit > outletLimit) ev.mark(src, EV_PORT, t, ak * toUnit);
+        } else if (radiator && ak * toUnit > outletLimit) ev.mark(src, EV_RADIATOR, t, ak * toUnit);
         if (dem[k] > rail) {
           st.ampClipFrames++;
           ev.mark(src, EV_CLIP, t, dem[k]);
@@ -175,10 +174,10 @@ export class WayStress {
       }
     }
     if (peakX * 1000 > st.peakExcursionMm) st.peakExcursionMm = peakX * 1000;
-    if (vented && peakA * invSv > st.peakPortSpeed) st.peakPortSpeed = peakA * invSv;
-    if (radiator && peakA * 1000 > st.peakRadiatorMm) st.peakRadiatorMm = peakA * 1000;
+    if (vented && peakA * toUnit > st.peakPortSpeed) st.peakPortSpeed = peakA * toUnit;
+    if (radiator && peakA * toUnit > st.peakRadiatorMm) st.peakRadiatorMm = peakA * toUnit;
     if (peakX > this.traceX) this.traceX = peakX;
-    if (peakA * invSv > this.tracePort) this.tracePort = peakA * invSv;
+    if (vented && peakA * toUnit > this.tracePort) this.tracePort = peakA * toUnit;
   }
 }
 
