@@ -204,6 +204,20 @@ function memory(): BenchResult {
   return { name: '10-minute stereo render: peak memory / decoded audio', value: Number(j.ratio.toFixed(2)), unit: 'ratio', target: '<= 3' };
 }
 
+/** One part's rows, or one row saying why it failed (the other parts still report). */
+async function part(name: string, run: () => BenchResult[] | Promise<BenchResult[]>): Promise<BenchResult[]> {
+  try {
+    return await run();
+  } catch (e) {
+    return [{ name: `${name} failed: ${(e as Error).message.split('\n')[0]}`, value: Number.NaN, unit: '', target: '' }];
+  }
+}
+
 export async function bench(): Promise<BenchResult[]> {
-  return [realtime(), ...(await linearVsWebAudio()), ...(await versusOdex()), memory()];
+  return [
+    ...(await part('realtime', () => [realtime()])),
+    ...(await part('linear chain', linearVsWebAudio)),
+    ...(await part('odex', versusOdex)),
+    ...(await part('memory', () => [memory()])),
+  ];
 }
