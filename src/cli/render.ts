@@ -3,7 +3,7 @@ import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
-import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
@@ -11,6 +11,7 @@ const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volt
 Plays a WAV file through the design's modelled woofer, box and amplifier (the band above the
 crossover on a flat path) and writes the sound at the listening seat, scaled by one calibration
 factor and kept under 0 dBFS by a true-peak guard.
+${INPUT_HELP}
 
 ${LEVEL_HELP}
   --linear      write the linear (small-signal) version of the same design instead
