@@ -71,8 +71,24 @@ async function createDecoder(codec: Codec): Promise<Decoder> {
   return new OggVorbisDecoder() as unknown as Decoder;
 }
 
+/**
+ * The FLAC decoder divides its integers by 2^(b-1) - 1 (seen: 96 in a 16-bit stream decodes to
+ * 96/32767). The integers are recovered and divided by 2^(b-1) instead, the scale of WAV, so that a
+ * FLAC file reads exactly as the WAV it was made from.
+ */
+function rescaleFlac(channels: Float32Array[], bitDepth: number): void {
+  if (!(bitDepth >= 4 && bitDepth <= 32)) return;
+  const full = 2 ** (bitDepth - 1);
+  for (const ch of channels) for (let j = 0; j < ch.length; j++) ch[j] = Math.round(ch[j] * (full - 1)) / full;
+}
+
 /** Decodes a whole MP3, FLAC or Ogg Vorbis file. `onProgress` hears the fraction of the file read. */
-export async function readCompressed(path: string, codec: Codec, onProgress?: (fraction: number) => void): Promise<WavAudio> {
+export async function readCompressed(
+  path: string,
+  codec: Codec,
+  onProgress?: (fraction: number) => void,
+  maxSamples = MAX_INPUT_SAMPLES,
+): Promise<WavAudio> {
   const name = CODEC_NAMES[codec];
   const file = openInput(path);
   const decoder = await createDecoder(codec);
@@ -99,7 +115,7 @@ export async function readCompressed(path: string, codec: Codec, onProgress?: (f
     parts.push(d.channelData.map((c) => (c.length === d.samplesDecoded ? c : c.subarray(0, d.samplesDecoded))));
     frames += d.samplesDecoded;
     // Enforced while decoding: the stream stops here, not after it has filled memory.
-    if (frames * channelCount > MAX_INPUT_SAMPLES) checkInputLength(path, frames, channelCount, sampleRate);
+    checkInputLength(path, frames, channelCount, sampleRate, maxSamples);
   };
   try {
     await decoder.ready;
@@ -124,6 +140,7 @@ export async function readCompressed(path: string, codec: Codec, onProgress?: (f
     at += p[0].length;
   }
   parts.length = 0;
+  if (codec === 'flac') rescaleFlac(channels, bitDepth);
   const warnings: string[] = [];
   if (damaged > 0) warnings.push(`${path}: ${damaged} damaged part${damaged === 1 ? '' : 's'} of the ${name} stream skipped (short gaps)`);
   const scaled = checkFloatRange(channels, path);

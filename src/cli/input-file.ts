@@ -67,11 +67,14 @@ export function openInput(path: string): InputFile {
   }
 }
 
-/** Refuses an input longer than MAX_INPUT_SAMPLES, saying how long is allowed at its rate. */
-export function checkInputLength(path: string, frames: number, channels: number, sampleRate: number): void {
-  if (frames * channels <= MAX_INPUT_SAMPLES) return;
-  const minutes = (f: number) => (f / sampleRate / 60).toFixed(1);
+/** Refuses an input longer than the limit (MAX_INPUT_SAMPLES), saying how long is allowed at its rate. */
+export function checkInputLength(path: string, frames: number, channels: number, sampleRate: number, maxSamples = MAX_INPUT_SAMPLES): void {
+  if (frames * channels <= maxSamples) return;
+  const span = (f: number) => {
+    const s = f / sampleRate;
+    return s < 120 ? `${s.toFixed(1)} s` : `${(s / 60).toFixed(1)} minutes`;
+  };
   throw new InputError(
-    `${path}: ${minutes(frames)} minutes of ${channels}-channel audio is too long: at most ${minutes(MAX_INPUT_SAMPLES / channels)} minutes at ${sampleRate} Hz`,
+    `${path}: ${span(frames)} of ${channels}-channel audio is too long: at most ${span(Math.floor(maxSamples / channels))} at ${sampleRate} Hz`,
   );
 }
