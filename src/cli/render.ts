@@ -8,7 +8,7 @@ import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInpu
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
 
-Plays a WAV file through the design's modelled woofer, box and amplifier (the band above the
+Plays an audio file through the design's modelled woofer, box and amplifier (the band above the
 crossover on a flat path) and writes the sound at the listening seat, scaled by one calibration
 factor and kept under 0 dBFS by a true-peak guard.
 ${INPUT_HELP}
@@ -56,7 +56,7 @@ export function summaryLines(s: RenderSummary): string[] {
 
 export const renderCommand: Command = {
   name: 'render',
-  summary: 'play a WAV file through a design at a calibrated level',
+  summary: 'play an audio file through a design at a calibrated level',
   run: (argv) =>
     runGuarded('render', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {
