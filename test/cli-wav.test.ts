@@ -35,7 +35,10 @@ function wavefileBytes(channels: Float32Array[], sampleRate: number, format: Wav
 /** Deterministic test signal: tones, noise from a linear congruential generator, and values beyond full scale. */
 function signal(channels: number, frames: number, seed = 1): Float32Array[] {
   let x = seed;
-  const rnd = () => ((x = (x * 1103515245 + 12345) % 2147483648) / 2147483648) * 2 - 1;
+  const rnd = () => {
+    x = (x * 1103515245 + 12345) % 2147483648;
+    return (x / 2147483648) * 2 - 1;
+  };
   return Array.from({ length: channels }, (_, c) =>
     Float32Array.from({ length: frames }, (_, k) => (k % 97 === 0 ? 1.3 * rnd() : 0.6 * Math.sin(0.01 * k * (c + 1)) + 0.3 * rnd())),
   );
