@@ -6,7 +6,7 @@ import { wooferParams } from '../engine/sim/params.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
-import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progressCounter, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 import { printable } from './user-text.ts';
 
@@ -16,6 +16,7 @@ Renders the track through both designs with one calibration and writes <prefix>-
 <prefix>-b.wav. By default B's output is scaled so both passbands play equally loud, so the ear
 judges bass and overload rather than loudness. Prints what differs: f3, bass at 30/40/50 Hz,
 the first limit and when, stress events per design and each design's headroom on this track.
+${INPUT_HELP}
 
 ${LEVEL_HELP}
   --no-match  keep B at its own level (same calibration factor as A)
@@ -121,7 +122,10 @@ export const compareCommand: Command = {
           });
           rendered.push(res.audio);
           const fig = bassRelative(d.system);
-          sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom: findHeadroom(d.system, channels, sampleRate) });
+          const progress = progressCounter(`finding headroom ${tag}`, 'render');
+          const headroom = findHeadroom(d.system, channels, sampleRate, { onRender: progress?.tick });
+          progress?.done();
+          sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom });
         }
       } catch (e) {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);

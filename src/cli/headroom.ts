@@ -2,13 +2,14 @@
 import { findHeadroom } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
-import { readInputAudio } from './render-common.ts';
+import { INPUT_HELP, progressCounter, readInputAudio } from './render-common.ts';
 
 const HELP = `usage: preheard headroom <design.json> <in.wav> [--json]
 
 Finds the highest drive at which the design plays this track without any stress event
 (excursion, end stop, coil temperature, port speed, amplifier clipping, compression, distortion),
 by bisection to 0.25 dB, and names the limit that arrives first above it.
+${INPUT_HELP}
 
   --json   print {clean_volts, clean_spl_db, first_limit, first_limit_s}
   --help   this text
@@ -36,7 +37,9 @@ export const headroomCommand: Command = {
       const audio = await readInputAudio(inPath);
       let h: ReturnType<typeof findHeadroom>;
       try {
-        h = findHeadroom(system, audio.channels, audio.sampleRate);
+        const progress = progressCounter('finding headroom', 'render');
+        h = findHeadroom(system, audio.channels, audio.sampleRate, { onRender: progress?.tick });
+        progress?.done();
       } catch (e) {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
         throw e;

@@ -3,15 +3,16 @@ import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
-import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
 
-Plays a WAV file through the design's modelled woofer, box and amplifier (the band above the
+Plays an audio file through the design's modelled woofer, box and amplifier (the band above the
 crossover on a flat path) and writes the sound at the listening seat, scaled by one calibration
 factor and kept under 0 dBFS by a true-peak guard.
+${INPUT_HELP}
 
 ${LEVEL_HELP}
   --linear      write the linear (small-signal) version of the same design instead
@@ -56,7 +57,7 @@ export function summaryLines(s: RenderSummary): string[] {
 
 export const renderCommand: Command = {
   name: 'render',
-  summary: 'play a WAV file through a design at a calibrated level',
+  summary: 'play an audio file through a design at a calibrated level',
   run: (argv) =>
     runGuarded('render', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {
