@@ -3,15 +3,17 @@ import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
-import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { planOutputs } from './output-files.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
 
-Plays a WAV file through every way of the design (its filter, its own amplifier channel, its
+Plays an audio file through every way of the design (its filter, its own amplifier channel, its
 driver in its box; a flat way as an ideal band), sums the ways at the listening seat and writes
 the sound there, scaled by one calibration factor and kept under 0 dBFS by a true-peak guard.
 The peaks are the first driver way's; with more than one, each way's follow.
+${INPUT_HELP}
 
 ${LEVEL_HELP}
   --linear      write the linear (small-signal) version of the same design instead
@@ -70,7 +72,7 @@ export function summaryLines(s: RenderSummary): string[] {
 
 export const renderCommand: Command = {
   name: 'render',
-  summary: 'play a WAV file through a design at a calibrated level',
+  summary: 'play an audio file through a design at a calibrated level',
   run: (argv) =>
     runGuarded('render', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {
@@ -95,6 +97,7 @@ export const renderCommand: Command = {
         throw new UsageError(`--format must be 16, 24 or f32, got "${values.format}"`);
       const level = levelOptions(values);
       const [designPath, inPath] = positionals;
+      const outputs = await planOutputs([designPath, inPath], [values.output, values.events]);
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
@@ -111,8 +114,10 @@ export const renderCommand: Command = {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
-      await writeWav(values.output, result.audio, audio.sampleRate, (values.format as WavFormat | undefined) ?? audio.format);
-      if (values.events) await writeTextAtomic(values.events, `${JSON.stringify(result.summary.events, null, 2)}\n`);
+      const format = (values.format as WavFormat | undefined) ?? audio.format;
+      await writeWav(outputs.staging(values.output), result.audio, audio.sampleRate, format);
+      if (values.events) await writeTextAtomic(outputs.staging(values.events), `${JSON.stringify(result.summary.events, null, 2)}\n`);
+      outputs.commit();
       if (values.json) process.stdout.write(`${JSON.stringify(result.summary)}\n`);
       else process.stdout.write(`${summaryLines(result.summary).join('\n')}\n`);
       return EXIT_OK;

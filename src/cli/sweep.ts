@@ -4,16 +4,21 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { loadDesignFile } from './design-file.ts';
-import { readInputAudio } from './render-common.ts';
+import { INPUT_HELP, progressBar, readInputAudio } from './render-common.ts';
 import type { SweepPoint, SweepRow } from './sweep-step.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
+import { decimalNumber, printable, wholeNumber } from './user-text.ts';
+
+/** Most design variants one sweep runs: each is a dozen renders of the whole track. */
+export const MAX_SWEEP_POINTS = 400;
 
 const HELP = `usage: preheard sweep <design.json> <in.wav> [--vb FROM:TO:STEP] [--fb FROM:TO:STEP] [--json] [--threads N]
 
 For each box volume (litres) and/or tuning (Hz, vented boxes) in the ranges, prints f3, the
 highest clean level on this track (dB SPL at the seat and amplifier volts per full scale) and the
 limit that arrives first. Both ranges together sweep every combination.
+${INPUT_HELP}
 
   --vb FROM:TO:STEP   net box volumes, litres, e.g. 20:60:5
   --fb FROM:TO:STEP   tunings, Hz (vented only), e.g. 30:50:2.5
@@ -26,12 +31,13 @@ exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
 
 /** Parses FROM:TO:STEP into the list of values, inclusive of TO within rounding. */
 export function parseRange(text: string, option: string, min: number, max: number): number[] {
-  const parts = text.split(':').map(Number);
-  if (parts.length !== 3 || parts.some((p) => !Number.isFinite(p))) throw new UsageError(`${option} must be FROM:TO:STEP, got "${text}"`);
+  const pieces = text.split(':');
+  if (pieces.length !== 3) throw new UsageError(`${option} must be FROM:TO:STEP, got "${printable(text)}"`);
+  const parts = pieces.map((p) => decimalNumber(p, option));
   const [from, to, step] = parts;
   if (!(step > 0)) throw new UsageError(`${option}: STEP must be positive, got ${step}`);
   if (from < min || to > max || from > to)
-    throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${text}`);
+    throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${printable(text)}`);
   const count = Math.floor((to - from) / step + 1e-9) + 1;
   if (count > 200) throw new UsageError(`${option}: ${count} steps is too many (200 at most)`);
   return Array.from({ length: count }, (_, k) => Number((from + k * step).toPrecision(10)));
@@ -43,6 +49,7 @@ function runPool(
   channels: Float32Array[],
   sampleRate: number,
   threads: number,
+  onProgress?: (fraction: number) => void,
 ): Promise<SweepRow[]> {
   // The audio is shared, not copied, with every worker.
   const shared = channels.map((ch) => {
@@ -72,7 +79,9 @@ function runPool(
       w.on('message', (msg: { ready?: boolean; index?: number; row?: SweepRow }) => {
         if (msg.ready) return feed();
         rows[msg.index!] = msg.row!;
-        if (++done === points.length) finish();
+        done++;
+        onProgress?.(done / points.length);
+        if (done === points.length) finish();
         else feed();
       });
       w.on('error', (e) => finish(e));
@@ -89,7 +98,7 @@ function table(rows: SweepRow[], vented: boolean): string {
     r.clean_spl_db === null ? '-' : r.clean_spl_db.toFixed(2),
     r.clean_volts === null ? '-' : String(r.clean_volts),
     r.error
-      ? `(${r.error})`
+      ? `(${printable(r.error)})`
       : r.first_limit
         ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${clock(r.first_limit_s ?? 0)}`
         : 'none in range',
@@ -117,18 +126,23 @@ export const sweepCommand: Command = {
       }
       if (positionals.length !== 2) throw new UsageError('expects a design file and a WAV file');
       if (values.vb === undefined && values.fb === undefined) throw new UsageError('give --vb and/or --fb');
-      const threads = values.threads === undefined ? availableParallelism() : Number(values.threads);
-      if (!Number.isInteger(threads) || threads < 1 || threads > 64)
-        throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
+      const cores = availableParallelism();
+      const threads = values.threads === undefined ? cores : wholeNumber(values.threads, '--threads');
+      if (threads < 1 || threads > cores)
+        throw new UsageError(`--threads must be from 1 to ${cores} (the cores of this machine), got ${threads}`);
       const { design } = await loadDesignFile(positionals[0]);
       if (values.fb !== undefined && design.box.type !== 'vented')
         throw new InputError(`--fb needs a vented design; ${positionals[0]} is ${design.box.type}`);
       const vbs = values.vb === undefined ? [design.box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
       const fbs =
         values.fb === undefined ? [design.box.type === 'vented' ? design.box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
+      if (vbs.length * fbs.length > MAX_SWEEP_POINTS)
+        throw new UsageError(
+          `${vbs.length} volumes × ${fbs.length} tunings is ${vbs.length * fbs.length} steps, more than the ${MAX_SWEEP_POINTS} a sweep runs: use a larger STEP or a narrower range`,
+        );
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
-      const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads);
+      const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads, progressBar('sweeping'));
       process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, design.box.type === 'vented'));
       return EXIT_OK;
     }),

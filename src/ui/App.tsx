@@ -11,6 +11,9 @@ import { designFileName, designFileText, downloadText, readDesignText } from './
 import type { Autosave, SaveStatus } from './persist.ts';
 import { registerServiceWorker, type UpdateHandle } from './pwa.ts';
 import { decodeShare, encodeShare, hasShare, shareUrl } from './share.ts';
+import { SharedView } from './shared-view.ts';
+import { StorageBanners } from './StorageBanners.tsx';
+import { retryStorage } from './startup.ts';
 import { SLOTS, SLOT_LABEL, type AppState, type ScreenId, type Slot, type Store } from './store.ts';
 import { Cabinet } from './screens/Cabinet.tsx';
 import { ChartCard, Curves, useCharts } from './screens/Curves.tsx';
@@ -162,19 +165,19 @@ async function downloadSetAside(autosave: Autosave) {
   setTimeout(() => URL.revokeObjectURL(url), 1000);
 }
 
+const SAVE_WORDS: Record<Exclude<SaveStatus['kind'], 'saved'>, string> = {
+  saving: 'Saving…',
+  starting: 'Opening storage…',
+  full: 'Not saved: storage full',
+  recovered: 'Recovered the last good state',
+  waiting: 'Not saved yet: your saved designs are still loading',
+  unread: 'Not saved: your saved designs could not be read',
+  held: 'Not saved: a shared link is on view',
+  unavailable: 'Not saved: storage unavailable',
+};
+
 function SaveIndicator({ status }: { status: SaveStatus }) {
-  const text =
-    status.kind === 'saved'
-      ? `Saved on this device ${new Date(status.at).toLocaleTimeString()}`
-      : status.kind === 'saving'
-        ? 'Saving…'
-        : status.kind === 'starting'
-          ? 'Opening storage…'
-          : status.kind === 'full'
-            ? 'Not saved: storage full'
-            : status.kind === 'recovered'
-              ? 'Recovered the last good state'
-              : 'Not saved: storage unavailable';
+  const text = status.kind === 'saved' ? `Saved on this device ${new Date(status.at).toLocaleTimeString()}` : SAVE_WORDS[status.kind];
   return (
     <span class={`save save-${status.kind}`} data-testid="save-status" data-state={status.kind}>
       {text}
@@ -211,6 +214,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const fileInput = useRef<HTMLInputElement>(null);
   const importSlot = useRef<Slot>('a');
   const noticeId = useRef(0);
+  const sharedView = useMemo(() => new SharedView(store, autosave), [store, autosave]);
 
   const derived = { a: derive('a', state.designs.a), b: derive('b', state.designs.b) };
   const view: AppView = useMemo(() => ({ state, derived, dispatch: (i) => store.dispatch(i), store }), [state, derived.a, derived.b]);
@@ -232,8 +236,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         const ra = validate(pair.a);
         const rb = validate(pair.b);
         if (ra.ok && rb.ok) {
-          store.dispatch({ type: 'replace-pair', designs: { a: ra.design, b: rb.design }, reason: 'open a shared link' });
-          notify('Opened the designs from the shared link. Undo brings back your own.');
+          sharedView.open({ a: ra.design, b: rb.design });
         } else {
           setProblems({
             title: 'The shared link has problems',
@@ -442,6 +445,13 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             ))}
           </div>
         ) : null}
+        <StorageBanners
+          status={status}
+          onRetry={() => void retryStorage(store, autosave)}
+          onExport={exportDesign}
+          onKeepShared={() => sharedView.keep()}
+          onLeaveShared={() => void sharedView.leave()}
+        />
         {status.kind === 'recovered' ? (
           <div class="banner banner-warn" role="alert" data-testid="recovery-banner">
             {status.message}

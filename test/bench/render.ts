@@ -15,7 +15,7 @@ import { wooferParams } from '../../src/engine/sim/params.ts';
 import { WooferSim } from '../../src/engine/sim/woofer.ts';
 import { exampleSystem } from '../helpers/audio-bench.ts';
 import { system, ventedBox, wooferOf } from '../sim-fixtures.ts';
-import { rhs, Solver } from '../sim-odex-model.ts';
+import { rhs, Solver, stateCount } from '../sim-odex-model.ts';
 import { BiquadCascade } from '../../src/engine/filters/biquad.ts';
 import { wayFilterBiquads } from '../../src/engine/filters/way-filter.ts';
 import type { BenchResult } from './ui-redraw.ts';
@@ -135,9 +135,10 @@ async function versusOdex(): Promise<BenchResult[]> {
     if (k >= n - 1) return drive[n - 1];
     return drive[k] + (x - k) * (drive[k + 1] - drive[k]);
   };
-  const f = rhs(sys, p, u);
+  const { f } = rhs(sys, wooferOf(sys), u);
+  const nState = stateCount(wooferOf(sys));
   const solve = (tol: number) => {
-    const s = new Solver(5);
+    const s = new Solver(nState);
     s.absoluteTolerance = tol * 1e-3;
     s.relativeTolerance = tol;
     s.denseOutput = true;
@@ -147,7 +148,7 @@ async function versusOdex(): Promise<BenchResult[]> {
     s.solve(
       f,
       0,
-      [0, 0, 0, 0, 0],
+      new Array<number>(nState).fill(0),
       (n - 1) / fs,
       s.grid(1 / fs, (_t, y) => {
         if (k < n) x[k++] = y[1];
