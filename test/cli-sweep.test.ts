@@ -1,5 +1,5 @@
 import { describe, expect, it, beforeAll } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { runCli, spawnCli } from './helpers/cli.ts';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -8,7 +8,6 @@ import { parseRange } from '../src/cli/sweep.ts';
 import { sweptWayIndex, variant } from '../src/cli/sweep-variant.ts';
 import { twoWayFrom } from './helpers/tweeter.ts';
 
-const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-sweep-'));
 const wav = join(dir, 'burst.wav');
 
@@ -25,7 +24,7 @@ beforeAll(async () => {
 });
 
 describe('preheard sweep', () => {
-  it('parses FROM:TO:STEP inclusively', () => {
+  it('parses FROM:TO:STEP inclusively', async () => {
     expect(parseRange('20:60:5', '--vb', 0.05, 20000)).toEqual([20, 25, 30, 35, 40, 45, 50, 55, 60]);
     expect(parseRange('30:31:0.5', '--fb', 5, 500)).toEqual([30, 30.5, 31]);
   });
@@ -44,8 +43,8 @@ describe('preheard sweep', () => {
     expect(d.ways[1].kind === 'driver' && d.ways[1].box).toEqual({ type: 'sealed', vb_l: 0.03 }); // the original is untouched
   });
 
-  it('sweeps the way named by --way, and refuses a name that is not a driver way (exit 1)', () => {
-    const r = cli('sweep', twoWayFile, wav, '--vb', '0.02:0.04:0.02', '--way', 'tweeter', '--json', '--threads', '1');
+  it('sweeps the way named by --way, and refuses a name that is not a driver way (exit 1)', async () => {
+    const r = await runCli('sweep', twoWayFile, wav, '--vb', '0.02:0.04:0.02', '--way', 'tweeter', '--json', '--threads', '1');
     expect(r.status).toBe(0);
     const rows = JSON.parse(r.stdout).steps;
     expect(rows.map((x: { vb_l: number }) => x.vb_l)).toEqual([0.02, 0.04]);
@@ -54,17 +53,17 @@ describe('preheard sweep', () => {
     for (const row of rows) expect(row.f3_hz).toBeGreaterThan(2200);
     expect(rows[1].f3_hz).not.toBe(rows[0].f3_hz);
     expect(Math.abs(rows[1].f3_hz / rows[0].f3_hz - 1)).toBeLessThan(0.05);
-    const bad = cli('sweep', twoWayFile, wav, '--vb', '10:20:10', '--way', 'midrange');
+    const bad = await runCli('sweep', twoWayFile, wav, '--vb', '10:20:10', '--way', 'midrange');
     expect(bad.status).toBe(1);
     expect(bad.stderr).toMatch(/no way with a driver named "midrange".*"woofer", "tweeter"/);
-    const bandpass = cli('sweep', 'public/examples/garage-subwoofer-bandpass.json', wav, '--vb', '10:20:10');
+    const bandpass = await runCli('sweep', 'public/examples/garage-subwoofer-bandpass.json', wav, '--vb', '10:20:10');
     expect(bandpass.status).toBe(1);
     expect(bandpass.stderr).toMatch(/bandpass4 box with two chambers/);
   });
 
-  it('gives the same rows on one thread as on several, one row per volume', () => {
-    const one = cli('sweep', 'public/examples/living-room-vented.json', wav, '--vb', '14:26:6', '--json', '--threads', '1');
-    const two = cli(
+  it('gives the same rows on one thread as on several (worker threads of the bundle), one row per volume', async () => {
+    const one = await runCli('sweep', 'public/examples/living-room-vented.json', wav, '--vb', '14:26:6', '--json', '--threads', '1');
+    const two = spawnCli(
       'sweep',
       'public/examples/living-room-vented.json',
       wav,
@@ -74,6 +73,7 @@ describe('preheard sweep', () => {
       '--threads',
       String(Math.min(2, availableParallelism())),
     );
+    expect(two.status).toBe(0);
     expect(one.status).toBe(0);
     expect(two.stdout).toBe(one.stdout);
     const rows = JSON.parse(one.stdout).steps;
@@ -83,9 +83,9 @@ describe('preheard sweep', () => {
     for (const r of rows) expect(r.error).toBeNull();
   });
 
-  it('refuses --fb on a sealed design (exit 1) and malformed ranges (exit 2)', () => {
-    expect(cli('sweep', 'public/examples/living-room-sealed.json', wav, '--fb', '30:40:5').status).toBe(1);
-    expect(cli('sweep', 'public/examples/living-room-sealed.json', wav, '--vb', '40:20:5').status).toBe(2);
-    expect(cli('sweep', 'public/examples/living-room-sealed.json', wav).status).toBe(2);
+  it('refuses --fb on a sealed design (exit 1) and malformed ranges (exit 2)', async () => {
+    expect((await runCli('sweep', 'public/examples/living-room-sealed.json', wav, '--fb', '30:40:5')).status).toBe(1);
+    expect((await runCli('sweep', 'public/examples/living-room-sealed.json', wav, '--vb', '40:20:5')).status).toBe(2);
+    expect((await runCli('sweep', 'public/examples/living-room-sealed.json', wav)).status).toBe(2);
   });
 });

@@ -4,7 +4,7 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { loadDesignFile } from './design-file.ts';
-import { readInputAudio } from './render-common.ts';
+import { INPUT_HELP, progressBar, readInputAudio } from './render-common.ts';
 import type { SweepRow } from './sweep-step.ts';
 import { sweptWayIndex, type SweepPoint } from './sweep-variant.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
@@ -20,6 +20,7 @@ For each box volume (litres) and/or tuning (Hz, vented boxes) of one way's box i
 prints that way's f3, the whole design's highest clean level on this track (dB SPL at the seat
 and amplifier volts per full scale) and the limit that arrives first. Both ranges together sweep
 every combination.
+${INPUT_HELP}
 
   --vb FROM:TO:STEP   net box volumes, litres, e.g. 20:60:5
   --fb FROM:TO:STEP   tunings, Hz (vented only), e.g. 30:50:2.5
@@ -52,6 +53,7 @@ function runPool(
   channels: Float32Array[],
   sampleRate: number,
   threads: number,
+  onProgress?: (fraction: number) => void,
 ): Promise<SweepRow[]> {
   // The audio is shared, not copied, with every worker.
   const shared = channels.map((ch) => {
@@ -83,7 +85,9 @@ function runPool(
       w.on('message', (msg: { ready?: boolean; index?: number; row?: SweepRow }) => {
         if (msg.ready) return feed();
         rows[msg.index!] = msg.row!;
-        if (++done === points.length) finish();
+        done++;
+        onProgress?.(done / points.length);
+        if (done === points.length) finish();
         else feed();
       });
       w.on('error', (e) => finish(e));
@@ -156,7 +160,15 @@ export const sweepCommand: Command = {
         );
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
-      const rows = await runPool(design, design.ways.indexOf(way), points, audio.channels, audio.sampleRate, threads);
+      const rows = await runPool(
+        design,
+        design.ways.indexOf(way),
+        points,
+        audio.channels,
+        audio.sampleRate,
+        threads,
+        progressBar('sweeping'),
+      );
       process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, box.type === 'vented'));
       return EXIT_OK;
     }),
