@@ -62,9 +62,8 @@ describe('subsonic high-pass', () => {
     expect(peak(withHp) / peak(base)).toBeLessThan(0.3);
   });
 
-  // Skipped: the first version refused this in design/convert.ts; the version 2 conversion (the
-  // lead's) does not check a way's high-pass against its low-pass yet. Unskip when it does.
-  it.skip('refuses a corner less than two octaves below the crossover', () => {
+  // A first-version file keeps its rule; in version 2 the same filters give a warning.
+  it('refuses a corner less than two octaves below the crossover', () => {
     expect(() => system({ ...base, crossover: { type: 'lr4', fx_hz: 100, highpass_hz: 40 } })).toThrow(/two octaves below/);
   });
 });

@@ -181,6 +181,14 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
     const lp = w.filter?.lowpass?.hz;
     if (hp !== undefined && lp !== undefined && hp >= lp) {
       issues.push(error(`ways[${k}].filter.highpass.hz`, `${fmt(hp)} Hz must lie below the low-pass at ${fmt(lp)} Hz`));
+    } else if (hp !== undefined && lp !== undefined && hp * 4 > lp) {
+      // Closer than two octaves the two slopes overlap: the band never reaches its full level.
+      issues.push(
+        warning(
+          `ways[${k}].filter.highpass.hz`,
+          `${fmt(hp)} Hz is less than two octaves below the low-pass at ${fmt(lp)} Hz: the two filters overlap and the band loses level`,
+        ),
+      );
     }
   });
   if (!doc.ways.some((w) => w.kind === 'driver')) issues.push(error('ways', 'needs at least one way with a driver'));

@@ -78,6 +78,12 @@ export function migrate(raw: Record<string, unknown>): { doc: Record<string, unk
     if (xo.type !== 'none' && xo.fx_hz === undefined) {
       return { issue: error('crossover.fx_hz', `is required for a ${String(xo.type)} crossover (20 to 5000 Hz)`) };
     }
+    // The first version's rule for its subsonic filter, kept for its files.
+    const hp = xo.highpass_hz,
+      fx = xo.fx_hz;
+    if (xo.type !== 'none' && typeof hp === 'number' && typeof fx === 'number' && hp > 0 && hp * 4 > fx) {
+      return { issue: error('crossover.highpass_hz', `${hp} Hz must lie at least two octaves below the crossover at ${fx} Hz`) };
+    }
     return { doc: migrateV1(raw) };
   }
   return { doc: raw };

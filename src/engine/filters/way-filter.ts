@@ -63,15 +63,22 @@ function sectionAt(sec: AnalogSection, w: number): Complex {
   return div(cx(b0 - b2 * w * w, b1 * w), cx(a0 - a2 * w * w, a1 * w));
 }
 
+/** The analog sections of a filter, made once per filter object (curves evaluate it at hundreds of points). */
+const sectionsOf = new WeakMap<ActiveFilter, AnalogSection[]>();
+function analogSections(filter: ActiveFilter): AnalogSection[] {
+  let secs = sectionsOf.get(filter);
+  if (!secs) {
+    secs = [];
+    if (filter.lowpass) secs.push(...bandSections(filter.lowpass.shape, 2 * Math.PI * filter.lowpass.hz, false));
+    if (filter.highpass) secs.push(...bandSections(filter.highpass.shape, 2 * Math.PI * filter.highpass.hz, true));
+    sectionsOf.set(filter, secs);
+  }
+  return secs;
+}
+
 /** The analog filter at w rad/s: both bands, the gain and the delay (not the polarity). */
 export function wayFilterAt(filter: ActiveFilter, w: number): Complex {
   let h = cx(filter.gain);
-  for (const [band, highPass] of [
-    [filter.lowpass, false],
-    [filter.highpass, true],
-  ] as const) {
-    if (!band) continue;
-    for (const sec of bandSections(band.shape, 2 * Math.PI * band.hz, highPass)) h = mul(h, sectionAt(sec, w));
-  }
-  return mul(h, delayAt(w, filter.delay));
+  for (const sec of analogSections(filter)) h = mul(h, sectionAt(sec, w));
+  return filter.delay === 0 ? h : mul(h, delayAt(w, filter.delay));
 }
