@@ -6,6 +6,16 @@ import type { Suggestion } from './engine.ts';
 
 export type BoxType = BoxDoc['type'];
 
+/** How each box kind is named on screen and on paper. */
+export const BOX_LABEL: Record<BoxType, string> = {
+  sealed: 'Sealed',
+  vented: 'Vented (port)',
+  'passive-radiator': 'Passive radiator',
+};
+
+/** A box kind's name; a kind this table does not know yet shows its type. */
+export const boxLabel = (type: string): string => (BOX_LABEL as Record<string, string>)[type] ?? type;
+
 export function boxOfType(current: BoxDoc, type: BoxType, suggestions: Suggestion[], driverSdCm2: number, driverXmaxMm: number): BoxDoc {
   if (current.type === type) return current;
   const offered = suggestions.find((s) => s.box.type === type);

@@ -2,6 +2,7 @@
 // unavailable the status says so and the app keeps working; export still works.
 import { openDB, type IDBPDatabase } from 'idb';
 import type { AppState, Store } from './store.ts';
+import { upgradeState } from './upgrade.ts';
 
 export interface SavedState {
   kind: 'preheard-app-state';
@@ -172,13 +173,16 @@ export class Autosave {
         this.setStatus({ kind: 'saved', at: this.now() });
         return undefined;
       }
-      if (isSavedState(saved)) {
-        this.setStatus({ kind: 'saved', at: saved.savedAt });
-        return saved.state;
+      // Designs saved by an earlier version are migrated on the way in; unreadable ones are set aside.
+      const current = isSavedState(saved) ? upgradeState(saved.state) : null;
+      if (current) {
+        this.setStatus({ kind: 'saved', at: (saved as SavedState).savedAt });
+        return current;
       }
       await this.backend.setAside(saved);
       const good = await this.backend.loadLastGood();
-      const restored = isSavedState(good) ? good : undefined;
+      const goodState = isSavedState(good) ? upgradeState(good.state) : null;
+      const restored = goodState && isSavedState(good) ? { savedAt: good.savedAt, state: goodState } : undefined;
       this.setStatus({
         kind: 'recovered',
         at: this.now(),

@@ -57,6 +57,10 @@ function stroke(role: Role, p: Palette): { stroke: string; dash?: number[]; widt
       return { stroke: p.a, width: 1.5 };
     case 'limit-hard-b':
       return { stroke: p.b, width: 1.5 };
+    case 'a-way':
+      return { stroke: p.a, width: 1.25, dash: [8, 3, 2, 3] };
+    case 'b-way':
+      return { stroke: p.b, width: 1.25, dash: [8, 3, 2, 3] };
   }
 }
 

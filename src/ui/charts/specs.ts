@@ -1,8 +1,13 @@
 // What each chart shows, built from the two analyses. Pure data: no DOM, no drawing, no physics.
+// SPL is the system sum at the seat; on demand each way is drawn beside it. Excursion, impedance
+// and the other single-driver charts are the first driver way's (the woofer), plus each way on demand.
 import type { Analysis, MaxSplLimit } from '../../engine/response/types.ts';
+import type { SpeakerSystem } from '../../engine/system.ts';
 import { PORT_SPEED_LIMIT } from '../engine.ts';
 import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
+import { hasSum, sumOf, waysOf, type WayCurvesView } from '../analysis-view.ts';
+import { firstDriverOf } from '../ways.ts';
 
 export type Role =
   | 'a'
@@ -15,7 +20,10 @@ export type Role =
   | 'limit-hard-a'
   | 'limit-hard-b'
   | 'a-aux'
-  | 'b-aux';
+  | 'b-aux'
+  /** One way of a design, beside its sum. */
+  | 'a-way'
+  | 'b-way';
 
 export interface SeriesSpec {
   label: string;
@@ -48,7 +56,17 @@ export type ChartId = 'spl' | 'excursion' | 'impedance' | 'phase' | 'group-delay
 
 export const CHART_IDS: ChartId[] = ['spl', 'excursion', 'impedance', 'phase', 'group-delay', 'port-speed', 'max-spl'];
 
-export type Pair = Record<Slot, Analysis | null>;
+/** A design's analysis and the system it was made for. */
+export interface Model {
+  analysis: Analysis;
+  system: SpeakerSystem;
+}
+export type Pair = Record<Slot, Model | null>;
+
+export interface ChartOptions {
+  /** Draw each way beside the system sum. */
+  showWays?: boolean;
+}
 
 const LIMIT_TEXT: Record<MaxSplLimit, string> = {
   excursion: 'excursion',
@@ -59,7 +77,13 @@ const LIMIT_TEXT: Record<MaxSplLimit, string> = {
 
 /** A or B's frequency grid (A's when both exist: the engine uses one grid for every design). */
 function grid(pair: Pair): Float64Array | null {
-  return pair.a?.curves.freqHz ?? pair.b?.curves.freqHz ?? null;
+  return pair.a?.analysis.curves.freqHz ?? pair.b?.analysis.curves.freqHz ?? null;
+}
+
+/** The first driver way's Xmax and Xlim in mm (where a single driver is meant). */
+function limitsMm(m: Model): { xmax: number; xlim: number; re: number } {
+  const w = firstDriverOf(m.system);
+  return w ? { xmax: w.unit.xmax * K.mm, xlim: w.unit.xlim * K.mm, re: w.driver.re } : { xmax: NaN, xlim: NaN, re: NaN };
 }
 
 /** Values of a design's curve on the shared grid; a design on another grid is resampled by nearest log frequency. */
@@ -78,8 +102,10 @@ function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | 
 
 const constant = (n: number, v: number) => new Float64Array(n).fill(v);
 
-export function buildCharts(pair: Pair): ChartSpec[] {
-  const f = grid(pair);
+export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec[] {
+  const pair: Record<Slot, Analysis | null> = { a: models.a?.analysis ?? null, b: models.b?.analysis ?? null };
+  const showWays = options.showWays ?? false;
+  const f = grid(models);
   if (!f) {
     return CHART_IDS.map((id) => ({
       id,
@@ -98,15 +124,37 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       const an = pair[s];
       return {
         label: `${SLOT_LABEL[s]}`,
-        longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined,
+        longLabel: an ? `${SLOT_LABEL[s]}: ${models[s]!.system.name}` : undefined,
         role: s,
         values: an ? onGrid(f, an, pick(an)) : null,
         ...extra,
       };
     });
+  /** Each way's own curve, when asked for and the analysis reports ways. */
+  const perWay = (pick: (c: WayCurvesView) => ArrayLike<number> | null | undefined): SeriesSpec[] =>
+    showWays
+      ? SLOTS.flatMap((s) => {
+          const an = pair[s];
+          if (!an) return [];
+          return waysOf(an).flatMap((w) => {
+            const values = pick(w.curves);
+            return values
+              ? [
+                  {
+                    label: `${SLOT_LABEL[s]} ${w.name}`,
+                    longLabel: `${SLOT_LABEL[s]}: ${models[s]!.system.name}, ${w.name}`,
+                    role: `${s}-way` as Role,
+                    values: onGrid(f, an, values),
+                  },
+                ]
+              : [];
+          });
+        })
+      : [];
   const present = SLOTS.filter((s) => pair[s] !== null) as Slot[];
   const fig = (s: Slot) => pair[s]!.figures;
-  const sys = (s: Slot) => pair[s]!.system;
+  const sys = (s: Slot) => models[s]!.system;
+  const sum = (s: Slot) => sumOf(pair[s]!);
 
   // SPL at the seat, with each design's ideal flat reference.
   const spl: ChartSpec = {
@@ -115,11 +163,12 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     unit: 'dB',
     digits: 3,
     freqHz: f,
-    series: [...per((a) => a.curves.splDb), ...referenceSeries(pair, f)],
-    summary: present.map(
-      (s) =>
-        `${SLOT_LABEL[s]}: −3 dB at ${num(fig(s).f3Hz, 3)} Hz, −10 dB at ${num(fig(s).f10Hz, 3)} Hz; passband ${num(fig(s).passbandSplDb, 3)} dB at ${num(sys(s).listening.distance, 2)} m for ${num(pair[s]!.driveV, 3)} V.`,
-    ),
+    series: [...per((a) => sumOf(a).splDb), ...referenceSeries(pair, f), ...perWay((c) => c.splDb)],
+    summary: present.map((s) => {
+      const g = { ...fig(s), ...sum(s).figures };
+      const ways = sys(s).ways.length;
+      return `${SLOT_LABEL[s]}${ways > 1 && hasSum(pair[s]!) ? ` (sum of ${ways} ways)` : ''}: −3 dB at ${num(g.f3Hz, 3)} Hz, −10 dB at ${num(g.f10Hz, 3)} Hz; passband ${num(g.passbandSplDb, 3)} dB at ${num(sys(s).listening.distance, 2)} m for ${num(pair[s]!.driveV, 3)} V.`;
+    }),
   };
 
   // Excursion at the planned level against the limits.
@@ -130,8 +179,9 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       exSeries.push({ label: `${SLOT_LABEL[s]} radiator`, role: `${s}-aux` as Role, values: onGrid(f, an, an.curves.radiatorExcursionMm) });
   }
   exSeries.push(
-    ...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±', 'limit'),
-    ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±', 'limit-hard'),
+    ...perWay((c) => c.plannedExcursionMm),
+    ...limitLines(models, n, (m) => limitsMm(m).xmax, 'Xmax ±', 'limit'),
+    ...limitLines(models, n, (m) => limitsMm(m).xlim, 'Xlim ±', 'limit-hard'),
   );
   const excursion: ChartSpec = {
     id: 'excursion',
@@ -143,9 +193,10 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     series: exSeries,
     summary: present.map((s) => {
       const pk = peakOf(pair[s]!.curves.plannedExcursionMm);
-      const xmax = sys(s).driver.xmax * K.mm;
+      const xmax = limitsMm(models[s]!).xmax;
+      const woofer = firstDriverOf(sys(s))?.name ?? '';
       return pk
-        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} mm at ${num(f[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
+        ? `${SLOT_LABEL[s]}${sys(s).ways.length > 1 ? ` ${woofer}` : ''}: peak ${num(pk.value, 3)} mm at ${num(f[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
         : `${SLOT_LABEL[s]}: no excursion data.`;
     }),
   };
@@ -157,9 +208,10 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     digits: 3,
     yMin: 0,
     freqHz: f,
-    series: per((a) => a.curves.impedanceOhm),
+    series: [...per((a) => a.curves.impedanceOhm), ...perWay((c) => c.impedanceOhm)],
     summary: present.map(
-      (s) => `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(sys(s).driver.re, 3)} Ω).`,
+      (s) =>
+        `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(limitsMm(models[s]!).re, 3)} Ω).`,
     ),
   };
 
@@ -205,6 +257,7 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     series: anyPort
       ? [
           ...per((a) => a.curves.plannedPortAirSpeed),
+          ...perWay((c) => c.plannedPortAirSpeed),
           { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT) },
         ]
       : [],
@@ -228,7 +281,7 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       const lim = an?.curves.maxSplLimit;
       return {
         label: SLOT_LABEL[s],
-        longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined,
+        longLabel: an ? `${SLOT_LABEL[s]}: ${models[s]!.system.name}` : undefined,
         role: s,
         values: an ? onGrid(f, an, an.curves.maxSplDb) : null,
         annotate: lim && an && an.curves.freqHz.length === n ? (i: number) => LIMIT_TEXT[lim[i]] ?? '' : undefined,
@@ -261,13 +314,13 @@ function nearest(f: Float64Array, hz: number) {
   return best;
 }
 
-function referenceSeries(pair: Pair, f: Float64Array): SeriesSpec[] {
+function referenceSeries(pair: Record<Slot, Analysis | null>, f: Float64Array): SeriesSpec[] {
   const refs = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: onGrid(f, pair[s]!, pair[s]!.curves.referenceSplDb)! }));
   if (refs.length === 2 && sameValues(refs[0].v, refs[1].v)) return [{ label: 'ideal', role: 'reference', values: refs[0].v }];
   return refs.map((r) => ({ label: `${SLOT_LABEL[r.s]} ideal`, role: 'reference' as Role, values: r.v }));
 }
 
-function limitLines(pair: Pair, n: number, pick: (a: Analysis) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {
+function limitLines(pair: Pair, n: number, pick: (m: Model) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {
   const vals = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: pick(pair[s]!) }));
   if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role, values: constant(n, vals[0].v) }];
   return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `${role}-${x.s}` as Role, values: constant(n, x.v) }));
