@@ -1,8 +1,8 @@
 // What the screens read of an analysis, per way and for the whole system, in one place.
 // The analysis gives its top-level curves and figures for the first driver way; per-way results
-// (`ways`) and the summed system are read here and only here, guarded, so screens never depend on
-// which of them a given analysis carries. The sum is looked for under `sum`, and under `system`
-// when that holds curves rather than the SpeakerSystem the analysis was made for.
+// (`ways`: the driver ways) and the summed system (`sum`, whose curves list every way as it enters
+// the sum) are read here and only here, guarded, so screens never depend on which of them a given
+// analysis carries.
 import type { Analysis, Curves, Figures } from '../engine/response/types.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { firstDriverIndex } from './ways.ts';
@@ -28,24 +28,18 @@ export interface SumView {
 }
 
 interface PerWayAnalysis {
+  /** Every driver way: `{way: {name}, curves, figures}`. */
   ways?: unknown;
+  /** The system at the seat: `{curves: {splDb, ways: [{name, kind, splDb}]}, figures}`. */
   sum?: unknown;
-}
-
-function sumRaw(a: Analysis): Record<string, unknown> | null {
-  for (const raw of [(a as Analysis & PerWayAnalysis).sum, (a as { system?: unknown }).system]) {
-    if (raw && typeof raw === 'object' && curvesOf((raw as Record<string, unknown>).curves)) return raw as Record<string, unknown>;
-  }
-  return null;
 }
 
 const isArrayLike = (v: unknown): v is ArrayLike<number> =>
   (v instanceof Float64Array || Array.isArray(v)) && (v as ArrayLike<number>).length > 0;
 
 function curvesOf(raw: unknown): WayCurvesView | null {
-  if (!raw || typeof raw !== 'object') return null;
-  const c = raw as Record<string, unknown>;
-  if (!isArrayLike(c.splDb)) return null;
+  const c = record(raw);
+  if (!c || !isArrayLike(c.splDb)) return null;
   const opt = (k: string) => (isArrayLike(c[k]) ? (c[k] as ArrayLike<number>) : null);
   return {
     splDb: c.splDb,
@@ -55,24 +49,50 @@ function curvesOf(raw: unknown): WayCurvesView | null {
   };
 }
 
-/** Every way the analysis reports on its own, in design order (empty before per-way analysis exists). */
-export function waysOf(a: Analysis): WayView[] {
+const record = (v: unknown): Record<string, unknown> | null =>
+  v !== null && typeof v === 'object' && !Array.isArray(v) ? (v as Record<string, unknown>) : null;
+
+function sumRaw(a: Analysis): Record<string, unknown> | null {
+  const r = record((a as Analysis & PerWayAnalysis).sum);
+  return r && curvesOf(r.curves) ? r : null;
+}
+
+/** The driver ways the analysis reports, by name. */
+function driverWays(a: Analysis): Map<string, { curves: WayCurvesView; figures: Partial<Figures> }> {
+  const out = new Map<string, { curves: WayCurvesView; figures: Partial<Figures> }>();
   const raw = (a as Analysis & PerWayAnalysis).ways;
-  if (!Array.isArray(raw)) return [];
-  const out: WayView[] = [];
+  if (!Array.isArray(raw)) return out;
   for (const w of raw) {
-    if (!w || typeof w !== 'object') continue;
-    const r = w as Record<string, unknown>;
-    const curves = curvesOf(r.curves);
-    if (typeof r.name !== 'string' || !curves) continue;
-    out.push({ name: r.name, curves, figures: (r.figures && typeof r.figures === 'object' ? r.figures : {}) as Partial<Figures> });
+    const r = record(w);
+    const name = record(r?.way)?.name ?? r?.name;
+    const curves = curvesOf(r?.curves);
+    if (typeof name === 'string' && curves) out.set(name, { curves, figures: (record(r?.figures) ?? {}) as Partial<Figures> });
   }
   return out;
 }
 
-/** The way of that name, if the analysis reports it. */
-export function wayNamed(a: Analysis, name: string): WayView | null {
-  return waysOf(a).find((w) => w.name === name) ?? null;
+/**
+ * Every way the analysis reports on its own, in design order, flat ways included (empty before
+ * per-way analysis exists). A way's SPL is as it enters the sum (filter, polarity and offset).
+ */
+export function waysOf(a: Analysis): WayView[] {
+  const drivers = driverWays(a);
+  const entering = record(sumRaw(a)?.curves)?.ways;
+  if (!Array.isArray(entering)) return [...drivers].map(([name, w]) => ({ name, ...w }));
+  const out: WayView[] = [];
+  for (const e of entering) {
+    const r = record(e);
+    const splDb = r?.splDb;
+    if (!r || typeof r.name !== 'string' || !isArrayLike(splDb)) continue;
+    const own = drivers.get(r.name);
+    out.push({ name: r.name, curves: { ...(own?.curves ?? {}), splDb }, figures: own?.figures ?? {} });
+  }
+  return out;
+}
+
+/** A driver way's own analysis (its curves as it plays through its filter, its figures). */
+function driverWayNamed(a: Analysis, name: string) {
+  return driverWays(a).get(name) ?? null;
 }
 
 /**
@@ -81,7 +101,7 @@ export function wayNamed(a: Analysis, name: string): WayView | null {
  */
 export function wayFigures(a: Analysis, doc: DesignDoc, index: number): Partial<Figures> | null {
   const name = doc.ways[index]?.name;
-  const own = name === undefined ? null : wayNamed(a, name);
+  const own = name === undefined ? null : driverWayNamed(a, name);
   if (own) return own.figures;
   return index === firstDriverIndex(doc) ? a.figures : null;
 }
@@ -89,7 +109,7 @@ export function wayFigures(a: Analysis, doc: DesignDoc, index: number): Partial<
 /** The same for curves. */
 export function wayCurves(a: Analysis, doc: DesignDoc, index: number): WayCurvesView | null {
   const name = doc.ways[index]?.name;
-  const own = name === undefined ? null : wayNamed(a, name);
+  const own = name === undefined ? null : driverWayNamed(a, name);
   if (own) return own.curves;
   return index === firstDriverIndex(doc) ? topCurves(a.curves) : null;
 }
