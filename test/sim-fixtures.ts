@@ -40,6 +40,8 @@ export function driver(spec: DriverSpec = {}) {
     vas,
     re,
     le,
+    l2: 0,
+    r2: 0,
     sd,
     bl,
     mms,
@@ -85,6 +87,7 @@ export function ventedBox(vbL = 28, fb = 38, ql: number | null = 7, portDiamCm =
     portLength: leff - 1.4616 * r,
     portLeff: leff,
     map,
+    portLossK: 1,
   };
 }
 

@@ -37,6 +37,12 @@ export interface Driver {
   re: number;
   /** H */
   le: number;
+  /**
+   * Semi-inductance: a lossy inductance L2 in parallel with R2, in series with Le (the published
+   * L2R2 coil model); both 0 when not given.
+   */
+  l2: number;
+  r2: number;
   /** m^2 */
   sd: number;
   /** T·m */
@@ -62,61 +68,8 @@ export interface Driver {
   thermal: ThermalParams;
 }
 
-export interface SealedBox {
-  type: 'sealed';
-  /** Effective acoustic volume (fill included), m^3. */
-  vb: number;
-  /** Net internal volume as entered, m^3. */
-  vbNet: number;
-  /** Parallel leakage resistance, Pa·s/m^3; Infinity = lossless. Leaked air radiates: net radiated volume velocity = Sd·v + Up + pb/Ral. */
-  ral: number;
-  ql: number | null;
-}
-
-export interface VentedBox {
-  type: 'vented';
-  vb: number;
-  vbNet: number;
-  ral: number;
-  ql: number | null;
-  fb: number;
-  /** Total port area, m^2. */
-  sv: number;
-  portCount: number;
-  /** Area of one port, m^2. */
-  portArea: number;
-  /** Equivalent radius of one port (for end corrections), m. */
-  portRadius: number;
-  /** Physical length of one port, m (may be negative if the tuning is impossible; validation reports it). */
-  portLength: number;
-  /** Effective acoustic length (physical + end corrections), m. */
-  portLeff: number;
-  /** Acoustic mass of all ports together, kg/m^4. */
-  map: number;
-}
-
-export interface PassiveRadiatorBox {
-  type: 'passive-radiator';
-  vb: number;
-  vbNet: number;
-  ral: number;
-  ql: number | null;
-  /** Total radiating area of all radiators, m^2. */
-  sp: number;
-  count: number;
-  /** Mechanical values of all radiators together (count·m, count·k, count·r). */
-  mmp: number;
-  kmp: number;
-  rmp: number;
-  qmp: number | null;
-  xmax: number;
-  /** Free-air resonance of the radiator (the response notch), Hz. */
-  fp: number;
-  /** System tuning sqrt((Kmp + rho c^2 Sp^2 / Vb)/Mmp)/(2 pi), Hz. */
-  fb: number;
-}
-
-export type Box = SealedBox | VentedBox | PassiveRadiatorBox;
+export type { Box, SealedBox, VentedBox, PassiveRadiatorBox } from './box/index.ts';
+import type { Box } from './box/index.ts';
 
 export interface Amplifier {
   /** Rated power into the nominal load, W. */

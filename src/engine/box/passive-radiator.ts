@@ -1,4 +1,3 @@
-import type { Air, PassiveRadiatorBox } from '../system.ts';
 import * as v from 'valibot';
 import { int, num, qlSchema, volumeSchema } from '../design/schema.ts';
 import type { BoxKind } from './types.ts';
@@ -6,6 +5,28 @@ import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { bulkModulus } from '../air.ts';
 import { fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
+import { oneChamberAcoustics, RadiatorChamber } from './one-chamber.ts';
+
+export interface PassiveRadiatorBox {
+  type: 'passive-radiator';
+  vb: number;
+  vbNet: number;
+  ral: number;
+  ql: number | null;
+  /** Total radiating area of all radiators, m^2. */
+  sp: number;
+  count: number;
+  /** Mechanical values of all radiators together (count·m, count·k, count·r). */
+  mmp: number;
+  kmp: number;
+  rmp: number;
+  qmp: number | null;
+  xmax: number;
+  /** Free-air resonance of the radiator (the response notch), Hz. */
+  fp: number;
+  /** System tuning sqrt((Kmp + rho c^2 Sp^2 / Vb)/Mmp)/(2 pi), Hz. */
+  fb: number;
+}
 
 const schema = v.strictObject({
   type: v.literal('passive-radiator'),
@@ -71,10 +92,17 @@ export const passiveRadiator: BoxKind<typeof schema, PassiveRadiatorBox> = {
     return { box, issues };
   },
   // The radiator's mass-spring-damper in acoustic units: Z = j w Mmp/Sp^2 + Rmp/Sp^2 + Kmp/(j w Sp^2).
-  outletAdmittance(box: PassiveRadiatorBox, _air: Air, w: number) {
+  acoustics: (box, air, w) => {
+    // Radiator admittance Sp^2/(j w Mmp + Rmp + Kmp/(j w)) (Small 1974). A part-per-billion
+    // resistance keeps a lossless radiator finite exactly at its resonance.
     const s2 = box.sp * box.sp;
-    // A part-per-billion resistance keeps a lossless radiator finite exactly at its resonance.
     const r = Math.max(box.rmp, 1e-9 * w * box.mmp);
-    return inv(cx(r / s2, (w * box.mmp - box.kmp / w) / s2));
+    return oneChamberAcoustics(box.vb, box.ral, air, w, inv(cx(r / s2, (w * box.mmp - box.kmp / w) / s2)));
   },
+  chamber: (box, ctx) => new RadiatorChamber(box.vb, box.ral, box.sp, box.mmp, box.kmp, box.rmp, box.xmax, ctx),
+  probe: (box) => ({ kind: 'radiator', toUnit: 1000, limit: box.xmax * 1000 }),
+  figures: (box) => [
+    { id: 'fb', label: 'Tuning fb', value: box.fb, unit: 'Hz' },
+    { id: 'fp', label: 'Radiator resonance (notch)', value: box.fp, unit: 'Hz' },
+  ],
 };

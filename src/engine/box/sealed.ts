@@ -1,9 +1,20 @@
-import type { SealedBox } from '../system.ts';
 import * as v from 'valibot';
 import { num, qlSchema, volumeSchema } from '../design/schema.ts';
 import type { BoxKind } from './types.ts';
 import { boxCompliance, leakageResistance } from './common.ts';
+import { ClosedChamber, oneChamberAcoustics } from './one-chamber.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
+
+export interface SealedBox {
+  type: 'sealed';
+  /** Effective acoustic volume (fill included), m^3. */
+  vb: number;
+  /** Net internal volume as entered, m^3. */
+  vbNet: number;
+  /** Parallel leakage resistance, Pa·s/m^3; Infinity = lossless. Leaked air radiates: net radiated volume velocity = Sd·v + Up + pb/Ral. */
+  ral: number;
+  ql: number | null;
+}
 
 const schema = v.strictObject({
   type: v.literal('sealed'),
@@ -37,5 +48,9 @@ export const sealed: BoxKind<typeof schema, SealedBox> = {
     const ral = leakageResistance(ql, 2 * Math.PI * fc, boxCompliance(vb, air));
     return { box: { type: 'sealed', vb, vbNet, ral, ql }, issues: [] };
   },
-  outletAdmittance: () => null,
+  acoustics: (box, air, w) => oneChamberAcoustics(box.vb, box.ral, air, w, null),
+  chamber: (box, ctx) => new ClosedChamber(box.vb, box.ral, ctx),
+  probe: () => null,
+  // fc and Qtc depend on the driver too: the analysis reports them.
+  figures: () => [],
 };

@@ -1,4 +1,3 @@
-import type { Air, VentedBox } from '../system.ts';
 import * as v from 'valibot';
 import type { PortDoc } from '../design/document.ts';
 import { num, portsSchema, qlSchema, volumeSchema } from '../design/schema.ts';
@@ -6,6 +5,32 @@ import type { BoxKind } from './types.ts';
 import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { cx, inv } from '../complex.ts';
+import { oneChamberAcoustics, PortedChamber } from './one-chamber.ts';
+import { PORT_SPEED_LIMIT } from '../units.ts';
+
+export interface VentedBox {
+  type: 'vented';
+  vb: number;
+  vbNet: number;
+  ral: number;
+  ql: number | null;
+  fb: number;
+  /** Total port area, m^2. */
+  sv: number;
+  portCount: number;
+  /** Area of one port, m^2. */
+  portArea: number;
+  /** Equivalent radius of one port (for end corrections), m. */
+  portRadius: number;
+  /** Physical length of one port, m (may be negative if the tuning is impossible; validation reports it). */
+  portLength: number;
+  /** Effective acoustic length (physical + end corrections), m. */
+  portLeff: number;
+  /** Acoustic mass of all ports together, kg/m^4. */
+  map: number;
+  /** Loss coefficient of the ports' ends (port compression). */
+  portLossK: number;
+}
 
 const schema = v.strictObject({
   type: v.literal('vented'),
@@ -25,6 +50,8 @@ export interface PortGeometry {
   count: number;
   /** Sum of both end corrections, m. */
   endCorrection: number;
+  /** Loss coefficient of its ends. */
+  lossK: number;
 }
 
 export function portGeometry(port: PortDoc): PortGeometry {
@@ -32,8 +59,23 @@ export function portGeometry(port: PortDoc): PortGeometry {
     port.diameter_cm !== undefined ? Math.PI * (port.diameter_cm / 200) ** 2 : ((port.width_cm ?? 0) / 100) * ((port.height_cm ?? 0) / 100);
   const radius = Math.sqrt(area / Math.PI);
   const endCorrection = radius * (END_CORRECTION[port.outer_end ?? 'flanged'] + END_CORRECTION[port.inner_end ?? 'free']);
-  return { area, radius, count: port.count ?? 1, endCorrection };
+  return { area, radius, count: port.count ?? 1, endCorrection, lossK: PORT_LOSS_K[port.end_shape ?? 'sharp'] };
 }
+
+/**
+ * Loss coefficient K of a port's Δp = ½·rho·K·u·|u| by the shape of its ends. Sharp edges: K of
+ * order 1 (Backman, AES 1995); rounded and flared ends shed less of the jet and compress less
+ * (Salvatti, Devantier & Button, JAES 2002): 0.5 and 0.2 are our estimates within the lower range
+ * those measurements show (from memory, not read off a table).
+ */
+export const PORT_LOSS_K = { sharp: 1.0, rounded: 0.5, flared: 0.2 } as const;
+
+/** The ports' loss coefficient: the area-weighted mean of their K (all ports carry the same speed). */
+export const portsLossK = (ports: PortGeometry[]): number =>
+  ports.reduce((s, p) => s + p.lossK * p.area * p.count, 0) / ports.reduce((s, p) => s + p.area * p.count, 0);
+
+/** The first pipe resonance of a port open at both ends, c/(2·Leff) Hz: port noise can ring there. */
+export const pipeResonanceHz = (c: number, leff: number): number => c / (2 * leff);
 
 /** Helmholtz resonance of a box with one port of effective length leff: fb = c/(2 pi)·sqrt(Sv/(Vb·Leff)). */
 export const helmholtzHz = (c: number, sv: number, vb: number, leff: number): number => (c / (2 * Math.PI)) * Math.sqrt(sv / (vb * leff));
@@ -136,9 +178,18 @@ export const vented: BoxKind<typeof schema, VentedBox> = {
       portLength: length,
       portLeff: length + geoms[0].endCorrection,
       map,
+      portLossK: portsLossK(geoms),
     };
     return { box, issues };
   },
   // Port as a lossless acoustic mass (its small-signal loss is lumped into QL): Y = 1/(j w Map).
-  outletAdmittance: (box: VentedBox, _air: Air, w: number) => inv(cx(0, w * box.map)),
+  acoustics: (box, air, w) => oneChamberAcoustics(box.vb, box.ral, air, w, inv(cx(0, w * box.map))),
+  chamber: (box, ctx) => new PortedChamber(box.vb, box.ral, box.map, box.sv, box.portLossK, ctx),
+  // Port air speed over about 17 m/s (common practice, roughly 5% of c).
+  probe: (box) => ({ kind: 'port-speed', toUnit: 1 / box.sv, limit: PORT_SPEED_LIMIT }),
+  figures: (box, air) => [
+    { id: 'fb', label: 'Tuning fb', value: box.fb, unit: 'Hz' },
+    { id: 'port-length', label: 'Port length (each)', value: box.portLength * 100, unit: 'cm' },
+    { id: 'pipe-resonance', label: 'Port pipe resonance', value: pipeResonanceHz(air.c, box.portLeff), unit: 'Hz' },
+  ],
 };

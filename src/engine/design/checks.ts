@@ -29,12 +29,16 @@ function wayPlausibility(system: SpeakerSystem, way: DriverWay, at: string): Iss
     out.push(warning(`${at}.driver.xmax_mm`, `${fmt(xmaxMm)} mm is beyond even large PA bass drivers (about 25 mm); check the value`));
   if (xmaxMm < 0.3 && d.sd > 30e-4)
     out.push(warning(`${at}.driver.xmax_mm`, `${fmt(xmaxMm)} mm is very little travel for a ${fmt(d.sd * 1e4)} cm² cone; check the value`));
-  if (bass && (d.fs < 10 || d.fs > 300)) out.push(warning(`${at}.driver.fs_hz`, `${fmt(d.fs)} Hz is unusual for a bass driver (10 to 300 Hz)`));
+  if (bass && (d.fs < 10 || d.fs > 300))
+    out.push(warning(`${at}.driver.fs_hz`, `${fmt(d.fs)} Hz is unusual for a bass driver (10 to 300 Hz)`));
   if (d.qts > 1.5) out.push(warning(`${at}.driver.qes`, `Qts ${fmt(d.qts)} is very high; the box response will peak strongly`));
   const displacement = way.count * estimatedDriverDisplacement(d.sd);
   if (box.vbNet < displacement) {
     out.push(
-      error(`${at}.box.vb_l`, `${fmt(box.vbNet * 1000)} l is smaller than the driver's own displacement of about ${fmt(displacement * 1000)} l`),
+      error(
+        `${at}.box.vb_l`,
+        `${fmt(box.vbNet * 1000)} l is smaller than the driver's own displacement of about ${fmt(displacement * 1000)} l`,
+      ),
     );
   } else if (box.vbNet < 3 * displacement) {
     out.push(

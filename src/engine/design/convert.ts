@@ -46,13 +46,21 @@ export function combineDrivers(unit: Driver, count: number, wiring: 'series' | '
     vas: unit.vas * count,
     re: unit.re * e,
     le: unit.le * e,
+    l2: unit.l2 * e,
+    r2: unit.r2 * e,
     sd: unit.sd * count,
     bl: wiring === 'series' ? unit.bl * count : unit.bl,
     mms: unit.mms * count,
     cms: unit.cms / count,
     rms: unit.rms * count,
     pe: unit.pe * count,
-    thermal: { ...unit.thermal, rtv: unit.thermal.rtv / count, ctv: unit.thermal.ctv * count, rtm: unit.thermal.rtm / count, ctm: unit.thermal.ctm * count },
+    thermal: {
+      ...unit.thermal,
+      rtv: unit.thermal.rtv / count,
+      ctv: unit.thermal.ctv * count,
+      rtm: unit.thermal.rtm / count,
+      ctm: unit.thermal.ctm * count,
+    },
   };
 }
 
@@ -72,6 +80,10 @@ function toDriver(d: DriverDoc, air: Air, path: string, issues: Issue[]): Driver
   const derived = deriveSmallSignal(given, re, sd, air, path);
   issues.push(...derived.issues);
 
+  if ((d.l2_mh === undefined) !== (d.r2_ohm === undefined)) {
+    const missing = d.l2_mh === undefined ? 'l2_mh' : 'r2_ohm';
+    issues.push(error(`${path}.${missing}`, 'is required with the other semi-inductance field: give both l2_mh and r2_ohm, or neither'));
+  }
   let xlimMm = d.xlim_mm;
   if (xlimMm === undefined) {
     xlimMm = defaultXlimMm(d.xmax_mm);
@@ -97,6 +109,8 @@ function toDriver(d: DriverDoc, air: Air, path: string, issues: Issue[]): Driver
     vas: v.vas,
     re,
     le: (d.le_mh ?? 0) / 1000,
+    l2: (d.l2_mh ?? 0) / 1000,
+    r2: d.l2_mh !== undefined ? (d.r2_ohm ?? 0) : 0,
     sd,
     bl: v.bl,
     mms: v.mms,

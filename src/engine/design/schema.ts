@@ -35,6 +35,8 @@ export const driverSchema = v.strictObject({
   vas_l: v.optional(num(0.0001, 20000, 'l')),
   re_ohm: num(0.1, 200, 'ohm'),
   le_mh: v.optional(num(0, 50, 'mH')),
+  l2_mh: v.optional(num(0.001, 50, 'mH')),
+  r2_ohm: v.optional(num(0.01, 1000, 'ohm')),
   sd_cm2: num(0.5, 20000, 'cm²'),
   bl_tm: v.optional(num(0.05, 200, 'T·m')),
   mms_g: v.optional(num(0.01, 10000, 'g')),
@@ -61,6 +63,8 @@ export const portSchema = v.strictObject({
   count: v.optional(int(1, 16)),
   outer_end: v.optional(v.picklist(['flanged', 'free'], 'must be "flanged" or "free"')),
   inner_end: v.optional(v.picklist(['flanged', 'free'], 'must be "flanged" or "free"')),
+  /** How the port's ends are shaped: it sets the loss that compresses the port at high air speed. */
+  end_shape: v.optional(v.picklist(['sharp', 'rounded', 'flared'], 'must be "sharp", "rounded" or "flared"')),
 });
 export const portsSchema = v.pipe(
   v.array(portSchema, 'must be a list of ports'),

@@ -5,7 +5,6 @@ import { LinearChain } from '../render/linear-chain.ts';
 import { cWeightingFilter } from './weighting.ts';
 import { splDbOfMeanSquare } from '../units.ts';
 
-
 /**
  * Long-term average C-weighted SPL (Leq,C) at the seat for 1 V per full scale. Pair: the two
  * speakers' energies add at the seat; mono-sum: the one subwoofer plus each channel's high band.

@@ -1,16 +1,14 @@
-// The small-signal lumped circuit solved at one frequency (Thiele 1971; Small 1972, 1973):
+// The small-signal lumped circuit of one driver way solved at one frequency (Thiele 1971; Small 1972, 1973):
 //   e = (Re + Rs + jwLe)·i + Bl·v
-//   (jwMms + Rms + 1/(jwCms))·v = Bl·i + Sd·pb
-//   (jwCab + 1/Ral + Yo)·pb = -Sd·v          (Yo: port or radiator admittance; 0 for sealed)
-//   p(r) = jw·rho·(Sd·v + Yo·pb + pb/Ral) / (Omega·r)  (far-field point source in solid angle Omega)
-// Leaked air leaves the box too, so it radiates with the cone and port: the net radiated volume
-// velocity is the box's compression flow, -jwCab·pb, which gives Small's s^4/D(s) form (JAES 1973).
+//   (jwMms + Rms + 1/(jwCms) + Sd^2·zLoad)·v = Bl·i      (zLoad: the box kind's acoustic load on the cone)
+//   p(r) = jw·rho·U / (Omega·r),  U = Sd·v·(cone + outlet + leak)  (far-field point source in solid angle Omega)
+// The box kind gives zLoad and what radiates per unit cone volume velocity (box/physics.ts): in a
+// one-chamber box the leak radiates with cone and port, which gives Small's s^4/D(s) form (JAES 1973).
 // Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
-import type { DriverWay, SpeakerSystem, Way } from '../system.ts';
+import type { Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import { add, cx, div, inv, mul, scale, type Complex } from '../complex.ts';
+import { add, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { BOX_KINDS } from '../box/index.ts';
-import { boxCompliance } from '../box/common.ts';
 import { baffleStepCorners } from '../filters/room.ts';
 
 export interface PointResponse {
@@ -29,6 +27,18 @@ export interface PointResponse {
   current: Complex;
   /** Driver terminal impedance, ohm (series resistance excluded). */
   impedance: Complex;
+}
+
+/**
+ * The blocked coil: Re + jw·Le, plus the semi-inductance jw·L2·R2/(R2 + jw·L2) when given (the
+ * L2R2 lossy-inductance model: eddy currents make the coil's inductance fall and its resistance rise
+ * with frequency).
+ */
+export function coilImpedance(d: Driver, w: number): Complex {
+  const z = cx(d.re, w * d.le);
+  if (!(d.l2 > 0)) return z;
+  const jwl2 = cx(0, w * d.l2);
+  return add(z, div(scale(jwl2, d.r2), add(cx(d.r2), jwl2)));
 }
 
 /** Room or cabin gain: a 12 dB/octave rise below the corner (common practice, no source). */
@@ -54,23 +64,23 @@ export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts:
   const w = 2 * Math.PI * f;
   const jw = cx(0, w);
   const drive = scale(wayFilterAt(way.filter, w), volts);
-  const ze = cx(d.re + amplifier.rs, w * d.le);
+  const coil = coilImpedance(d, w);
+  const ze = add(coil, cx(amplifier.rs));
   const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
-  const yo = BOX_KINDS[box.type].outletAdmittance(box, air, w) ?? cx(0);
-  const ybox = add(cx(1 / box.ral, w * boxCompliance(box.vb, air)), yo);
-  const zbox = inv(ybox);
-  const zmTotal = add(zm, scale(zbox, d.sd * d.sd));
+  const ac = BOX_KINDS[box.type].acoustics(box, air, w);
+  const zmTotal = add(zm, scale(ac.zLoad, d.sd * d.sd));
   const motional = div(cx(d.bl * d.bl), zmTotal);
   const current = div(drive, add(ze, motional));
   const coneVelocity = div(scale(current, d.bl), zmTotal);
-  const boxPressure = scale(mul(coneVelocity, zbox), -d.sd);
-  const outletFlow = mul(yo, boxPressure);
+  const coneFlow = scale(coneVelocity, d.sd);
+  const boxPressure = mul(ac.chamber, coneFlow);
+  const outletFlow = mul(ac.outlet, coneFlow);
   const k = (air.rho * (withRoomGain ? roomGain(f, listening.roomGainHz) : 1)) / (listening.omega * listening.distance);
   // Radiation: jw·rho/(Omega·r), times the baffle step of a free-standing cabinet.
   const radiation = scale(mul(jw, baffleGain(w, listening.baffleWidth ?? 0)), k);
-  const conePressure = mul(radiation, scale(coneVelocity, d.sd));
+  const conePressure = scale(mul(radiation, coneFlow), ac.cone);
   const outletPressure = mul(radiation, outletFlow);
-  const leakPressure = mul(radiation, scale(boxPressure, 1 / box.ral));
+  const leakPressure = mul(radiation, mul(ac.leak, coneFlow));
   return {
     pressure: add(add(conePressure, outletPressure), leakPressure),
     conePressure,
@@ -80,7 +90,7 @@ export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts:
     outletFlow,
     boxPressure,
     current,
-    impedance: add(cx(d.re, w * d.le), motional),
+    impedance: add(coil, motional),
   };
 }
 

@@ -1,8 +1,8 @@
 // The linearised model as a dense state-space recurrence, built from the same rows and the same
 // theta weights as the nonlinear step (./woofer.ts), so at low drive both give identical samples.
 //   (M/h - Theta·A)·y1 = (M/h + (I - Theta)·A)·y0 + Theta·b·u1 + (I - Theta)·b·u0
-// State order: [i, x, v, pb, (Up | xp, vp)].
-import { BOX_RADIATOR, BOX_VENTED, type WooferParams } from './params.ts';
+// State order: [i, x, v, then the box's own states (box/physics.ts)].
+import type { WooferParams } from './params.ts';
 
 export interface LinearModel {
   n: number;
@@ -16,13 +16,18 @@ export interface LinearModel {
 }
 
 export function linearModel(p: WooferParams): LinearModel {
-  const n = p.boxCode === BOX_VENTED ? 5 : p.boxCode === BOX_RADIATOR ? 6 : 4;
+  const chamber = p.newChamber();
+  const hasL2 = p.l2 > 0;
+  // State order [i, x, v, box states..., j]: the semi-inductance's current last, when there is one.
+  const n = 3 + chamber.states + (hasL2 ? 1 : 0);
   const m = new Float64Array(n * n),
     a = new Float64Array(n * n);
   const b = new Float64Array(n),
     theta = new Float64Array(n).fill(0.5),
     c = new Float64Array(n);
-  const set = (arr: Float64Array, r: number, col: number, val: number) => (arr[r * n + col] = val);
+  const set = (arr: Float64Array, r: number, col: number, val: number) => {
+    arr[r * n + col] = val;
+  };
   const R = p.re0 + p.rs;
   theta[0] = p.thetaE;
   set(m, 0, 0, p.le0);
@@ -35,27 +40,21 @@ export function linearModel(p: WooferParams): LinearModel {
   set(a, 2, 0, p.bl0);
   set(a, 2, 1, -p.k0);
   set(a, 2, 2, -p.rms);
-  set(a, 2, 3, p.sd);
-  set(m, 3, 3, p.cab);
-  set(a, 3, 2, -p.sd);
-  set(a, 3, 3, -p.g);
-  if (p.boxCode === BOX_VENTED) {
-    set(a, 3, 4, -1);
-    set(m, 4, 4, p.map);
-    set(a, 4, 3, 1);
-    for (let k = 0; k < n; k++) c[k] += (p.kOut * a[4 * n + k]) / p.map;
-  } else if (p.boxCode === BOX_RADIATOR) {
-    set(a, 3, 5, -p.sp);
-    set(m, 4, 4, 1);
-    set(a, 4, 5, 1);
-    set(m, 5, 5, p.mmp);
-    set(a, 5, 3, p.sp);
-    set(a, 5, 4, -p.kmp0);
-    set(a, 5, 5, -p.rmp);
-    for (let k = 0; k < n; k++) c[k] += (p.kOut * p.sp * a[5 * n + k]) / p.mmp;
+  if (hasL2) {
+    const jx = n - 1;
+    set(a, 0, 0, -R - p.r2);
+    set(a, 0, jx, p.r2);
+    set(m, jx, jx, p.l2);
+    set(a, jx, 0, p.r2);
+    set(a, jx, jx, -p.r2);
+    theta[jx] = Math.max(0.5, 1 - p.l2 / p.r2 / p.h);
   }
-  // dU/dt = Sd·v' + pb'/Ral + (Up' | Sp·vp'), each row of A divided by its mass (the leak radiates).
-  for (let k = 0; k < n; k++) c[k] += (p.kOut * p.sd * a[2 * n + k]) / p.mms + (p.kOut * p.g * a[3 * n + k]) / p.cab;
+  const target = { n, m, a, c, kOut: p.kOut };
+  chamber.linearRows(target);
+  // dU/dt: the cone's own face (each row of A divided by its mass), then the box's leak.
+  for (let k = 0; k < n; k++) {
+    c[k] += (chamber.coneRadiates ? (p.kOut * p.sd * a[2 * n + k]) / p.mms : 0) + chamber.leakOut(target, k);
+  }
   return { n, m, a, b, theta, c };
 }
 
@@ -107,6 +106,10 @@ export class LinearRecurrence {
   private readonly c6 = new Float64Array(6);
   private readonly y6 = new Float64Array(6);
   private readonly one = new Float64Array(1);
+  /** The state when it has more than six entries (a bandpass box with a semi-inductance). */
+  private readonly yN: Float64Array;
+  private readonly tN: Float64Array;
+  private readonly r2: number;
   private u0 = 0;
   /** Total electrical resistance the matrices were built for, ohm. */
   r: number;
@@ -121,6 +124,9 @@ export class LinearRecurrence {
     this.phi = new Float64Array(n * n);
     this.g0 = new Float64Array(n);
     this.g1 = new Float64Array(n);
+    this.yN = new Float64Array(n);
+    this.tN = new Float64Array(n);
+    this.r2 = p.l2 > 0 ? p.r2 : 0;
     this.r = p.re0 + p.rs;
     this.rebuild(this.r);
   }
@@ -133,7 +139,7 @@ export class LinearRecurrence {
       S = this.S,
       B = this.B;
     this.r = r;
-    lm.a[0] = -r;
+    lm.a[0] = this.r2 > 0 ? -r - this.r2 : -r;
     const k = n + 2;
     for (let row = 0; row < n; row++) {
       const th = lm.theta[row];
@@ -150,6 +156,7 @@ export class LinearRecurrence {
       this.g0[row] = B[row * k + n];
       this.g1[row] = B[row * k + n + 1];
     }
+    if (n > 6) return;
     for (let row = 0; row < n; row++) {
       for (let j = 0; j < n; j++) this.phi6[row * 6 + j] = this.phi[row * n + j];
       this.g06[row] = this.g0[row];
@@ -160,6 +167,7 @@ export class LinearRecurrence {
 
   reset(): void {
     this.y6.fill(0);
+    this.yN.fill(0);
     this.u0 = 0;
   }
 
@@ -167,6 +175,7 @@ export class LinearRecurrence {
   adoptState(other: LinearRecurrence): void {
     if (other.n === this.n) {
       this.y6.set(other.y6);
+      this.yN.set(other.yN);
       this.u0 = other.u0;
     }
   }
@@ -182,6 +191,10 @@ export class LinearRecurrence {
    * six entries and the matrices held in locals for the whole block.
    */
   processBlock(u: Float64Array, out: Float64Array, n: number): void {
+    if (this.n > 6) {
+      this.processGeneric(u, out, n);
+      return;
+    }
     const P = this.phi6,
       G0 = this.g06,
       G1 = this.g16,
@@ -274,8 +287,36 @@ export class LinearRecurrence {
     this.u0 = u0;
   }
 
+  /** The same recurrence for any state size (plain loops). */
+  private processGeneric(u: Float64Array, out: Float64Array, frames: number): void {
+    const n = this.n,
+      P = this.phi,
+      G0 = this.g0,
+      G1 = this.g1,
+      C = this.lm.c,
+      Y = this.yN,
+      T = this.tN;
+    let u0 = this.u0;
+    for (let k = 0; k < frames; k++) {
+      const u1 = u[k];
+      let o = 0;
+      for (let r = 0; r < n; r++) {
+        let acc = G0[r] * u0 + G1[r] * u1;
+        for (let c = 0; c < n; c++) acc += P[r * n + c] * Y[c];
+        T[r] = acc;
+      }
+      for (let r = 0; r < n; r++) {
+        Y[r] = T[r];
+        o += C[r] * T[r];
+      }
+      u0 = u1;
+      out[k] = o;
+    }
+    this.u0 = u0;
+  }
+
   /** Cone excursion of the linear model, m. */
   get x(): number {
-    return this.y6[1];
+    return this.n > 6 ? this.yN[1] : this.y6[1];
   }
 }

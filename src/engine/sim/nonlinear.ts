@@ -75,26 +75,3 @@ export function toPerMetre(rel: number[]): Float64Array {
   while (c.length > 1 && c[c.length - 1] === 0) c.pop();
   return Float64Array.from(c);
 }
-
-/** Evaluates p(x), p'(x), p''(x) of a per-metre coefficient array into out[0..2]. */
-export function polyWithDerivatives(c: Float64Array, x: number, out: Float64Array): void {
-  let p = 0,
-    d1 = 0,
-    d2 = 0;
-  for (let k = c.length - 1; k >= 0; k--) {
-    d2 = d2 * x + 2 * d1;
-    d1 = d1 * x + p;
-    p = p * x + c[k];
-  }
-  out[0] = p;
-  out[1] = d1;
-  out[2] = d2;
-}
-
-/** Bl(x)/Bl(0) as the simulator sees it, for charts and tests (x in m, clamped to ±xlim, floored). */
-export function relativeCurve(c: Float64Array, x: number, xlim: number, floor: number): number {
-  const xc = x > xlim ? xlim : x < -xlim ? -xlim : x;
-  let p = 0;
-  for (let k = c.length - 1; k >= 0; k--) p = p * xc + c[k];
-  return p < floor ? floor : p;
-}

@@ -1,19 +1,10 @@
 // Constants of the large-signal model for one design at one step length, SI units, computed once
 // when the design changes (never per sample).
 import type { DriverWay, SpeakerSystem } from '../system.ts';
-import { effectiveNonlinear, toPerMetre, fitDefaultNonlinear } from './nonlinear.ts';
-
-/** Loss coefficient K of the port's Δp = ½·rho·K·u·|u| (K of order 1 for sharp edges: Backman, AES 1995). */
-export const PORT_LOSS_K = 1.0;
-/** A passive radiator's travel limit as a multiple of its Xmax (not in the design; an estimate). */
-export const RADIATOR_XLIM_PER_XMAX = 2;
-
-export const BOX_SEALED = 0;
-export const BOX_VENTED = 1;
-export const BOX_RADIATOR = 2;
+import { effectiveNonlinear, toPerMetre } from './nonlinear.ts';
+import { BOX_KINDS, type BoxProbe, type Chamber } from '../box/index.ts';
 
 export interface WooferParams {
-  boxCode: number;
   /** Step length, s. */
   h: number;
   /** Weight of the new end in the electrical row (0.5 = trapezoidal; towards 1 when Le/R < h). */
@@ -22,6 +13,9 @@ export interface WooferParams {
   rs: number;
   alphaR: number;
   le0: number;
+  /** Semi-inductance L2 ∥ R2 in series with the coil, H and ohm; l2 = 0 when absent. */
+  l2: number;
+  r2: number;
   bl0: number;
   k0: number;
   mms: number;
@@ -33,30 +27,20 @@ export interface WooferParams {
   blC: Float64Array;
   kmsC: Float64Array;
   leC: Float64Array;
-  cab: number;
-  /** 1/Ral, S (0 = lossless box). */
-  g: number;
-  map: number;
-  sv: number;
-  /** ½·rho·K/Sv^2: port loss Δp = portLoss·q·|q|. */
-  portLoss: number;
-  mmp: number;
-  kmp0: number;
-  rmp: number;
-  sp: number;
-  kmpC: Float64Array;
-  xmaxP: number;
-  xlimP: number;
   /** Far-field pressure per rate of change of volume velocity: rho/(Omega·r). */
   kOut: number;
   /** Passband pressure per volt at the seat: kOut·Bl·Sd/((Re + Rs)·Mms). */
   passbandPaPerV: number;
+  /** The box kind's large-signal model: a new chamber (at rest) for each simulation. */
+  newChamber: () => Chamber;
+  /** The stress the box adds (port air speed, radiator travel), or null. */
+  probe: BoxProbe | null;
 }
 
 export interface ParamOptions {
   /** Nonlinear parameters off (constant Bl, Kms, Le; no port loss): the linearised model. */
   linear?: boolean;
-  /** Port loss coefficient K (default PORT_LOSS_K). */
+  /** Port loss coefficient K in place of the one the port's end shape gives. */
   portLossK?: number;
 }
 
@@ -72,14 +56,17 @@ export function wooferParams(sys: SpeakerSystem, way: DriverWay, h: number, opt:
   const rsum = d.re + sys.amplifier.rs;
   const tau = d.le / rsum;
   const kOut = rho / (sys.listening.omega * sys.listening.distance);
-  const p: WooferParams = {
-    boxCode: box.type === 'sealed' ? BOX_SEALED : box.type === 'vented' ? BOX_VENTED : BOX_RADIATOR,
+  const kind = BOX_KINDS[box.type];
+  const ctx = { sd: d.sd, h, rho, c, linear, portLossK: opt.portLossK };
+  return {
     h,
     thetaE: Math.max(0.5, 1 - tau / h),
     re0: d.re,
     rs: sys.amplifier.rs,
     alphaR: d.thermal.alphaR,
     le0: d.le,
+    l2: d.l2,
+    r2: d.r2,
     bl0: d.bl,
     k0: 1 / d.cms,
     mms: d.mms,
@@ -90,34 +77,9 @@ export function wooferParams(sys: SpeakerSystem, way: DriverWay, h: number, opt:
     blC: linear ? one : toPerMetre(nl.blRelPerMm),
     kmsC: linear ? one : toPerMetre(nl.kmsRelPerMm),
     leC: linear ? one : toPerMetre(nl.leRelPerMm),
-    cab: box.vb / (rho * c * c),
-    g: Number.isFinite(box.ral) && box.ral > 0 ? 1 / box.ral : 0,
-    map: 0,
-    sv: 0,
-    portLoss: 0,
-    mmp: 0,
-    kmp0: 0,
-    rmp: 0,
-    sp: 0,
-    kmpC: one,
-    xmaxP: 0,
-    xlimP: 0,
     kOut,
     passbandPaPerV: (kOut * d.bl * d.sd) / (rsum * d.mms),
+    newChamber: () => kind.chamber(box, ctx),
+    probe: kind.probe(box),
   };
-  if (box.type === 'vented') {
-    p.map = box.map;
-    p.sv = box.sv;
-    p.portLoss = linear ? 0 : (0.5 * rho * (opt.portLossK ?? PORT_LOSS_K)) / (box.sv * box.sv);
-  } else if (box.type === 'passive-radiator') {
-    p.mmp = box.mmp;
-    p.kmp0 = box.kmp;
-    p.rmp = box.rmp;
-    p.sp = box.sp;
-    p.xmaxP = box.xmax;
-    p.xlimP = box.xmax * RADIATOR_XLIM_PER_XMAX;
-    // The radiator's suspension: the same default shape as a driver's, to its own travel limit.
-    p.kmpC = linear ? one : toPerMetre(fitDefaultNonlinear(p.xmaxP, p.xlimP).kmsRelPerMm);
-  }
-  return p;
 }

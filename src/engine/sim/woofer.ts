@@ -1,13 +1,13 @@
 // The large-signal woofer-in-box model, integrated with a fixed step.
 //
-//   Le(x)·i' = u - R(T)·i - Le'(x)·v·i - Bl(x)·v                       (electrical)
+//   Le(x)·i' = u - R(T)·i - Le'(x)·v·i - Bl(x)·v [- R2·(i - j)]          (electrical)
+//   L2·j' = R2·(i - j)                   (optional semi-inductance: L2 ∥ R2 in series, j through L2)
 //   x' = v
-//   Mms·v' = Bl(x)·i - Rms·v - Kms(x)·x + Sd·pb + ½·Le'(x)·i^2          (mechanical, reluctance force)
-//   Cab·pb' = -Sd·v - Up - pb/Ral          (sealed: Up = 0; radiator: Up = Sp·vp)
-//   Map·Up' = pb - ½·rho·K·u·|u|, u = Up/Sv   (port loss rising with air speed: compression)
-//   radiator: xp' = vp, Mmp·vp' = Sp·pb - Rmp·vp - Kmp(xp)·xp
-//   far field: p = rho/(Omega·r)·dU/dt with U = Sd·v + Up + pb/Ral (the leak radiates too)
-// (lumped-parameter large-signal model, JAES 54 (2006) 907-939; box, port and leak after Small).
+//   Mms·v' = Bl(x)·i - Rms·v - Kms(x)·x + Sd·P + ½·Le'(x)·i^2           (mechanical, reluctance force)
+//   the box: its own states and rows, owned by its kind (box/physics.ts); P is the net pressure it
+//   puts on the cone (back face minus front face)
+//   far field: p = rho/(Omega·r)·dU/dt with U the radiated volume velocity (cone, outlet and leaks)
+// (lumped-parameter large-signal model, JAES 54 (2006) 907-939; boxes, ports and leaks after Small).
 //
 // Numerics: a linearly implicit theta scheme on M(y)·y' = f(y, u) — one Newton step of the
 // trapezoidal rule per sample (A-stable, second order), with the sparse rows eliminated by hand.
@@ -18,7 +18,8 @@
 // The cone stops at Xlim (an inelastic end stop): it can never pass through its suspension.
 // The block loop keeps the whole state in locals; f(y, u) and the Jacobian entries at the current
 // state are carried between calls in fields.
-import { BOX_RADIATOR, BOX_VENTED, type WooferParams } from './params.ts';
+import type { WooferParams } from './params.ts';
+import type { Chamber } from '../box/index.ts';
 import { BL_FLOOR, KMS_FLOOR, LE_FLOOR } from './nonlinear.ts';
 
 const blFloor = BL_FLOOR;
@@ -28,66 +29,63 @@ const leFloor = LE_FLOOR;
 export class WooferSim {
   p: WooferParams;
   i = 0;
+  /** Current through the semi-inductance L2, A (0 without one). */
+  j = 0;
   x = 0;
   v = 0;
-  pb = 0;
-  q = 0;
-  xp = 0;
-  vp = 0;
+  /** The box's own states and rows. */
+  chamber: Chamber;
   /** Coil and magnet temperature rises over ambient, K. */
   riseV = 0;
   riseM = 0;
   /** R = Re(T) + Rs, ohm. */
   r = 0;
-  /** Whether the cone hit its end stop in the last block. */
-  stopped = false;
   /** Output pressure at the seat for the current state, Pa. */
   out = 0;
   private u0 = 0;
   private f1 = 0;
   private f2 = 0;
   private f3 = 0;
-  private f4 = 0;
-  private f5 = 0;
-  private f6 = 0;
+  private fj = 0;
   private leNow = 0;
   private le1 = 0;
   private j12 = 0;
   private j13 = 0;
   private j31 = 0;
   private j32 = 0;
-  private kp1 = 0;
   private readonly one = new Float64Array(1);
   private readonly oneOut = new Float64Array(1);
   private readonly oneAux = new Float64Array(1);
 
   constructor(p: WooferParams) {
     this.p = p;
+    this.chamber = p.newChamber();
     this.reset();
   }
 
-  /** New constants (a parameter edit); the physical state carries on. */
+  /** New constants (a parameter edit); the physical state carries on (the box's, if it is of the same kind). */
   setParams(p: WooferParams): void {
     this.p = p;
     this.r = p.re0 * (1 + p.alphaR * this.riseV) + p.rs;
-    if (p.boxCode !== BOX_VENTED) this.q = 0;
-    if (p.boxCode !== BOX_RADIATOR) this.xp = this.vp = 0;
+    const chamber = p.newChamber();
+    chamber.adopt(this.chamber);
+    this.chamber = chamber;
   }
 
   /** Back to rest: f(y, u) and the Jacobian at rest follow from the parameters directly. */
   reset(): void {
     const p = this.p;
-    this.i = this.x = this.v = this.pb = this.q = this.xp = this.vp = 0;
+    this.i = this.j = this.fj = this.x = this.v = 0;
+    this.chamber.reset();
     this.riseV = this.riseM = 0;
     this.r = p.re0 + p.rs;
-    this.u0 = this.f1 = this.f2 = this.f3 = this.f4 = this.f5 = this.f6 = 0;
+    this.u0 = this.f1 = this.f2 = this.f3 = 0;
     this.leNow = p.le0;
     this.le1 = p.le0 > 0 && p.leC.length > 1 ? p.le0 * p.leC[1] : 0;
     this.j12 = 0;
     this.j13 = -p.bl0;
     this.j31 = p.bl0;
     this.j32 = -p.k0;
-    this.kp1 = p.kmp0;
     this.out = 0;
   }
 
@@ -112,130 +110,86 @@ export class WooferSim {
    */
   processBlock(u: Float64Array, n: number, pOut: Float64Array, aux: Float64Array, portOut?: Float64Array): number {
     const p = this.p;
+    const box = this.chamber;
     const h = p.h,
       th = 0.5,
       te = p.thetaE,
       tt = th * th;
-    const box = p.boxCode;
     const R = this.r,
       mms = p.mms,
       rms = p.rms,
-      sd = p.sd,
-      cab = p.cab,
-      g = p.g;
-    const map = p.map,
-      portLoss = p.portLoss,
-      mmp = p.mmp,
-      rmp = p.rmp,
-      sp = p.sp,
-      kmp0 = p.kmp0;
+      sd = p.sd;
     const bl0 = p.bl0,
       k0 = p.k0,
       le0 = p.le0,
       xlim = p.xlim,
-      xlimP = p.xlimP,
       kOut = p.kOut;
     const blC = p.blC,
       kmsC = p.kmsC,
-      leC = p.leC,
-      kmpC = p.kmpC;
+      leC = p.leC;
     const nBl = blC.length,
       nK = kmsC.length,
-      nL = leC.length,
-      nKp = kmpC.length;
-    const invMms = 1 / mms,
-      invMap = map > 0 ? 1 / map : 0,
-      gOverCab = g / cab;
-    const cab_h = cab / h,
-      map_h = map / h,
-      mmp_h = mmp / h,
-      mms_h = mms / h;
+      nL = leC.length;
+    const invMms = 1 / mms;
+    const mms_h = mms / h;
     const hasLe = le0 > 0;
+    const l2 = p.l2,
+      r2 = p.r2,
+      hasL2 = l2 > 0;
+    // The L2 row has its own weight: trapezoidal unless L2/R2 is shorter than a step.
+    const tj = hasL2 ? Math.max(0.5, 1 - l2 / r2 / h) : 0.5;
+    const dj = hasL2 ? l2 / h + tj * r2 : 1;
+    const jGain = hasL2 ? (tj * r2) / dj : 0;
+    const coneRadiates = box.coneRadiates;
+    let j = this.j,
+      fj = this.fj;
     let i = this.i,
       x = this.x,
-      v = this.v,
-      pb = this.pb,
-      q = this.q,
-      xp = this.xp,
-      vp = this.vp;
+      v = this.v;
     let u0 = this.u0,
       f1 = this.f1,
       f2 = this.f2,
-      f3 = this.f3,
-      f4 = this.f4,
-      f5 = this.f5,
-      f6 = this.f6;
+      f3 = this.f3;
     let leNow = this.leNow,
       le1 = this.le1,
       j12 = this.j12,
       j13 = this.j13,
       j31 = this.j31,
-      j32 = this.j32,
-      kp1 = this.kp1;
+      j32 = this.j32;
     let i2 = 0,
-      stopped = false,
       out = this.out;
     for (let k = 0; k < n; k++) {
       const u1 = u[k];
-      // --- the step: (M/h - Theta·J)·Δ = f + Theta·b·Δu, rows eliminated by hand ---
+      // --- the step: (M/h - Theta·J)·Δ = f + Theta·b·Δu, rows eliminated by hand; the box's by its chamber ---
       const r1 = f1 + te * (u1 - u0);
-      let d4: number,
-        r4p: number,
-        d5 = 1,
-        d6 = 1,
-        r6p = 0;
-      if (box === BOX_VENTED) {
-        d5 = map_h + th * 2 * portLoss * (q < 0 ? -q : q);
-        d4 = cab_h + th * g + tt / d5;
-        r4p = f4 - (th * f5) / d5;
-      } else if (box === BOX_RADIATOR) {
-        d6 = mmp_h + th * rmp + tt * h * kp1;
-        r6p = f6 - th * h * kp1 * f5;
-        d4 = cab_h + th * g + (tt * sp * sp) / d6;
-        r4p = f4 - (th * sp * r6p) / d6;
-      } else {
-        d4 = cab_h + th * g;
-        r4p = f4;
-      }
-      const P0 = r4p / d4,
-        P1 = (-th * sd) / d4;
+      box.prepare();
+      const P0 = box.p0,
+        P1 = box.p1;
       let d1 = leNow / h + te * (R + le1 * v);
+      let r1j = r1;
+      if (hasL2) {
+        // The L2 row, Δj = (fj + tj·R2·Δi)/dj, eliminated into the electrical row.
+        d1 += te * r2 * (1 - jGain);
+        r1j += (te * r2 * fj) / dj;
+      }
       if (d1 < 1e-9) d1 = 1e-9;
-      const I0 = (r1 + te * j12 * h * f2) / d1;
+      const I0 = (r1j + te * j12 * h * f2) / d1;
       const I1 = (te * (j12 * h * th + j13)) / d1;
       const dv = (f3 + th * j31 * I0 + th * j32 * h * f2 + th * sd * P0) / (mms_h + th * rms - th * j31 * I1 - tt * h * j32 - th * sd * P1);
-      const dp = P0 + P1 * dv;
-      i += I0 + I1 * dv;
+      const di = I0 + I1 * dv;
+      i += di;
+      if (hasL2) j += (fj + tj * r2 * di) / dj;
       x += h * (f2 + th * dv);
       v += dv;
-      pb += dp;
-      if (box === BOX_VENTED) {
-        q += (f5 + th * dp) / d5;
-      } else if (box === BOX_RADIATOR) {
-        const dvp = (r6p + th * sp * dp) / d6;
-        vp += dvp;
-        xp += h * (f5 + th * dvp);
-        // At the end stop the radiator sweeps no more air: the box pressure keeps step with it.
-        if (xp > xlimP) {
-          pb += (sp * (xp - xlimP)) / cab;
-          xp = xlimP;
-          if (vp > 0) vp = 0;
-        } else if (xp < -xlimP) {
-          pb += (sp * (xp + xlimP)) / cab;
-          xp = -xlimP;
-          if (vp < 0) vp = 0;
-        }
-      }
+      box.advance(dv);
       if (x > xlim) {
-        pb += (sd * (x - xlim)) / cab;
+        box.coneStopped(sd * (x - xlim));
         x = xlim;
         if (v > 0) v = 0;
-        stopped = true;
       } else if (x < -xlim) {
-        pb += (sd * (x + xlim)) / cab;
+        box.coneStopped(sd * (x + xlim));
         x = -xlim;
         if (v < 0) v = 0;
-        stopped = true;
       }
       i2 += i * i;
       // --- f(y, u) and the Jacobian at the new state ---
@@ -285,73 +239,40 @@ export class WooferSim {
         lrel1 = l1 / lr;
       }
       f1 = u1 - R * i - le1 * v * i - bl * v;
+      if (hasL2) {
+        fj = r2 * (i - j);
+        f1 -= fj;
+      }
       f2 = v;
-      f3 = bl * i - rms * v - fk + sd * pb + 0.5 * le1 * i * i;
+      f3 = bl * i - rms * v - fk + sd * box.net() + 0.5 * le1 * i * i;
       // d/dx of the electrical row, with the mass-matrix term Le'(x)·i' folded in.
       j12 = -v * (i * le2 + bl1) - f1 * lrel1;
       j13 = -(le1 * i + bl);
       j31 = bl + le1 * i;
       j32 = bl1 * i - fk1 + 0.5 * le2 * i * i;
-      let dU = sd * f3 * invMms;
-      if (box === BOX_VENTED) {
-        f4 = -sd * v - q - g * pb;
-        f5 = pb - portLoss * q * (q < 0 ? -q : q);
-        dU += f5 * invMap;
-        if (portOut) portOut[k] = q;
-      } else if (box === BOX_RADIATOR) {
-        let kpr = 0,
-          kpr1 = 0;
-        for (let c = nKp - 1; c >= 0; c--) {
-          kpr1 = kpr1 * xp + kpr;
-          kpr = kpr * xp + kmpC[c];
-        }
-        if (kpr < kmsFloor) {
-          kpr = kmsFloor;
-          kpr1 = 0;
-        }
-        f4 = -sd * v - sp * vp - g * pb;
-        f5 = vp;
-        f6 = sp * pb - rmp * vp - kmp0 * xp * kpr;
-        kp1 = kmp0 * (kpr + xp * kpr1);
-        dU += (sp * f6) / mmp;
-        if (portOut) portOut[k] = xp;
-      } else {
-        f4 = -sd * v - g * pb;
-      }
-      dU += gOverCab * f4;
+      const dU = box.evaluate(v, coneRadiates ? sd * f3 * invMms : 0);
+      if (portOut) portOut[k] = box.probe();
       out = kOut * dU;
       pOut[k] = out;
       aux[k] = x;
       u0 = u1;
     }
     this.i = i;
+    this.j = j;
+    this.fj = fj;
     this.x = x;
     this.v = v;
-    this.pb = pb;
-    this.q = q;
-    this.xp = xp;
-    this.vp = vp;
     this.u0 = u0;
     this.f1 = f1;
     this.f2 = f2;
     this.f3 = f3;
-    this.f4 = f4;
-    this.f5 = f5;
-    this.f6 = f6;
     this.leNow = leNow;
     this.le1 = le1;
     this.j12 = j12;
     this.j13 = j13;
     this.j31 = j31;
     this.j32 = j32;
-    this.kp1 = kp1;
-    this.stopped = stopped;
     this.out = out;
     return i2;
-  }
-
-  /** Port air speed, m/s (vented only). */
-  portSpeed(): number {
-    return this.p.boxCode === BOX_VENTED ? this.q / this.p.sv : 0;
   }
 }
