@@ -261,16 +261,17 @@ function stressEvents(v: unknown, path: string): StressEvent[] {
     const o = obj(e, `${path}[${i}]`);
     const q = `${path}[${i}]`;
     const big = 1e12;
-    return {
+    const event = {
       kind: oneOf(o, 'kind', EVENT_KINDS, q),
+      // The way whose limit was crossed (null: the summed output; absent from a first-version render).
+      way: o.way === undefined || o.way === null ? null : str(o, 'way', q),
       start_s: num(o, 'start_s', 0, big, q),
       end_s: num(o, 'end_s', 0, big, q),
       peak: num(o, 'peak', -big, big, q),
       unit: str(o, 'unit', q),
       limit: num(o, 'limit', -big, big, q),
-      // The way the event happened in (events of a multi-way render carry it).
-      ...(o.way === undefined ? {} : { way: str(o, 'way', q) }),
     };
+    return event as StressEvent;
   });
 }
 

@@ -7,6 +7,9 @@ import type { AlignmentSuggestion } from '../engine/align/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { Issue } from '../engine/issues.ts';
 import type { Slot } from './store.ts';
+import { BOX_KINDS } from '../engine/box/index.ts';
+import type { BoxFigure } from '../engine/box/physics.ts';
+import type { DriverWay } from '../engine/system.ts';
 
 export { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS } from '../engine/units.ts';
 
@@ -77,4 +80,9 @@ export function derive(slot: Slot, doc: DesignDoc): Derived {
     system: good?.system ?? null,
     stale: good !== null,
   };
+}
+
+/** A way's box figures as its kind gives them (tuning, port length, pipe resonance, chambers...). */
+export function boxFigures(system: SpeakerSystem, way: DriverWay): BoxFigure[] {
+  return BOX_KINDS[way.box.type].figures(way.box, system.air);
 }

@@ -4,9 +4,9 @@ import type { BoxDoc, DriverWayDoc, PortDoc } from '../../engine/design/document
 import type { Figures } from '../../engine/response/types.ts';
 import type { SpeakerSystem } from '../../engine/system.ts';
 import { useApp } from '../context.ts';
-import { PORT_SPEED_LIMIT, suggestionsFor } from '../engine.ts';
+import { boxFigures, PORT_SPEED_LIMIT, suggestionsFor } from '../engine.ts';
 import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
-import { BOX_LABEL, boxOfType, portOfShape, portShape, type BoxType, type PortShape } from '../boxes.ts';
+import { BOX_CHOICES, boxOfType, portOfShape, portShape, type BoxType, type PortShape } from '../boxes.ts';
 import { Choice, Group, Num, Out, Row, Sheet, useModel } from '../components/Sheet.tsx';
 import { useShownWays, WayRows } from '../components/WayPicker.tsx';
 import { wayCurves } from '../analysis-view.ts';
@@ -14,8 +14,6 @@ import { firstDriverIndex, systemDriverWay } from '../ways.ts';
 import { setAt } from '../paths.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { FigureOut } from './DriverSheet.tsx';
-
-const BOX_TYPES = (Object.keys(BOX_LABEL) as BoxType[]).map((value) => ({ value, label: BOX_LABEL[value] }));
 
 /** The shown way's box, or null for a flat band. */
 function useBox(slot: Slot): { box: BoxDoc; path: string; index: number } | null {
@@ -138,7 +136,7 @@ function Suggestions(p: { slot: Slot }) {
   );
 }
 
-type VentedBoxDoc = Extract<BoxDoc, { type: 'vented' }>;
+type PortedBoxDoc = Extract<BoxDoc, { ports: PortDoc[] }>;
 
 export function Cabinet() {
   const app = useApp();
@@ -147,7 +145,11 @@ export function Cabinet() {
   const boxOf = (s: Slot): BoxDoc | null => (shown[s].way.kind === 'driver' ? (shown[s].way as DriverWayDoc).box : null);
   const bp = (s: Slot, sub: string) => `${shown[s].path}.box.${sub}`;
   const types = new Set(SLOTS.map((s) => boxOf(s)?.type));
-  const anyVented = types.has('vented');
+  const anyPorted = SLOTS.some((s) => {
+    const b = boxOf(s);
+    return !!b && 'ports' in b;
+  });
+  const anyBandpass = types.has('bandpass4');
   const anyRadiator = types.has('passive-radiator');
   const anySealed = types.has('sealed');
   const anyBox = SLOTS.some((s) => boxOf(s) !== null);
@@ -171,9 +173,14 @@ export function Cabinet() {
     const box = boxOf(slot);
     return box ? f(box) : null;
   };
-  const ventedOnly = (slot: Slot, f: (box: VentedBoxDoc, port: PortDoc) => preact.VNode | null) => {
+  const ventedOnly = (slot: Slot, f: (box: PortedBoxDoc, port: PortDoc) => preact.VNode | null) => {
     const box = boxOf(slot);
-    return box?.type === 'vented' ? f(box, box.ports[0] ?? {}) : null;
+    return box && 'ports' in box ? f(box, box.ports[0] ?? {}) : null;
+  };
+  const bandpassOnly = (slot: Slot, f: () => preact.VNode) => (boxOf(slot)?.type === 'bandpass4' ? f() : null);
+  const withVolume = (slot: Slot, f: () => preact.VNode) => {
+    const box = boxOf(slot);
+    return box && 'vb_l' in box ? f() : null;
   };
   const radiatorOnly = (slot: Slot, f: () => preact.VNode) => (boxOf(slot)?.type === 'passive-radiator' ? f() : null);
   const sealedOnly = (slot: Slot, f: () => preact.VNode) => (boxOf(slot)?.type === 'sealed' ? f() : null);
@@ -200,7 +207,7 @@ export function Cabinet() {
                     path={bp(s, 'type')}
                     label="Enclosure type"
                     value={box.type}
-                    options={BOX_TYPES}
+                    options={BOX_CHOICES}
                     onChange={(t) => setType(s, t)}
                   />
                 ))
@@ -210,7 +217,7 @@ export function Cabinet() {
               label="Net volume"
               symbol="Vb"
               cell={(s) =>
-                boxed(s, () => (
+                withVolume(s, () => (
                   <Num
                     slot={s}
                     path={bp(s, 'vb_l')}
@@ -223,6 +230,24 @@ export function Cabinet() {
                 ))
               }
             />
+            {anyBandpass ? (
+              <>
+                <Row
+                  label="Rear chamber"
+                  hint="sealed, behind the driver"
+                  cell={(s) =>
+                    bandpassOnly(s, () => <Num slot={s} path={bp(s, 'vb_rear_l')} label="Rear chamber volume" unit="L" step={0.5} />)
+                  }
+                />
+                <Row
+                  label="Front chamber"
+                  hint="vented, in front of the driver"
+                  cell={(s) =>
+                    bandpassOnly(s, () => <Num slot={s} path={bp(s, 'vb_front_l')} label="Front chamber volume" unit="L" step={0.5} />)
+                  }
+                />
+              </>
+            ) : null}
             <Row
               label="Acoustic volume"
               hint="with fill"
@@ -268,7 +293,7 @@ export function Cabinet() {
             <Row label="System Q" symbol="Qtc" cell={(s) => sealedOnly(s, () => fig(s, (f) => f.qtc))} />
           </Group>
         ) : null}
-        {anyVented ? (
+        {anyPorted ? (
           <Group title="Port">
             <Row
               label="Tuning"
@@ -430,6 +455,11 @@ export function Cabinet() {
               hint="−3 dB, this way"
               cell={(s) => boxed(s, () => fig(s, (f) => f.f3Hz, 'Hz', `f3-${s}`))}
             />
+            <Row
+              label="Box figures"
+              hint="as the box kind gives them"
+              cell={(s) => boxed(s, () => <KindFigures slot={s} index={shown[s].index} />)}
+            />
           </Group>
         ) : null}
       </Sheet>
@@ -457,4 +487,23 @@ export function Cabinet() {
 function DerivedOut(p: { slot: Slot; pick: (system: SpeakerSystem) => number | null | undefined; unit?: string; digits?: number }) {
   const m = useModel(p.slot);
   return <Out value={m.system ? p.pick(m.system) : null} unit={p.unit} digits={p.digits} stale={m.stale} />;
+}
+
+/** The figures the way's box kind gives of itself (tuning, port length, pipe resonance, chambers...). */
+function KindFigures(p: { slot: Slot; index: number }) {
+  const { state } = useApp();
+  const m = useModel(p.slot);
+  const way = m.system ? systemDriverWay(m.system, state.designs[p.slot], p.index) : null;
+  if (!m.system || !way) return <span class="na">—</span>;
+  const figures = boxFigures(m.system, way);
+  if (!figures.length) return <span class="na">none</span>;
+  return (
+    <ul class={`kind-figures${m.stale ? ' stale' : ''}`} data-testid={`box-figures-${p.slot}`}>
+      {figures.map((f) => (
+        <li>
+          {f.label}: {num(f.value, 3)} {f.unit}
+        </li>
+      ))}
+    </ul>
+  );
 }
