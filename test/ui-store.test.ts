@@ -188,7 +188,12 @@ describe('version 1 designs kept by an earlier version of the app', () => {
 
   it('opens a stored version 1 state as version 2, and an edited one with errors too', async () => {
     const broken = { ...structuredClone(sealedV1), box: { type: 'sealed', vb_l: -3 } };
-    const saved = { kind: 'preheard-app-state', version: 1, savedAt: 5, state: { designs: { a: broken, b: v1.b }, settings: { screen: 'cabinet' } } };
+    const saved = {
+      kind: 'preheard-app-state',
+      version: 1,
+      savedAt: 5,
+      state: { designs: { a: broken, b: v1.b }, settings: { screen: 'cabinet' } },
+    };
     const save = new Autosave(memoryBackend(saved));
     const state = (await save.load()) as AppState;
     expect(save.status.kind).toBe('saved');

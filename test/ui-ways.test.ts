@@ -112,10 +112,21 @@ describe('charts per way', () => {
     const spl = buildCharts(pair, { showWays: true }).find((c) => c.id === 'spl')!;
     expect(spl.series.filter((s) => s.role === 'b-way').map((s) => s.label)).toEqual(['B woofer', 'B upper band', 'B tweeter']);
     expect(spl.series.filter((s) => s.role === 'a-way').map((s) => s.label)).toEqual(['A woofer', 'A upper band']);
-    // The B line is the analysis's sum, unchanged; each way line is that way as it enters the sum.
+    // The widest grid is the charts' (B's, analysed up to its tweeter). The B line is the analysis's
+    // sum, unchanged; each way line is that way as it enters the sum.
     const an = pair.b.analysis as unknown as { sum: { curves: { splDb: Float64Array; ways: { name: string; splDb: Float64Array }[] } } };
+    expect(spl.freqHz).toBe(pair.b.analysis.curves.freqHz);
     expect(spl.series.find((s) => s.role === 'b')!.values).toBe(an.sum.curves.splDb);
     expect(spl.series.find((s) => s.label === 'B tweeter')!.values).toBe(an.sum.curves.ways[2].splDb);
+    // A's line is on B's grid where A was analysed, and a gap above A's own grid.
+    const fa = pair.a.analysis.curves.freqHz;
+    const aLine = spl.series.find((s) => s.role === 'a')!.values!;
+    const top = fa[fa.length - 1];
+    for (let i = 0; i < spl.freqHz.length; i++) {
+      const f = spl.freqHz[i];
+      if (f > top * 1.05) expect(Number.isNaN(aLine[i])).toBe(true);
+      else if (f < top / 1.05) expect(Number.isFinite(aLine[i])).toBe(true);
+    }
     // The excursion chart adds the driver ways only (a flat band has no cone).
     const ex = buildCharts(pair, { showWays: true }).find((c) => c.id === 'excursion')!;
     expect(ex.series.filter((s) => s.role === 'b-way').map((s) => s.label)).toEqual(['B woofer', 'B tweeter']);

@@ -75,9 +75,39 @@ const LIMIT_TEXT: Record<MaxSplLimit, string> = {
   radiator: 'radiator travel',
 };
 
-/** A or B's frequency grid (A's when both exist: the engine uses one grid for every design). */
+/**
+ * The charts' frequency grid: the wider of A's and B's (a design with a tweeter is analysed higher
+ * up); the engine spaces every grid alike, so the other design's points fall on it or inside it.
+ */
 function grid(pair: Pair): Float64Array | null {
-  return pair.a?.analysis.curves.freqHz ?? pair.b?.analysis.curves.freqHz ?? null;
+  const fa = pair.a?.analysis.curves.freqHz ?? null;
+  const fb = pair.b?.analysis.curves.freqHz ?? null;
+  if (!fa || !fb) return fa ?? fb;
+  const span = (f: Float64Array) => Math.log(f[f.length - 1] / f[0]);
+  return span(fb) > span(fa) ? fb : fa;
+}
+
+/**
+ * Values of a design's curve on the shared grid, by nearest log frequency; outside the design's own
+ * grid there is no value (NaN: a gap in the line, a dash in the tables).
+ */
+function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | null): ArrayLike<number> | null {
+  if (!values) return null;
+  const f = an.curves.freqHz;
+  if (f === target || (f.length === target.length && f[0] === target[0] && f[f.length - 1] === target[target.length - 1])) return values;
+  const out = new Float64Array(target.length);
+  // Half a grid step of slack at each end, so rounding never drops an end point.
+  const slack = f.length > 1 ? Math.sqrt(f[1] / f[0]) : 1;
+  let j = 0;
+  for (let i = 0; i < target.length; i++) {
+    if (target[i] < f[0] / slack || target[i] > f[f.length - 1] * slack) {
+      out[i] = Number.NaN;
+      continue;
+    }
+    while (j < f.length - 1 && Math.abs(Math.log(f[j + 1] / target[i])) <= Math.abs(Math.log(f[j] / target[i]))) j++;
+    out[i] = values[j];
+  }
+  return out;
 }
 
 /** The first driver way's Xmax and Xlim in mm (where a single driver is meant). */
@@ -196,7 +226,7 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
       const xmax = limitsMm(models[s]!).xmax;
       const woofer = firstDriverOf(sys(s))?.name ?? '';
       return pk
-        ? `${SLOT_LABEL[s]}${sys(s).ways.length > 1 ? ` ${woofer}` : ''}: peak ${num(pk.value, 3)} mm at ${num(f[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
+        ? `${SLOT_LABEL[s]}${sys(s).ways.length > 1 ? ` ${woofer}` : ''}: peak ${num(pk.value, 3)} mm at ${num(pair[s]!.curves.freqHz[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
         : `${SLOT_LABEL[s]}: no excursion data.`;
     }),
   };
@@ -264,7 +294,7 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
     summary: present.map((s) => {
       const pk = peakOf(pair[s]!.curves.plannedPortAirSpeed);
       return pk
-        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} m/s at ${num(f[pk.index], 3)} Hz at the planned level (limit ${PORT_SPEED_LIMIT} m/s${pk.value > PORT_SPEED_LIMIT ? ', exceeded' : ''}).`
+        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} m/s at ${num(pair[s]!.curves.freqHz[pk.index], 3)} Hz at the planned level (limit ${PORT_SPEED_LIMIT} m/s${pk.value > PORT_SPEED_LIMIT ? ', exceeded' : ''}).`
         : `${SLOT_LABEL[s]}: no port.`;
     }),
     empty: anyPort ? undefined : 'Neither design has a port.',
@@ -289,8 +319,8 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
     }),
     summary: present.map((s) => {
       const c = pair[s]!.curves;
-      const i40 = nearest(f, 40);
-      const i100 = nearest(f, 100);
+      const i40 = nearest(c.freqHz, 40);
+      const i100 = nearest(c.freqHz, 100);
       return `${SLOT_LABEL[s]}: ${num(c.maxSplDb[i40], 3)} dB at 40 Hz (${LIMIT_TEXT[c.maxSplLimit[i40]]}), ${num(c.maxSplDb[i100], 3)} dB at 100 Hz (${LIMIT_TEXT[c.maxSplLimit[i100]]}).`;
     }),
   };
