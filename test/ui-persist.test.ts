@@ -20,7 +20,7 @@ describe('no lost work', () => {
     backend.value = { kind: 'preheard-app-state', version: 1, state: 'garbage' };
     const second = new Autosave(backend);
     const restored = await second.load();
-    expect(woofer(restored?.designs.a).box.vb_l).toBe(17);
+    expect((woofer(restored?.designs.a).box as { vb_l: number }).vb_l).toBe(17);
     expect(second.status.kind).toBe('recovered');
     expect(await second.setAsideText()).toContain('garbage');
   });

@@ -43,22 +43,22 @@ describe('store: one history of design edits', () => {
   it('undoes and redoes edits; typing into one field is one step', () => {
     const c = clock();
     const store = new Store(demoPair, undefined, c.now);
-    const vb0 = woofer(store.get().designs.a).box.vb_l;
+    const vb0 = (woofer(store.get().designs.a).box as { vb_l: number }).vb_l;
     for (const v of [2, 25, 250, 25.5]) {
       store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: v });
       c.advance(150);
     }
     c.advance(5000);
     store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 30 });
-    expect(woofer(store.get().designs.a).box.vb_l).toBe(30);
+    expect((woofer(store.get().designs.a).box as { vb_l: number }).vb_l).toBe(30);
     store.dispatch({ type: 'undo' });
-    expect(woofer(store.get().designs.a).box.vb_l).toBe(25.5);
+    expect((woofer(store.get().designs.a).box as { vb_l: number }).vb_l).toBe(25.5);
     store.dispatch({ type: 'undo' });
-    expect(woofer(store.get().designs.a).box.vb_l).toBe(vb0);
+    expect((woofer(store.get().designs.a).box as { vb_l: number }).vb_l).toBe(vb0);
     expect(store.canUndo()).toBe(false);
     store.dispatch({ type: 'redo' });
     store.dispatch({ type: 'redo' });
-    expect(woofer(store.get().designs.a).box.vb_l).toBe(30);
+    expect((woofer(store.get().designs.a).box as { vb_l: number }).vb_l).toBe(30);
     expect(store.canRedo()).toBe(false);
   });
   it('copies, swaps and resets as undoable steps; settings are not edits', () => {
@@ -99,7 +99,7 @@ describe('autosave', () => {
     expect(save.status.kind).toBe('saved');
     const restored = (await new Autosave(backend).load()) as AppState;
     expect(restored).toEqual(store.get());
-    expect(woofer(restored.designs.a).box.vb_l).toBe(17.25);
+    expect((woofer(restored.designs.a).box as { vb_l: number }).vb_l).toBe(17.25);
   });
   it('reports storage that is full or unavailable, and keeps going', async () => {
     const quota: StorageBackend = {

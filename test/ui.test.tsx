@@ -147,7 +147,7 @@ describe('the app', () => {
     await act(() => {
       fireEvent.input(screen.getByLabelText('Net volume Vb, design B'), { target: { value: '0.2' } });
     });
-    expect((store.get().designs.b.ways[2] as DriverWayDoc).box.vb_l).toBe(0.2);
+    expect(((store.get().designs.b.ways[2] as DriverWayDoc).box as { vb_l: number }).vb_l).toBe(0.2);
     expect(woofer(store.get().designs.b).box).toEqual(woofer(b0).box);
     // Copy to A: added as A's third way, identical, and shown there.
     await act(() => {

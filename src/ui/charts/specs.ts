@@ -116,20 +116,6 @@ function limitsMm(m: Model): { xmax: number; xlim: number; re: number } {
   return w ? { xmax: w.unit.xmax * K.mm, xlim: w.unit.xlim * K.mm, re: w.driver.re } : { xmax: NaN, xlim: NaN, re: NaN };
 }
 
-/** Values of a design's curve on the shared grid; a design on another grid is resampled by nearest log frequency. */
-function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | null): ArrayLike<number> | null {
-  if (!values) return null;
-  const f = an.curves.freqHz;
-  if (f === target || (f.length === target.length && f[0] === target[0] && f[f.length - 1] === target[target.length - 1])) return values;
-  const out = new Float64Array(target.length);
-  let j = 0;
-  for (let i = 0; i < target.length; i++) {
-    while (j < f.length - 1 && Math.abs(Math.log(f[j + 1] / target[i])) <= Math.abs(Math.log(f[j] / target[i]))) j++;
-    out[i] = values[j];
-  }
-  return out;
-}
-
 const constant = (n: number, v: number) => new Float64Array(n).fill(v);
 
 export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec[] {
