@@ -48,11 +48,11 @@ export const tests = [
     name: 'an edit survives closing the tab',
     fn: async (ctx) => {
       const p = await open(ctx);
-      await edit(p, 'a', 'box.vb_l', 16.5);
+      await edit(p, 'a', 'ways.0.box.vb_l', 16.5);
       await saved(p);
       await p.close({ runBeforeUnload: false });
       const q = await open(ctx);
-      assert.equal(await valueAt(q, 'a', 'box.vb_l'), 16.5);
+      assert.equal(await valueAt(q, 'a', 'ways.0.box.vb_l'), 16.5);
       await q.close();
     },
   },
@@ -60,7 +60,7 @@ export const tests = [
     name: 'an unreadable stored state is set aside and the last good state restored',
     fn: async (ctx) => {
       const p = await open(ctx);
-      await edit(p, 'a', 'box.vb_l', 15.25);
+      await edit(p, 'a', 'ways.0.box.vb_l', 15.25);
       await saved(p);
       await p.evaluate(
         () =>
@@ -80,7 +80,7 @@ export const tests = [
       const banner = p.getByTestId('recovery-banner');
       await banner.waitFor();
       assert.match(await banner.innerText(), /last good state/);
-      assert.equal(await valueAt(p, 'a', 'box.vb_l'), 15.25);
+      assert.equal(await valueAt(p, 'a', 'ways.0.box.vb_l'), 15.25);
       const download = p.waitForEvent('download');
       await banner.getByRole('button', { name: 'Download the unreadable data' }).click();
       const file = await download;
@@ -93,11 +93,11 @@ export const tests = [
     name: 'two tabs editing at once stay consistent',
     fn: async (ctx) => {
       const [p, q] = [await open(ctx), await open(ctx)];
-      await edit(p, 'b', 'box.fb_hz', 36.5);
-      await q.waitForFunction(() => window.__preheard.store.get().designs.b.box.fb_hz === 36.5, null, { timeout: 5000 });
+      await edit(p, 'b', 'ways.0.box.fb_hz', 36.5);
+      await q.waitForFunction(() => window.__preheard.store.get().designs.b.ways[0].box.fb_hz === 36.5, null, { timeout: 5000 });
       await edit(q, 'a', 'listening.distance_m', 2.5);
       await p.waitForFunction(() => window.__preheard.store.get().designs.a.listening.distance_m === 2.5, null, { timeout: 5000 });
-      assert.equal(await valueAt(p, 'b', 'box.fb_hz'), 36.5);
+      assert.equal(await valueAt(p, 'b', 'ways.0.box.fb_hz'), 36.5);
       await Promise.all([p.close(), q.close()]);
     },
   },
