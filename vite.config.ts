@@ -42,11 +42,43 @@ function bundledWorkletInDev(): Plugin {
   };
 }
 
+/**
+ * The Content-Security-Policy, one definition for the meta tag and the served header. Only the dev
+ * server (hot reload) may open a WebSocket, to itself; `frame-ancestors` works only as a header, so
+ * the preview server (`npm start`) sends it there and no other page can frame the app.
+ */
+function contentSecurityPolicy(dev: boolean): string {
+  return [
+    "default-src 'self'",
+    "script-src 'self' blob:",
+    "worker-src 'self' blob:",
+    "style-src 'self' 'unsafe-inline'",
+    "img-src 'self' data: blob:",
+    "media-src 'self' blob:",
+    dev ? "connect-src 'self' ws://127.0.0.1:5173 ws://localhost:5173" : "connect-src 'self'",
+    "font-src 'self'",
+    "object-src 'none'",
+    "base-uri 'self'",
+    "form-action 'none'",
+  ].join('; ');
+}
+
+const HEADER_ONLY = "; frame-ancestors 'none'";
+
+/** Puts the policy into index.html's meta tag for this mode. */
+function cspMeta(dev: boolean): Plugin {
+  return {
+    name: 'preheard-csp-meta',
+    transformIndexHtml: (html) => html.replace('%PREHEARD_CSP%', contentSecurityPolicy(dev)),
+  };
+}
+
 // The app is served from the local machine only: no web fonts, CDNs or analytics.
 // The service worker precaches the whole built app so it works offline after the first load;
 // src/ui/pwa.ts registers it with workbox-window in production builds only.
-export default defineConfig(({ mode }) => {
-  const plugins: PluginOption[] = [preact(), bundledWorkletInDev()];
+export default defineConfig(({ mode, command }) => {
+  const dev = command === 'serve' && mode !== 'production';
+  const plugins: PluginOption[] = [preact(), bundledWorkletInDev(), cspMeta(dev)];
   if (mode !== 'test') {
     plugins.push(
       VitePWA({
@@ -70,8 +102,16 @@ export default defineConfig(({ mode }) => {
   return {
     plugins,
     define: { __APP_VERSION__: JSON.stringify(pkg.version) },
-    server: { host: '127.0.0.1', port: 5173, strictPort: true },
-    preview: { host: '127.0.0.1' },
+    server: {
+      host: '127.0.0.1',
+      port: 5173,
+      strictPort: true,
+      headers: { 'Content-Security-Policy': contentSecurityPolicy(true) + HEADER_ONLY },
+    },
+    preview: {
+      host: '127.0.0.1',
+      headers: { 'Content-Security-Policy': contentSecurityPolicy(false) + HEADER_ONLY, 'X-Frame-Options': 'DENY' },
+    },
     build: { target: 'es2022', sourcemap: false, chunkSizeWarningLimit: 600 },
     test: {
       include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],

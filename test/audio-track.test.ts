@@ -6,9 +6,12 @@ import { decodedProblem, fileProblem, MAX_FILE_BYTES, MAX_TRACK_S, overviewOf } 
 describe('files the bench refuses', () => {
   it('says an empty or oversized file is empty or too big, by name and size', () => {
     expect(fileProblem({ name: 'a.wav', size: 0 })).toBe('“a.wav” is empty (0 bytes): there is no audio in it.');
+    // The two sizes never read the same ("1024 MB, more than the 1024 MB" was the old wording).
     expect(fileProblem({ name: 'big.flac', size: MAX_FILE_BYTES + 1 })).toMatch(
-      /^“big\.flac” is 1024 MB, more than the 1024 MB the bench opens/,
+      /^“big\.flac” is 1,073,741,825 bytes, more than the 1,073,741,824 bytes the bench opens/,
     );
+    expect(fileProblem({ name: 'big.flac', size: MAX_FILE_BYTES + 3 * 2 ** 20 })).toMatch(/is 1027 MB, more than the 1024 MB/);
+    expect(fileProblem({ name: 'big.flac', size: MAX_FILE_BYTES + 2 ** 18 })).toMatch(/is 1024.3 MB, more than the 1024.0 MB/);
     expect(fileProblem({ name: 'ok.mp3', size: 5e6 })).toBeNull();
   });
 

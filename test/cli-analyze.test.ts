@@ -45,7 +45,7 @@ describe('preheard analyze', () => {
     const invalid = join(dir, 'invalid.json');
     writeFileSync(invalid, JSON.stringify({ format: 'preheard-design', version: 1, name: 'x' }));
     for (const [file, pattern] of [
-      [join(dir, 'nope.json'), /cannot read design file/],
+      [join(dir, 'nope.json'), /cannot read the design file .*: there is no such file/],
       [bad, /not valid JSON/],
       [invalid, /driver: is required/],
     ] as const) {

@@ -1,7 +1,7 @@
 import { describe, expect, it, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { writeWav } from '../src/cli/wav.ts';
 import { parseRange } from '../src/cli/sweep.ts';
@@ -26,7 +26,16 @@ describe('preheard sweep', () => {
 
   it('gives the same rows on one thread as on several, one row per volume', () => {
     const one = cli('sweep', 'public/examples/living-room-vented.json', wav, '--vb', '14:26:6', '--json', '--threads', '1');
-    const two = cli('sweep', 'public/examples/living-room-vented.json', wav, '--vb', '14:26:6', '--json', '--threads', '2');
+    const two = cli(
+      'sweep',
+      'public/examples/living-room-vented.json',
+      wav,
+      '--vb',
+      '14:26:6',
+      '--json',
+      '--threads',
+      String(Math.min(2, availableParallelism())),
+    );
     expect(one.status).toBe(0);
     expect(two.stdout).toBe(one.stdout);
     const rows = JSON.parse(one.stdout).steps;

@@ -6,12 +6,15 @@
 import { describe, expect, it } from 'vitest';
 import { wooferParams } from '../src/engine/sim/params.ts';
 import { WooferSim } from '../src/engine/sim/woofer.ts';
-import { sealedBox, system, ventedBox, radiatorBox } from './sim-fixtures.ts';
+import { sealedBox, system, ventedBox, radiatorBox, wooferOf } from './sim-fixtures.ts';
+import { BOX_KINDS } from '../src/engine/box/index.ts';
+import type { Box } from '../src/engine/system.ts';
 import type { SpeakerSystem } from '../src/engine/system.ts';
-import { rhs, Solver } from './sim-odex-model.ts';
+import { rhs, Solver, stateCount } from './sim-odex-model.ts';
 
 function compare(sys: SpeakerSystem, fs: number, f: number, peakVolts: number) {
-  const p = wooferParams(sys, 1 / fs);
+  const way = wooferOf(sys);
+  const p = wooferParams(sys, way, 1 / fs);
   const dur = 0.25;
   // Hann-windowed burst: smooth start and end, so both solvers see the same continuous drive.
   const u = (t: number) => (t < dur ? peakVolts * Math.sin(Math.PI * (t / dur)) ** 2 * Math.sin(2 * Math.PI * f * t) : 0);
@@ -23,8 +26,8 @@ function compare(sys: SpeakerSystem, fs: number, f: number, peakVolts: number) {
     ps[k] = sim.step(u(k / fs));
     xs[k] = sim.x;
   }
-  const f0 = rhs(sys, p, u);
-  const nState = sys.box.type === 'passive-radiator' ? 6 : sys.box.type === 'vented' ? 5 : 4;
+  const { f: f0, dU } = rhs(sys, way, u);
+  const nState = stateCount(way);
   const solver = new Solver(nState);
   solver.absoluteTolerance = 1e-12;
   solver.relativeTolerance = 1e-10;
@@ -41,12 +44,9 @@ function compare(sys: SpeakerSystem, fs: number, f: number, peakVolts: number) {
     solver.grid(1 / fs, (t: number, y: number[]) => {
       if (k >= n) return;
       const dy = f0(t, y);
-      // Seat pressure rho/(Omega r)·dU/dt, U = Sd·v + outlet + leak.
-      let dU = sys.driver.sd * dy[2] + p.g * dy[3];
-      if (nState === 5) dU += dy[4];
-      if (nState === 6) dU += p.sp * dy[5];
+      // Seat pressure rho/(Omega r)·dU/dt.
       xr[k] = y[1];
-      pr[k] = p.kOut * dU;
+      pr[k] = p.kOut * dU(dy);
       k++;
     }),
   );
@@ -64,11 +64,24 @@ function compare(sys: SpeakerSystem, fs: number, f: number, peakVolts: number) {
   return { xErr: rmsErr(xs, xr), pErr: rmsErr(ps, pr), peakMm: peak * 1000 };
 }
 
+/** A bandpass box for the fixture's woofer, built by its kind (rear 18 l, front 12 l at 50 Hz, QL 7). */
+function bandpassBox(): Box {
+  const { driver } = wooferOf(system(sealedBox(), { d: { leMh: 0.6, xmaxMm: 5, xlimMm: 15 } }));
+  const built = BOX_KINDS.bandpass4.build(
+    { type: 'bandpass4', vb_rear_l: 18, vb_front_l: 12, fb_hz: 50, ql: 7, ports: [{ diameter_cm: 7 }] },
+    { air: system(sealedBox()).air, driver, rs: 0.05 },
+    'box',
+  );
+  if (!built.box) throw new Error(JSON.stringify(built.issues));
+  return built.box;
+}
+
 describe('large-signal model against odex at tight tolerance', () => {
   const cases = [
     ['sealed', sealedBox(14, 8), 35, 39],
     ['vented', ventedBox(28, 38, 7), 25, 34],
     ['passive radiator', radiatorBox(), 25, 35],
+    ['bandpass (4th order)', bandpassBox(), 45, 62],
   ] as const;
   for (const [name, box, f, volts] of cases) {
     it(`${name}: ${f} Hz burst to about twice Xmax, 48 kHz`, () => {

@@ -14,6 +14,7 @@ describe('no lost work', () => {
     const backend = memoryBackend();
     const first = new Autosave(backend);
     const store = new Store(demoPair);
+    await first.load();
     first.attach(store);
     store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 17 });
     await first.flush();
@@ -38,6 +39,7 @@ describe('no lost work', () => {
     const backend = memoryBackend();
     const [s1, s2] = [new Store(demoPair), new Store(demoPair)];
     const [a1, a2] = [new Autosave(backend), new Autosave(backend)];
+    await Promise.all([a1.load(), a2.load()]);
     a1.attach(s1);
     a2.attach(s2);
     const c1 = new BroadcastChannel(name);

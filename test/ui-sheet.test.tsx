@@ -67,6 +67,10 @@ describe('Client sheet', () => {
 
   it('keeps the title and notes in the store, autosaved and restored', async () => {
     const { store, autosave, backend } = mount('sheet');
+    // Autosave writes only after the stored state was read (here: nothing stored yet).
+    await act(async () => {
+      await autosave.load();
+    });
     await act(() => {
       fireEvent.input(screen.getByTestId('sheet-title'), { target: { value: 'Two boxes for the Okafor shelf' } });
       fireEvent.input(screen.getByTestId('sheet-notes'), { target: { value: 'Port at the front.\nSecond line.' } });

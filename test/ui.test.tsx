@@ -219,6 +219,7 @@ describe('the app', () => {
     };
     const { store, autosave } = mount(broken);
     await act(async () => {
+      await autosave.load();
       store.dispatch({ type: 'swap' });
       await autosave.flush();
     });

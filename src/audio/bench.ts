@@ -26,6 +26,8 @@ import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
 import { decodedProblem, fileProblem, MAX_TRACK_S, overviewOf } from './track.ts';
+import { levelFailure, levelProblem } from './level-message.ts';
+import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';
 
 export { MAX_TRACK_S };
 
@@ -406,7 +408,9 @@ export class BenchAudio {
     if (!lv) return;
     for (const s of ['a', 'b'] as const) {
       const sys = this.systems[s];
-      if (sys && sys !== this.sentSystems[s]) {
+      // A drive the model refuses is never sent: resolveLevels sends the design with its new drive.
+      const usable = lv[s].voltsFs > 0 && lv[s].voltsFs < MAX_VOLTS_FS;
+      if (sys && sys !== this.sentSystems[s] && usable) {
         this.post({ type: 'design', slot: s, system: sys, voltsFs: lv[s].voltsFs });
         this.sentSystems[s] = sys;
       }
@@ -417,6 +421,15 @@ export class BenchAudio {
   private scheduleLevels(ms: number): void {
     if (this.levelTimer) clearTimeout(this.levelTimer);
     this.levelTimer = setTimeout(() => void this.resolveLevels(), ms);
+  }
+
+  /** The level message on show, if any: replaced or cleared by the next level result, never left stale. */
+  private levelMessage: string | null = null;
+
+  private setLevelMessage(message: string | null): void {
+    // Another kind of message (the engine's) is left alone; only the previous level message is replaced.
+    if (this.state.message === null || this.state.message === this.levelMessage) this.set({ message });
+    this.levelMessage = message;
   }
 
   private async resolveLevels(): Promise<void> {
@@ -432,20 +445,16 @@ export class BenchAudio {
         return { type: 'levels', id, systems };
       });
     } catch (e) {
-      this.set({ message: `The planned level cannot be set for this track: ${(e as Error).message}` });
+      this.setLevelMessage(levelFailure(e));
       return;
     }
     if (reply.type !== 'levels' || reply.id !== this.levelJob) return;
     const prev = this.state.levels;
     this.set({ levels: reply.levels });
+    this.setLevelMessage(levelProblem({ a: reply.levels.a.voltsFs, b: reply.levels.b.voltsFs }));
     for (const s of ['a', 'b'] as const) {
       const v = reply.levels[s].voltsFs;
-      if (!(v > 0 && v < 1e4)) {
-        this.set({
-          message: `Design ${s.toUpperCase()} needs ${v.toPrecision(4)} V per full scale for its planned level on this track, outside 0..10000 V: choose another planned level.`,
-        });
-        continue;
-      }
+      if (!(v > 0 && v < MAX_VOLTS_FS)) continue;
       if (this.sentSystems[s] !== systems[s]) {
         this.post({ type: 'design', slot: s, system: systems[s], voltsFs: v });
         this.sentSystems[s] = systems[s];

@@ -31,11 +31,20 @@ export function overviewOf(channels: Float32Array[], bins = OVERVIEW_BINS): { mi
   return { min, max };
 }
 
+/** A size in MB with as many decimals as it takes to differ from `other` (then in bytes). */
+export function sizeWords(bytes: number, other: number): string {
+  for (let digits = 0; digits <= 2; digits++) {
+    const a = (bytes / 2 ** 20).toFixed(digits);
+    if (a !== (other / 2 ** 20).toFixed(digits)) return `${a} MB`;
+  }
+  return `${bytes.toLocaleString('en')} bytes`;
+}
+
 /** Checks a file before decoding; returns the message for the user, or null when it may be tried. */
 export function fileProblem(file: { name: string; size: number }): string | null {
   if (file.size === 0) return `“${file.name}” is empty (0 bytes): there is no audio in it.`;
   if (file.size > MAX_FILE_BYTES)
-    return `“${file.name}” is ${(file.size / 2 ** 20).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 2 ** 20} MB the bench opens. Shorten it or convert it to a compressed format.`;
+    return `“${file.name}” is ${sizeWords(file.size, MAX_FILE_BYTES)}, more than the ${sizeWords(MAX_FILE_BYTES, file.size)} the bench opens. Shorten it or convert it to a compressed format.`;
   return null;
 }
 

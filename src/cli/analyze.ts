@@ -3,6 +3,7 @@ import { analyze } from '../engine/response/analyze.ts';
 import type { Analysis } from '../engine/response/types.ts';
 import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
+import { printable } from './user-text.ts';
 
 const HELP = `usage: preheard analyze <design.json> [--json] [--volts V]
 
@@ -83,7 +84,7 @@ export function analysisJson(a: Analysis) {
 function table(a: Analysis): string {
   const j = analysisJson(a);
   const rows: [string, string][] = [
-    ['design', a.system.name],
+    ['design', printable(a.system.name)],
     ['box', `${j.box_type}, ${j.vb_l} l net (${j.vb_effective_l} l acoustic)`],
     ['fs / Qts / Vas', `${j.driver.fs_hz} Hz / ${j.driver.qts} / ${j.driver.vas_l} l`],
     ['Bl / Mms / Cms', `${j.driver.bl_tm} T·m / ${j.driver.mms_g} g / ${j.driver.cms_mm_per_n} mm/N`],

@@ -1,5 +1,7 @@
 // Shared pieces of the CLI: exit codes, the command shape, argument parsing, reading designs.
 import { parseArgs, type ParseArgsConfig } from 'node:util';
+import { discardAllOutputs } from './output-files.ts';
+import { decimalNumber, printable, systemErrorWords } from './user-text.ts';
 
 export const EXIT_OK = 0;
 export const EXIT_BAD_INPUT = 1;
@@ -20,8 +22,21 @@ export function parseCommandArgs<T extends ParseArgsConfig['options']>(argv: str
   try {
     return parseArgs({ args: argv, options, allowPositionals: true, strict: true });
   } catch (e) {
-    throw new UsageError((e as Error).message);
+    // node:util's wording, minus its hint to use "--" (which no command takes).
+    throw new UsageError((e as Error).message.replace(/\. To specify a positional argument.*$/s, ''));
   }
+}
+
+/**
+ * The one line shown for a failure nobody anticipated: what happened in words, never a stack trace
+ * or a name from inside the program.
+ */
+export function unexpectedMessage(e: unknown): string {
+  if (e instanceof RangeError && /call stack/i.test(e.message)) return 'the input is nested too deeply to read';
+  if ((e as NodeJS.ErrnoException | null)?.code) return `a file operation failed: ${systemErrorWords(e)}`;
+  if (e instanceof RangeError && /array buffer|allocation|invalid array length|buffer/i.test(e.message))
+    return 'the input is too large for the memory available';
+  return `an unexpected problem stopped the command (${e instanceof Error ? e.message : String(e)})`;
 }
 
 /** Runs a command body, mapping errors to exit codes and messages on stderr. */
@@ -30,22 +45,26 @@ export async function runGuarded(name: string, help: string, body: () => Promise
     return await body();
   } catch (e) {
     if (e instanceof UsageError) {
-      process.stderr.write(`preheard ${name}: ${e.message}\n\n${help}`);
+      process.stderr.write(`preheard ${name}: ${printable(e.message)}\n\n${help}`);
       return EXIT_USAGE;
     }
     if (e instanceof InputError) {
-      process.stderr.write(`preheard ${name}: ${e.message}\n`);
+      process.stderr.write(`preheard ${name}: ${printable(e.message, true)}\n`);
       return EXIT_BAD_INPUT;
     }
-    throw e;
+    process.stderr.write(`preheard ${name}: ${printable(unexpectedMessage(e))}\n`);
+    return EXIT_BAD_INPUT;
+  } finally {
+    // Whatever happened, no half-written output stays behind.
+    discardAllOutputs();
   }
 }
 
 export function parseNumberOption(value: string | undefined, option: string, min: number, max: number): number | undefined {
   if (value === undefined) return undefined;
-  const n = Number(value);
+  const n = decimalNumber(value, option);
   if (!Number.isFinite(n) || n < min || n > max) {
-    throw new UsageError(`${option} must be a number from ${min} to ${max}, got "${value}"`);
+    throw new UsageError(`${option} must be a number from ${min} to ${max}, got "${printable(value)}"`);
   }
   return n;
 }

@@ -7,6 +7,8 @@ import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Com
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
 import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { planOutputs } from './output-files.ts';
+import { printable } from './user-text.ts';
 
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
 
@@ -86,12 +88,15 @@ export const compareCommand: Command = {
       if (!values.output) throw new UsageError('-o <prefix> is required');
       const level = levelOptions(values);
       const [aPath, bPath, inPath] = positionals;
+      const [outA, outB] = [`${values.output}-a.wav`, `${values.output}-b.wav`];
+      const outputs = await planOutputs([aPath, bPath, inPath], [outA, outB]);
       const A = await loadDesignFile(aPath);
       const B = await loadDesignFile(bPath);
       for (const w of [...A.warnings, ...B.warnings]) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
       const { channels, sampleRate } = audio;
       const sides: Side[] = [];
+      const rendered: Float32Array[][] = [];
       let matchDb = 0;
       try {
         const va = resolveVolts(A.system, channels, sampleRate, level).volts;
@@ -114,7 +119,7 @@ export const compareCommand: Command = {
             paPerFs: pa,
             onProgress: long ? progressBar(`rendering ${tag}`) : undefined,
           });
-          await writeWav(`${values.output}-${tag}.wav`, res.audio, sampleRate, audio.format);
+          rendered.push(res.audio);
           const fig = bassRelative(d.system);
           sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom: findHeadroom(d.system, channels, sampleRate) });
         }
@@ -122,6 +127,10 @@ export const compareCommand: Command = {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
+      // Both files are written only when both designs rendered, and put in place together.
+      await writeWav(outputs.staging(outA), rendered[0], sampleRate, audio.format);
+      await writeWav(outputs.staging(outB), rendered[1], sampleRate, audio.format);
+      outputs.commit();
       const [a, b] = sides;
       if (values.json) {
         process.stdout.write(`${JSON.stringify({ a: sideJson(a), b: sideJson(b), match_db: matchDb })}\n`);
@@ -134,7 +143,7 @@ export const compareCommand: Command = {
         for (const e of s.summary.events) m.set(e.kind, (m.get(e.kind) ?? 0) + 1);
         return m.size === 0 ? 'none' : [...m].map(([k, n]) => `${k} ×${n}`).join(', ');
       };
-      let out = row('', `A: ${a.name}`, `B: ${b.name}`);
+      let out = row('', `A: ${printable(a.name)}`, `B: ${printable(b.name)}`);
       out += row('f3', `${a.f3Hz} Hz`, `${b.f3Hz} Hz`);
       for (let k = 0; k < 3; k++) out += row(`bass at ${a.bass[k].hz} Hz`, `${a.bass[k].db} dB`, `${b.bass[k].db} dB`);
       out += row('drive', `${a.summary.volts_fs} V/FS`, `${b.summary.volts_fs} V/FS`);

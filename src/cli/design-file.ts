@@ -1,31 +1,67 @@
 // Reading a design file for any command: every problem listed, exit 1 on failure.
-import { readFile } from 'node:fs/promises';
+// The file is read in chunks and reading stops at the size limit, so an endless source
+// (/dev/zero, a FIFO, a device) can neither hang the command nor fill the memory.
+import { constants } from 'node:fs';
+import { open, type FileHandle } from 'node:fs/promises';
 import { parseDesign } from '../engine/design/validate.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { Issue } from '../engine/issues.ts';
 import { InputError } from './command.ts';
+import { capLines, printable, systemErrorWords } from './user-text.ts';
 
-export const formatIssue = (i: Issue): string => `  ${i.severity}: ${i.path || '(design)'}: ${i.message}`;
+export const formatIssue = (i: Issue): string => printable(`  ${i.severity}: ${i.path || '(design)'}: ${i.message}`);
 
 /** Largest design file accepted; real designs are a few kB. */
 export const MAX_DESIGN_BYTES = 1 << 20;
 
-export async function loadDesignFile(path: string): Promise<{ design: DesignDoc; system: SpeakerSystem; warnings: Issue[] }> {
-  let text: string;
+/**
+ * The text of a design file: regular files only, at most MAX_DESIGN_BYTES read, UTF-8 (a leading
+ * byte-order mark is dropped, as the app does).
+ */
+export async function readDesignText(path: string): Promise<string> {
+  const shown = printable(path);
+  let file: FileHandle;
   try {
-    const buf = await readFile(path);
-    if (buf.length > MAX_DESIGN_BYTES) throw new InputError(`${path}: ${buf.length} bytes is too large for a design file (at most 1 MiB)`);
-    text = buf.toString('utf8');
+    // O_NONBLOCK: opening a FIFO with no writer returns at once instead of waiting for one.
+    file = await open(path, constants.O_RDONLY | constants.O_NONBLOCK);
+  } catch (e) {
+    throw new InputError(`cannot read the design file ${shown}: ${systemErrorWords(e)}`);
+  }
+  try {
+    const info = await file.stat();
+    if (info.isDirectory()) throw new InputError(`${shown} is a folder, not a design file`);
+    if (!info.isFile()) throw new InputError(`${shown} is not a regular file (a device, pipe or socket): give a design file`);
+    const buf = Buffer.alloc(MAX_DESIGN_BYTES + 1);
+    let length = 0;
+    while (length < buf.length) {
+      const { bytesRead } = await file.read(buf, length, buf.length - length, null);
+      if (bytesRead === 0) break;
+      length += bytesRead;
+    }
+    if (length > MAX_DESIGN_BYTES)
+      throw new InputError(`${shown} is larger than 1 MiB, too large for a design file (real ones are a few kB)`);
+    try {
+      return new TextDecoder('utf-8', { fatal: true }).decode(buf.subarray(0, length));
+    } catch {
+      throw new InputError(`${shown} is not UTF-8 text, so it is not a design file`);
+    }
   } catch (e) {
     if (e instanceof InputError) throw e;
-    throw new InputError(`cannot read design file ${path}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
+    throw new InputError(`cannot read the design file ${shown}: ${systemErrorWords(e)}`);
+  } finally {
+    await file.close().catch(() => undefined);
   }
-  const result = parseDesign(text);
+}
+
+export async function loadDesignFile(path: string): Promise<{ design: DesignDoc; system: SpeakerSystem; warnings: Issue[] }> {
+  const result = parseDesign(await readDesignText(path));
   if (!result.ok) {
-    const lines = [...result.errors, ...result.warnings].map(formatIssue);
+    const issues = [...result.errors, ...result.warnings];
+    if (issues.length === 1) throw new InputError(`${printable(path)} is not a valid design: ${formatIssue(issues[0]).trim()}`);
+    const lines = capLines(issues.map(formatIssue));
     throw new InputError(
-      `${path} is not a valid design (${result.errors.length} problem${result.errors.length === 1 ? '' : 's'}):\n${lines.join('\n')}`,
+      `${printable(path)} is not a valid design (${result.errors.length} problem${result.errors.length === 1 ? '' : 's'}):\n${lines.join('\n')}`,
     );
   }
   return result;

@@ -48,7 +48,7 @@ export const headroomCommand: Command = {
           `clean up to        ${h.clean_volts} V per full scale (${h.clean_spl_db} dB(C) Leq at the seat)\n` +
             (h.first_limit
               ? `first limit above  ${h.first_limit} at ${h.first_limit_s} s\n`
-              : 'no limit reached up to 24 dB above the amplifier rail\n'),
+              : `no limit reached up to ${h.clean_volts} V per full scale, the highest drive tried\n`),
         );
       }
       return EXIT_OK;

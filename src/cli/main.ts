@@ -5,6 +5,7 @@ import { EXIT_USAGE, type Command } from './command.ts';
 import { renderCommand } from './render.ts';
 import { compareCommand } from './compare.ts';
 import { headroomCommand } from './headroom.ts';
+import { printable } from './user-text.ts';
 
 const COMMANDS: Command[] = [analyzeCommand, renderCommand, compareCommand, headroomCommand, sweepCommand];
 
@@ -21,7 +22,7 @@ export async function main(argv: string[]): Promise<number> {
   }
   const command = COMMANDS.find((c) => c.name === name);
   if (!command) {
-    process.stderr.write(`preheard: unknown command "${name}"\n\n${usage()}`);
+    process.stderr.write(`preheard: unknown command "${printable(name)}"\n\n${usage()}`);
     return EXIT_USAGE;
   }
   return command.run(rest);

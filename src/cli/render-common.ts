@@ -2,6 +2,8 @@
 import type { SpeakerSystem } from '../engine/system.ts';
 import { InputError, parseNumberOption, UsageError } from './command.ts';
 import { readWav, type WavAudio } from './wav.ts';
+import { printable } from './user-text.ts';
+import { checkReadable } from './output-files.ts';
 
 export const LEVEL_HELP = `  --volts V   amplifier peak volts for a digital full-scale sample (0.01 to 5000)
   --spl DB    long-term average C-weighted SPL at the design's listening seat (40 to 140 dB)
@@ -16,6 +18,7 @@ export function levelOptions(values: { volts?: string; spl?: string }): { voltsF
 }
 
 export async function readInputAudio(path: string): Promise<WavAudio> {
+  await checkReadable(path, 'audio file');
   return readWav(path);
 }
 
@@ -33,7 +36,7 @@ export function progressBar(label: string): ((fraction: number) => void) | undef
 export function checkVolts(volts: number, sys: SpeakerSystem): void {
   if (!(volts > 0 && volts < 1e4)) {
     throw new InputError(
-      `the level needs ${volts.toPrecision(4)} V per full scale for "${sys.name}", outside 0..10000 V: choose another --spl or --volts`,
+      `the level needs ${volts.toPrecision(4)} V per full scale for "${printable(sys.name)}", outside 0..10000 V: the track is too quiet for that level; choose a lower --spl or give --volts`,
     );
   }
 }

@@ -4,6 +4,7 @@ import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Com
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
 import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { planOutputs } from './output-files.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
@@ -80,6 +81,7 @@ export const renderCommand: Command = {
         throw new UsageError(`--format must be 16, 24 or f32, got "${values.format}"`);
       const level = levelOptions(values);
       const [designPath, inPath] = positionals;
+      const outputs = await planOutputs([designPath, inPath], [values.output, values.events]);
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
@@ -96,8 +98,10 @@ export const renderCommand: Command = {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
-      await writeWav(values.output, result.audio, audio.sampleRate, (values.format as WavFormat | undefined) ?? audio.format);
-      if (values.events) await writeTextAtomic(values.events, `${JSON.stringify(result.summary.events, null, 2)}\n`);
+      const format = (values.format as WavFormat | undefined) ?? audio.format;
+      await writeWav(outputs.staging(values.output), result.audio, audio.sampleRate, format);
+      if (values.events) await writeTextAtomic(outputs.staging(values.events), `${JSON.stringify(result.summary.events, null, 2)}\n`);
+      outputs.commit();
       if (values.json) process.stdout.write(`${JSON.stringify(result.summary)}\n`);
       else process.stdout.write(`${summaryLines(result.summary).join('\n')}\n`);
       return EXIT_OK;

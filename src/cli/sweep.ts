@@ -8,6 +8,10 @@ import { readInputAudio } from './render-common.ts';
 import type { SweepPoint, SweepRow } from './sweep-step.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
+import { decimalNumber, printable, wholeNumber } from './user-text.ts';
+
+/** Most design variants one sweep runs: each is a dozen renders of the whole track. */
+export const MAX_SWEEP_POINTS = 400;
 
 const HELP = `usage: preheard sweep <design.json> <in.wav> [--vb FROM:TO:STEP] [--fb FROM:TO:STEP] [--json] [--threads N]
 
@@ -26,12 +30,13 @@ exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
 
 /** Parses FROM:TO:STEP into the list of values, inclusive of TO within rounding. */
 export function parseRange(text: string, option: string, min: number, max: number): number[] {
-  const parts = text.split(':').map(Number);
-  if (parts.length !== 3 || parts.some((p) => !Number.isFinite(p))) throw new UsageError(`${option} must be FROM:TO:STEP, got "${text}"`);
+  const pieces = text.split(':');
+  if (pieces.length !== 3) throw new UsageError(`${option} must be FROM:TO:STEP, got "${printable(text)}"`);
+  const parts = pieces.map((p) => decimalNumber(p, option));
   const [from, to, step] = parts;
   if (!(step > 0)) throw new UsageError(`${option}: STEP must be positive, got ${step}`);
   if (from < min || to > max || from > to)
-    throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${text}`);
+    throw new UsageError(`${option}: the range must lie within ${min} to ${max} with FROM <= TO, got ${printable(text)}`);
   const count = Math.floor((to - from) / step + 1e-9) + 1;
   if (count > 200) throw new UsageError(`${option}: ${count} steps is too many (200 at most)`);
   return Array.from({ length: count }, (_, k) => Number((from + k * step).toPrecision(10)));
@@ -89,7 +94,7 @@ function table(rows: SweepRow[], vented: boolean): string {
     r.clean_spl_db === null ? '-' : r.clean_spl_db.toFixed(2),
     r.clean_volts === null ? '-' : String(r.clean_volts),
     r.error
-      ? `(${r.error})`
+      ? `(${printable(r.error)})`
       : r.first_limit
         ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${clock(r.first_limit_s ?? 0)}`
         : 'none in range',
@@ -117,15 +122,20 @@ export const sweepCommand: Command = {
       }
       if (positionals.length !== 2) throw new UsageError('expects a design file and a WAV file');
       if (values.vb === undefined && values.fb === undefined) throw new UsageError('give --vb and/or --fb');
-      const threads = values.threads === undefined ? availableParallelism() : Number(values.threads);
-      if (!Number.isInteger(threads) || threads < 1 || threads > 64)
-        throw new UsageError(`--threads must be a whole number from 1 to 64, got "${values.threads}"`);
+      const cores = availableParallelism();
+      const threads = values.threads === undefined ? cores : wholeNumber(values.threads, '--threads');
+      if (threads < 1 || threads > cores)
+        throw new UsageError(`--threads must be from 1 to ${cores} (the cores of this machine), got ${threads}`);
       const { design } = await loadDesignFile(positionals[0]);
       if (values.fb !== undefined && design.box.type !== 'vented')
         throw new InputError(`--fb needs a vented design; ${positionals[0]} is ${design.box.type}`);
       const vbs = values.vb === undefined ? [design.box.vb_l] : parseRange(values.vb, '--vb', 0.05, 20000);
       const fbs =
         values.fb === undefined ? [design.box.type === 'vented' ? design.box.fb_hz : null] : parseRange(values.fb, '--fb', 5, 500);
+      if (vbs.length * fbs.length > MAX_SWEEP_POINTS)
+        throw new UsageError(
+          `${vbs.length} volumes × ${fbs.length} tunings is ${vbs.length * fbs.length} steps, more than the ${MAX_SWEEP_POINTS} a sweep runs: use a larger STEP or a narrower range`,
+        );
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
       const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads);

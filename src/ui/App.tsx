@@ -15,6 +15,9 @@ import { useNotices, useResolvedTheme, useSaveStatus, useStoreState, useUndoKeys
 import { screenOf } from './app/screens.tsx';
 import { Tabs } from './app/Tabs.tsx';
 import { exportDesign, importFile, makeShareUrl, useShareLinks, type TransferDeps } from './app/transfer.ts';
+import { SharedView } from './shared-view.ts';
+import { StorageBanners } from './StorageBanners.tsx';
+import { retryStorage } from './startup.ts';
 
 export { SCREENS } from './app/screens.tsx';
 
@@ -30,7 +33,8 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
 
   const derived = { a: derive('a', state.designs.a), b: derive('b', state.designs.b) };
   const view: AppView = useMemo(() => ({ state, derived, dispatch: (i) => store.dispatch(i), store }), [state, derived.a, derived.b]);
-  const deps: TransferDeps = { store, derived, notify, showProblems: setProblems };
+  const sharedView = useMemo(() => new SharedView(store, autosave), [store, autosave]);
+  const deps: TransferDeps = { store, derived, notify, showProblems: setProblems, openShared: (designs) => sharedView.open(designs) };
 
   useShareLinks(deps, () => registerServiceWorker((u) => setUpdate(u)));
   useUndoKeys(store);
@@ -56,6 +60,13 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           }}
         />
         <Banners update={update} status={status} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
+        <StorageBanners
+          status={status}
+          onRetry={() => void retryStorage(store, autosave)}
+          onExport={(slot) => exportDesign(deps, slot)}
+          onKeepShared={() => sharedView.keep()}
+          onLeaveShared={() => void sharedView.leave()}
+        />
         <Tabs state={state} derived={derived} go={go} />
 
         <div class="body">

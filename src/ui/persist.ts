@@ -1,8 +1,14 @@
 // Autosave: every change of the store is written to IndexedDB (through idb). When storage is full or
 // unavailable the status says so and the app keeps working; export still works.
+//
+// Nothing is written before the stored state has been read: a slow or failing start-up read leaves
+// storage untouched (the status says so, with a retry), so the demo pair can never replace saved work
+// it has not seen. A stored state is used only when both designs pass the same validation as a design
+// file (parseDesign); the last good copy is only ever a state that passed it. While the tab shows a
+// shared link, saving is held until the user keeps the shared designs.
 import { openDB, type IDBPDatabase } from 'idb';
-import type { AppState, Store } from './store.ts';
-import { upgradeState } from './upgrade.ts';
+import { parseDesign } from '../engine/design/validate.ts';
+import { DEFAULT_SETTINGS, SLOTS, type AppState, type Settings, type Store } from './store.ts';
 
 export interface SavedState {
   kind: 'preheard-app-state';
@@ -14,12 +20,17 @@ export interface SavedState {
 export interface StorageBackend {
   /** The current state as stored: unchecked, it may be anything. */
   load(): Promise<unknown>;
-  /** Writes the current state and, in the same transaction, the copy kept as the last good one. */
-  save(value: SavedState): Promise<void>;
+  /** Writes the current state and, in the same transaction when `good`, the copy kept as the last good one. */
+  save(value: SavedState, good: boolean): Promise<void>;
   loadLastGood(): Promise<unknown>;
   /** Keeps an unreadable stored state aside, for export, instead of overwriting it. */
   setAside(raw: unknown): Promise<void>;
   loadSetAside(): Promise<unknown>;
+  /**
+   * Synchronous last-moment copy for a page being closed or reloaded (IndexedDB transactions still
+   * open then may be dropped); read back by `load` when it is newer than the stored state.
+   */
+  journal?: { write(value: SavedState): void; read(): unknown; clear(): void };
 }
 
 export type SaveStatus =
@@ -29,7 +40,13 @@ export type SaveStatus =
   | { kind: 'full'; message: string }
   | { kind: 'unavailable'; message: string }
   /** The stored state was unreadable: it was set aside and the last good state (or the demo) restored. */
-  | { kind: 'recovered'; at: number; message: string };
+  | { kind: 'recovered'; at: number; message: string }
+  /** The start-up read is slow (another tab may hold the database): nothing is saved until it ends. */
+  | { kind: 'waiting'; message: string }
+  /** The start-up read failed: nothing is saved, so the stored designs stay as they were. */
+  | { kind: 'unread'; message: string }
+  /** The tab shows a shared link's designs: nothing is saved until the user keeps them. */
+  | { kind: 'held'; message: string };
 
 const DB_NAME = 'preheard';
 const STORE = 'app';
@@ -54,9 +71,9 @@ export function indexedDbBackend(): StorageBackend {
     async load() {
       return (await open()).get(STORE, KEY);
     },
-    async save(value) {
+    async save(value, good) {
       const tx = (await open()).transaction(STORE, 'readwrite');
-      await Promise.all([tx.store.put(value, KEY), tx.store.put(value, LAST_GOOD), tx.done]);
+      await Promise.all([tx.store.put(value, KEY), good ? tx.store.put(value, LAST_GOOD) : null, tx.done]);
     },
     async loadLastGood() {
       return (await open()).get(STORE, LAST_GOOD);
@@ -67,22 +84,76 @@ export function indexedDbBackend(): StorageBackend {
     async loadSetAside() {
       return (await open()).get(STORE, SET_ASIDE);
     },
+    journal: localStorageJournal(),
+  };
+}
+
+const JOURNAL_KEY = 'preheard-unsaved-edit';
+
+/** The journal in localStorage, which writes synchronously; absent when localStorage is unavailable. */
+function localStorageJournal(): StorageBackend['journal'] {
+  const ls = (): Storage | null => {
+    try {
+      return typeof localStorage === 'undefined' ? null : localStorage;
+    } catch {
+      return null;
+    }
+  };
+  return {
+    write(value) {
+      try {
+        ls()?.setItem(JOURNAL_KEY, JSON.stringify(value));
+      } catch {
+        // Full or refused: the IndexedDB write already under way is all there is.
+      }
+    },
+    read() {
+      try {
+        const text = ls()?.getItem(JOURNAL_KEY);
+        return text ? JSON.parse(text) : undefined;
+      } catch {
+        return undefined;
+      }
+    },
+    clear() {
+      try {
+        ls()?.removeItem(JOURNAL_KEY);
+      } catch {
+        // Nothing to do: a stale journal older than the stored state is ignored on load.
+      }
+    },
   };
 }
 
 /** Kept in memory only (tests, or as a stand-in when IndexedDB is missing). */
-export function memoryBackend(initial?: unknown): StorageBackend & { value: unknown; lastGood: unknown; aside: unknown } {
+export function memoryBackend(
+  initial?: unknown,
+): StorageBackend & { value: unknown; lastGood: unknown; aside: unknown; journaled: unknown; writes: number } {
   const copy = (v: unknown) => (v === undefined ? undefined : structuredClone(v));
   const b = {
     value: initial,
     lastGood: undefined as unknown,
     aside: undefined as unknown,
+    journaled: undefined as unknown,
+    writes: 0,
     async load() {
       return copy(b.value);
     },
-    async save(value: SavedState) {
+    async save(value: SavedState, good: boolean) {
+      b.writes++;
       b.value = structuredClone(value);
-      b.lastGood = structuredClone(value);
+      if (good) b.lastGood = structuredClone(value);
+    },
+    journal: {
+      write(value: SavedState) {
+        b.journaled = structuredClone(value);
+      },
+      read() {
+        return copy(b.journaled);
+      },
+      clear() {
+        b.journaled = undefined;
+      },
     },
     async loadLastGood() {
       return copy(b.lastGood);
@@ -119,13 +190,44 @@ export function isSavedState(v: unknown): v is SavedState {
   return (
     s.kind === 'preheard-app-state' &&
     s.version === 1 &&
+    typeof s.savedAt === 'number' &&
     !!st &&
     typeof st === 'object' &&
     !!st.designs &&
-    typeof st.designs.a === 'object' &&
-    typeof st.designs.b === 'object' &&
-    !!st.settings
+    typeof st.designs === 'object' &&
+    !!st.settings &&
+    typeof st.settings === 'object'
   );
+}
+
+/** True when both designs pass the design-file validation: only such a state becomes the last good one. */
+export function designsValid(state: AppState): boolean {
+  return SLOTS.every((slot) => parseDesign(state.designs[slot]).ok);
+}
+
+/** Settings as stored, with anything of the wrong type replaced by the default. */
+function checkedSettings(raw: unknown): Settings {
+  const out: Settings = { ...DEFAULT_SETTINGS };
+  if (!raw || typeof raw !== 'object') return out;
+  const r = raw as Record<string, unknown>;
+  for (const [key, value] of Object.entries(r)) {
+    const fallback = (DEFAULT_SETTINGS as unknown as Record<string, unknown>)[key];
+    if (fallback === undefined || typeof value === typeof fallback) (out as unknown as Record<string, unknown>)[key] = value;
+  }
+  return out;
+}
+
+/**
+ * A stored state ready to use: the right shape, and both designs valid as design files (they come
+ * back as parseDesign gives them). Null when it cannot be used as it is.
+ */
+export function usableState(v: unknown): { savedAt: number; state: AppState } | null {
+  if (!isSavedState(v)) return null;
+  const designs = v.state.designs as unknown as Record<string, unknown>;
+  const a = parseDesign(designs.a);
+  const b = parseDesign(designs.b);
+  if (!a.ok || !b.ok) return null;
+  return { savedAt: v.savedAt, state: { designs: { a: a.design, b: b.design }, settings: checkedSettings(v.state.settings) } };
 }
 
 /** Connects a store to a backend: every change is saved (coalesced within one task). */
@@ -133,6 +235,15 @@ export class Autosave {
   status: SaveStatus = { kind: 'starting' };
   private pending: Promise<void> | null = null;
   private dirty = false;
+  /** Whether the stored state has been read: until then nothing is written. */
+  private read: 'no' | 'yes' | 'failed' = 'no';
+  /** A shared link is on view: nothing is written until the user keeps it. */
+  private holding = false;
+  private store: Store | null = null;
+  /** The state last written (or read) successfully, to journal only what is not yet safe. */
+  private lastWritten: AppState | null = null;
+  /** The state in the journal, if one was written by this tab. */
+  private journaled: AppState | null = null;
   private listeners = new Set<(s: SaveStatus) => void>();
   private savedListeners = new Set<(v: SavedState) => void>();
 
@@ -157,44 +268,115 @@ export class Autosave {
     if (this.status.kind === 'recovered') this.setStatus({ kind: 'saved', at: this.now() });
   }
 
+  /** True once the stored state was read (or found absent): only then may it be written. */
+  get hasRead(): boolean {
+    return this.read === 'yes';
+  }
+
+  /** The start-up read is taking long: say so; nothing is written until it ends. */
+  markSlow(): void {
+    if (this.read !== 'no') return;
+    this.setStatus({
+      kind: 'waiting',
+      message:
+        'Your saved designs have not loaded yet (another preheard tab may be holding the browser storage). Nothing is saved until they load, so they cannot be overwritten; close other preheard tabs or wait. Edits made now stay in this tab.',
+    });
+  }
+
+  /** Stops saving while a shared link is on view (storage and the other tabs stay as they were). */
+  hold(): void {
+    this.holding = true;
+    this.setStatus({
+      kind: 'held',
+      message: 'You are looking at designs from a shared link. Your saved designs and your other tabs are unchanged until you keep these.',
+    });
+  }
+
+  /** Saving resumes; with `save`, the state on show is written now (the user kept it). */
+  release(save: boolean): void {
+    if (!this.holding) return;
+    this.holding = false;
+    if (!save) this.dirty = false;
+    this.setStatus(this.read === 'yes' ? { kind: 'saved', at: this.now() } : { kind: 'starting' });
+    if (save && this.store) this.request(this.store);
+  }
+
+  get held(): boolean {
+    return this.holding;
+  }
+
+  /**
+   * Writes what is not yet safely stored to the synchronous journal: called when the page is hidden
+   * or unloaded, when an IndexedDB write still under way may be dropped.
+   */
+  flushNow(): void {
+    if (!this.store || this.read !== 'yes' || this.holding || !this.backend.journal) return;
+    const state = this.store.get();
+    if (state === this.lastWritten || state === this.journaled) return;
+    this.backend.journal.write({ kind: 'preheard-app-state', version: 1, savedAt: this.now(), state });
+    this.journaled = state;
+  }
+
   private setStatus(s: SaveStatus) {
     this.status = s;
     for (const fn of this.listeners) fn(s);
   }
 
   /**
-   * The saved state, or undefined when there is none or it cannot be read. An unreadable stored
-   * state is never overwritten blindly: it is set aside (for export) and the last good one restored.
+   * The saved state, or undefined when there is none or it cannot be used. A stored state that fails
+   * validation is never overwritten blindly: it is set aside (for export) and the last good one
+   * restored. When the read itself fails, undefined is returned and nothing will be written.
    */
   async load(): Promise<AppState | undefined> {
     try {
-      const saved = await this.backend.load();
+      let saved = await this.backend.load();
+      const journaled = this.backend.journal?.read();
+      // An edit caught by the journal as the page closed, newer than what IndexedDB kept.
+      const journal = usableState(journaled);
+      const stored = usableState(saved);
+      if (journal && (!isSavedState(saved) || journal.savedAt > saved.savedAt)) saved = journaled;
+      else if (journaled !== undefined) this.backend.journal?.clear();
       if (saved === undefined) {
-        this.setStatus({ kind: 'saved', at: this.now() });
+        this.markRead(undefined, { kind: 'saved', at: this.now() });
         return undefined;
       }
-      // Designs saved by an earlier version are migrated on the way in; unreadable ones are set aside.
-      const current = isSavedState(saved) ? upgradeState(saved.state) : null;
-      if (current) {
-        this.setStatus({ kind: 'saved', at: (saved as SavedState).savedAt });
-        return current;
+      const usable = saved === journaled ? journal : stored;
+      // Restoring the journal's state writes it to IndexedDB, which then clears the journal.
+      if (usable && saved === journaled) this.journaled = usable.state;
+      if (usable) {
+        this.markRead(usable.state, { kind: 'saved', at: usable.savedAt });
+        return usable.state;
       }
       await this.backend.setAside(saved);
-      const good = await this.backend.loadLastGood();
-      const goodState = isSavedState(good) ? upgradeState(good.state) : null;
-      const restored = goodState && isSavedState(good) ? { savedAt: good.savedAt, state: goodState } : undefined;
-      this.setStatus({
+      const good = usableState(await this.backend.loadLastGood());
+      this.markRead(good?.state, {
         kind: 'recovered',
         at: this.now(),
-        message: restored
-          ? `The stored designs could not be read, so the last good state, saved ${new Date(restored.savedAt).toLocaleString()}, was restored. The unreadable data is kept aside: download it to keep it.`
-          : 'The stored designs could not be read and no earlier good state exists, so the demo pair is shown. The unreadable data is kept aside: download it to keep it.',
+        message: good
+          ? `The stored designs could not be used (they are damaged or fail the design checks), so the last good state, saved ${new Date(good.savedAt).toLocaleString()}, was restored. The stored data is kept aside: download it to keep it.`
+          : 'The stored designs could not be used (they are damaged or fail the design checks) and no earlier good state exists, so the demo pair is shown. The stored data is kept aside: download it to keep it.',
       });
-      return restored?.state;
+      return good?.state;
     } catch (e) {
-      this.setStatus(describeFailure(e));
+      this.read = 'failed';
+      const detail = e instanceof Error ? e.message : String(e);
+      this.setStatus({
+        kind: 'unread',
+        message: `Your saved designs could not be read (${detail}), so nothing is saved in this tab and they stay as they were. Try again, or export what you make here.`,
+      });
       return undefined;
     }
+  }
+
+  private markRead(state: AppState | undefined, status: SaveStatus) {
+    this.read = 'yes';
+    this.lastWritten = state ?? null;
+    this.setStatus(this.holding ? this.status : status);
+  }
+
+  /** Saves edits made while the read was slow (the caller first puts any state it read in the store). */
+  saveNow(): void {
+    if (this.dirty && this.store) this.request(this.store);
   }
 
   /** What was set aside as unreadable, as JSON text for download, or null. */
@@ -208,21 +390,29 @@ export class Autosave {
   }
 
   attach(store: Store): () => void {
+    this.store = store;
     return store.subscribe(() => this.request(store));
   }
 
   private request(store: Store) {
     this.dirty = true;
-    if (this.pending) return;
+    if (this.pending || this.read !== 'yes' || this.holding) return;
     if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
     this.pending = (async () => {
       // Let a burst of intents in the same task land first.
       await Promise.resolve();
       while (this.dirty) {
         this.dirty = false;
-        const value: SavedState = { kind: 'preheard-app-state', version: 1, savedAt: this.now(), state: store.get() };
+        const state = store.get();
+        const value: SavedState = { kind: 'preheard-app-state', version: 1, savedAt: this.now(), state };
         try {
-          await this.backend.save(value);
+          await this.backend.save(value, designsValid(state));
+          this.lastWritten = state;
+          // The journal is dropped once IndexedDB holds what it held (not a newer edit it caught).
+          if (this.journaled === state) {
+            this.backend.journal?.clear();
+            this.journaled = null;
+          }
           // A recovery notice stays up until the user has seen it; saving goes on underneath.
           if (this.status.kind !== 'recovered') this.setStatus({ kind: 'saved', at: value.savedAt });
           for (const fn of this.savedListeners) fn(value);

@@ -28,7 +28,8 @@ export function connectTabs(store: Store, autosave: Autosave, channel: Broadcast
     channel.postMessage({ kind: 'preheard-designs', tab, savedAt: saved.savedAt, designs: saved.state.designs } satisfies Announcement);
   });
   channel.onmessage = (ev) => {
-    if (!isAnnouncement(ev.data) || ev.data.tab === tab) return;
+    // A tab showing a shared link keeps showing it; it catches up when it goes back to saved work.
+    if (!isAnnouncement(ev.data) || ev.data.tab === tab || autosave.held) return;
     // A tab still running an earlier version announces earlier documents: migrate them.
     const designs = upgradeDesigns(ev.data.designs);
     if (!designs) return;

@@ -1,9 +1,10 @@
-// Designs kept by an earlier version of the app (stored state, another tab) are brought up to the
-// current document version by the engine's own migration. A design being edited may have errors,
-// so it is migrated, not validated: nothing the user typed is dropped.
+// Designs announced by another tab (which may still run an earlier version of the app) are brought
+// up to the current document version by the engine's own migration. A design being edited there may
+// have errors, so it is migrated, not validated: nothing the user typed is dropped. (Stored state is
+// read through parseDesign in persist.ts, which migrates too.)
 import { DESIGN_VERSION, type DesignDoc } from '../engine/design/document.ts';
 import { migrate } from '../engine/design/validate.ts';
-import type { AppState, Designs } from './store.ts';
+import type { Designs } from './store.ts';
 
 /** One stored design in the current version, or null when it cannot be read as any version. */
 export function upgradeDesign(raw: unknown): DesignDoc | null {
@@ -18,10 +19,4 @@ export function upgradeDesigns(raw: { a: unknown; b: unknown }): Designs | null 
   const a = upgradeDesign(raw.a);
   const b = upgradeDesign(raw.b);
   return a && b ? { a, b } : null;
-}
-
-/** A stored app state with its designs in the current version, or null when they cannot be read. */
-export function upgradeState(state: AppState): AppState | null {
-  const designs = upgradeDesigns(state.designs);
-  return designs ? { ...state, designs } : null;
 }

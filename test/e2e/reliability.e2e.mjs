@@ -20,6 +20,14 @@ async function open(ctx) {
   return p;
 }
 
+const shareLinkOf = async (p) => {
+  await p.locator('.menu > summary').click();
+  await p.getByRole('menuitem', { name: 'Share link…' }).click();
+  const url = await p.locator('[data-testid=share-url]').inputValue();
+  await p.getByRole('dialog', { name: 'Share link' }).getByRole('button', { name: 'Close' }).click();
+  return url;
+};
+
 export const tests = [
   {
     name: 'the build has a local-only Content-Security-Policy and no eval or new Function',
@@ -29,7 +37,14 @@ export const tests = [
       const csp = /http-equiv="Content-Security-Policy" content="([^"]+)"/.exec(html)?.[1] ?? '';
       assert.match(csp, /default-src 'self'/);
       assert.match(csp, /script-src 'self' blob:;/);
-      assert.doesNotMatch(csp, /unsafe-eval|https?:/);
+      assert.doesNotMatch(csp, /unsafe-eval|https?:|ws:/);
+      // The served page carries the policy as a header too, with frame-ancestors (a meta tag cannot).
+      const res = await fetch(ctx.server.origin + '/');
+      const header = res.headers.get('content-security-policy') ?? '';
+      assert.match(header, /default-src 'self'/);
+      assert.match(header, /frame-ancestors 'none'/);
+      assert.match(header, /connect-src 'self';/);
+      assert.doesNotMatch(header, /ws:/);
       const scripts = readdirSync(join(dist, 'assets'))
         .filter((f) => f.endsWith('.js'))
         .map((f) => join(dist, 'assets', f));
@@ -116,6 +131,64 @@ export const tests = [
       assert.ok((await p.locator('body').innerText()).includes('<b>bold</b>'), 'the name appears literally');
       await p.evaluate(() => window.__preheard.store.dispatch({ type: 'undo' }));
       await p.close();
+    },
+  },
+  {
+    name: 'another page cannot frame the app (frame-ancestors none)',
+    fn: async (ctx) => {
+      const p = await ctx.context.newPage();
+      await p.goto('about:blank');
+      await p.setContent(`<iframe id="f" src="${ctx.server.origin}/?bench"></iframe>`);
+      await p.waitForTimeout(1500);
+      const child = p.frames().find((f) => f !== p.mainFrame());
+      const loaded = child ? await child.evaluate(() => !!document.getElementById('app')).catch(() => false) : false;
+      assert.equal(loaded, false, 'the app must not load inside a frame');
+      await p.close();
+    },
+  },
+  {
+    name: 'an edit followed at once by a reload survives (10 of 10)',
+    fn: async (ctx) => {
+      const p = await open(ctx);
+      let kept = 0;
+      for (let k = 0; k < 10; k++) {
+        const v = 12 + k / 4;
+        await edit(p, 'a', 'box.vb_l', v);
+        await p.reload();
+        await p.waitForFunction(() => !!window.__preheard);
+        if ((await valueAt(p, 'a', 'box.vb_l')) === v) kept++;
+      }
+      console.log(`    [reload at once] ${kept} of 10 edits kept`);
+      assert.equal(kept, 10);
+      await p.close();
+    },
+  },
+  {
+    name: 'a share link opens in its own tab only, and storage changes only when kept',
+    fn: async (ctx) => {
+      const p = await open(ctx);
+      await edit(p, 'a', 'box.vb_l', 19.75);
+      await saved(p);
+      const url = await shareLinkOf(p);
+      await edit(p, 'a', 'box.vb_l', 21.5);
+      await saved(p);
+      const q = await ctx.context.newPage();
+      await q.goto(url.replace('/#', '/?bench#'));
+      await q.getByTestId('shared-banner').waitFor();
+      assert.equal(await valueAt(q, 'a', 'box.vb_l'), 19.75);
+      await p.waitForTimeout(500);
+      assert.equal(await valueAt(p, 'a', 'box.vb_l'), 21.5, 'the other tab is unchanged');
+      const r = await open(ctx);
+      assert.equal(await valueAt(r, 'a', 'box.vb_l'), 21.5, 'storage is unchanged');
+      await r.close();
+      await q.getByRole('button', { name: 'Back to my designs' }).click();
+      await q.waitForFunction(() => window.__preheard.store.get().designs.a.box.vb_l === 21.5);
+      await q.goto(url.replace('/#', '/?bench#x'));
+      await q.goto(url.replace('/#', '/?bench#'));
+      await q.getByTestId('shared-banner').waitFor();
+      await q.getByRole('button', { name: 'Keep these designs' }).click();
+      await p.waitForFunction(() => window.__preheard.store.get().designs.a.box.vb_l === 19.75, null, { timeout: 5000 });
+      await Promise.all([p.close(), q.close()]);
     },
   },
 ];

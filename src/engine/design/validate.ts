@@ -5,6 +5,7 @@ import { DESIGN_FORMAT, DESIGN_VERSION, type DesignDoc } from './document.ts';
 import { designSchema } from '../box/index.ts';
 import { toSystem } from './convert.ts';
 import { plausibility } from './checks.ts';
+import { MAX_DESIGN_DEPTH, nestedDeeperThan } from './nesting.ts';
 import { error, type Issue } from '../issues.ts';
 import type { SpeakerSystem } from '../system.ts';
 
@@ -93,6 +94,9 @@ export function parseDesign(input: unknown): ParseResult {
   }
   if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) {
     return { ok: false, errors: [error('', 'a design must be a JSON object')], warnings: [] };
+  }
+  if (nestedDeeperThan(raw, MAX_DESIGN_DEPTH)) {
+    return { ok: false, errors: [error('', `nests more than ${MAX_DESIGN_DEPTH} levels deep; a design needs 4`)], warnings: [] };
   }
   const obj = raw as Record<string, unknown>;
   if (obj.format !== DESIGN_FORMAT) {

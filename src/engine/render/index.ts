@@ -27,7 +27,7 @@
 // passband input at -6 dBFS; the true-peak guard keeps the result at or under -0.1 dBTP and its
 // action is reported as limiter_db.
 import type { SpeakerSystem } from '../system.ts';
-import { createRenderer, Renderer, type RenderMode, type Traces } from './renderer.ts';
+import { createRenderer, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces } from './renderer.ts';
 import type { EventKind, StressEvent } from './events.ts';
 import { seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
 
@@ -229,7 +229,9 @@ export function findHeadroom(
   for (const ch of channels) for (let j = 0; j < ch.length; j++) peakIn = Math.max(peakIn, Math.abs(ch[j]));
   if (!(peakIn > 0)) throw new RangeError('the audio is silent: there is no level to find');
   const step = Math.pow(10, 6 / 20);
-  let v = opt.startVolts ?? sys.amplifier.vPeak / peakIn;
+  // A very quiet track would need more drive than the model takes: search below that ceiling.
+  const ceiling = MAX_VOLTS_FS * 0.999;
+  let v = Math.min(opt.startVolts ?? sys.amplifier.vPeak / peakIn, ceiling);
   let ev = probe(v);
   let lo = 0,
     hi = 0,
@@ -248,8 +250,8 @@ export function findHeadroom(
     }
   } else {
     lo = v;
-    for (let k = 0; k < 12; k++) {
-      v *= step;
+    for (let k = 0; k < 12 && v < ceiling; k++) {
+      v = Math.min(v * step, ceiling);
       ev = probe(v);
       if (ev.length > 0) {
         hi = v;

@@ -73,6 +73,12 @@ export interface RenderStats {
 /** Frames per internal chunk: every stage runs over a chunk before the next one starts. */
 const CHUNK = 256;
 
+/** Highest drive the model takes, peak volts per full-scale sample (far above any real amplifier). */
+export const MAX_VOLTS_FS = 1e4;
+
+const driveMessage = (v: number) =>
+  `the drive must be above 0 and under ${MAX_VOLTS_FS} V per full-scale sample, got ${Number.isFinite(v) ? Number(v.toPrecision(4)) : v} V`;
+
 class Lane {
   lp: BiquadCascade | null;
   roomN: BiquadCascade | null = null;
@@ -173,10 +179,10 @@ export class Renderer {
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
-      throw new RangeError(`sampleRate must be 8000..384000 Hz, got ${opt.sampleRate}`);
+      throw new RangeError(`the sample rate must be 8000 to 384000 Hz, got ${opt.sampleRate} Hz`);
     if (!(Number.isInteger(opt.channels) && opt.channels >= 1 && opt.channels <= 8))
-      throw new RangeError(`channels must be 1..8, got ${opt.channels}`);
-    if (!(opt.voltsFs > 0 && opt.voltsFs < 1e4)) throw new RangeError(`voltsFs must be > 0 and < 10000 V, got ${opt.voltsFs}`);
+      throw new RangeError(`the audio must have 1 to 8 channels, got ${opt.channels}`);
+    if (!(opt.voltsFs > 0 && opt.voltsFs < MAX_VOLTS_FS)) throw new RangeError(driveMessage(opt.voltsFs));
     this.system = sys;
     this.sampleRate = opt.sampleRate;
     this.channels = opt.channels;
@@ -268,7 +274,7 @@ export class Renderer {
   }
 
   setVoltsFs(v: number): void {
-    if (!(v > 0 && v < 1e4)) throw new RangeError(`voltsFs must be > 0 and < 10000 V, got ${v}`);
+    if (!(v > 0 && v < MAX_VOLTS_FS)) throw new RangeError(driveMessage(v));
     this.voltsFs = v;
   }
 

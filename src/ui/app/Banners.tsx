@@ -50,19 +50,19 @@ export function Banners(p: { update: UpdateHandle | null; status: SaveStatus; au
   );
 }
 
+const SAVE_WORDS: Record<Exclude<SaveStatus['kind'], 'saved'>, string> = {
+  saving: 'Saving…',
+  starting: 'Opening storage…',
+  full: 'Not saved: storage full',
+  recovered: 'Recovered the last good state',
+  waiting: 'Not saved yet: your saved designs are still loading',
+  unread: 'Not saved: your saved designs could not be read',
+  held: 'Not saved: a shared link is on view',
+  unavailable: 'Not saved: storage unavailable',
+};
+
 export function SaveIndicator({ status }: { status: SaveStatus }) {
-  const text =
-    status.kind === 'saved'
-      ? `Saved on this device ${new Date(status.at).toLocaleTimeString()}`
-      : status.kind === 'saving'
-        ? 'Saving…'
-        : status.kind === 'starting'
-          ? 'Opening storage…'
-          : status.kind === 'full'
-            ? 'Not saved: storage full'
-            : status.kind === 'recovered'
-              ? 'Recovered the last good state'
-              : 'Not saved: storage unavailable';
+  const text = status.kind === 'saved' ? `Saved on this device ${new Date(status.at).toLocaleTimeString()}` : SAVE_WORDS[status.kind];
   return (
     <span class={`save save-${status.kind}`} data-testid="save-status" data-state={status.kind}>
       {text}

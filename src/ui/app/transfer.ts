@@ -5,7 +5,7 @@ import { useEffect } from 'preact/hooks';
 import { validate, type Derived } from '../engine.ts';
 import { designFileName, designFileText, downloadText, readDesignText } from '../files.ts';
 import { decodeShare, encodeShare, hasShare, shareUrl } from '../share.ts';
-import { SLOTS, SLOT_LABEL, type Slot, type Store } from '../store.ts';
+import { SLOTS, SLOT_LABEL, type Designs, type Slot, type Store } from '../store.ts';
 import type { ProblemReport } from './dialogs.tsx';
 import type { Notice } from './hooks.ts';
 
@@ -14,9 +14,11 @@ export interface TransferDeps {
   derived: Record<Slot, Derived>;
   notify: (text: string, tone?: Notice['tone']) => void;
   showProblems: (report: ProblemReport) => void;
+  /** Shows a shared pair as a look, saved only when the user keeps it (shared-view.ts). */
+  openShared: (designs: Designs) => void;
 }
 
-/** Reads a shared link in the address, if any, and loads its pair (undoable). */
+/** Reads a shared link in the address, if any, and shows its pair (kept only when the user says so). */
 export async function openShareFromLocation(d: TransferDeps): Promise<void> {
   if (!hasShare(location.hash)) return;
   const hash = location.hash;
@@ -26,8 +28,7 @@ export async function openShareFromLocation(d: TransferDeps): Promise<void> {
     const ra = validate(pair.a);
     const rb = validate(pair.b);
     if (ra.ok && rb.ok) {
-      d.store.dispatch({ type: 'replace-pair', designs: { a: ra.design, b: rb.design }, reason: 'open a shared link' });
-      d.notify('Opened the designs from the shared link. Undo brings back your own.');
+      d.openShared({ a: ra.design, b: rb.design });
     } else {
       d.showProblems({
         title: 'The shared link has problems',
