@@ -52,14 +52,18 @@ function filterText(f: ActiveFilter): string {
 
 const driverOnly = (w: Way, f: (w: DriverWay) => string | null) => (w.kind === 'driver' ? f(w) : null);
 
+// Few rows per way, so a two-way pair still prints on two pages.
 const WAY_PARAMS: WayParamRow[] = [
   { label: 'Filter', value: (w) => filterText(w.filter) + (w.polarity < 0 ? ', inverted' : '') },
   {
-    label: 'Drivers',
-    value: (w) => (w.kind === 'driver' ? (w.count > 1 ? `${w.count}, in ${w.wiring}` : '1') : 'an ideal flat band'),
+    label: 'Enclosure',
+    value: (w) =>
+      driverOnly(
+        w,
+        (d) =>
+          `${boxLabel(d.box.type)}, ${num(d.box.vbNet * K.litres, 3)} l net${'fb' in d.box ? `, tuned to ${num(d.box.fb, 3)} Hz` : ''}`,
+      ),
   },
-  { label: 'Enclosure', value: (w) => driverOnly(w, (d) => `${boxLabel(d.box.type)}, ${num(d.box.vbNet * K.litres, 3)} l net`) },
-  { label: 'Tuning fb', value: (w) => driverOnly(w, (d) => ('fb' in d.box ? u(d.box.fb, 3, 'Hz') : null)) },
   {
     label: 'Port',
     value: (w, f) =>
@@ -70,14 +74,17 @@ const WAY_PARAMS: WayParamRow[] = [
       ),
   },
   { label: 'Driver fs / Qts', value: (w) => driverOnly(w, (d) => `${num(d.unit.fs, 3)} Hz / ${num(d.unit.qts, 3)}`) },
-  { label: 'Vas', value: (w) => driverOnly(w, (d) => u(d.unit.vas * K.litres, 3, 'l')) },
-  { label: 'Sd', value: (w) => driverOnly(w, (d) => u(d.unit.sd * K.cm2, 3, 'cm²')) },
+  { label: 'Vas / Sd', value: (w) => driverOnly(w, (d) => `${num(d.unit.vas * K.litres, 3)} l / ${num(d.unit.sd * K.cm2, 3)} cm²`) },
   {
     label: 'Xmax / Xlim (one way)',
     value: (w) => driverOnly(w, (d) => `${num(d.unit.xmax * K.mm, 3)} / ${num(d.unit.xlim * K.mm, 3)} mm`),
   },
   { label: 'Rated power Pe', value: (w) => driverOnly(w, (d) => u(d.unit.pe, 3, 'W')) },
 ];
+
+/** How a way's drivers are named in its heading row. */
+const driversText = (w: Way, name: string | null) =>
+  w.kind === 'flat' ? 'an ideal flat band' : `${name ?? 'driver'}${w.count > 1 ? `, ${w.count} in ${w.wiring}` : ''}`;
 
 const PARAMS: ParamRow[] = [
   { label: 'Amplifier', value: (s) => `${num(s.amplifier.power, 3)} W into ${num(s.amplifier.load, 2)} Ω, one channel per way` },
@@ -128,8 +135,7 @@ export function ClientSheet() {
           <td>
             {c ? (
               <>
-                <strong>{c.way.name}</strong>
-                {c.driverName ? `: ${c.driverName}` : ''}
+                <strong>{c.way.name}</strong>: {driversText(c.way, c.driverName)}
               </>
             ) : (
               '—'
