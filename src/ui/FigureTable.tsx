@@ -10,7 +10,7 @@ import { SLOTS, SLOT_LABEL, type Slot } from './store.ts';
 import { sumOf, wayCurves, wayFigures, type WayCurvesView } from './analysis-view.ts';
 import { boxLabel } from './boxes.ts';
 import { useWayIndex } from './components/WayPicker.tsx';
-import { systemDriverWay } from './ways.ts';
+import { firstDriverIndex, systemDriverWay } from './ways.ts';
 
 /** What a row reads: the analysis, and the shown way's figures, curves and driver limits. */
 interface RowContext {
@@ -68,6 +68,8 @@ const WAY_ROWS: FigureRow[] = [
 ];
 
 const COMPACT = ['f3', 'sens', 'fc', 'qtc', 'fb', 'fp', 'xpk', 'vport', 'port'];
+/** Rows the client sheet's parameters table already gives. */
+const ON_PAPER_ELSEWHERE = ['xmax', 'way-f3'];
 
 function contextOf(analysis: Analysis, system: SpeakerSystem | null, doc: DesignDoc, index: number): RowContext {
   const unit = system ? systemDriverWay(system, doc, index)?.unit : null;
@@ -80,15 +82,21 @@ function contextOf(analysis: Analysis, system: SpeakerSystem | null, doc: Design
   };
 }
 
-export function FigureTable(p: { compact?: boolean }) {
+/**
+ * `compact`: the side panel's few rows. `paper`: the client sheet's, where the parameters table above
+ * already gives each way's enclosure and Xmax, and the way is the first driver way (the woofer).
+ */
+export function FigureTable(p: { compact?: boolean; paper?: boolean }) {
   const { derived, state } = useApp();
-  const idx = useWayIndex();
+  const shown = useWayIndex();
+  const idx = p.paper ? { a: firstDriverIndex(state.designs.a), b: firstDriverIndex(state.designs.b) } : shown;
   const ctx: Record<Slot, RowContext | null> = {
     a: derived.a.analysis ? contextOf(derived.a.analysis, derived.a.system, state.designs.a, idx.a) : null,
     b: derived.b.analysis ? contextOf(derived.b.analysis, derived.b.system, state.designs.b, idx.b) : null,
   };
   const has = (r: FigureRow) => SLOTS.some((s) => ctx[s] && r.value(ctx[s]!) !== null && r.value(ctx[s]!) !== undefined);
-  const pick = (rows: FigureRow[]) => rows.filter(has).filter((r) => !p.compact || COMPACT.includes(r.id));
+  const pick = (rows: FigureRow[]) =>
+    rows.filter(has).filter((r) => (!p.compact || COMPACT.includes(r.id)) && (!p.paper || !ON_PAPER_ELSEWHERE.includes(r.id)));
   const way = (s: Slot) => state.designs[s].ways[idx[s]];
   const cells = (r: FigureRow) =>
     SLOTS.map((s) => {
@@ -140,13 +148,15 @@ export function FigureTable(p: { compact?: boolean }) {
             </td>
           ))}
         </tr>
-        <tr>
-          <th scope="row">Enclosure</th>
-          {SLOTS.map((s) => {
-            const w = way(s);
-            return <td class="n">{w.kind === 'driver' ? boxLabel(w.box.type) : 'flat band'}</td>;
-          })}
-        </tr>
+        {p.paper ? null : (
+          <tr>
+            <th scope="row">Enclosure</th>
+            {SLOTS.map((s) => {
+              const w = way(s);
+              return <td class="n">{w.kind === 'driver' ? boxLabel(w.box.type) : 'flat band'}</td>;
+            })}
+          </tr>
+        )}
         {pick(WAY_ROWS).map((r) => (
           <tr>
             <th scope="row">{r.label}</th>

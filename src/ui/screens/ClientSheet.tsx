@@ -264,7 +264,7 @@ export function ClientSheet() {
               ))}
             </tbody>
           </table>
-          <FigureTable />
+          <FigureTable paper />
         </section>
 
         <section class="paper-section paper-curves">
