@@ -12,7 +12,10 @@ import { setAt } from '../src/ui/paths.ts';
 import type { DesignDoc } from '../src/engine/design/document.ts';
 
 /** The woofer box (the first way) of a design, any box kind. */
-const boxOf = (d: DesignDoc | undefined) => (d?.ways[0] as { box: { type: string; vb_l: number } }).box;
+const boxOf = (d: DesignDoc | undefined) => {
+  if (!d) throw new Error('no design');
+  return (d.ways[0] as { box: { type: string; vb_l: number } }).box;
+};
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
