@@ -118,6 +118,8 @@ export default defineConfig(({ mode, command }) => {
       exclude: ['test/e2e/**', 'node_modules/**'],
       environment: 'node',
       testTimeout: 60_000,
+      // The CLI bundle that subprocess tests run (scripts/build-cli.mjs).
+      globalSetup: ['test/global-setup.ts'],
     },
   };
 });

@@ -1,15 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { runCli, spawnCli } from './helpers/cli.ts';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
-const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-cli-'));
 
 describe('preheard analyze', () => {
-  it('prints the JSON contract for an example', () => {
-    const r = cli('analyze', 'public/examples/living-room-vented.json', '--json');
+  it('prints the JSON contract for an example', async () => {
+    const r = await runCli('analyze', 'public/examples/living-room-vented.json', '--json');
     expect(r.status).toBe(0);
     const j = JSON.parse(r.stdout);
     for (const k of ['fs_hz', 'qes', 'qms', 'qts', 'vas_l', 're_ohm', 'bl_tm', 'mms_g', 'cms_mm_per_n', 'rms_kg_s', 'sd_cm2', 'eta0_pct']) {
@@ -25,21 +24,21 @@ describe('preheard analyze', () => {
     }
   });
 
-  it('gives fc and Qtc for a sealed box and honours --volts', () => {
-    const a = JSON.parse(cli('analyze', 'public/examples/living-room-sealed.json', '--json').stdout);
-    const b = JSON.parse(cli('analyze', 'public/examples/living-room-sealed.json', '--json', '--volts', '28.3').stdout);
+  it('gives fc and Qtc for a sealed box and honours --volts', async () => {
+    const a = JSON.parse((await runCli('analyze', 'public/examples/living-room-sealed.json', '--json')).stdout);
+    const b = JSON.parse((await runCli('analyze', 'public/examples/living-room-sealed.json', '--json', '--volts', '28.3')).stdout);
     expect(a.qtc).toBeGreaterThan(0.5);
     expect(b.passband_spl_db - a.passband_spl_db).toBeCloseTo(20, 1); // 10x the volts; figures are printed to 4 digits
   });
 
-  it('prints a readable table by default', () => {
-    const r = cli('analyze', 'public/examples/living-room-sealed.json');
+  it('prints a readable table by default', async () => {
+    const r = await runCli('analyze', 'public/examples/living-room-sealed.json');
     expect(r.status).toBe(0);
     expect(r.stdout).toMatch(/fc \/ Qtc/);
     expect(r.stdout).toMatch(/sensitivity/);
   });
 
-  it('exits 1 with a message for a missing file, bad JSON and an invalid design, printing nothing on stdout', () => {
+  it('exits 1 with a message for a missing file, bad JSON and an invalid design, printing nothing on stdout', async () => {
     const bad = join(dir, 'bad.json');
     writeFileSync(bad, '{"format": "preheard-design", ');
     const invalid = join(dir, 'invalid.json');
@@ -49,17 +48,26 @@ describe('preheard analyze', () => {
       [bad, /not valid JSON/],
       [invalid, /driver: is required/],
     ] as const) {
-      const r = cli('analyze', file, '--json');
+      const r = await runCli('analyze', file, '--json');
       expect(r.status).toBe(1);
       expect(r.stdout).toBe('');
       expect(r.stderr).toMatch(pattern);
     }
   });
 
-  it('exits 2 on usage errors', () => {
-    expect(cli('analyze').status).toBe(2);
-    expect(cli('analyze', 'a.json', '--volts', 'loud').status).toBe(2);
-    expect(cli('frobnicate').status).toBe(2);
-    expect(cli('analyze', '--help').status).toBe(0);
+  it('exits 2 on usage errors', async () => {
+    expect((await runCli('analyze')).status).toBe(2);
+    expect((await runCli('analyze', 'a.json', '--volts', 'loud')).status).toBe(2);
+    expect((await runCli('frobnicate')).status).toBe(2);
+    expect((await runCli('analyze', '--help')).status).toBe(0);
+  });
+
+  it('the built bundle exits with the same codes as a process', () => {
+    expect(spawnCli('analyze', 'public/examples/living-room-sealed.json', '--json').status).toBe(0);
+    expect(spawnCli('analyze', join(dir, 'nope.json')).status).toBe(1);
+    expect(spawnCli('frobnicate').status).toBe(2);
+    const help = spawnCli('--help');
+    expect(help.status).toBe(0);
+    expect(help.stdout).toMatch(/usage: preheard <command>/);
   });
 });

@@ -3,13 +3,12 @@
 // message and leave no output behind. WAV layout: the RIFF/WAVE format (Microsoft/IBM Multimedia
 // Programming Interface 1.0, 1991).
 import { describe, expect, it } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { runCli, spawnCli } from './helpers/cli.ts';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import wavefile from 'wavefile';
 
-const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8', timeout: 120_000 });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-render-'));
 const VENTED = 'public/examples/living-room-vented.json';
 const SEALED = 'public/examples/living-room-sealed.json';
@@ -32,10 +31,10 @@ const input = join(dir, 'in.wav');
 writeFileSync(input, wavBytes(2));
 
 describe('preheard render', () => {
-  it('writes a WAV of the same length and rate and prints the summary contract', () => {
+  it('writes a WAV of the same length and rate and prints the summary contract', async () => {
     const out = join(dir, 'out.wav');
     const events = join(dir, 'events.json');
-    const r = cli('render', VENTED, input, '-o', out, '--spl', '90', '--events', events, '--json');
+    const r = await runCli('render', VENTED, input, '-o', out, '--spl', '90', '--events', events, '--json');
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     const s = JSON.parse(r.stdout);
@@ -63,22 +62,30 @@ describe('preheard render', () => {
     expect(ch[0].length).toBe(88200);
     expect(JSON.parse(readFileSync(events, 'utf8'))).toEqual(s.events);
   });
-  it('twice the volts gives 6 dB more drive and more excursion; --linear and --residual are accepted', () => {
-    const a = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'a.wav'), '--volts', '5', '--json').stdout);
-    const b = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'b.wav'), '--volts', '10', '--json', '--residual').stdout);
+  it('twice the volts gives 6 dB more drive and more excursion; --linear and --residual are accepted', async () => {
+    const a = JSON.parse((await runCli('render', SEALED, input, '-o', join(dir, 'a.wav'), '--volts', '5', '--json')).stdout);
+    const b = JSON.parse((await runCli('render', SEALED, input, '-o', join(dir, 'b.wav'), '--volts', '10', '--json', '--residual')).stdout);
     expect(b.spl_db - a.spl_db).toBeCloseTo(6.02, 1);
     expect(b.peak_excursion_mm).toBeGreaterThan(a.peak_excursion_mm * 1.8);
-    expect(cli('render', SEALED, input, '-o', join(dir, 'c.wav'), '--linear').status).toBe(0);
+    expect((await runCli('render', SEALED, input, '-o', join(dir, 'c.wav'), '--linear')).status).toBe(0);
   });
-  it('exits 2 on usage errors', () => {
-    expect(cli('render', VENTED, input).status).toBe(2);
-    expect(cli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--volts', '1', '--spl', '80').status).toBe(2);
-    expect(cli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--linear', '--residual').status).toBe(2);
+  it('exits 2 on usage errors', async () => {
+    expect((await runCli('render', VENTED, input)).status).toBe(2);
+    expect((await runCli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--volts', '1', '--spl', '80')).status).toBe(2);
+    expect((await runCli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--linear', '--residual')).status).toBe(2);
+    expect(spawnCli('render', VENTED, input).status).toBe(2);
+    const bad = join(dir, 'bad-subprocess.wav');
+    writeFileSync(bad, new Uint8Array(10));
+    const r = spawnCli('render', VENTED, bad, '-o', join(dir, 'never.wav'));
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/not a WAV file/);
+    expect(existsSync(join(dir, 'never.wav'))).toBe(false);
   });
 
   const good = wavBytes(0.2, 44100, 1);
   const truncated = good.slice(0, good.length - 1000);
-  const notRiff = new TextEncoder().encode('ID3\u0003this is an mp3 file, honestly......................');
+  const notRiff = new TextEncoder().encode('PK\u0003\u0004this is a zip file, honestly......................');
+  const fakeMp3 = new TextEncoder().encode('ID3\u0003\u0000\u0000\u0000\u0000\u0000\u0000this is not an mp3 file......................');
   const mulaw = good.slice();
   new DataView(mulaw.buffer).setUint16(20, 7, true); // format code 7: mu-law
   const pcm8 = wavBytes(0.1, 8000, 1);
@@ -92,6 +99,7 @@ describe('preheard render', () => {
   const cases: [string, Uint8Array, RegExp][] = [
     ['truncated', truncated, /truncated/],
     ['not RIFF', notRiff, /not a WAV file/],
+    ['an MP3 tag over no audio', fakeMp3, /not a valid MP3 file/],
     ['unsupported codec', mulaw, /format code 7 is not supported/],
     ['unsupported bit depth', pcm8, /8-bit PCM is not supported|block align/],
     ['zero length', zero, /zero length/],
@@ -100,12 +108,12 @@ describe('preheard render', () => {
     ['empty file', new Uint8Array(0), /empty/],
   ];
   for (const [name, bytes, pattern] of cases) {
-    it(`bad input (${name}) exits 1 with a message and leaves no output`, () => {
+    it(`bad input (${name}) exits 1 with a message and leaves no output`, async () => {
       const sub = mkdtempSync(join(dir, 'bad-'));
       const inp = join(sub, 'in.wav');
       writeFileSync(inp, bytes);
       const out = join(sub, 'out.wav');
-      const r = cli('render', VENTED, inp, '-o', out);
+      const r = await runCli('render', VENTED, inp, '-o', out);
       expect(r.status).toBe(1);
       expect(r.stderr).toMatch(pattern);
       expect(existsSync(out)).toBe(false);
@@ -115,22 +123,25 @@ describe('preheard render', () => {
 });
 
 describe('preheard headroom and compare', () => {
-  it('headroom: rendering at clean_volts gives no event, 0.5 dB above gives one', () => {
-    const r = cli('headroom', SEALED, input, '--json');
+  it('headroom: rendering at clean_volts gives no event, 0.5 dB above gives one', async () => {
+    const r = await runCli('headroom', SEALED, input, '--json');
     expect(r.status).toBe(0);
     const h = JSON.parse(r.stdout);
-    expect(Object.keys(h).sort()).toEqual(['clean_spl_db', 'clean_volts', 'first_limit', 'first_limit_s']);
-    const at = JSON.parse(cli('render', SEALED, input, '-o', join(dir, 'h0.wav'), '--volts', String(h.clean_volts), '--json').stdout);
+    expect(Object.keys(h).sort()).toEqual(['clean_spl_db', 'clean_volts', 'first_limit', 'first_limit_s', 'first_limit_way']);
+    const at = JSON.parse(
+      (await runCli('render', SEALED, input, '-o', join(dir, 'h0.wav'), '--volts', String(h.clean_volts), '--json')).stdout,
+    );
     const above = JSON.parse(
-      cli('render', SEALED, input, '-o', join(dir, 'h1.wav'), '--volts', String(h.clean_volts * 10 ** (0.5 / 20)), '--json').stdout,
+      (await runCli('render', SEALED, input, '-o', join(dir, 'h1.wav'), '--volts', String(h.clean_volts * 10 ** (0.5 / 20)), '--json'))
+        .stdout,
     );
     expect(at.events).toHaveLength(0);
     expect(above.events.length).toBeGreaterThan(0);
     expect(above.events.map((e: { kind: string }) => e.kind)).toContain(h.first_limit);
   });
-  it('compare --json gives a and b summaries and writes both files', () => {
+  it('compare --json gives a and b summaries and writes both files', async () => {
     const prefix = join(dir, 'cmp');
-    const r = cli('compare', SEALED, VENTED, input, '-o', prefix, '--spl', '85', '--json');
+    const r = await runCli('compare', SEALED, VENTED, input, '-o', prefix, '--spl', '85', '--json');
     expect(r.status).toBe(0);
     const j = JSON.parse(r.stdout);
     for (const side of [j.a, j.b]) {

@@ -1,12 +1,11 @@
 import { describe, expect, it, beforeAll } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { runCli, spawnCli } from './helpers/cli.ts';
 import { mkdtempSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { writeWav } from '../src/cli/wav.ts';
 import { parseRange } from '../src/cli/sweep.ts';
 
-const cli = (...args: string[]) => spawnSync(process.execPath, ['src/cli/preheard.mjs', ...args], { encoding: 'utf8' });
 const dir = mkdtempSync(join(tmpdir(), 'preheard-sweep-'));
 const wav = join(dir, 'burst.wav');
 
@@ -19,14 +18,14 @@ beforeAll(async () => {
 });
 
 describe('preheard sweep', () => {
-  it('parses FROM:TO:STEP inclusively', () => {
+  it('parses FROM:TO:STEP inclusively', async () => {
     expect(parseRange('20:60:5', '--vb', 0.05, 20000)).toEqual([20, 25, 30, 35, 40, 45, 50, 55, 60]);
     expect(parseRange('30:31:0.5', '--fb', 5, 500)).toEqual([30, 30.5, 31]);
   });
 
-  it('gives the same rows on one thread as on several, one row per volume', () => {
-    const one = cli('sweep', 'public/examples/living-room-vented.json', wav, '--vb', '14:26:6', '--json', '--threads', '1');
-    const two = cli(
+  it('gives the same rows on one thread as on several (worker threads of the bundle), one row per volume', async () => {
+    const one = await runCli('sweep', 'public/examples/living-room-vented.json', wav, '--vb', '14:26:6', '--json', '--threads', '1');
+    const two = spawnCli(
       'sweep',
       'public/examples/living-room-vented.json',
       wav,
@@ -36,6 +35,7 @@ describe('preheard sweep', () => {
       '--threads',
       String(Math.min(2, availableParallelism())),
     );
+    expect(two.status).toBe(0);
     expect(one.status).toBe(0);
     expect(two.stdout).toBe(one.stdout);
     const rows = JSON.parse(one.stdout).steps;
@@ -45,9 +45,9 @@ describe('preheard sweep', () => {
     for (const r of rows) expect(r.error).toBeNull();
   });
 
-  it('refuses --fb on a sealed design (exit 1) and malformed ranges (exit 2)', () => {
-    expect(cli('sweep', 'public/examples/living-room-sealed.json', wav, '--fb', '30:40:5').status).toBe(1);
-    expect(cli('sweep', 'public/examples/living-room-sealed.json', wav, '--vb', '40:20:5').status).toBe(2);
-    expect(cli('sweep', 'public/examples/living-room-sealed.json', wav).status).toBe(2);
+  it('refuses --fb on a sealed design (exit 1) and malformed ranges (exit 2)', async () => {
+    expect((await runCli('sweep', 'public/examples/living-room-sealed.json', wav, '--fb', '30:40:5')).status).toBe(1);
+    expect((await runCli('sweep', 'public/examples/living-room-sealed.json', wav, '--vb', '40:20:5')).status).toBe(2);
+    expect((await runCli('sweep', 'public/examples/living-room-sealed.json', wav)).status).toBe(2);
   });
 });

@@ -4,13 +4,13 @@ import { describe, expect, it } from 'vitest';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { renderBuffer } from '../src/engine/render/index.ts';
 import { analyze } from '../src/engine/response/analyze.ts';
-import { doc } from './helpers/designs.ts';
+import { doc, type V1Doc } from './helpers/designs.ts';
 import type { DesignDoc } from '../src/engine/design/document.ts';
 
 const tone = (sr: number, seconds: number, hz: number, amp = 0.5) =>
   Float32Array.from({ length: Math.max(1, Math.round(sr * seconds)) }, (_, k) => amp * Math.sin((2 * Math.PI * hz * k) / sr));
 
-function check(d: DesignDoc, channels: Float32Array[], sr: number) {
+function check(d: DesignDoc | V1Doc, channels: Float32Array[], sr: number) {
   const parsed = parseDesign(d);
   if (!parsed.ok) {
     expect(parsed.errors[0].message.length).toBeGreaterThan(5);

@@ -4,7 +4,8 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { renderBuffer } from '../src/engine/render/index.ts';
-import type { BoxDoc, DesignDoc } from '../src/engine/design/document.ts';
+import type { BoxDoc } from '../src/engine/design/document.ts';
+import type { V1Doc } from './helpers/designs.ts';
 import { FUZZ_SEED, runs } from './helpers/fuzz.ts';
 
 const box: fc.Arbitrary<BoxDoc> = fc.oneof(
@@ -34,7 +35,7 @@ const box: fc.Arbitrary<BoxDoc> = fc.oneof(
   }),
 );
 
-const design: fc.Arbitrary<DesignDoc> = fc.record({
+const design: fc.Arbitrary<V1Doc> = fc.record({
   format: fc.constant('preheard-design' as const),
   version: fc.constant(1 as const),
   name: fc.string({ maxLength: 20 }),

@@ -5,7 +5,7 @@
 import { describe, it } from 'vitest';
 import fc from 'fast-check';
 import { createRenderer, renderBuffer } from '../src/engine/render/index.ts';
-import { radiatorBox, sealedBox, system, ventedBox } from './sim-fixtures.ts';
+import { radiatorBox, sealedBox, system, ventedBox, wooferOf } from './sim-fixtures.ts';
 
 const design = fc.record({
   box: fc.constantFrom('sealed', 'vented', 'passive-radiator'),
@@ -70,7 +70,7 @@ describe('renderer properties (fast-check)', () => {
         r.process([zeros], [tail], zeros.length);
         const { sim } = r.lane(0);
         return (
-          Math.abs(sim.x) < 1e-4 * sys.driver.xmax &&
+          Math.abs(sim.x) < 1e-4 * wooferOf(sys).driver.xmax &&
           Math.abs(sim.v) < 1e-3 &&
           Math.abs(sim.i) < 1e-3 &&
           Math.abs(tail[tail.length - 1]) < 1e-6

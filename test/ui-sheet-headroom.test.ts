@@ -66,6 +66,7 @@ describe('Headroom probe worker code = preheard headroom', () => {
         clean_volts: res.clean_volts,
         clean_spl_db: res.clean_spl_db,
         first_limit: res.first_limit,
+        first_limit_way: res.first_limit_way,
         first_limit_s: res.first_limit_s,
       }).toEqual(ref[i]);
       expect(calls.length).toBe(res.renders);

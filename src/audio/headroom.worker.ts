@@ -19,6 +19,8 @@ export interface HeadroomResult {
   clean_volts: number;
   clean_spl_db: number;
   first_limit: string | null;
+  /** The way whose limit it is (null: the summed output, or no limit). */
+  first_limit_way?: string | null;
   first_limit_s: number | null;
   renders: number;
 }
@@ -56,6 +58,7 @@ export function probeHeadroom(
     clean_volts: h.clean_volts,
     clean_spl_db: h.clean_spl_db,
     first_limit: h.first_limit,
+    first_limit_way: h.first_limit_way,
     first_limit_s: h.first_limit_s,
     renders: h.renders,
   };

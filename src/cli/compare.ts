@@ -1,12 +1,11 @@
 // preheard compare: two designs through the same calibration, passband levels matched.
 import { analyze } from '../engine/response/analyze.ts';
-import { findHeadroom, renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
+import { findHeadroom, passbandPaPerV, renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
-import { wooferParams } from '../engine/sim/params.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
-import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progressCounter, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 import { printable } from './user-text.ts';
 
@@ -16,6 +15,7 @@ Renders the track through both designs with one calibration and writes <prefix>-
 <prefix>-b.wav. By default B's output is scaled so both passbands play equally loud, so the ear
 judges bass and overload rather than loudness. Prints what differs: f3, bass at 30/40/50 Hz,
 the first limit and when, stress events per design and each design's headroom on this track.
+${INPUT_HELP}
 
 ${LEVEL_HELP}
   --no-match  keep B at its own level (same calibration factor as A)
@@ -103,8 +103,8 @@ export const compareCommand: Command = {
         const vb = resolveVolts(B.system, channels, sampleRate, level).volts;
         checkVolts(va, A.system);
         checkVolts(vb, B.system);
-        const passA = wooferParams(A.system, 1 / sampleRate).passbandPaPerV * va;
-        const passB = wooferParams(B.system, 1 / sampleRate).passbandPaPerV * vb;
+        const passA = passbandPaPerV(A.system) * va;
+        const passB = passbandPaPerV(B.system) * vb;
         // One calibration: A's default; matching scales B so the passbands come out equal.
         const paA = 2 * passA;
         const paB = values['no-match'] ? paA : paA * (passB / passA);
@@ -121,7 +121,10 @@ export const compareCommand: Command = {
           });
           rendered.push(res.audio);
           const fig = bassRelative(d.system);
-          sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom: findHeadroom(d.system, channels, sampleRate) });
+          const progress = progressCounter(`finding headroom ${tag}`, 'render');
+          const headroom = findHeadroom(d.system, channels, sampleRate, { onRender: progress?.tick });
+          progress?.done();
+          sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom });
         }
       } catch (e) {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);

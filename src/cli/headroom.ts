@@ -2,15 +2,17 @@
 import { findHeadroom } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
-import { readInputAudio } from './render-common.ts';
+import { INPUT_HELP, progressCounter, readInputAudio } from './render-common.ts';
 
 const HELP = `usage: preheard headroom <design.json> <in.wav> [--json]
 
-Finds the highest drive at which the design plays this track without any stress event
-(excursion, end stop, coil temperature, port speed, amplifier clipping, compression, distortion),
-by bisection to 0.25 dB, and names the limit that arrives first above it.
+Finds the highest drive at which the design plays this track without any stress event in any
+way (excursion, end stop, coil temperature, port speed, amplifier clipping, compression) or in
+the sum (distortion), by bisection to 0.25 dB, and names the limit that arrives first above it
+and the way it belongs to.
+${INPUT_HELP}
 
-  --json   print {clean_volts, clean_spl_db, first_limit, first_limit_s}
+  --json   print {clean_volts, clean_spl_db, first_limit, first_limit_way, first_limit_s}
   --help   this text
 
 clean_volts is in the sense of render --volts: peak amplifier volts per full-scale sample.
@@ -36,18 +38,26 @@ export const headroomCommand: Command = {
       const audio = await readInputAudio(inPath);
       let h: ReturnType<typeof findHeadroom>;
       try {
-        h = findHeadroom(system, audio.channels, audio.sampleRate);
+        const progress = progressCounter('finding headroom', 'render');
+        h = findHeadroom(system, audio.channels, audio.sampleRate, { onRender: progress?.tick });
+        progress?.done();
       } catch (e) {
         if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
-      const out = { clean_volts: h.clean_volts, clean_spl_db: h.clean_spl_db, first_limit: h.first_limit, first_limit_s: h.first_limit_s };
+      const out = {
+        clean_volts: h.clean_volts,
+        clean_spl_db: h.clean_spl_db,
+        first_limit: h.first_limit,
+        first_limit_way: h.first_limit_way,
+        first_limit_s: h.first_limit_s,
+      };
       if (values.json) process.stdout.write(`${JSON.stringify(out)}\n`);
       else {
         process.stdout.write(
           `clean up to        ${h.clean_volts} V per full scale (${h.clean_spl_db} dB(C) Leq at the seat)\n` +
             (h.first_limit
-              ? `first limit above  ${h.first_limit} at ${h.first_limit_s} s\n`
+              ? `first limit above  ${h.first_limit}${h.first_limit_way ? ` (${h.first_limit_way})` : ''} at ${h.first_limit_s} s\n`
               : `no limit reached up to ${h.clean_volts} V per full scale, the highest drive tried\n`),
         );
       }

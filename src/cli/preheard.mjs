@@ -1,7 +1,7 @@
 #!/usr/bin/env node
-// The package's bin: loads the TypeScript CLI through tsx so it runs right after `npm ci`.
+// Runs the CLI from its TypeScript source through tsx, without a build: for development. The
+// package's bin is the bundle, build/cli/preheard.mjs (see scripts/build-cli.mjs).
 import { register } from 'tsx/esm/api';
 
 register();
-const { main } = await import('./main.ts');
-process.exitCode = await main(process.argv.slice(2));
+await import('./bin.ts');

@@ -1,9 +1,15 @@
 // Shared by render, compare and headroom: reading the inputs, the level options, progress.
 import type { SpeakerSystem } from '../engine/system.ts';
 import { InputError, parseNumberOption, UsageError } from './command.ts';
-import { readWav, type WavAudio } from './wav.ts';
 import { printable } from './user-text.ts';
 import { checkReadable } from './output-files.ts';
+import { INPUT_FORMATS, readAudioInput } from './audio-input.ts';
+import { progressBar } from './progress.ts';
+import type { WavAudio } from './wav.ts';
+
+export { progressBar, progressCounter } from './progress.ts';
+
+export const INPUT_HELP = `The input may be ${INPUT_FORMATS}.`;
 
 export const LEVEL_HELP = `  --volts V   amplifier peak volts for a digital full-scale sample (0.01 to 5000)
   --spl DB    long-term average C-weighted SPL at the design's listening seat (40 to 140 dB)
@@ -17,19 +23,12 @@ export function levelOptions(values: { volts?: string; spl?: string }): { voltsF
   };
 }
 
+/** Reads any supported audio file; its warnings go to stderr. */
 export async function readInputAudio(path: string): Promise<WavAudio> {
   await checkReadable(path, 'audio file');
-  return readWav(path);
-}
-
-/** A progress bar on stderr, only when stderr is a terminal. */
-export function progressBar(label: string): ((fraction: number) => void) | undefined {
-  if (!process.stderr.isTTY) return undefined;
-  return (f: number) => {
-    const width = 30;
-    const done = Math.round(f * width);
-    process.stderr.write(`\r${label} [${'#'.repeat(done)}${' '.repeat(width - done)}] ${Math.round(f * 100)}%${f >= 1 ? '\n' : ''}`);
-  };
+  const audio = await readAudioInput(path, progressBar('reading'));
+  for (const w of audio.warnings ?? []) process.stderr.write(`  warning: ${printable(w)}\n`);
+  return audio;
 }
 
 /** The rendered volts must stay within what the model accepts. */

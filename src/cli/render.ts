@@ -3,15 +3,17 @@ import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
-import { checkVolts, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
 
-Plays a WAV file through the design's modelled woofer, box and amplifier (the band above the
-crossover on a flat path) and writes the sound at the listening seat, scaled by one calibration
-factor and kept under 0 dBFS by a true-peak guard.
+Plays an audio file through every way of the design (its filter, its own amplifier channel, its
+driver in its box; a flat way as an ideal band), sums the ways at the listening seat and writes
+the sound there, scaled by one calibration factor and kept under 0 dBFS by a true-peak guard.
+The peaks are the first driver way's; with more than one, each way's follow.
+${INPUT_HELP}
 
 ${LEVEL_HELP}
   --linear      write the linear (small-signal) version of the same design instead
@@ -42,12 +44,26 @@ export function summaryLines(s: RenderSummary): string[] {
     `true-peak guard    ${s.limiter_db > 0 ? `${s.limiter_db} dB of gain reduction` : 'did not act'}`,
     `realtime factor    ${s.realtime_factor}x`,
   );
+  if (s.ways.length > 1) {
+    for (const w of s.ways) {
+      const outlet =
+        w.peak_port_speed_m_s !== null
+          ? `, port ${w.peak_port_speed_m_s} m/s`
+          : w.peak_radiator_mm !== null
+            ? `, radiator ${w.peak_radiator_mm} mm`
+            : '';
+      lines.push(
+        `way ${w.name.padEnd(14)} ${w.peak_excursion_mm} mm${outlet}, coil ${w.peak_coil_temp_c} °C, clipping ${w.amp_clip_s} s, compression ${w.max_compression_db} dB`,
+      );
+    }
+  }
+  const named = (e: RenderSummary['events'][number]) => (s.ways.length > 1 && e.way ? `${e.way}: ${e.kind}` : e.kind);
   const byKind = new Map<string, number>();
-  for (const e of s.events) byKind.set(e.kind, (byKind.get(e.kind) ?? 0) + 1);
+  for (const e of s.events) byKind.set(named(e), (byKind.get(named(e)) ?? 0) + 1);
   lines.push(`stress events      ${s.events.length === 0 ? 'none' : [...byKind].map(([k, n]) => `${k} ×${n}`).join(', ')}`);
   for (const e of s.events.slice(0, 12)) {
     lines.push(
-      `  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${e.kind.padEnd(18)} peak ${e.peak} ${e.unit} (limit ${e.limit})`,
+      `  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${named(e).padEnd(18)} peak ${e.peak} ${e.unit} (limit ${e.limit})`,
     );
   }
   if (s.events.length > 12) lines.push(`  ... ${s.events.length - 12} more (use --events FILE or --json)`);
@@ -56,7 +72,7 @@ export function summaryLines(s: RenderSummary): string[] {
 
 export const renderCommand: Command = {
   name: 'render',
-  summary: 'play a WAV file through a design at a calibrated level',
+  summary: 'play an audio file through a design at a calibrated level',
   run: (argv) =>
     runGuarded('render', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

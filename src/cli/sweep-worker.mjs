@@ -1,11 +1,6 @@
-// Worker thread for `preheard sweep`: loads the TypeScript step through tsx, answers one step per message.
-import { parentPort, workerData } from 'node:worker_threads';
+// Worker thread for `preheard sweep` run from source: loads the TypeScript body through tsx. The
+// bundle has its own build/cli/sweep-worker.mjs, built from sweep-thread.ts, beside preheard.mjs.
 import { register } from 'tsx/esm/api';
 
 register();
-const { sweepStep } = await import('./sweep-step.ts');
-const channels = workerData.channels.map((sab) => new Float32Array(sab));
-parentPort.on('message', (msg) => {
-  parentPort.postMessage({ index: msg.index, row: sweepStep(workerData.design, msg.point, channels, workerData.sampleRate) });
-});
-parentPort.postMessage({ ready: true });
+await import('./sweep-thread.ts');

@@ -4,7 +4,7 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { loadDesignFile } from './design-file.ts';
-import { readInputAudio } from './render-common.ts';
+import { INPUT_HELP, progressBar, readInputAudio } from './render-common.ts';
 import type { SweepPoint, SweepRow } from './sweep-step.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
@@ -18,6 +18,7 @@ const HELP = `usage: preheard sweep <design.json> <in.wav> [--vb FROM:TO:STEP] [
 For each box volume (litres) and/or tuning (Hz, vented boxes) in the ranges, prints f3, the
 highest clean level on this track (dB SPL at the seat and amplifier volts per full scale) and the
 limit that arrives first. Both ranges together sweep every combination.
+${INPUT_HELP}
 
   --vb FROM:TO:STEP   net box volumes, litres, e.g. 20:60:5
   --fb FROM:TO:STEP   tunings, Hz (vented only), e.g. 30:50:2.5
@@ -48,6 +49,7 @@ function runPool(
   channels: Float32Array[],
   sampleRate: number,
   threads: number,
+  onProgress?: (fraction: number) => void,
 ): Promise<SweepRow[]> {
   // The audio is shared, not copied, with every worker.
   const shared = channels.map((ch) => {
@@ -77,7 +79,9 @@ function runPool(
       w.on('message', (msg: { ready?: boolean; index?: number; row?: SweepRow }) => {
         if (msg.ready) return feed();
         rows[msg.index!] = msg.row!;
-        if (++done === points.length) finish();
+        done++;
+        onProgress?.(done / points.length);
+        if (done === points.length) finish();
         else feed();
       });
       w.on('error', (e) => finish(e));
@@ -138,7 +142,7 @@ export const sweepCommand: Command = {
         );
       const points = vbs.flatMap((vb_l) => fbs.map((fb_hz) => ({ vb_l, fb_hz })));
       const audio = await readInputAudio(positionals[1]);
-      const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads);
+      const rows = await runPool(design, points, audio.channels, audio.sampleRate, threads, progressBar('sweeping'));
       process.stdout.write(values.json ? JSON.stringify({ steps: rows }) + '\n' : table(rows, design.box.type === 'vented'));
       return EXIT_OK;
     }),

@@ -1,10 +1,15 @@
-// WAV in and out for the CLI (wavefile does the coding). The header is checked here first, so a
-// bad file gives a clear message instead of a crash, a hang or a huge allocation. Output goes to a
-// temporary name in the same folder and is renamed into place only when complete.
-import { readFile, rename, unlink, writeFile, stat } from 'node:fs/promises';
+// WAV in and out for the CLI, through typed arrays over blocks of the file's bytes. The header is
+// walked and checked first (chunk by chunk, by position, so neither a huge file nor a huge declared
+// chunk is ever read whole), and the decoder then uses exactly the header the check returned. Memory:
+// the decoded channels plus one block. Output goes to a temporary name in the same folder and is
+// renamed into place only when complete. WAV layout: the RIFF/WAVE format (Microsoft/IBM Multimedia
+// Programming Interface and Data Specifications 1.0, 1991).
+import { closeSync, openSync, renameSync, unlinkSync, writeSync } from 'node:fs';
+import { rename, unlink, writeFile } from 'node:fs/promises';
 import { dirname, basename, join } from 'node:path';
-import wavefile from 'wavefile';
 import { InputError } from './command.ts';
+import { checkFloatRange } from './float-range.ts';
+import { checkInputLength, openInput } from './input-file.ts';
 
 export type WavFormat = '16' | '24' | 'f32';
 
@@ -12,73 +17,103 @@ export interface WavAudio {
   sampleRate: number;
   channels: Float32Array[];
   format: WavFormat;
+  /** Things the user should know about the input that did not stop the reading. */
+  warnings?: string[];
 }
 
-/** Longest input accepted: 4 GiB is the RIFF limit anyway; we stop at 2 GiB (a 3-hour 96 kHz stereo float file). */
-export const MAX_WAV_BYTES = 2 ** 31;
 export const MAX_CHANNELS = 8;
+/** Chunks before the audio: real files have a handful; a file of tiny chunks must not keep us walking. */
+const MAX_CHUNKS = 10_000;
+/** Bytes per read or write block: large enough for full disk speed, small beside the audio. */
+const BLOCK_BYTES = 1 << 22;
 
 const FORMAT_PCM = 1;
 const FORMAT_FLOAT = 3;
 const FORMAT_EXTENSIBLE = 0xfffe;
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
 
-interface Header {
-  formatTag: number;
+/** What the decoder needs, exactly as checked. */
+export interface WavHeader {
+  formatTag: typeof FORMAT_PCM | typeof FORMAT_FLOAT;
   channels: number;
   sampleRate: number;
-  bits: number;
+  bits: 16 | 24 | 32;
   blockAlign: number;
-  dataBytes: number;
-  /** Offset just past the data chunk: later chunks are not needed and not trusted. */
-  dataEnd: number;
+  /** File offset of the first sample. */
+  dataOffset: number;
+  /** Whole frames only. */
+  frames: number;
 }
 
-/** Walks the RIFF chunks; throws InputError naming what is wrong. */
-export function checkWavHeader(bytes: Uint8Array, name: string): Header {
+/** Random access to the bytes of a file or of a buffer. */
+interface ByteSource {
+  size: number;
+  /** Up to `length` bytes from `offset` (fewer at the end). */
+  read(offset: number, length: number): Uint8Array;
+}
+
+const printable = (s: string) => s.replace(/[^\x20-\x7e]/g, '?');
+
+/** Walks the RIFF chunks of a WAV file; throws InputError naming what is wrong. */
+function walkWavHeader(src: ByteSource, name: string): WavHeader {
   const fail = (msg: string): never => {
     throw new InputError(`${name}: ${msg}`);
   };
-  if (bytes.length === 0) fail('the file is empty');
-  if (bytes.length < 12) fail(`only ${bytes.length} bytes: too short for a WAV header (12 bytes at least)`);
-  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  const tag = (o: number) => String.fromCharCode(bytes[o], bytes[o + 1], bytes[o + 2], bytes[o + 3]);
-  if (tag(0) !== 'RIFF') fail(`not a WAV file: it starts with "${tag(0).replace(/[^\x20-\x7e]/g, '?')}", not "RIFF"`);
-  if (tag(8) !== 'WAVE') fail(`a RIFF file but not WAVE (form type "${tag(8).replace(/[^\x20-\x7e]/g, '?')}")`);
+  const size = src.size;
+  if (size === 0) fail('the file is empty');
+  if (size < 12) fail(`only ${size} bytes: too short for a WAV header (12 bytes at least)`);
+  const tag = (b: Uint8Array, o: number) => String.fromCharCode(b[o], b[o + 1], b[o + 2], b[o + 3]);
+  const u32 = (b: Uint8Array, o: number) => (b[o] | (b[o + 1] << 8) | (b[o + 2] << 16) | (b[o + 3] << 24)) >>> 0;
+  const u16 = (b: Uint8Array, o: number) => b[o] | (b[o + 1] << 8);
+  const riff = src.read(0, 12);
+  if (tag(riff, 0) !== 'RIFF') fail(`not a WAV file: it starts with "${printable(tag(riff, 0))}", not "RIFF"`);
+  if (tag(riff, 8) !== 'WAVE') fail(`a RIFF file but not WAVE (form type "${printable(tag(riff, 8))}")`);
   let o = 12;
-  let fmt: Omit<Header, 'dataBytes' | 'dataEnd'> | null = null;
+  let chunks = 0;
+  let fmt: Omit<WavHeader, 'dataOffset' | 'frames' | 'formatTag' | 'bits'> & { formatTag: number; bits: number } = null!;
+  let dataOffset = -1;
   let dataBytes = -1;
-  while (o + 8 <= bytes.length) {
-    const id = tag(o);
-    const size = view.getUint32(o + 4, true);
+  while (o + 8 <= size) {
+    if (++chunks > MAX_CHUNKS) fail(`more than ${MAX_CHUNKS} chunks before the audio: not a usable WAV file`);
+    const head = src.read(o, 8);
+    const id = tag(head, 0);
+    const chunkSize = u32(head, 4);
     const body = o + 8;
     if (id === 'fmt ') {
-      if (size < 16) fail(`the fmt chunk is ${size} bytes, at least 16 expected`);
-      if (body + 16 > bytes.length) fail('truncated inside the fmt chunk');
-      let formatTag = view.getUint16(body, true);
-      const channels = view.getUint16(body + 2, true);
-      const sampleRate = view.getUint32(body + 4, true);
-      const blockAlign = view.getUint16(body + 12, true);
-      const bits = view.getUint16(body + 14, true);
+      // Two descriptions of the audio would leave it to chance which one a program believes.
+      if (fmt) fail('two fmt chunks: the file describes its audio twice');
+      if (chunkSize < 16) fail(`the fmt chunk is ${chunkSize} bytes, at least 16 expected`);
+      const b = src.read(body, Math.min(chunkSize, 40));
+      if (b.length < 16) fail('truncated inside the fmt chunk');
+      let formatTag = u16(b, 0);
       if (formatTag === FORMAT_EXTENSIBLE) {
-        if (size < 40 || body + 26 > bytes.length) fail('an extensible fmt chunk shorter than 40 bytes');
-        formatTag = view.getUint16(body + 24, true);
+        if (chunkSize < 40 || b.length < 26) fail('an extensible fmt chunk shorter than 40 bytes');
+        formatTag = u16(b, 24);
       }
-      fmt = { formatTag, channels, sampleRate, bits, blockAlign };
+      fmt = { formatTag, channels: u16(b, 2), sampleRate: u32(b, 4), blockAlign: u16(b, 12), bits: u16(b, 14) };
     } else if (id === 'data') {
       if (!fmt) fail('the data chunk comes before the fmt chunk');
-      dataBytes = size;
-      if (body + size > bytes.length) {
-        fail(`truncated: the data chunk declares ${size} bytes but only ${bytes.length - body} follow`);
-      }
-      break;
+      if (chunkSize > size - body) fail(`truncated: the data chunk declares ${chunkSize} bytes but only ${size - body} follow`);
+      dataOffset = body;
+      dataBytes = chunkSize;
     }
-    if (size > bytes.length - body)
-      fail(`the "${id.replace(/[^\x20-\x7e]/g, '?')}" chunk declares ${size} bytes, more than the ${bytes.length - body} left in the file`);
-    o = body + size + (size & 1);
+    if (chunkSize > size - body)
+      fail(`the "${printable(id)}" chunk declares ${chunkSize} bytes, more than the ${size - body} left in the file`);
+    o = body + chunkSize + (chunkSize & 1);
+    if (dataOffset >= 0) break;
   }
   if (!fmt) fail('no fmt chunk: not a usable WAV file');
-  if (dataBytes < 0) fail('no data chunk: the file has no audio');
-  const f = fmt!;
+  if (dataOffset < 0) fail('no data chunk: the file has no audio');
+  // Chunks after the audio are not used, but a second description of it is still refused. Trailing
+  // bytes that are not chunks end the look quietly: many writers leave some.
+  for (let k = 0; o + 8 <= size && k < MAX_CHUNKS; k++) {
+    const head = src.read(o, 8);
+    if (tag(head, 0) === 'fmt ') fail('two fmt chunks: the file describes its audio twice');
+    const chunkSize = u32(head, 4);
+    if (chunkSize > size - o - 8) break;
+    o += 8 + chunkSize + (chunkSize & 1);
+  }
+  const f = fmt;
   const supported = (f.formatTag === FORMAT_PCM && (f.bits === 16 || f.bits === 24)) || (f.formatTag === FORMAT_FLOAT && f.bits === 32);
   if (!supported) {
     const kind =
@@ -95,70 +130,180 @@ export function checkWavHeader(bytes: Uint8Array, name: string): Header {
     fail(`block align ${f.blockAlign} does not match ${f.channels} channels of ${f.bits} bits`);
   if (dataBytes === 0) fail('zero length: the data chunk holds no samples');
   if (dataBytes < f.blockAlign) fail(`the data chunk (${dataBytes} bytes) is shorter than one frame`);
-  return { ...f, dataBytes: dataBytes - (dataBytes % f.blockAlign), dataEnd: o + 8 + dataBytes };
+  return {
+    formatTag: f.formatTag as WavHeader['formatTag'],
+    channels: f.channels,
+    sampleRate: f.sampleRate,
+    bits: f.bits as WavHeader['bits'],
+    blockAlign: f.blockAlign,
+    dataOffset,
+    frames: Math.floor(dataBytes / f.blockAlign),
+  };
 }
 
-export async function readWav(path: string): Promise<WavAudio> {
-  let info: Awaited<ReturnType<typeof stat>>;
-  try {
-    info = await stat(path);
-  } catch (e) {
-    throw new InputError(`cannot read ${path}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
-  }
-  if (!info.isFile()) throw new InputError(`${path} is not a file`);
-  if (info.size > MAX_WAV_BYTES) throw new InputError(`${path}: ${info.size} bytes is larger than the ${MAX_WAV_BYTES} bytes accepted`);
-  const bytes = new Uint8Array(await readFile(path));
-  const h = checkWavHeader(bytes, path);
-  let wav: InstanceType<typeof wavefile.WaveFile>;
-  try {
-    wav = new wavefile.WaveFile(bytes.subarray(0, h.dataEnd));
-  } catch (e) {
-    throw new InputError(`${path}: cannot decode: ${(e as Error).message}`);
-  }
-  const raw = wav.getSamples(false, Float32Array) as unknown as Float32Array | Float32Array[];
-  const chans = h.channels === 1 ? [raw as Float32Array] : (raw as Float32Array[]);
-  const frames = h.dataBytes / h.blockAlign;
-  const scale = h.formatTag === FORMAT_FLOAT ? 1 : 1 / 2 ** (h.bits - 1);
-  const channels = chans.map((c) => {
-    const out = c.length === frames ? c : c.subarray(0, frames);
-    if (scale !== 1) for (let j = 0; j < out.length; j++) out[j] *= scale;
-    return out;
-  });
-  for (const c of channels) {
-    for (let j = 0; j < c.length; j++) {
-      if (!Number.isFinite(c[j])) throw new InputError(`${path}: sample ${j} is not a finite number`);
+/** Checks the header of a WAV file held in memory. */
+export function checkWavHeader(bytes: Uint8Array, name: string): WavHeader {
+  return walkWavHeader({ size: bytes.length, read: (o, n) => bytes.subarray(o, o + n) }, name);
+}
+
+/** Deinterleaves `n` frames of `block` into `out` from frame `at`, as floats with full scale at 1. */
+function decodeBlock(block: Uint8Array, n: number, h: WavHeader, out: Float32Array[], at: number): void {
+  const nc = h.channels;
+  const stride = h.blockAlign;
+  if (h.bits === 16) {
+    for (let c = 0; c < nc; c++) {
+      const dst = out[c];
+      for (let k = 0, j = 2 * c; k < n; k++, j += stride) dst[at + k] = (((block[j] | (block[j + 1] << 8)) << 16) >> 16) * (1 / 32768);
+    }
+  } else if (h.bits === 24) {
+    for (let c = 0; c < nc; c++) {
+      const dst = out[c];
+      for (let k = 0, j = 3 * c; k < n; k++, j += stride)
+        dst[at + k] = (((block[j] | (block[j + 1] << 8) | (block[j + 2] << 16)) << 8) >> 8) * (1 / 8388608);
+    }
+  } else if (LITTLE_ENDIAN) {
+    const src = new Float32Array(block.buffer, block.byteOffset, n * nc);
+    for (let c = 0; c < nc; c++) {
+      const dst = out[c];
+      for (let k = 0, j = c; k < n; k++, j += nc) dst[at + k] = src[j];
+    }
+  } else {
+    const view = new DataView(block.buffer, block.byteOffset);
+    for (let c = 0; c < nc; c++) {
+      const dst = out[c];
+      for (let k = 0, j = 4 * c; k < n; k++, j += stride) dst[at + k] = view.getFloat32(j, true);
     }
   }
-  return { sampleRate: h.sampleRate, channels, format: h.formatTag === FORMAT_FLOAT ? 'f32' : h.bits === 24 ? '24' : '16' };
 }
 
-/** Encodes and writes atomically: a temporary file in the same folder, renamed when complete. */
-export async function writeWav(path: string, channels: Float32Array[], sampleRate: number, format: WavFormat): Promise<void> {
-  const wav = new wavefile.WaveFile();
-  let data: (Float32Array | Int32Array | Int16Array)[];
-  let code: string;
-  if (format === 'f32') {
-    data = channels;
-    code = '32f';
-  } else {
-    const full = format === '24' ? 8388607 : 32767;
-    data = channels.map((c) => {
-      const out = format === '24' ? new Int32Array(c.length) : new Int16Array(c.length);
-      for (let j = 0; j < c.length; j++) {
-        const v = Math.round(c[j] * (full + 1));
-        out[j] = v > full ? full : v < -full - 1 ? -full - 1 : v;
-      }
-      return out;
-    });
-    code = format;
-  }
-  wav.fromScratch(channels.length, sampleRate, code, data as unknown as number[][]);
-  const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+/**
+ * Reads a 16/24-bit PCM or 32-bit float WAV file. `onProgress` hears the fraction read.
+ * Refuses, before reading any audio, a file longer than the input limit.
+ */
+export async function readWav(path: string, onProgress?: (fraction: number) => void): Promise<WavAudio> {
+  const file = openInput(path);
   try {
-    await writeFile(tmp, wav.toBuffer());
-    await rename(tmp, path);
+    const h = walkWavHeader(
+      {
+        size: file.size,
+        read(o, n) {
+          const b = new Uint8Array(n);
+          return b.subarray(0, file.readAt(b, o));
+        },
+      },
+      path,
+    );
+    checkInputLength(path, h.frames, h.channels, h.sampleRate);
+    const channels = Array.from({ length: h.channels }, () => new Float32Array(h.frames));
+    const framesPerBlock = Math.max(1, Math.floor(BLOCK_BYTES / h.blockAlign));
+    const block = new Uint8Array(Math.min(framesPerBlock, h.frames) * h.blockAlign);
+    for (let at = 0; at < h.frames; at += framesPerBlock) {
+      const n = Math.min(framesPerBlock, h.frames - at);
+      const want = n * h.blockAlign;
+      if (file.readAt(block, h.dataOffset + at * h.blockAlign, want) < want)
+        throw new InputError(`${path}: the file ended early while reading its audio (was it changed meanwhile?)`);
+      decodeBlock(block, n, h, channels, at);
+      onProgress?.((at + n) / h.frames);
+    }
+    const format: WavFormat = h.formatTag === FORMAT_FLOAT ? 'f32' : h.bits === 24 ? '24' : '16';
+    const warning = format === 'f32' ? checkFloatRange(channels, path) : null;
+    return { sampleRate: h.sampleRate, channels, format, ...(warning ? { warnings: [warning] } : {}) };
+  } finally {
+    file.close();
+  }
+}
+
+/** Interleaves `n` frames from frame `at` into `block`, quantised to the format (round to nearest, saturate). */
+function encodeBlock(channels: Float32Array[], format: WavFormat, at: number, n: number, block: Uint8Array): void {
+  const nc = channels.length;
+  if (format === 'f32') {
+    if (LITTLE_ENDIAN) {
+      const dst = new Float32Array(block.buffer, block.byteOffset, n * nc);
+      for (let c = 0; c < nc; c++) {
+        const src = channels[c];
+        for (let k = 0, j = c; k < n; k++, j += nc) dst[j] = src[at + k];
+      }
+    } else {
+      const view = new DataView(block.buffer, block.byteOffset);
+      for (let c = 0; c < nc; c++) {
+        const src = channels[c];
+        for (let k = 0, j = 4 * c; k < n; k++, j += 4 * nc) view.setFloat32(j, src[at + k], true);
+      }
+    }
+    return;
+  }
+  const bytes = format === '24' ? 3 : 2;
+  const full = format === '24' ? 8388607 : 32767;
+  const stride = bytes * nc;
+  for (let c = 0; c < nc; c++) {
+    const src = channels[c];
+    for (let k = 0, j = bytes * c; k < n; k++, j += stride) {
+      const r = Math.round(src[at + k] * (full + 1));
+      // NaN becomes 0, as an integer typed array would store it.
+      const v = r > full ? full : r < -full - 1 ? -full - 1 : r | 0;
+      block[j] = v;
+      block[j + 1] = v >> 8;
+      if (bytes === 3) block[j + 2] = v >> 16;
+    }
+  }
+}
+
+/** The canonical 44-byte header: a 16-byte fmt chunk (PCM, or IEEE float for f32) and the data chunk. */
+function wavHeader(channels: number, sampleRate: number, format: WavFormat, frames: number): Uint8Array {
+  const bytes = format === '16' ? 2 : format === '24' ? 3 : 4;
+  const dataBytes = frames * channels * bytes;
+  const b = new Uint8Array(44);
+  const v = new DataView(b.buffer);
+  const ascii = (o: number, s: string) => {
+    for (let k = 0; k < 4; k++) b[o + k] = s.charCodeAt(k);
+  };
+  ascii(0, 'RIFF');
+  v.setUint32(4, 36 + dataBytes, true);
+  ascii(8, 'WAVE');
+  ascii(12, 'fmt ');
+  v.setUint32(16, 16, true);
+  v.setUint16(20, format === 'f32' ? FORMAT_FLOAT : FORMAT_PCM, true);
+  v.setUint16(22, channels, true);
+  v.setUint32(24, sampleRate, true);
+  v.setUint32(28, sampleRate * channels * bytes, true);
+  v.setUint16(32, channels * bytes, true);
+  v.setUint16(34, bytes * 8, true);
+  ascii(36, 'data');
+  v.setUint32(40, dataBytes, true);
+  return b;
+}
+
+/**
+ * Encodes and writes atomically: a temporary file in the same folder, renamed when complete. The
+ * bytes are those of the canonical layout (44-byte header, no pad byte after an odd-sized data
+ * chunk), the layout this CLI has always written.
+ */
+export async function writeWav(path: string, channels: Float32Array[], sampleRate: number, format: WavFormat): Promise<void> {
+  const frames = channels[0]?.length ?? 0;
+  const stride = channels.length * (format === '16' ? 2 : format === '24' ? 3 : 4);
+  if (36 + frames * stride > 0xffffffff) throw new InputError(`cannot write ${path}: the audio is too long for one WAV file (4 GiB)`);
+  const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+  let fd = -1;
+  try {
+    fd = openSync(tmp, 'w');
+    writeSync(fd, wavHeader(channels.length, sampleRate, format, frames));
+    const framesPerBlock = Math.max(1, Math.floor(BLOCK_BYTES / stride));
+    const block = new Uint8Array(Math.min(framesPerBlock, frames) * stride);
+    for (let at = 0; at < frames; at += framesPerBlock) {
+      const n = Math.min(framesPerBlock, frames - at);
+      encodeBlock(channels, format, at, n, block);
+      writeSync(fd, block, 0, n * stride);
+    }
+    closeSync(fd);
+    fd = -1;
+    renameSync(tmp, path);
   } catch (e) {
-    await unlink(tmp).catch(() => undefined);
+    if (fd >= 0) closeSync(fd);
+    try {
+      unlinkSync(tmp);
+    } catch {
+      // nothing was left behind
+    }
     throw new InputError(`cannot write ${path}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
   }
 }

@@ -14,10 +14,10 @@ import { synthesizeDemoTrack } from '../../src/engine/demo/track.ts';
 import { wooferParams } from '../../src/engine/sim/params.ts';
 import { WooferSim } from '../../src/engine/sim/woofer.ts';
 import { exampleSystem } from '../helpers/audio-bench.ts';
-import { system, ventedBox } from '../sim-fixtures.ts';
-import { rhs, Solver } from '../sim-odex-model.ts';
+import { system, ventedBox, wooferOf } from '../sim-fixtures.ts';
+import { rhs, Solver, stateCount } from '../sim-odex-model.ts';
 import { BiquadCascade } from '../../src/engine/filters/biquad.ts';
-import { designCrossover } from '../../src/engine/filters/crossover.ts';
+import { wayFilterBiquads } from '../../src/engine/filters/way-filter.ts';
 import type { BenchResult } from './ui-redraw.ts';
 
 const HERE = dirname(fileURLToPath(import.meta.url));
@@ -52,15 +52,16 @@ async function linearVsWebAudio(): Promise<BenchResult[]> {
   const fs = 48000;
   const track = synthesizeDemoTrack(fs);
   const n = track.channels[0].length;
-  const design = designLinearChain(sys, fs);
-  const sections = design.woofer.length / 5;
+  // The first way: the woofer band (its filter, the driver in its box).
+  const design = designLinearChain(sys, fs)[0];
+  const sections = design.coef.length / 5;
   // Ours: the woofer band's biquads over both channels (the same sections the native side runs).
   // Ours: the same cascade (crossover low-pass + the design's small-signal transfer) per channel.
   const out = [new Float64Array(n), new Float64Array(n)];
   const ours = best(5, () => {
     for (let c = 0; c < 2; c++) {
       out[c].set(track.channels[c]);
-      new BiquadCascade(design.woofer, design.wooferGain).processInPlace(out[c]);
+      new BiquadCascade(design.coef, design.gain).processInPlace(out[c]);
     }
     return out;
   });
@@ -76,13 +77,13 @@ async function linearVsWebAudio(): Promise<BenchResult[]> {
     src.buffer = buf;
     let node: AudioNode = src;
     for (let s = 0; s < sections; s++) {
-      const c = design.woofer.subarray(5 * s, 5 * s + 5);
+      const c = design.coef.subarray(5 * s, 5 * s + 5);
       const f = ctx.createIIRFilter([c[0], c[1], c[2]], [1, c[3], c[4]]);
       node.connect(f);
       node = f;
     }
     const g = ctx.createGain();
-    g.gain.value = design.wooferGain;
+    g.gain.value = design.gain;
     node.connect(g);
     g.connect(ctx.destination);
     src.start();
@@ -118,12 +119,11 @@ async function versusOdex(): Promise<BenchResult[]> {
   // demo track's woofer band (LR4 at 2 kHz) at about Xmax, linear between samples for odex.
   const fs = 48000;
   const sys = system(ventedBox(28, 38, 7), { d: { xmaxMm: 5, xlimMm: 15 } });
-  const p = wooferParams(sys, 1 / fs);
+  const p = wooferParams(sys, wooferOf(sys), 1 / fs);
   const track = synthesizeDemoTrack(fs);
   const from = Math.round(track.loudFromS * fs),
     n = Math.round(0.5 * fs);
-  const xo = designCrossover({ type: 'lr4', fx: 2000 }, fs);
-  const lp = new BiquadCascade(xo.lp!);
+  const lp = new BiquadCascade(wayFilterBiquads(wooferOf(sys).filter, fs)!);
   const drive = new Float64Array(n);
   for (let k = 0; k < from + n; k++) {
     const v = lp.step(track.channels[0][k]);
@@ -135,9 +135,10 @@ async function versusOdex(): Promise<BenchResult[]> {
     if (k >= n - 1) return drive[n - 1];
     return drive[k] + (x - k) * (drive[k + 1] - drive[k]);
   };
-  const f = rhs(sys, p, u);
+  const { f } = rhs(sys, wooferOf(sys), u);
+  const nState = stateCount(wooferOf(sys));
   const solve = (tol: number) => {
-    const s = new Solver(5);
+    const s = new Solver(nState);
     s.absoluteTolerance = tol * 1e-3;
     s.relativeTolerance = tol;
     s.denseOutput = true;
@@ -147,7 +148,7 @@ async function versusOdex(): Promise<BenchResult[]> {
     s.solve(
       f,
       0,
-      [0, 0, 0, 0, 0],
+      new Array<number>(nState).fill(0),
       (n - 1) / fs,
       s.grid(1 / fs, (_t, y) => {
         if (k < n) x[k++] = y[1];
@@ -204,6 +205,20 @@ function memory(): BenchResult {
   return { name: '10-minute stereo render: peak memory / decoded audio', value: Number(j.ratio.toFixed(2)), unit: 'ratio', target: '<= 3' };
 }
 
+/** One part's rows, or one row saying why it failed (the other parts still report). */
+async function part(name: string, run: () => BenchResult[] | Promise<BenchResult[]>): Promise<BenchResult[]> {
+  try {
+    return await run();
+  } catch (e) {
+    return [{ name: `${name} failed: ${(e as Error).message.split('\n')[0]}`, value: Number.NaN, unit: '', target: '' }];
+  }
+}
+
 export async function bench(): Promise<BenchResult[]> {
-  return [realtime(), ...(await linearVsWebAudio()), ...(await versusOdex()), memory()];
+  return [
+    ...(await part('realtime', () => [realtime()])),
+    ...(await part('linear chain', linearVsWebAudio)),
+    ...(await part('odex', versusOdex)),
+    ...(await part('memory', () => [memory()])),
+  ];
 }

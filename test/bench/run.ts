@@ -4,6 +4,7 @@ import type { BenchResult } from './ui-redraw.ts';
 
 const BENCHES: { name: string; load: () => Promise<{ bench(): Promise<BenchResult[]> }> }[] = [
   { name: 'render', load: () => import('./render.ts') },
+  { name: 'cli', load: () => import('./cli.ts') },
   { name: 'ui-redraw', load: () => import('./ui-redraw.ts') },
   { name: 'worklet', load: () => import('./worklet.ts') },
 ];

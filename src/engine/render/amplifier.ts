@@ -1,5 +1,4 @@
 // The amplifier's output stage: rail from rated power into the nominal load, hard or soft clipping.
-import type { Amplifier } from '../system.ts';
 
 /** Peak output voltage from rated power into the nominal load: V = sqrt(2·P·Z). */
 export function railVolts(powerW: number, loadOhm: number): number {
@@ -18,10 +17,6 @@ export function clipVolts(u: number, rail: number, soft: boolean): number {
   const span = rail - knee;
   const y = knee + span * Math.tanh((a - knee) / span);
   return u < 0 ? -y : y;
-}
-
-export function isSoft(amp: Amplifier): boolean {
-  return amp.clip === 'soft';
 }
 
 /**

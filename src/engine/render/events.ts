@@ -1,5 +1,6 @@
-// Stress events: intervals where a limit is exceeded, merged when closer than 50 ms.
-// Stored in preallocated typed arrays (grown only when full), turned into objects on request.
+// Stress events: intervals where a limit is exceeded, merged when closer than 50 ms, kept per
+// source (a way, or the whole output for the distortion of the sum). Stored in preallocated typed
+// arrays (grown only when full), turned into objects on request.
 
 export const EVENT_KINDS = [
   'excursion',
@@ -22,6 +23,19 @@ export const EV_CLIP = 5;
 export const EV_COMPRESSION = 6;
 export const EV_DISTORTION = 7;
 
+/**
+ * Order of kinds that start in the same frame: the order the stress meter checks them in (motion,
+ * outlet, amplifier, heat, then the output's distortion), so the list reads cause before effect.
+ */
+const SAME_FRAME_RANK: readonly number[] = (() => {
+  const order = [EV_EXCURSION, EV_XLIM, EV_PORT, EV_RADIATOR, EV_CLIP, EV_COIL, EV_COMPRESSION, EV_DISTORTION];
+  const rank = new Array<number>(EVENT_KINDS.length);
+  order.forEach((kind, k) => {
+    rank[kind] = k;
+  });
+  return rank;
+})();
+
 export const EVENT_UNITS: Record<EventKind, string> = {
   excursion: 'mm',
   xlim: 'mm',
@@ -35,6 +49,8 @@ export const EVENT_UNITS: Record<EventKind, string> = {
 
 export interface StressEvent {
   kind: EventKind;
+  /** The way whose limit was crossed; absent for the summed output's own events (distortion). */
+  way?: string;
   start_s: number;
   end_s: number;
   peak: number;
@@ -45,87 +61,106 @@ export interface StressEvent {
 /** Events of one kind closer than this are one event. */
 export const MERGE_GAP_S = 0.05;
 
+/** Source index of the summed output. */
+export const OUTPUT_SOURCE = -1;
+
 export class EventLog {
   private kind = new Int8Array(64);
+  private source = new Int16Array(64);
   private start = new Float64Array(64);
   private end = new Float64Array(64);
   private peak = new Float64Array(64);
+  private limit = new Float64Array(64);
   count = 0;
-  /** Index of the open (or last) record of each kind, -1 if none. */
-  private readonly last = new Int32Array(EVENT_KINDS.length).fill(-1);
-  readonly limits = new Float64Array(EVENT_KINDS.length);
-  /** Time the condition was last true per kind, or -Infinity. */
-  private readonly activeUntil = new Float64Array(EVENT_KINDS.length).fill(-Infinity);
+  /** Names of the sources so far (a way keeps its index while the renderer lives). */
+  private names: string[] = [];
+  /** Index of the open (or last) record per source and kind, -1 if none. */
+  private last = new Map<number, number>();
+  /** Current limits per source and kind. */
+  private limits = new Map<number, number>();
 
   reset(): void {
     this.count = 0;
-    this.last.fill(-1);
-    this.activeUntil.fill(-Infinity);
+    this.last.clear();
   }
 
-  /** Condition of `kind` true at time t (s) with value `value` (larger = worse). */
-  mark(kind: number, t: number, value: number): void {
-    const li = this.last[kind];
+  /** The source index of a way's name (new names get the next index). */
+  sourceOf(name: string): number {
+    const k = this.names.indexOf(name);
+    if (k >= 0) return k;
+    this.names.push(name);
+    return this.names.length - 1;
+  }
+
+  private slot(source: number, kind: number): number {
+    return (source + 1) * EVENT_KINDS.length + kind;
+  }
+
+  setLimit(source: number, kind: number, value: number): void {
+    this.limits.set(this.slot(source, kind), value);
+  }
+
+  limitOf(source: number, kind: number): number {
+    return this.limits.get(this.slot(source, kind)) ?? 0;
+  }
+
+  /** Condition of `kind` at `source` true at time t (s) with value `value` (larger = worse). */
+  mark(source: number, kind: number, t: number, value: number): void {
+    const key = this.slot(source, kind);
+    const li = this.last.get(key) ?? -1;
     if (li >= 0 && t - this.end[li] <= MERGE_GAP_S) {
       this.end[li] = t;
       if (value > this.peak[li]) this.peak[li] = value;
-    } else {
-      if (this.count === this.kind.length) this.grow();
-      const k = this.count++;
-      this.kind[k] = kind;
-      this.start[k] = t;
-      this.end[k] = t;
-      this.peak[k] = value;
-      this.last[kind] = k;
+      return;
     }
-    this.activeUntil[kind] = t;
+    if (this.count === this.kind.length) this.grow();
+    const k = this.count++;
+    this.kind[k] = kind;
+    this.source[k] = source;
+    this.start[k] = t;
+    this.end[k] = t;
+    this.peak[k] = value;
+    this.limit[k] = this.limitOf(source, kind);
+    this.last.set(key, k);
   }
 
   private grow(): void {
     const n = this.kind.length * 2;
-    const k = new Int8Array(n),
-      s = new Float64Array(n),
-      e = new Float64Array(n),
-      p = new Float64Array(n);
-    k.set(this.kind);
-    s.set(this.start);
-    e.set(this.end);
-    p.set(this.peak);
-    this.kind = k;
-    this.start = s;
-    this.end = e;
-    this.peak = p;
+    const widen = <T extends Int8Array | Int16Array | Float64Array>(a: T, b: T): T => {
+      b.set(a);
+      return b;
+    };
+    this.kind = widen(this.kind, new Int8Array(n));
+    this.source = widen(this.source, new Int16Array(n));
+    this.start = widen(this.start, new Float64Array(n));
+    this.end = widen(this.end, new Float64Array(n));
+    this.peak = widen(this.peak, new Float64Array(n));
+    this.limit = widen(this.limit, new Float64Array(n));
   }
 
-  /** All events so far, in order of start. `endPad` s is added to each end (one sample, say). */
+  /**
+   * All events so far in order of start (ties: ways in order, the output last, then the kinds in
+   * the order they are checked). `endPad` s is added to each end (one sample, say).
+   */
   list(endPad = 0, round = true): StressEvent[] {
-    const out: StressEvent[] = [];
     const r = (v: number, d: number) => (round ? Number(v.toFixed(d)) : v);
-    for (let k = 0; k < this.count; k++) {
+    const order = Array.from({ length: this.count }, (_, k) => k);
+    const sourceRank = (k: number) => (this.source[k] === OUTPUT_SOURCE ? 1 << 15 : this.source[k]);
+    order.sort(
+      (a, b) =>
+        this.start[a] - this.start[b] || sourceRank(a) - sourceRank(b) || SAME_FRAME_RANK[this.kind[a]] - SAME_FRAME_RANK[this.kind[b]],
+    );
+    return order.map((k) => {
       const kind = EVENT_KINDS[this.kind[k]];
-      out.push({
+      return {
         kind,
+        ...(this.source[k] === OUTPUT_SOURCE ? {} : { way: this.names[this.source[k]] }),
         start_s: r(Math.max(0, this.start[k]), 4),
         end_s: r(this.end[k] + endPad, 4),
         peak: r(this.peak[k], 3),
         unit: EVENT_UNITS[kind],
-        limit: r(this.limits[this.kind[k]], 3),
-      });
-    }
-    out.sort((a, b) => a.start_s - b.start_s);
-    return out;
-  }
-
-  /** Seconds covered by events of one kind. */
-  total(kind: number): number {
-    let s = 0;
-    for (let k = 0; k < this.count; k++) if (this.kind[k] === kind) s += this.end[k] - this.start[k];
-    return s;
-  }
-
-  firstOf(): { kind: EventKind; t: number } | null {
-    let best = -1;
-    for (let k = 0; k < this.count; k++) if (best < 0 || this.start[k] < this.start[best]) best = k;
-    return best < 0 ? null : { kind: EVENT_KINDS[this.kind[best]], t: this.start[best] };
+        limit: r(this.limit[k], 3),
+      };
+    });
   }
 }

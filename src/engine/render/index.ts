@@ -10,10 +10,13 @@
 //     renderer.setMode('nonlinear' | 'linear' | 'residual')   sample-synchronous switch
 //     renderer.update(system)       a parameter edit: new constants, the physical state carries on
 //     renderer.setVoltsFs(v)        new drive level
-//     renderer.events.list()        stress events so far [{kind, start_s, end_s, peak, unit, limit}]
+//     renderer.events.list()        stress events so far [{kind, way, start_s, end_s, peak, unit,
+//                                   limit}]; `way` is the way's name (absent: the summed output)
 //     renderer.traces()             decimated traces (excursion, coil temperature, port speed,
-//                                   compression, residual level) at renderer.traceHz
-//     renderer.getStats()           running peaks; renderer.paPerFs the calibration (Pa per FS)
+//                                   compression per driver way; the residual level of the sum)
+//                                   at renderer.traceHz
+//     renderer.getStats()           running peaks (top level: the first driver way; `ways`: each)
+//                                   renderer.paPerFs the calibration (Pa per FS)
 //     renderer.reset()
 //   renderBuffer(system, channels, sampleRate, { voltsFs | splDb, mode?, paPerFs?, extraStreams?,
 //                onProgress? }) -> { audio, linear?, residual?, summary, traces }
@@ -21,20 +24,33 @@
 //   voltsForSpl(system, channels, sampleRate, splDb) -> volts per full scale for a long-term
 //     average C-weighted SPL at the seat, from the design's own sensitivity.
 //   findHeadroom(system, channels, sampleRate, { tolDb? }) -> { clean_volts, clean_spl_db,
-//     first_limit, first_limit_s }: bisection to 0.25 dB on "any stress event".
+//     first_limit, first_limit_way, first_limit_s }: bisection to 0.25 dB on "any stress event"
+//     of any way.
 //
-// Calibration: output sample = seat pressure / paPerFs. The default paPerFs puts a full-scale
-// passband input at -6 dBFS; the true-peak guard keeps the result at or under -0.1 dBTP and its
+// Every way runs its own chain (way-chain.ts) and the ways are summed at the seat. Calibration:
+// output sample = seat pressure / paPerFs. The default paPerFs puts a full-scale input in the bass
+// way's passband at -6 dBFS; the true-peak guard keeps the result at or under -0.1 dBTP and its
 // action is reported as limiter_db.
 import type { SpeakerSystem } from '../system.ts';
-import { createRenderer, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces } from './renderer.ts';
+import { createRenderer, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces, type WayStats } from './renderer.ts';
 import type { EventKind, StressEvent } from './events.ts';
-import { seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
+import { passbandPaPerV, seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
 
-export { createRenderer, Renderer, voltsForSpl };
+export { createRenderer, passbandPaPerV, Renderer, voltsForSpl };
 export type { RenderMode, Traces, StressEvent, EventKind };
-export type { RendererOptions, RenderStats } from './renderer.ts';
+export type { RendererOptions, RenderStats, WayStats, WayTraces } from './renderer.ts';
 export { EVENT_KINDS } from './events.ts';
+
+/** Peaks of one driver way over a render. */
+export interface WaySummary {
+  name: string;
+  peak_excursion_mm: number;
+  peak_radiator_mm: number | null;
+  peak_coil_temp_c: number;
+  peak_port_speed_m_s: number | null;
+  amp_clip_s: number;
+  max_compression_db: number;
+}
 
 export interface RenderSummary {
   duration_s: number;
@@ -44,6 +60,7 @@ export interface RenderSummary {
   spl_db: number;
   /** Calibration: seat pressure of a full-scale output sample, Pa. */
   pa_per_fs: number;
+  /** The first driver way's peaks (the woofer of a first-version design); every way's in `ways`. */
   peak_excursion_mm: number;
   peak_radiator_mm: number | null;
   peak_coil_temp_c: number;
@@ -53,6 +70,7 @@ export interface RenderSummary {
   limiter_db: number;
   events: StressEvent[];
   realtime_factor: number;
+  ways: WaySummary[];
 }
 
 export interface RenderBufferOptions {
@@ -79,6 +97,18 @@ export interface RenderResult {
 }
 
 const r3 = (v: number) => Number(v.toFixed(3));
+
+function waySummary(w: WayStats, sampleRate: number): WaySummary {
+  return {
+    name: w.name,
+    peak_excursion_mm: r3(w.peakExcursionMm),
+    peak_radiator_mm: w.outlet === 'radiator' ? r3(w.peakRadiatorMm) : null,
+    peak_coil_temp_c: Number(w.peakCoilTempC.toFixed(2)),
+    peak_port_speed_m_s: w.outlet === 'port' ? r3(w.peakPortSpeed) : null,
+    amp_clip_s: Number((w.ampClipFrames / sampleRate).toFixed(4)),
+    max_compression_db: r3(w.maxCompressionDb),
+  };
+}
 
 function defaultClock(): () => number {
   const perf = (globalThis as { performance?: { now(): number } }).performance;
@@ -177,21 +207,19 @@ export function renderBuffer(
   const seconds = (clock() - t0) / 1000;
   const st = r.getStats();
   const duration = frames / sampleRate;
+  const ways = st.ways.map((w) => waySummary(w, sampleRate));
+  const { name: _first, ...bass } = ways[0];
   const summary: RenderSummary = {
     duration_s: r3(duration),
     sample_rate: sampleRate,
     volts_fs: r3(volts),
     spl_db: Number(spl.toFixed(2)),
     pa_per_fs: Number(r.paPerFs.toPrecision(6)),
-    peak_excursion_mm: r3(st.peakExcursionMm),
-    peak_radiator_mm: sys.box.type === 'passive-radiator' ? r3(st.peakRadiatorMm) : null,
-    peak_coil_temp_c: Number(st.peakCoilTempC.toFixed(2)),
-    peak_port_speed_m_s: sys.box.type === 'vented' ? r3(st.peakPortSpeed) : null,
-    amp_clip_s: Number((st.ampClipFrames / sampleRate).toFixed(4)),
-    max_compression_db: r3(st.maxCompressionDb),
+    ...bass,
     limiter_db: r3(st.limiterDb),
     events: r.events.list(1 / sampleRate),
     realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
+    ways,
   };
   return { audio, linear, residual, summary, traces: r.traces() };
 }
@@ -201,6 +229,8 @@ export interface Headroom {
   clean_spl_db: number;
   /** The limit that arrives first just above the clean level, or null if none was found. */
   first_limit: EventKind | null;
+  /** The way whose limit it is (null: the summed output's distortion, or none found). */
+  first_limit_way: string | null;
   first_limit_s: number | null;
   /** Renders it took. */
   renders: number;
@@ -266,6 +296,7 @@ export function findHeadroom(
       clean_volts: r3(lo),
       clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)),
       first_limit: null,
+      first_limit_way: null,
       first_limit_s: null,
       renders,
     };
@@ -283,6 +314,7 @@ export function findHeadroom(
     clean_volts: Number(lo.toPrecision(5)),
     clean_spl_db: Number((l1 + 20 * Math.log10(lo)).toFixed(2)),
     first_limit: first.kind,
+    first_limit_way: first.way ?? null,
     first_limit_s: first.start_s,
     renders,
   };

@@ -1,48 +1,56 @@
-// The fast linear chain at the audio rate: crossover low-pass -> the design's small-signal
-// transfer (bilinear biquads) + the flat high band. No stress model. Used for level calibration,
-// quick previews and the speed benchmark against a native Web Audio implementation.
-import type { SpeakerSystem } from '../system.ts';
+// The fast linear chain at the audio rate, per way: the way's filter -> the driver in its box as a
+// small-signal transfer (bilinear biquads) with room gain, or the flat band -> the baffle step, at
+// the way's pressure per volt (polarity and gain included). No stress model and no delays: level
+// calibration adds the ways' energies, which a delay does not change. Also the speed benchmark's
+// subject against a native Web Audio implementation.
+import type { SpeakerSystem, Way } from '../system.ts';
 import { BiquadCascade, packSections } from '../filters/biquad.ts';
-import { designCrossover } from '../filters/crossover.ts';
+import { wayFilterBiquads } from '../filters/way-filter.ts';
 import { rationalToBiquads } from '../filters/analog.ts';
 import { wooferParams } from '../sim/params.ts';
 import { speakerTransfer } from '../sim/transfer.ts';
 import { baffleStepSection, roomGainSection } from '../filters/room.ts';
 
-export interface LinearChainDesign {
-  /** Woofer band: crossover low-pass then the speaker, packed biquads and gain (Pa per volt). */
-  woofer: Float64Array;
-  wooferGain: number;
-  /** High band: high-pass biquads and gain (Pa per volt, sign included), or null. */
-  high: Float64Array | null;
-  highGain: number;
-  passbandPaPerV: number;
+export interface LinearWayDesign {
+  name: string;
+  /** Packed biquads: the way's filter, the driver in its box and the room gain (driver ways), the baffle step. */
+  coef: Float64Array;
+  /** Seat pressure per volt, Pa/V, with the way's polarity and gain. */
+  gain: number;
+  /** Played from the channels' mean (the bass way of a mono-sum pair). */
+  monoSum: boolean;
 }
 
-export function designLinearChain(sys: SpeakerSystem, sampleRate: number): LinearChainDesign {
-  const p = wooferParams(sys, 1 / sampleRate, { linear: true });
-  const xo = designCrossover(sys.crossover, sampleRate);
+function designWay(sys: SpeakerSystem, way: Way, monoSum: boolean, sampleRate: number): LinearWayDesign {
+  const filter = wayFilterBiquads(way.filter, sampleRate);
+  const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, sampleRate);
+  const parts = (...secs: (Float64Array | null)[]) => packSections(secs.filter((s): s is Float64Array => s !== null));
+  if (way.kind === 'flat') {
+    // The first version's flat band: its sign times its Pa/V, then the gain (exact when 1).
+    return { name: way.name, coef: parts(filter, baffle), gain: way.polarity * way.paPerV * way.filter.gain, monoSum };
+  }
+  const p = wooferParams(sys, way, 1 / sampleRate, { linear: true });
   const tf = speakerTransfer(p);
   const spk = rationalToBiquads(tf.num, tf.den, sampleRate);
   const room = roomGainSection(sys.listening.roomGainHz, sampleRate);
-  const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, sampleRate);
-  const woofer = packSections([...(xo.lp ? [xo.lp] : []), spk.coef, ...(room ? [room] : []), ...(baffle ? [baffle] : [])]);
-  return {
-    woofer,
-    wooferGain: spk.gain,
-    // The baffle shapes the whole front, so the flat high band steps with it.
-    high: xo.hp && baffle ? packSections([xo.hp, baffle]) : xo.hp,
-    highGain: xo.hpSign * p.passbandPaPerV,
-    passbandPaPerV: p.passbandPaPerV,
-  };
+  return { name: way.name, coef: parts(filter, spk.coef, room, baffle), gain: spk.gain * way.filter.gain * way.polarity, monoSum };
 }
 
-/** Seat pressure (Pa) for input in digital full scale, per channel, at voltsFs volts per full scale. */
+/** Every way's linear chain; with `monoSum` the first driver way of a mono-sum pair plays the channels' mean. */
+export function designLinearChain(
+  sys: SpeakerSystem,
+  sampleRate: number,
+  monoSum = sys.listening.channels === 'mono-sum',
+): LinearWayDesign[] {
+  const bass = sys.ways.find((w) => w.kind === 'driver');
+  return sys.ways.map((way) => designWay(sys, way, monoSum && way === bass, sampleRate));
+}
+
+/** Seat pressure (Pa) of each way for input in digital full scale, per channel, at voltsFs volts per full scale. */
 export class LinearChain {
-  private readonly woofer: BiquadCascade[];
-  private readonly high: BiquadCascade[] | null;
-  private readonly design: LinearChainDesign;
-  private readonly mono: boolean;
+  readonly ways: LinearWayDesign[];
+  /** Per way, one cascade per lane (one lane for a shared way). */
+  private readonly lanes: BiquadCascade[][];
 
   constructor(
     sys: SpeakerSystem,
@@ -50,54 +58,35 @@ export class LinearChain {
     readonly channels: number,
     voltsFs: number,
   ) {
-    this.design = designLinearChain(sys, sampleRate);
-    this.mono = sys.listening.channels === 'mono-sum' && channels > 1;
-    const nw = this.mono ? 1 : channels;
-    this.woofer = [];
-    for (let c = 0; c < nw; c++) this.woofer.push(new BiquadCascade(this.design.woofer, this.design.wooferGain * voltsFs));
-    this.high = this.design.high
-      ? Array.from({ length: channels }, () => new BiquadCascade(this.design.high!, this.design.highGain * voltsFs))
-      : null;
+    this.ways = designLinearChain(sys, sampleRate, sys.listening.channels === 'mono-sum' && channels > 1);
+    this.lanes = this.ways.map((w) => Array.from({ length: w.monoSum ? 1 : channels }, () => new BiquadCascade(w.coef, w.gain * voltsFs)));
   }
 
-  get passbandPaPerV(): number {
-    return this.design.passbandPaPerV;
+  /** Lanes of way w: 1 for a shared way, else one per channel. */
+  laneCount(w: number): number {
+    return this.lanes[w].length;
   }
 
-  /**
-   * Whole-buffer processing. `scratch` must be at least `frames` long. Writes the woofer band and
-   * the high band separately when `highOut` is given (for level measurement), else their sum.
-   */
-  process(inputs: ArrayLike<number>[], outputs: Float64Array[], frames: number, highOut?: Float64Array[]): void {
+  /** Whole-buffer processing: out[w][lane][0..frames-1] receives way w's pressure in that lane. */
+  process(inputs: ArrayLike<number>[], out: Float64Array[][], frames: number): void {
     const nIn = inputs.length;
-    if (this.mono) {
-      const w = outputs[0];
-      for (let j = 0; j < frames; j++) {
-        let s = 0;
-        for (let c = 0; c < nIn; c++) s += inputs[c][j];
-        w[j] = s / nIn;
+    for (let w = 0; w < this.lanes.length; w++) {
+      const lanes = this.lanes[w];
+      if (this.ways[w].monoSum) {
+        const o = out[w][0];
+        for (let j = 0; j < frames; j++) {
+          let s = 0;
+          for (let c = 0; c < nIn; c++) s += inputs[c][j];
+          o[j] = s / nIn;
+        }
+        lanes[0].processInPlace(o, 0, frames);
+        continue;
       }
-      this.woofer[0].processInPlace(w, 0, frames);
-      for (let c = 1; c < this.channels; c++) outputs[c].set(w.subarray(0, frames));
-    } else {
-      for (let c = 0; c < this.channels; c++) {
-        const o = outputs[c],
+      for (let c = 0; c < lanes.length; c++) {
+        const o = out[w][c],
           inp = inputs[Math.min(c, nIn - 1)];
         for (let j = 0; j < frames; j++) o[j] = inp[j];
-        this.woofer[c].processInPlace(o, 0, frames);
-      }
-    }
-    if (!this.high) return;
-    for (let c = 0; c < this.channels; c++) {
-      const inp = inputs[Math.min(c, nIn - 1)];
-      if (highOut) {
-        const hb = highOut[c];
-        for (let j = 0; j < frames; j++) hb[j] = inp[j];
-        this.high[c].processInPlace(hb, 0, frames);
-      } else {
-        const o = outputs[c];
-        const hc = this.high[c];
-        for (let j = 0; j < frames; j++) o[j] += hc.step(inp[j]);
+        lanes[c].processInPlace(o, 0, frames);
       }
     }
   }

@@ -1,0 +1,272 @@
+// One way of the speaker as the renderer runs it, per channel lane.
+// A driver way: its filter -> its own delay -> its gain and the drive level -> its amplifier channel
+// (oversampled clipping at the rail) -> its driver-in-box model and that model's linear part -> room
+// gain and baffle step -> polarity and acoustic offset. Each lane heats its own coil.
+// A flat way (the first version's ideal upper band): its filter and the baffle step at its passband
+// pressure per volt, delayed like the driver ways' clipping stage plus its own delay and offset.
+import type { DriverWay, FlatWay, SpeakerSystem } from '../system.ts';
+import { BiquadCascade, packSections } from '../filters/biquad.ts';
+import { wayFilterBiquads } from '../filters/way-filter.ts';
+import { baffleStepSection, roomGainSection } from '../filters/room.ts';
+import { RENDER_HALFBAND } from '../filters/halfband.ts';
+import { wooferParams, type WooferParams } from '../sim/params.ts';
+import { WooferSim } from '../sim/woofer.ts';
+import { LinearRecurrence } from '../sim/linear.ts';
+import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
+import { OversampledClipper } from './amplifier.ts';
+import { FractionalDelay } from './fractional-delay.ts';
+
+/** Frames per internal chunk: every stage runs over a chunk before the next one starts. */
+export const CHUNK = 256;
+
+/** Frames the clipping stage delays a driver way (its half-band filters). */
+export const STAGE_DELAY = RENDER_HALFBAND.m;
+
+/** Where a way's input comes from: one channel, or the mean of all of them (mono sum). */
+export interface LaneSource {
+  inputs: ArrayLike<number>[];
+  /** First frame of the chunk in the inputs. */
+  s: number;
+  n: number;
+  /** Output channels (missing inputs repeat the last one). */
+  channels: number;
+}
+
+function fillLane(buf: Float64Array, src: LaneSource, lane: number, monoSum: boolean): void {
+  const { inputs, s, n, channels } = src;
+  const nIn = inputs.length;
+  if (nIn === 0) buf.fill(0, 0, n);
+  else if (monoSum) {
+    for (let k = 0; k < n; k++) {
+      let sum = 0;
+      for (let c = 0; c < channels; c++) sum += inputs[c < nIn ? c : nIn - 1][s + k];
+      buf[k] = sum / channels;
+    }
+  } else {
+    const x = inputs[lane < nIn ? lane : nIn - 1];
+    for (let k = 0; k < n; k++) buf[k] = x[s + k];
+  }
+}
+
+export function replaceCascade(old: BiquadCascade | null, coef: Float64Array | null): BiquadCascade | null {
+  if (!coef) return null;
+  if (old && old.coef.length === coef.length) {
+    old.coef.set(coef);
+    return old;
+  }
+  return new BiquadCascade(coef);
+}
+
+/** Delays of each way in the sum, s: the acoustic offsets relative to the shallowest way. */
+export function offsetDelays(sys: SpeakerSystem): number[] {
+  const front = Math.min(...sys.ways.map((w) => w.offset));
+  return sys.ways.map((w) => (w.offset - front) / sys.air.c);
+}
+
+/** A delay line, or null when the delay is zero (so a way without one is left bit for bit alone). */
+function delayOrNull(old: FractionalDelay | null, samples: number): FractionalDelay | null {
+  if (!(samples > 0)) return null;
+  return old && old.samples === samples ? old : new FractionalDelay(samples);
+}
+
+export class DriverLane {
+  filter: BiquadCascade | null = null;
+  drive: FractionalDelay | null = null;
+  roomN: BiquadCascade | null = null;
+  roomL: BiquadCascade | null = null;
+  offsetN: FractionalDelay | null = null;
+  offsetL: FractionalDelay | null = null;
+  readonly clip = new OversampledClipper(RENDER_HALFBAND);
+  sim: WooferSim;
+  lin: LinearRecurrence;
+  /** Sum of i^2 since the last coil update. */
+  i2 = 0;
+  readonly u = new Float64Array(CHUNK);
+  /** Clipped drive, V (the model's input). */
+  readonly uClip = new Float64Array(CHUNK);
+  /** Demanded drive, delayed like the clipped one, V. */
+  readonly uDel = new Float64Array(CHUNK);
+  /** Seat pressure of the full model and of its linear part, Pa (after polarity and offset). */
+  readonly pN = new Float64Array(CHUNK);
+  readonly pL = new Float64Array(CHUNK);
+  /** Cone excursion, m, and the outlet's flow (port, m^3/s) or travel (radiator, m). */
+  readonly x = new Float64Array(CHUNK);
+  readonly outlet = new Float64Array(CHUNK);
+
+  constructor(p: WooferParams) {
+    this.sim = new WooferSim(p);
+    this.lin = new LinearRecurrence(p);
+  }
+}
+
+export class DriverWayChain {
+  way: DriverWay;
+  params!: WooferParams;
+  lanes: DriverLane[] = [];
+  /** One lane fed by the mean of all channels (the bass way of a mono-sum pair). */
+  readonly monoSum: boolean;
+  private gain = 1;
+  private polarity = 1;
+  private rail = 0;
+  private soft = false;
+  readonly th: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 };
+
+  constructor(
+    sys: SpeakerSystem,
+    way: DriverWay,
+    offsetS: number,
+    channels: number,
+    monoSum: boolean,
+    private readonly sampleRate: number,
+  ) {
+    this.way = way;
+    this.monoSum = monoSum;
+    this.params = wooferParams(sys, way, 1 / sampleRate);
+    const nLanes = monoSum ? 1 : channels;
+    for (let k = 0; k < nLanes; k++) this.lanes.push(new DriverLane(this.params));
+    this.configure(sys, way, offsetS);
+  }
+
+  /** Same shape of state (box kind), so an edit can keep the cone, the air and the heat moving. */
+  canTake(way: DriverWay): boolean {
+    return way.box.type === this.way.box.type;
+  }
+
+  /** A parameter edit: new constants, while the physical state carries on. */
+  update(sys: SpeakerSystem, way: DriverWay, offsetS: number): void {
+    const p = wooferParams(sys, way, 1 / this.sampleRate);
+    this.params = p;
+    this.way = way;
+    for (const lane of this.lanes) {
+      lane.sim.setParams(p);
+      const lin = new LinearRecurrence(p);
+      lin.adoptState(lane.lin);
+      lin.rebuild(lane.sim.r);
+      lane.lin = lin;
+    }
+    this.configure(sys, way, offsetS);
+  }
+
+  private configure(sys: SpeakerSystem, way: DriverWay, offsetS: number): void {
+    const fsr = this.sampleRate;
+    const filter = wayFilterBiquads(way.filter, fsr);
+    const roomOnly = roomGainSection(sys.listening.roomGainHz, fsr);
+    const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, fsr);
+    const room = roomOnly && baffle ? packSections([roomOnly, baffle]) : (roomOnly ?? baffle);
+    for (const lane of this.lanes) {
+      lane.filter = replaceCascade(lane.filter, filter);
+      lane.drive = delayOrNull(lane.drive, way.filter.delay * fsr);
+      lane.roomN = replaceCascade(lane.roomN, room);
+      lane.roomL = replaceCascade(lane.roomL, room);
+      lane.offsetN = delayOrNull(lane.offsetN, offsetS * fsr);
+      lane.offsetL = delayOrNull(lane.offsetL, offsetS * fsr);
+    }
+    thermalStep(way.driver.thermal, CHUNK / fsr, this.th);
+    this.gain = way.filter.gain;
+    this.polarity = way.polarity;
+    this.rail = sys.amplifier.vPeak;
+    this.soft = sys.amplifier.clip === 'soft';
+  }
+
+  /**
+   * One chunk of every lane. `frameEnd` is the renderer's frame count at the end of the chunk: the
+   * coil heats from the mean i^2 of each CHUNK frames of the renderer's own clock.
+   */
+  process(src: LaneSource, volts: number, frameEnd: number): void {
+    const n = src.n;
+    const p = this.params;
+    // Gain 1 leaves the drive exactly as the first version computed it.
+    const drive = volts * this.gain;
+    for (let w = 0; w < this.lanes.length; w++) {
+      const lane = this.lanes[w];
+      const u = lane.u;
+      fillLane(u, src, w, this.monoSum);
+      if (lane.filter) lane.filter.processInPlace(u, 0, n);
+      if (lane.drive) lane.drive.process(u, n);
+      for (let k = 0; k < n; k++) u[k] *= drive;
+      lane.clip.process(u, n, this.rail, this.soft, lane.uClip, lane.uDel);
+      const sim = lane.sim;
+      const i2 = sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet);
+      lane.lin.processBlock(lane.uDel, lane.pL, n);
+      if (lane.roomN) {
+        lane.roomN.processInPlace(lane.pN, 0, n);
+        lane.roomL!.processInPlace(lane.pL, 0, n);
+      }
+      // Coil heating from the mean i^2 of each CHUNK frames in the hot resistance; the exact two-node step.
+      lane.i2 += i2;
+      if (frameEnd % CHUNK === 0) {
+        const pw = (lane.i2 / CHUNK) * p.re0 * (1 + p.alphaR * sim.riseV);
+        const th = this.th;
+        sim.setCoilRise(th.p11 * sim.riseV + th.p12 * sim.riseM + th.g1 * pw, th.p21 * sim.riseV + th.p22 * sim.riseM + th.g2 * pw);
+        lane.i2 = 0;
+        // The linear part follows the coil's resistance, so heat is not counted as distortion.
+        if ((frameEnd / CHUNK) % 4 === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) lane.lin.rebuild(sim.r);
+      }
+      if (this.polarity !== 1) {
+        const pN = lane.pN,
+          pL = lane.pL;
+        for (let k = 0; k < n; k++) {
+          pN[k] = -pN[k];
+          pL[k] = -pL[k];
+        }
+      }
+      lane.offsetN?.process(lane.pN, n);
+      lane.offsetL?.process(lane.pL, n);
+    }
+  }
+
+  /** The lane heard on output channel c. */
+  laneFor(c: number): DriverLane {
+    return this.lanes[this.monoSum ? 0 : c];
+  }
+}
+
+export class FlatWayChain {
+  way: FlatWay;
+  private filters: (BiquadCascade | null)[];
+  private delays: FractionalDelay[];
+  /** Seat pressure of each channel's band for the current chunk, Pa. */
+  readonly out: Float64Array[];
+  private paPerV = 0;
+
+  constructor(
+    sys: SpeakerSystem,
+    way: FlatWay,
+    offsetS: number,
+    channels: number,
+    private readonly sampleRate: number,
+  ) {
+    this.way = way;
+    this.out = Array.from({ length: channels }, () => new Float64Array(CHUNK));
+    this.filters = this.out.map(() => null);
+    this.delays = [];
+    this.update(sys, way, offsetS);
+  }
+
+  update(sys: SpeakerSystem, way: FlatWay, offsetS: number): void {
+    const fsr = this.sampleRate;
+    this.way = way;
+    const filter = wayFilterBiquads(way.filter, fsr);
+    // The baffle shapes the whole front, so the flat band steps with it.
+    const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, fsr);
+    const coef = filter && baffle ? packSections([filter, baffle]) : (filter ?? baffle);
+    this.filters = this.filters.map((f) => replaceCascade(f, coef));
+    // Aligned with the driver ways, whose clipping stage delays them by STAGE_DELAY frames.
+    const samples = STAGE_DELAY + (way.filter.delay + offsetS) * fsr;
+    this.delays = this.out.map((_, c) => (this.delays[c]?.samples === samples ? this.delays[c] : new FractionalDelay(samples)));
+    this.paPerV = way.paPerV;
+  }
+
+  process(src: LaneSource, volts: number): void {
+    const n = src.n;
+    // The first version's order of operations: polarity·Pa/V·volts, then the way's gain (exact when 1).
+    const g = this.way.polarity * this.paPerV * volts * this.way.filter.gain;
+    for (let c = 0; c < this.out.length; c++) {
+      const b = this.out[c];
+      fillLane(b, src, c, false);
+      this.filters[c]?.processInPlace(b, 0, n);
+      this.delays[c].process(b, n);
+      for (let k = 0; k < n; k++) b[k] *= g;
+    }
+  }
+}

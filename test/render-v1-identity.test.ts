@@ -1,0 +1,47 @@
+// A first-version design renders exactly as the first version rendered it: the six designs in
+// test/fixtures/v1-renders.json were rendered by the first version's code (6 s of the demo track
+// from 10 s, 48 kHz stereo, side streams on) and their Float32 samples hashed with SHA-256. Here the
+// stored version 1 documents go through the migration to version 2 and the way-by-way renderer.
+import { createHash } from 'node:crypto';
+import { describe, expect, it } from 'vitest';
+import fixture from './fixtures/v1-renders.json' with { type: 'json' };
+import { parseDesign } from '../src/engine/design/validate.ts';
+import { renderBuffer } from '../src/engine/render/index.ts';
+import { synthesizeDemoTrack } from '../src/engine/demo/track.ts';
+
+const sha256 = (arrays: Float32Array[]): string => {
+  const h = createHash('sha256');
+  for (const a of arrays) h.update(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
+  return h.digest('hex');
+};
+
+const { start_s, seconds, sample_rate: fs } = fixture.excerpt;
+const track = synthesizeDemoTrack(fs);
+const from = Math.round(start_s * fs);
+const excerpt = track.channels.map((c) => c.slice(from, from + Math.round(seconds * fs)));
+
+describe('version 1 designs render bit-identically after migration', () => {
+  for (const [name, stored] of Object.entries(fixture.designs)) {
+    it(name, () => {
+      const parsed = parseDesign(stored.design);
+      if (!parsed.ok) throw new Error(parsed.errors.map((e) => `${e.path}: ${e.message}`).join('\n'));
+      expect(parsed.design.version).toBe(2);
+      const r = renderBuffer(parsed.system, excerpt, fs, { extraStreams: true });
+      expect(sha256(r.audio)).toBe(stored.audio);
+      expect(sha256(r.linear!)).toBe(stored.linear);
+      expect(sha256(r.residual!)).toBe(stored.residual);
+      const t = r.traces;
+      expect(sha256([t.excursionMm, t.coilTempC, t.portSpeed, t.compressionDb, t.residualDb])).toBe(stored.traces);
+      // The first version's summary fields, unchanged; events now also name their way.
+      const { realtime_factor: _rt, ways, events, ...rest } = r.summary;
+      const { events: storedEvents, ...storedRest } = stored.summary;
+      expect(rest).toEqual(storedRest);
+      expect(events.map(({ way: _w, ...e }) => e)).toEqual(storedEvents);
+      for (const e of events) expect(e.way).toBe(e.kind === 'distortion' ? undefined : 'woofer');
+      // The woofer way's own peaks are the top-level ones.
+      expect(ways.map((w) => w.name)).toEqual(['woofer']);
+      const { name: _n, ...woofer } = ways[0];
+      for (const [k, v] of Object.entries(woofer)) expect(rest[k as keyof typeof rest]).toEqual(v);
+    });
+  }
+});
