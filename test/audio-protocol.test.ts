@@ -66,9 +66,22 @@ describe('messages to the worklet', () => {
     expect(err({ type: 'track', channels: [new Float32Array(0)] })).toBe(
       'message("track").channels is empty: a track needs at least one frame',
     );
-    const bad = system('sealed') as unknown as { driver: { fs: number } };
-    bad.driver.fs = -3;
-    expect(err({ type: 'design', slot: 'a', system: bad, voltsFs: 1 })).toContain('system.driver.fs must be within');
+    const bad = system('sealed') as unknown as { ways: { driver: { fs: number } }[] };
+    bad.ways[0].driver.fs = -3;
+    expect(err({ type: 'design', slot: 'a', system: bad, voltsFs: 1 })).toContain('system.ways[0].driver.fs must be within');
+    const flipped = system('sealed') as unknown as { ways: { polarity: number }[] };
+    flipped.ways[1].polarity = 0;
+    expect(err({ type: 'design', slot: 'a', system: flipped, voltsFs: 1 })).toBe(
+      'message("design").system.ways[1].polarity must be 1 or -1, got 0',
+    );
+    const five = system('sealed') as unknown as { ways: unknown[] };
+    five.ways = [...five.ways, ...five.ways, five.ways[0]];
+    expect(err({ type: 'design', slot: 'a', system: five, voltsFs: 1 })).toBe(
+      'message("design").system.ways must be a list of 1 to 4 ways, got an array of 5',
+    );
+    const noDriver = system('sealed') as unknown as { ways: unknown[] };
+    noDriver.ways = noDriver.ways.slice(1);
+    expect(err({ type: 'design', slot: 'a', system: noDriver, voltsFs: 1 })).toBe('message("design").system.ways has no way with a driver');
   });
 
   it('moves the track samples instead of copying them, and refuses to encode a bad message', () => {
@@ -96,9 +109,19 @@ describe('reports from the worklet', () => {
       type: 'events',
       slot: 'b',
       from: 2,
-      events: [{ kind: 'port-speed', start_s: 1, end_s: 1.2, peak: 19, unit: 'm/s', limit: 17 }],
+      events: [
+        { kind: 'port-speed', way: 'woofer', start_s: 1, end_s: 1.2, peak: 19, unit: 'm/s', limit: 17 },
+        { kind: 'distortion', way: null, start_s: 2, end_s: 2.5, peak: -18, unit: 'dB', limit: -20 },
+      ],
     };
     expect(parseFromWorklet(ev)).toEqual({ ok: true, msg: ev });
+    // A first-version report names no way: the way is null (the strip puts it in the first way's lane).
+    const old = { ...ev, events: [{ kind: 'excursion', start_s: 1, end_s: 1.1, peak: 6, unit: 'mm', limit: 5.5 }] };
+    expect(parseFromWorklet(old)).toEqual({ ok: true, msg: { ...old, events: [{ ...old.events[0], way: null }] } });
+    expect(parseFromWorklet({ ...ev, events: [{ ...ev.events[0], way: 3 }] })).toEqual({
+      ok: false,
+      error: 'report("events").events[0].way must be a string, got 3',
+    });
     expect(
       parseFromWorklet({
         type: 'events',

@@ -3,6 +3,11 @@ import { Autosave, memoryBackend } from '../src/ui/persist.ts';
 import { Store } from '../src/ui/store.ts';
 import { demoPair } from '../src/ui/demo.ts';
 import { connectTabs } from '../src/ui/tabsync.ts';
+import type { DesignDoc, DriverWayDoc } from '../src/engine/design/document.ts';
+import { validate } from '../src/ui/engine.ts';
+import ventedV1 from '../public/examples/living-room-vented.json';
+
+const woofer = (d: DesignDoc | undefined) => d?.ways[0] as DriverWayDoc;
 
 describe('no lost work', () => {
   it('sets an unreadable stored state aside and restores the last good one', async () => {
@@ -11,12 +16,12 @@ describe('no lost work', () => {
     const store = new Store(demoPair);
     await first.load();
     first.attach(store);
-    store.dispatch({ type: 'edit', slot: 'a', path: 'box.vb_l', value: 17 });
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 17 });
     await first.flush();
     backend.value = { kind: 'preheard-app-state', version: 1, state: 'garbage' };
     const second = new Autosave(backend);
     const restored = await second.load();
-    expect(restored?.designs.a.box.vb_l).toBe(17);
+    expect((woofer(restored?.designs.a).box as { vb_l: number }).vb_l).toBe(17);
     expect(second.status.kind).toBe('recovered');
     expect(await second.setAsideText()).toContain('garbage');
   });
@@ -44,10 +49,10 @@ describe('no lost work', () => {
     const off2 = connectTabs(s2, a2, c2 as never, 'tab-2');
     const spy = new BroadcastChannel(name);
     spy.onmessage = () => received++;
-    s1.dispatch({ type: 'edit', slot: 'b', path: 'box.fb_hz', value: 37 });
+    s1.dispatch({ type: 'edit', slot: 'b', path: 'ways.0.box.fb_hz', value: 37 });
     await a1.flush();
     await new Promise((r) => setTimeout(r, 50));
-    expect((s2.get().designs.b.box as { fb_hz?: number }).fb_hz).toBe(37);
+    expect((woofer(s2.get().designs.b).box as { fb_hz?: number }).fb_hz).toBe(37);
     expect(s2.canUndo()).toBe(true);
     await a2.flush();
     await new Promise((r) => setTimeout(r, 50));
@@ -56,5 +61,24 @@ describe('no lost work', () => {
     off1();
     off2();
     spy.close();
+  });
+
+  it('adopts version 1 designs announced by a tab still running the first version, as version 2', async () => {
+    const name = `preheard-test-${Math.random()}`;
+    const store = new Store(demoPair);
+    const save = new Autosave(memoryBackend());
+    save.attach(store);
+    const off = connectTabs(store, save, new BroadcastChannel(name) as never, 'new-tab');
+    const old = new BroadcastChannel(name);
+    const edited = { ...structuredClone(ventedV1), name: 'from the old tab' };
+    old.postMessage({ kind: 'preheard-designs', tab: 'old-tab', savedAt: 1, designs: { a: edited, b: structuredClone(ventedV1) } });
+    await new Promise((r) => setTimeout(r, 50));
+    const a = store.get().designs.a;
+    expect(a.name).toBe('from the old tab');
+    expect(a.version).toBe(2);
+    const ref = validate(structuredClone(edited));
+    expect(ref.ok && ref.design).toEqual(a);
+    off();
+    old.close();
   });
 });

@@ -8,13 +8,21 @@ import { demoPair } from '../src/ui/demo.ts';
 import { retryStorage, startStorage } from '../src/ui/startup.ts';
 import { SharedView } from '../src/ui/shared-view.ts';
 import { connectTabs } from '../src/ui/tabsync.ts';
+import { setAt } from '../src/ui/paths.ts';
+import type { DesignDoc } from '../src/engine/design/document.ts';
+
+/** The woofer box (the first way) of a design, any box kind. */
+const boxOf = (d: DesignDoc | undefined) => {
+  if (!d) throw new Error('no design');
+  return (d.ways[0] as { box: { type: string; vb_l: number } }).box;
+};
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** A stored state whose design A has a 23.5 l box: the user's own work. */
 function usersWork(): SavedState {
   const designs = demoPair();
-  designs.a = { ...designs.a, name: 'My own design', box: { ...designs.a.box, vb_l: 23.5 } as typeof designs.a.box };
+  designs.a = { ...setAt(designs.a, 'ways.0.box.vb_l', 23.5), name: 'My own design' };
   return {
     kind: 'preheard-app-state',
     version: 1,
@@ -33,7 +41,7 @@ describe('a slow or failing start-up read never leads to an overwrite', () => {
     expect(autosave.status.kind).toBe('waiting');
     // The first-run cautions are dismissed and an edit made, as a user would while waiting.
     store.dispatch({ type: 'settings', patch: { cautionsDismissed: true } });
-    store.dispatch({ type: 'edit', slot: 'b', path: 'box.vb_l', value: 9 });
+    store.dispatch({ type: 'edit', slot: 'b', path: 'ways.0.box.vb_l', value: 9 });
     await autosave.flush();
     expect(backend.writes).toBe(0);
     expect((backend.value as SavedState).state.designs.a.name).toBe('My own design');
@@ -44,7 +52,7 @@ describe('a slow or failing start-up read never leads to an overwrite', () => {
     expect((backend.lastGood as SavedState).state.designs.a.name).toBe('My own design');
     // The edit made while waiting is one undo away.
     store.dispatch({ type: 'undo' });
-    expect(store.get().designs.b.box.vb_l).toBe(9);
+    expect(boxOf(store.get().designs.b).vb_l).toBe(9);
   });
 
   it('a failed read: nothing written, says so; Try again reads and restores', async () => {
@@ -76,7 +84,7 @@ describe('a slow or failing start-up read never leads to an overwrite', () => {
 describe('a stored state is validated as a design file before use', () => {
   const cases: [string, (s: SavedState) => void][] = [
     ['designs = {a: {}, b: {}}', (s) => ((s.state.designs as unknown) = { a: {}, b: {} })],
-    ['box: {type: "bogus"}', (s) => ((s.state.designs.a as unknown as { box: unknown }).box = { type: 'bogus' })],
+    ['box: {type: "bogus"}', (s) => ((s.state.designs.a.ways[0] as unknown as { box: unknown }).box = { type: 'bogus' })],
     ['a design missing', (s) => delete (s.state.designs as Partial<AppState['designs']>).b],
     ['settings not an object', (s) => ((s.state as unknown as { settings: unknown }).settings = 7)],
   ];
@@ -104,13 +112,13 @@ describe('a stored state is validated as a design file before use', () => {
     const autosave = new Autosave(backend);
     store.dispatch({ type: 'restore', state: (await autosave.load())! });
     autosave.attach(store);
-    store.dispatch({ type: 'edit', slot: 'a', path: 'box.type', value: 'bogus' });
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.type', value: 'bogus' });
     await autosave.flush();
-    expect((backend.value as SavedState).state.designs.a.box.type).toBe('bogus');
-    expect((backend.lastGood as SavedState).state.designs.a.box.type).toBe(usersWork().state.designs.a.box.type);
+    expect(boxOf((backend.value as SavedState).state.designs.a).type).toBe('bogus');
+    expect(boxOf((backend.lastGood as SavedState).state.designs.a).type).toBe(boxOf(usersWork().state.designs.a).type);
     // Next start: the bad state is set aside and the last good one restored.
     const next = new Autosave(backend);
-    expect((await next.load())?.designs.a.box.vb_l).toBe(23.5);
+    expect(boxOf((await next.load())?.designs.a).vb_l).toBe(23.5);
     expect(next.status.kind).toBe('recovered');
   });
 });
@@ -135,7 +143,7 @@ describe('a share link is a look until the user keeps it', () => {
     shared.a = { ...shared.a, name: 'From a link' };
     const view = new SharedView(s1, a1);
     view.open(shared);
-    s1.dispatch({ type: 'edit', slot: 'b', path: 'box.vb_l', value: 11 });
+    s1.dispatch({ type: 'edit', slot: 'b', path: 'ways.0.box.vb_l', value: 11 });
     await a1.flush();
     await sleep(50);
     expect(a1.status.kind).toBe('held');
@@ -165,10 +173,10 @@ describe('an edit made just before the page closes', () => {
     // From here on every IndexedDB write is dropped, as when the page is torn down mid-transaction.
     backend.save = () => new Promise(() => undefined);
     autosave.attach(store);
-    store.dispatch({ type: 'edit', slot: 'a', path: 'box.vb_l', value: 31 });
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 31 });
     autosave.flushNow();
     const next = new Autosave(backend);
-    expect((await next.load())?.designs.a.box.vb_l).toBe(31);
+    expect(boxOf((await next.load())?.designs.a).vb_l).toBe(31);
   });
 
   it('an older journal does not win over a newer stored state', async () => {

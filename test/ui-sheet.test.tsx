@@ -54,7 +54,12 @@ describe('Client sheet', () => {
     // Key parameters from the demo design files: 14 l sealed, 20 l vented tuned to 40 Hz.
     const params = within(paper).getByTestId('sheet-params');
     expect(params.textContent).toMatch(/Sealed, 14\.0 l net/);
-    expect(params.textContent).toMatch(/Vented \(ported\), 20\.0 l net/);
+    expect(params.textContent).toMatch(/Vented, 20\.0 l net/);
+    // Every way of both designs is listed: each demo design is a woofer and the flat upper band.
+    expect(within(params).getByTestId('sheet-way-0').textContent).toMatch(/woofer: Kestrel 165.*woofer: Kestrel 165/);
+    expect(within(params).getByTestId('sheet-way-1').textContent).toMatch(/upper band.*upper band/);
+    expect(params.textContent).toMatch(/low-pass LR 24 dB at 2200 Hz/);
+    expect(params.textContent).toMatch(/an ideal flat band/);
     expect(params.textContent).toMatch(/40\.0 Hz/);
     // Four curves, drawn as SVG with real text for print.
     expect(paper.querySelectorAll('svg.print-chart').length).toBe(4);
@@ -95,7 +100,7 @@ describe('print chart', () => {
   const an = (x: unknown) => {
     const r = validate(x);
     if (!r.ok) throw new Error('demo invalid');
-    return analyze(r.system, {});
+    return { analysis: analyze(r.system, {}), system: r.system };
   };
   const charts = buildCharts({ a: an(d.a), b: an(d.b) });
   const spl = charts.find((c) => c.id === 'spl')!;

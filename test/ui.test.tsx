@@ -34,6 +34,9 @@ import { App } from '../src/ui/App.tsx';
 import { Store } from '../src/ui/store.ts';
 import { Autosave, memoryBackend, type StorageBackend } from '../src/ui/persist.ts';
 import { demoPair } from '../src/ui/demo.ts';
+import type { DesignDoc, DriverWayDoc } from '../src/engine/design/document.ts';
+
+const woofer = (d: DesignDoc) => d.ways[0] as DriverWayDoc;
 
 function mount(backend: StorageBackend = memoryBackend(), dismissed = true) {
   const store = new Store(demoPair);
@@ -75,14 +78,14 @@ describe('the app', () => {
     const { store } = mount();
     const fs = screen.getByLabelText('Resonance fs, design A') as HTMLInputElement;
     await act(() => {
-      fireEvent.input(fs, { target: { value: '5000' } });
+      fireEvent.input(fs, { target: { value: '6000' } });
     });
-    expect(fs.value).toBe('5000');
+    expect(fs.value).toBe('6000');
     expect(fs.getAttribute('aria-invalid')).toBe('true');
     const msg = document.getElementById(fs.getAttribute('aria-describedby')!)!;
-    // The schema's range for fs (1 to 2000 Hz) is named in the message.
-    expect(msg.textContent).toMatch(/1 to 2000/);
-    expect(store.get().designs.a.driver.fs_hz).toBe(5000);
+    // The schema's range for fs (1 to 5000 Hz) is named in the message.
+    expect(msg.textContent).toMatch(/1 to 5000/);
+    expect(woofer(store.get().designs.a).driver.fs_hz).toBe(6000);
     expect(screen.getAllByText(/errors?$/).length).toBeGreaterThan(0);
     // The figures of A show its last valid version, marked as such.
     expect(screen.getAllByText(/last valid version/).length).toBeGreaterThan(0);
@@ -111,22 +114,84 @@ describe('the app', () => {
     expect(screen.getByTestId('f3-a').textContent).not.toBe(f3Before);
   });
 
+  it('works per way: adds a tweeter to B, edits its filter and box, copies it to A, renames and removes it', async () => {
+    const { store } = mount();
+    const b0 = store.get().designs.b;
+    expect(b0.ways.map((w) => w.name)).toEqual(['woofer', 'upper band']);
+    // A's woofer is its only driver way: it cannot be removed.
+    expect((screen.getByRole('button', { name: 'Remove way woofer from design A' }) as HTMLButtonElement).disabled).toBe(true);
+    await act(() => {
+      fireEvent.change(screen.getByLabelText('Add a way to design B'), { target: { value: 'tweeter' } });
+    });
+    const b1 = store.get().designs.b;
+    expect(b1.ways.map((w) => w.kind)).toEqual(['driver', 'flat', 'driver']);
+    const tw = b1.ways[2] as DriverWayDoc;
+    expect(tw.name).toBe('tweeter');
+    // The tweeter is crossed where the woofer is (its low-pass), in a small closed box.
+    expect(tw.filter?.highpass).toEqual({ shape: 'lr4', hz: woofer(b0).filter?.lowpass?.hz });
+    expect(tw.box).toEqual({ type: 'sealed', vb_l: 0.12 });
+    // The sheet now shows B's tweeter beside A's woofer.
+    expect((screen.getByTestId('way-pick-b') as HTMLSelectElement).value).toBe('2');
+    expect((screen.getByLabelText('Resonance fs, design B') as HTMLInputElement).value).toBe('950');
+    expect((screen.getByLabelText('Resonance fs, design A') as HTMLInputElement).value).toBe(String(woofer(b0).driver.fs_hz));
+    expect((screen.getByLabelText('High-pass corner, design B') as HTMLInputElement).value).toBe(String(tw.filter?.highpass?.hz));
+    await act(() => {
+      fireEvent.input(screen.getByLabelText('Way gain, design B'), { target: { value: '-3' } });
+    });
+    expect(store.get().designs.b.ways[2].filter?.gain_db).toBe(-3);
+    await act(() => {
+      fireEvent.click(screen.getByRole('tab', { name: 'Cabinet' }));
+    });
+    expect((screen.getByLabelText('Net volume Vb, design B') as HTMLInputElement).value).toBe('0.12');
+    expect(screen.getByTestId('fig-b-way').textContent).toBe('tweeter');
+    await act(() => {
+      fireEvent.input(screen.getByLabelText('Net volume Vb, design B'), { target: { value: '0.2' } });
+    });
+    expect(((store.get().designs.b.ways[2] as DriverWayDoc).box as { vb_l: number }).vb_l).toBe(0.2);
+    expect(woofer(store.get().designs.b).box).toEqual(woofer(b0).box);
+    // Copy to A: added as A's third way, identical, and shown there.
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Copy way tweeter from design B to design A' }));
+    });
+    expect(store.get().designs.a.ways[2]).toEqual(store.get().designs.b.ways[2]);
+    expect(store.get().designs.a.ways[2]).not.toBe(store.get().designs.b.ways[2]);
+    expect((screen.getByTestId('way-pick-a') as HTMLSelectElement).value).toBe('2');
+    // Rename in B, then remove; undo brings it back.
+    await act(() => {
+      fireEvent.input(screen.getByLabelText('Way name, design B'), { target: { value: 'dome' } });
+    });
+    expect(store.get().designs.b.ways[2].name).toBe('dome');
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Remove way dome from design B' }));
+    });
+    expect(store.get().designs.b.ways.map((w) => w.name)).toEqual(['woofer', 'upper band']);
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Undo' }));
+    });
+    expect(store.get().designs.b.ways.map((w) => w.name)).toEqual(['woofer', 'upper band', 'dome']);
+    // With the tweeter copied in, A's woofer is no longer its only driver way.
+    await act(() => {
+      fireEvent.change(screen.getByTestId('way-pick-a'), { target: { value: '0' } });
+    });
+    expect((screen.getByRole('button', { name: 'Remove way woofer from design A' }) as HTMLButtonElement).disabled).toBe(false);
+  });
+
   it('applies an alignment suggestion with one click, and undo brings the box back', async () => {
     const { store } = mount();
     await act(() => {
       fireEvent.click(screen.getByRole('tab', { name: 'Cabinet' }));
     });
-    const box0 = store.get().designs.b.box;
+    const box0 = woofer(store.get().designs.b).box;
     const apply = screen.getAllByRole('button', { name: /^Apply .* to design B$/ });
     expect(apply.length).toBeGreaterThan(2);
     await act(() => {
       fireEvent.click(apply[0]);
     });
-    expect(store.get().designs.b.box).not.toEqual(box0);
+    expect(woofer(store.get().designs.b).box).not.toEqual(box0);
     await act(() => {
       fireEvent.click(screen.getByRole('button', { name: 'Undo' }));
     });
-    expect(store.get().designs.b.box).toEqual(box0);
+    expect(woofer(store.get().designs.b).box).toEqual(box0);
   });
 
   it('shows the first-run cautions until dismissed, and reopens them', async () => {

@@ -5,6 +5,8 @@ import type { SpeakerSystem } from '../engine/system.ts';
 import type { RenderMode, StressEvent } from '../engine/render/index.ts';
 import { EVENT_KINDS } from '../engine/render/index.ts';
 import { LANE_IDS, type LaneId } from './lanes.ts';
+import { FILTER_SHAPES, MAX_DRIVERS_PER_WAY, MAX_WAYS } from '../engine/design/schema.ts';
+import { BOX_TYPES } from '../engine/box/index.ts';
 
 export type { LaneId };
 export type DesignSlot = 'a' | 'b';
@@ -118,6 +120,12 @@ function oneOf<T extends string>(o: Record<string, unknown>, key: string, allowe
   return v as T;
 }
 
+function str(o: Record<string, unknown>, key: string, path: string): string {
+  const v = o[key];
+  if (typeof v !== 'string') throw new Bad(`${path}.${key} must be a string, got ${show(v)}`);
+  return v;
+}
+
 function bool(o: Record<string, unknown>, key: string, path: string): boolean {
   const v = o[key];
   if (typeof v !== 'boolean') throw new Bad(`${path}.${key} must be true or false, got ${show(v)}`);
@@ -128,11 +136,42 @@ function bool(o: Record<string, unknown>, key: string, path: string): boolean {
 function system(v: unknown, path: string): SpeakerSystem {
   const s = obj(v, path);
   if (typeof s.name !== 'string') throw new Bad(`${path}.name must be a string, got ${show(s.name)}`);
-  for (const part of ['air', 'driver', 'box', 'amplifier', 'crossover', 'listening']) obj(s[part], `${path}.${part}`);
-  const d = s.driver as Record<string, unknown>;
-  for (const k of ['fs', 're', 'bl', 'mms', 'cms', 'sd', 'xmax']) num(d, k, Number.MIN_VALUE, Number.MAX_VALUE, `${path}.driver`);
-  oneOf(s.box as Record<string, unknown>, 'type', ['sealed', 'vented', 'passive-radiator'], `${path}.box`);
+  for (const part of ['air', 'amplifier', 'listening']) obj(s[part], `${path}.${part}`);
+  const ways = s.ways;
+  if (!Array.isArray(ways) || ways.length < 1 || ways.length > MAX_WAYS)
+    throw new Bad(`${path}.ways must be a list of 1 to ${MAX_WAYS} ways, got ${show(ways)}`);
+  for (const [k, w] of ways.entries()) way(w, `${path}.ways[${k}]`);
+  if (!ways.some((w) => (w as Record<string, unknown>).kind === 'driver')) throw new Bad(`${path}.ways has no way with a driver`);
   return v as SpeakerSystem;
+}
+
+function way(v: unknown, path: string): void {
+  const w = obj(v, path);
+  if (typeof w.name !== 'string') throw new Bad(`${path}.name must be a string, got ${show(w.name)}`);
+  const kind = oneOf(w, 'kind', ['driver', 'flat'], path);
+  const f = obj(w.filter, `${path}.filter`);
+  oneOf(f, 'type', ['active'], `${path}.filter`);
+  for (const band of ['highpass', 'lowpass']) {
+    if (f[band] === null) continue;
+    const b = obj(f[band], `${path}.filter.${band}`);
+    oneOf(b, 'shape', FILTER_SHAPES, `${path}.filter.${band}`);
+    num(b, 'hz', Number.MIN_VALUE, Number.MAX_VALUE, `${path}.filter.${band}`);
+  }
+  num(f, 'gain', 0, Number.MAX_VALUE, `${path}.filter`);
+  num(f, 'delay', 0, Number.MAX_VALUE, `${path}.filter`);
+  if (w.polarity !== 1 && w.polarity !== -1) throw new Bad(`${path}.polarity must be 1 or -1, got ${show(w.polarity)}`);
+  num(w, 'offset', -Number.MAX_VALUE, Number.MAX_VALUE, path);
+  if (kind === 'flat') {
+    num(w, 'paPerV', 0, Number.MAX_VALUE, path);
+    return;
+  }
+  for (const part of ['driver', 'unit']) {
+    const d = obj(w[part], `${path}.${part}`);
+    for (const k of ['fs', 're', 'bl', 'mms', 'cms', 'sd', 'xmax']) num(d, k, Number.MIN_VALUE, Number.MAX_VALUE, `${path}.${part}`);
+  }
+  num(w, 'count', 1, MAX_DRIVERS_PER_WAY, path, true);
+  oneOf(w, 'wiring', ['series', 'parallel'], path);
+  oneOf(obj(w.box, `${path}.box`), 'type', BOX_TYPES, `${path}.box`);
 }
 
 function channels(v: unknown, path: string): Float32Array[] {
@@ -222,19 +261,17 @@ function stressEvents(v: unknown, path: string): StressEvent[] {
     const o = obj(e, `${path}[${i}]`);
     const q = `${path}[${i}]`;
     const big = 1e12;
-    return {
+    const event = {
       kind: oneOf(o, 'kind', EVENT_KINDS, q),
+      // The way whose limit was crossed (null: the summed output; absent from a first-version render).
+      way: o.way === undefined || o.way === null ? null : str(o, 'way', q),
       start_s: num(o, 'start_s', 0, big, q),
       end_s: num(o, 'end_s', 0, big, q),
       peak: num(o, 'peak', -big, big, q),
-      unit:
-        typeof o.unit === 'string'
-          ? o.unit
-          : (() => {
-              throw new Bad(`${q}.unit must be a string, got ${show(o.unit)}`);
-            })(),
+      unit: str(o, 'unit', q),
       limit: num(o, 'limit', -big, big, q),
     };
+    return event as StressEvent;
   });
 }
 

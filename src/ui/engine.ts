@@ -7,8 +7,11 @@ import type { AlignmentSuggestion } from '../engine/align/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { Issue } from '../engine/issues.ts';
 import type { Slot } from './store.ts';
+import { BOX_KINDS } from '../engine/box/index.ts';
+import type { BoxFigure } from '../engine/box/physics.ts';
+import type { DriverWay } from '../engine/system.ts';
 
-export { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS } from '../engine/response/analyze.ts';
+export { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS } from '../engine/units.ts';
 
 export type ParseResult =
   | { ok: true; design: DesignDoc; system: SpeakerSystem; warnings: Issue[] }
@@ -22,6 +25,8 @@ export interface Derived {
   issues: Issue[];
   /** Analysis of the design as edited, or of its last valid version when the edit is rejected. */
   analysis: Analysis | null;
+  /** The system that analysis belongs to (screens read the system here, not from the analysis). */
+  system: SpeakerSystem | null;
   /** True when `analysis` belongs to an earlier, valid version (the current one has errors). */
   stale: boolean;
 }
@@ -29,7 +34,7 @@ export interface Derived {
 const parsed = new WeakMap<object, ParseResult>();
 const analysed = new WeakMap<SpeakerSystem, Analysis>();
 const suggested = new WeakMap<SpeakerSystem, Suggestion[]>();
-const lastGood: Record<Slot, Analysis | null> = { a: null, b: null };
+const lastGood: Record<Slot, { analysis: Analysis; system: SpeakerSystem } | null> = { a: null, b: null };
 
 export function validate(doc: unknown): ParseResult {
   if (doc !== null && typeof doc === 'object') {
@@ -64,8 +69,20 @@ export function derive(slot: Slot, doc: DesignDoc): Derived {
   const parse = validate(doc);
   if (parse.ok) {
     const analysis = analysisOf(parse.system);
-    lastGood[slot] = analysis;
-    return { parse, issues: [...parse.warnings, ...analysis.warnings], analysis, stale: false };
+    lastGood[slot] = { analysis, system: parse.system };
+    return { parse, issues: [...parse.warnings, ...analysis.warnings], analysis, system: parse.system, stale: false };
   }
-  return { parse, issues: [...parse.errors, ...parse.warnings], analysis: lastGood[slot], stale: lastGood[slot] !== null };
+  const good = lastGood[slot];
+  return {
+    parse,
+    issues: [...parse.errors, ...parse.warnings],
+    analysis: good?.analysis ?? null,
+    system: good?.system ?? null,
+    stale: good !== null,
+  };
+}
+
+/** A way's box figures as its kind gives them (tuning, port length, pipe resonance, chambers...). */
+export function boxFigures(system: SpeakerSystem, way: DriverWay): BoxFigure[] {
+  return BOX_KINDS[way.box.type].figures(way.box, system.air);
 }

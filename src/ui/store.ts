@@ -33,6 +33,10 @@ export interface Settings {
   trialRounds?: number;
   /** Listening bench choices kept across visits (the monitor gain is not: it starts low every time). */
   bench?: { match: boolean; mode: 'nonlinear' | 'linear' | 'residual' };
+  /** The way each design's Driver sheet and Cabinet show (an index into its ways). */
+  way?: Partial<Record<Slot, number>>;
+  /** Curves: draw each way beside the system sum. */
+  showWays?: boolean;
 }
 
 export interface Designs {

@@ -2,6 +2,7 @@
 // BroadcastChannel, and the other tabs adopt them as an undoable step. The last writer wins.
 import type { Autosave } from './persist.ts';
 import type { Designs, Store } from './store.ts';
+import { upgradeDesigns } from './upgrade.ts';
 
 interface Announcement {
   kind: 'preheard-designs';
@@ -29,10 +30,13 @@ export function connectTabs(store: Store, autosave: Autosave, channel: Broadcast
   channel.onmessage = (ev) => {
     // A tab showing a shared link keeps showing it; it catches up when it goes back to saved work.
     if (!isAnnouncement(ev.data) || ev.data.tab === tab || autosave.held) return;
-    const text = JSON.stringify(ev.data.designs);
+    // A tab still running an earlier version announces earlier documents: migrate them.
+    const designs = upgradeDesigns(ev.data.designs);
+    if (!designs) return;
+    const text = JSON.stringify(designs);
     if (text === JSON.stringify(store.get().designs)) return;
     shared = text;
-    store.dispatch({ type: 'replace-pair', designs: ev.data.designs, reason: 'changes made in another tab' });
+    store.dispatch({ type: 'replace-pair', designs, reason: 'changes made in another tab' });
   };
   return () => {
     offSaved();

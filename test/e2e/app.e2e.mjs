@@ -1,10 +1,18 @@
 // The app in real headless chromium, in order: each test gets { context, server, offHost, state, origin }.
 import assert from 'node:assert/strict';
+import { spawnSync } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { ROOT, buildApp, launchBrowser, startPreview } from './harness.mjs';
 
 const SHOTS = join(ROOT, 'test', 'e2e', 'screenshots');
+/** Reads a design from stdin through the engine's own parseDesign; prints whether it passed and its ways' kinds. */
+const PARSE_STDIN = `
+import { readFileSync } from 'node:fs';
+import { parseDesign } from './src/engine/design/validate.ts';
+const r = parseDesign(readFileSync(0, 'utf8'));
+console.log(JSON.stringify({ ok: r.ok, ways: r.ok ? r.design.ways.map((w) => w.kind) : r.errors }));
+`;
 const SCREENS = [
   ['driver', 'Driver sheet'],
   ['cabinet', 'Cabinet'],
@@ -120,7 +128,7 @@ export const tests = [
       await fs.fill('0.2');
       const msg = p.locator(`#${await fs.getAttribute('aria-describedby')}`);
       await msg.waitFor();
-      assert.match(await msg.innerText(), /from 1 to 2000/);
+      assert.match(await msg.innerText(), /from 1 to 5000/);
       assert.equal(await fs.inputValue(), '0.2', 'the typed value is never silently replaced');
       assert.equal(await fs.getAttribute('aria-invalid'), 'true');
       await p.locator('body').click({ position: { x: 5, y: 5 } });
@@ -230,7 +238,56 @@ export const tests = [
       assert.match(file.suggestedFilename(), /\.preheard\.json$/);
       const doc = JSON.parse((await streamBytes(await file.createReadStream())).toString('utf8'));
       assert.equal(doc.format, 'preheard-design');
-      if (ctx.state.newVb) assert.equal(String(doc.box.vb_l), ctx.state.newVb);
+      assert.equal(doc.version, 2);
+      if (ctx.state.newVb) assert.equal(String(doc.ways[0].box.vb_l), ctx.state.newVb);
+    },
+  },
+  {
+    name: 'a tweeter way added to design B draws its own line in the Curves and exports as a version 2 design',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await tab(p, 'Driver sheet');
+      const waysBefore = await p.locator('[data-testid=way-pick-b] option').count();
+      await p.locator('[data-testid=way-add-b]').selectOption('tweeter');
+      assert.equal(await p.locator('[data-testid=way-pick-b] option').count(), waysBefore + 1);
+      assert.equal(await p.locator('[data-testid=way-pick-b]').inputValue(), String(waysBefore));
+      assert.equal(await p.getByLabel('Resonance fs, design B', { exact: true }).inputValue(), '950');
+      await tab(p, 'Curves');
+      const card = p.locator('.chart-card', { has: p.locator('[data-chart=spl]') });
+      assert.ok(!(await card.innerText()).includes('B tweeter'), 'the sum alone until asked');
+      await p.locator('[data-testid=show-ways]').check();
+      await card.locator('.u-legend').getByText('B tweeter').waitFor();
+      // The values table has the tweeter's own column: far below the sum at 100 Hz (it is high-passed
+      // at the crossover), a real number at 1 kHz.
+      const values = card.locator('details.values');
+      if (!(await values.evaluate((d) => d.open))) await values.locator('summary').click();
+      await values.locator('tbody tr').first().waitFor();
+      const head = await card.locator('details.values thead th').allInnerTexts();
+      const col = head.findIndex((h) => h.startsWith('B tweeter'));
+      const sumCol = head.findIndex((h) => h.startsWith('B ('));
+      assert.ok(col > 0 && sumCol > 0, `columns: ${head.join(' | ')}`);
+      const rows = await card
+        .locator('details.values tbody tr')
+        .evaluateAll((trs) => trs.map((tr) => [...tr.children].map((c) => Number(c.textContent.replace('−', '-')))));
+      const at = (hz) => rows.reduce((best, r) => (Math.abs(Math.log(r[0] / hz)) < Math.abs(Math.log(best[0] / hz)) ? r : best));
+      assert.ok(at(100)[col] < at(100)[sumCol] - 40, `tweeter at 100 Hz ${at(100)[col]} dB, sum ${at(100)[sumCol]} dB`);
+      assert.ok(Number.isFinite(at(1000)[col]) && at(1000)[col] > at(100)[col] + 40, `tweeter rises toward its band: ${at(1000)[col]} dB`);
+      // Exported, the design is a version 2 file with the tweeter, and the engine's parseDesign accepts it.
+      await p.locator('.menu > summary').click();
+      const [file] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design B' }).click()]);
+      const text = (await streamBytes(await file.createReadStream())).toString('utf8');
+      const doc = JSON.parse(text);
+      assert.equal(doc.version, 2);
+      assert.deepEqual(
+        doc.ways.map((w) => `${w.kind}:${w.name}`),
+        ['driver:woofer', 'flat:upper band', 'driver:tweeter'],
+      );
+      const check = spawnSync(join(ROOT, 'node_modules', '.bin', 'tsx'), ['-e', PARSE_STDIN], { input: text, cwd: ROOT, encoding: 'utf8' });
+      const parsed = JSON.parse(check.stdout || '{}');
+      assert.equal(parsed.ok, true, `parseDesign accepts the export: ${check.stdout}${check.stderr}`);
+      assert.deepEqual(parsed.ways, ['driver', 'flat', 'driver']);
+      await p.locator('[data-testid=show-ways]').uncheck();
+      await p.getByRole('button', { name: 'Undo' }).click();
     },
   },
   {

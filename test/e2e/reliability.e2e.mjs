@@ -63,11 +63,11 @@ export const tests = [
     name: 'an edit survives closing the tab',
     fn: async (ctx) => {
       const p = await open(ctx);
-      await edit(p, 'a', 'box.vb_l', 16.5);
+      await edit(p, 'a', 'ways.0.box.vb_l', 16.5);
       await saved(p);
       await p.close({ runBeforeUnload: false });
       const q = await open(ctx);
-      assert.equal(await valueAt(q, 'a', 'box.vb_l'), 16.5);
+      assert.equal(await valueAt(q, 'a', 'ways.0.box.vb_l'), 16.5);
       await q.close();
     },
   },
@@ -75,7 +75,7 @@ export const tests = [
     name: 'an unreadable stored state is set aside and the last good state restored',
     fn: async (ctx) => {
       const p = await open(ctx);
-      await edit(p, 'a', 'box.vb_l', 15.25);
+      await edit(p, 'a', 'ways.0.box.vb_l', 15.25);
       await saved(p);
       await p.evaluate(
         () =>
@@ -95,7 +95,7 @@ export const tests = [
       const banner = p.getByTestId('recovery-banner');
       await banner.waitFor();
       assert.match(await banner.innerText(), /last good state/);
-      assert.equal(await valueAt(p, 'a', 'box.vb_l'), 15.25);
+      assert.equal(await valueAt(p, 'a', 'ways.0.box.vb_l'), 15.25);
       const download = p.waitForEvent('download');
       await banner.getByRole('button', { name: 'Download the unreadable data' }).click();
       const file = await download;
@@ -108,11 +108,11 @@ export const tests = [
     name: 'two tabs editing at once stay consistent',
     fn: async (ctx) => {
       const [p, q] = [await open(ctx), await open(ctx)];
-      await edit(p, 'b', 'box.fb_hz', 36.5);
-      await q.waitForFunction(() => window.__preheard.store.get().designs.b.box.fb_hz === 36.5, null, { timeout: 5000 });
+      await edit(p, 'b', 'ways.0.box.fb_hz', 36.5);
+      await q.waitForFunction(() => window.__preheard.store.get().designs.b.ways[0].box.fb_hz === 36.5, null, { timeout: 5000 });
       await edit(q, 'a', 'listening.distance_m', 2.5);
       await p.waitForFunction(() => window.__preheard.store.get().designs.a.listening.distance_m === 2.5, null, { timeout: 5000 });
-      assert.equal(await valueAt(p, 'b', 'box.fb_hz'), 36.5);
+      assert.equal(await valueAt(p, 'b', 'ways.0.box.fb_hz'), 36.5);
       await Promise.all([p.close(), q.close()]);
     },
   },
@@ -153,10 +153,10 @@ export const tests = [
       let kept = 0;
       for (let k = 0; k < 10; k++) {
         const v = 12 + k / 4;
-        await edit(p, 'a', 'box.vb_l', v);
+        await edit(p, 'a', 'ways.0.box.vb_l', v);
         await p.reload();
         await p.waitForFunction(() => !!window.__preheard);
-        if ((await valueAt(p, 'a', 'box.vb_l')) === v) kept++;
+        if ((await valueAt(p, 'a', 'ways.0.box.vb_l')) === v) kept++;
       }
       console.log(`    [reload at once] ${kept} of 10 edits kept`);
       assert.equal(kept, 10);
@@ -167,27 +167,27 @@ export const tests = [
     name: 'a share link opens in its own tab only, and storage changes only when kept',
     fn: async (ctx) => {
       const p = await open(ctx);
-      await edit(p, 'a', 'box.vb_l', 19.75);
+      await edit(p, 'a', 'ways.0.box.vb_l', 19.75);
       await saved(p);
       const url = await shareLinkOf(p);
-      await edit(p, 'a', 'box.vb_l', 21.5);
+      await edit(p, 'a', 'ways.0.box.vb_l', 21.5);
       await saved(p);
       const q = await ctx.context.newPage();
       await q.goto(url.replace('/#', '/?bench#'));
       await q.getByTestId('shared-banner').waitFor();
-      assert.equal(await valueAt(q, 'a', 'box.vb_l'), 19.75);
+      assert.equal(await valueAt(q, 'a', 'ways.0.box.vb_l'), 19.75);
       await p.waitForTimeout(500);
-      assert.equal(await valueAt(p, 'a', 'box.vb_l'), 21.5, 'the other tab is unchanged');
+      assert.equal(await valueAt(p, 'a', 'ways.0.box.vb_l'), 21.5, 'the other tab is unchanged');
       const r = await open(ctx);
-      assert.equal(await valueAt(r, 'a', 'box.vb_l'), 21.5, 'storage is unchanged');
+      assert.equal(await valueAt(r, 'a', 'ways.0.box.vb_l'), 21.5, 'storage is unchanged');
       await r.close();
       await q.getByRole('button', { name: 'Back to my designs' }).click();
-      await q.waitForFunction(() => window.__preheard.store.get().designs.a.box.vb_l === 21.5);
+      await q.waitForFunction(() => window.__preheard.store.get().designs.a.ways[0].box.vb_l === 21.5);
       await q.goto(url.replace('/#', '/?bench#x'));
       await q.goto(url.replace('/#', '/?bench#'));
       await q.getByTestId('shared-banner').waitFor();
       await q.getByRole('button', { name: 'Keep these designs' }).click();
-      await p.waitForFunction(() => window.__preheard.store.get().designs.a.box.vb_l === 19.75, null, { timeout: 5000 });
+      await p.waitForFunction(() => window.__preheard.store.get().designs.a.ways[0].box.vb_l === 19.75, null, { timeout: 5000 });
       await Promise.all([p.close(), q.close()]);
     },
   },

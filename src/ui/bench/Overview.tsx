@@ -1,4 +1,4 @@
-// The waveform overview (and, on the Stress strip, one lane of stress events per design) on a canvas.
+// The waveform overview (and, on the Stress strip, one lane of stress events per way of each design) on a canvas.
 // Click to jump there, drag to set a loop region, hover an event for its cause, peak and limit.
 // The static picture is drawn once per change into an offscreen canvas; only the playhead moves per frame.
 import { useCallback, useEffect, useLayoutEffect, useRef, useState } from 'preact/hooks';
@@ -7,6 +7,7 @@ import type { EventKind, StressEvent } from '../../engine/render/index.ts';
 import type { DesignSlot } from '../../audio/protocol.ts';
 import { clock, colourOf, describeEvent, KIND_LABEL } from './palette.ts';
 import { useAnimationFrame } from './useBench.ts';
+import type { EventLane } from './event-lanes.ts';
 
 /** Drawing order: the most serious kinds last, so they sit on top. */
 const ORDER: EventKind[] = [
@@ -29,15 +30,15 @@ interface Props {
   state: BenchState;
   theme: string;
   height: number;
-  /** Event lanes per design (the Stress strip); none on the bench. */
-  events?: Record<DesignSlot, StressEvent[]> | null;
+  /** Event lanes, one per way of each design (the Stress strip); none on the bench. */
+  events?: EventLane[] | null;
   names?: Record<DesignSlot, string>;
 }
 
 interface Tip {
   x: number;
   y: number;
-  slot: DesignSlot;
+  lane: EventLane;
   items: StressEvent[];
 }
 
@@ -60,7 +61,9 @@ export function Overview(p: Props) {
   const drag = useRef<{ x0: number; x1: number; moved: boolean } | null>(null);
   const [dragView, setDragView] = useState<{ a: number; b: number } | null>(null);
   const track = p.state.track;
-  const lanes: DesignSlot[] = p.events ? ['a', 'b'] : [];
+  const lanes: EventLane[] = p.events ?? [];
+  /** Way names are written only where a design has more than one lane. */
+  const manyWays = (slot: DesignSlot) => lanes.filter((l) => l.slot === slot).length > 1;
   const waveH = p.height;
   const total = waveH + lanes.length * (LANE_H + LANE_GAP) + AXIS_H;
   const plotW = Math.max(50, width - GUTTER - 8);
@@ -130,7 +133,8 @@ export function Overview(p: Props) {
       }
     }
     // Event lanes.
-    lanes.forEach((slot, i) => {
+    lanes.forEach((lane, i) => {
+      const slot = lane.slot;
       const y = waveH + LANE_GAP + i * (LANE_H + LANE_GAP);
       g.fillStyle = css(el, '--c-surface-2', '#f8faf9');
       g.fillRect(GUTTER, y, plotW, LANE_H);
@@ -143,10 +147,17 @@ export function Overview(p: Props) {
       g.textAlign = 'center';
       g.fillText(slot.toUpperCase(), 16, y + 15.5);
       g.textAlign = 'left';
-      g.font = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
       g.fillStyle = muted;
-      const list = p.events?.[slot] ?? [];
-      g.fillText(list.length ? `${list.length}` : 'none', 30, y + 15.5);
+      const list = lane.events;
+      if (manyWays(slot)) {
+        g.font = '10px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+        g.fillText(lane.way.length > 8 ? `${lane.way.slice(0, 7)}…` : lane.way, 28, y + 9);
+        g.fillText(list.length ? `${list.length}` : 'none', 28, y + 22);
+        g.font = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+      } else {
+        g.font = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+        g.fillText(list.length ? `${list.length}` : 'none', 30, y + 15.5);
+      }
       for (const kind of ORDER) {
         g.fillStyle = colourOf(kind, p.theme);
         for (const e of list) {
@@ -234,15 +245,15 @@ export function Overview(p: Props) {
     const r = canvas.current!.getBoundingClientRect();
     return { x: e.clientX - r.left, y: e.clientY - r.top };
   };
-  const laneAt = (y: number): DesignSlot | null => {
+  const laneAt = (y: number): EventLane | null => {
     for (let i = 0; i < lanes.length; i++) {
       const y0 = waveH + LANE_GAP + i * (LANE_H + LANE_GAP);
       if (y >= y0 && y < y0 + LANE_H) return lanes[i];
     }
     return null;
   };
-  const eventsAt = (slot: DesignSlot, x: number) => {
-    const list = p.events?.[slot] ?? [];
+  const eventsAt = (lane: EventLane, x: number) => {
+    const list = lane.events;
     const t = tOf(x),
       pad = (3 / plotW) * duration;
     return list.filter((e) => e.start_s - pad <= t && t <= e.end_s + pad).sort((a, b) => ORDER.indexOf(b.kind) - ORDER.indexOf(a.kind));
@@ -270,8 +281,8 @@ export function Overview(p: Props) {
       if (d.moved) p.bench.setLoop({ startS: tOf(d.x0), endS: tOf(d.x1) });
       else {
         const pos = local(ev);
-        const slot = laneAt(pos.y);
-        const hit = slot ? eventsAt(slot, pos.x) : [];
+        const lane = laneAt(pos.y);
+        const hit = lane ? eventsAt(lane, pos.x) : [];
         p.bench.seek(hit.length ? Math.max(0, hit[0].start_s - 0.25) : tOf(pos.x));
       }
     };
@@ -281,9 +292,9 @@ export function Overview(p: Props) {
   const onMove = (e: MouseEvent) => {
     if (!p.events || drag.current) return;
     const { x, y } = local(e);
-    const slot = laneAt(y);
-    const items = slot && x >= GUTTER ? eventsAt(slot, x) : [];
-    setTip(slot && items.length ? { x, y, slot, items: items.slice(0, 4) } : null);
+    const lane = laneAt(y);
+    const items = lane && x >= GUTTER ? eventsAt(lane, x) : [];
+    setTip(lane && items.length ? { x, y, lane, items: items.slice(0, 4) } : null);
   };
   const onKey = (e: KeyboardEvent) => {
     if (!track) return;
@@ -327,8 +338,9 @@ export function Overview(p: Props) {
           data-testid="strip-tip"
         >
           <strong>
-            Design {tip.slot.toUpperCase()}
-            {p.names ? ` · ${p.names[tip.slot]}` : ''}
+            Design {tip.lane.slot.toUpperCase()}
+            {p.names ? ` · ${p.names[tip.lane.slot]}` : ''}
+            {tip.lane.way ? ` · ${tip.lane.way}` : ''}
           </strong>
           {tip.items.map((ev) => (
             <span class="tip-row">

@@ -1,5 +1,5 @@
 // Small charts of the engine's traces around the playhead (uPlot): cone excursion against Xmax,
-// coil temperature against its rating, port air speed against 17 m/s, compression against 1 dB.
+// coil temperature against its rating, port air speed against its limit, compression against 1 dB.
 // From the offline render when it is current, otherwise from the live meters while playing.
 import { useEffect, useLayoutEffect, useRef, useState } from 'preact/hooks';
 import uPlot from 'uplot';
@@ -9,6 +9,8 @@ import type { SpeakerSystem } from '../../engine/system.ts';
 import { readPalette } from '../charts/Chart.tsx';
 import { clock } from './palette.ts';
 import { num } from '../format.ts';
+import { PORT_SPEED_LIMIT } from '../engine.ts';
+import { firstDriverOf } from '../ways.ts';
 
 type Metric = 'excursion' | 'coil' | 'port' | 'compression';
 const METRICS: { id: Metric; title: string; unit: string; digits: number }[] = [
@@ -21,13 +23,17 @@ const METRICS: { id: Metric; title: string; unit: string; digits: number }[] = [
 const HALF_WINDOW_S = 3;
 const REFRESH_MS = 100;
 
+/** The traces are the first driver way's (the woofer's): its limits are drawn. */
 function limitOf(m: Metric, s: SpeakerSystem | null): number | null {
-  if (!s) return null;
-  if (m === 'excursion') return s.driver.xmax * 1000;
-  if (m === 'coil') return s.driver.thermal.coilMaxC;
-  if (m === 'port') return s.box.type === 'vented' ? 17 : null;
+  const w = s ? firstDriverOf(s) : null;
+  if (!w) return null;
+  if (m === 'excursion') return w.unit.xmax * 1000;
+  if (m === 'coil') return w.unit.thermal.coilMaxC;
+  if (m === 'port') return w.box.type === 'vented' ? PORT_SPEED_LIMIT : null;
   return 1;
 }
+
+const vented = (s: SpeakerSystem | null) => (s ? firstDriverOf(s)?.box.type === 'vented' : false);
 
 interface Window {
   t: number[];
@@ -78,8 +84,8 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
   const [width, setWidth] = useState(600);
   const stateRef = useRef(p.state);
   stateRef.current = p.state;
-  const vented = p.systems.a?.box.type === 'vented' || p.systems.b?.box.type === 'vented';
-  const shown = METRICS.filter((m) => m.id !== 'port' || vented);
+  const anyVented = vented(p.systems.a) || vented(p.systems.b);
+  const shown = METRICS.filter((m) => m.id !== 'port' || anyVented);
 
   useLayoutEffect(() => {
     const el = host.current;
@@ -204,7 +210,7 @@ export function TraceCharts(p: { bench: BenchAudio; state: BenchState; theme: st
         const xs = n ? win.t : [t0, t1];
         const fill = (v: number | null) => (n ? win.t.map(() => v) : [v, v]);
         // A design without a port has no port trace (the engine reports zeros for it).
-        const own = (slot: 'a' | 'b') => (n && (m.id !== 'port' || p.systems[slot]?.box.type === 'vented') ? win[slot][k] : fill(null));
+        const own = (slot: 'a' | 'b') => (n && (m.id !== 'port' || vented(p.systems[slot])) ? win[slot][k] : fill(null));
         const data = [xs, own('a'), own('b'), fill(limA), fill(limB)];
         u.batch(() => {
           u.setData(data as unknown as uPlot.AlignedData, false);

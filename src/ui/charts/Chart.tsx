@@ -57,6 +57,10 @@ function stroke(role: Role, p: Palette): { stroke: string; dash?: number[]; widt
       return { stroke: p.a, width: 1.5 };
     case 'limit-hard-b':
       return { stroke: p.b, width: 1.5 };
+    case 'a-way':
+      return { stroke: p.a, width: 1.25, dash: [8, 3, 2, 3] };
+    case 'b-way':
+      return { stroke: p.b, width: 1.25, dash: [8, 3, 2, 3] };
   }
 }
 
@@ -79,7 +83,10 @@ function xTickLabels(_u: uPlot, splits: number[]): string[] {
 
 export function toData(spec: ChartSpec): uPlot.AlignedData {
   const n = spec.freqHz.length;
-  const ys = spec.series.map((s) => (s.values ? (s.values as unknown as number[]) : (new Array(n).fill(null) as (number | null)[])));
+  // A point without a value (NaN: outside that design's own grid) is a gap: uPlot wants null there.
+  const ys = spec.series.map((s) =>
+    s.values ? Array.from(s.values, (v) => (Number.isFinite(v) ? v : null)) : (new Array(n).fill(null) as (number | null)[]),
+  );
   return [spec.freqHz as unknown as number[], ...ys] as uPlot.AlignedData;
 }
 

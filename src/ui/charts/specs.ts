@@ -1,8 +1,13 @@
 // What each chart shows, built from the two analyses. Pure data: no DOM, no drawing, no physics.
+// SPL is the system sum at the seat; on demand each way is drawn beside it. Excursion, impedance
+// and the other single-driver charts are the first driver way's (the woofer), plus each way on demand.
 import type { Analysis, MaxSplLimit } from '../../engine/response/types.ts';
+import type { SpeakerSystem } from '../../engine/system.ts';
 import { PORT_SPEED_LIMIT } from '../engine.ts';
 import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
+import { hasSum, sumOf, waysOf, type WayCurvesView } from '../analysis-view.ts';
+import { firstDriverOf } from '../ways.ts';
 
 export type Role =
   | 'a'
@@ -15,7 +20,10 @@ export type Role =
   | 'limit-hard-a'
   | 'limit-hard-b'
   | 'a-aux'
-  | 'b-aux';
+  | 'b-aux'
+  /** One way of a design, beside its sum. */
+  | 'a-way'
+  | 'b-way';
 
 export interface SeriesSpec {
   label: string;
@@ -48,7 +56,17 @@ export type ChartId = 'spl' | 'excursion' | 'impedance' | 'phase' | 'group-delay
 
 export const CHART_IDS: ChartId[] = ['spl', 'excursion', 'impedance', 'phase', 'group-delay', 'port-speed', 'max-spl'];
 
-export type Pair = Record<Slot, Analysis | null>;
+/** A design's analysis and the system it was made for. */
+export interface Model {
+  analysis: Analysis;
+  system: SpeakerSystem;
+}
+export type Pair = Record<Slot, Model | null>;
+
+export interface ChartOptions {
+  /** Draw each way beside the system sum. */
+  showWays?: boolean;
+}
 
 const LIMIT_TEXT: Record<MaxSplLimit, string> = {
   excursion: 'excursion',
@@ -57,29 +75,53 @@ const LIMIT_TEXT: Record<MaxSplLimit, string> = {
   radiator: 'radiator travel',
 };
 
-/** A or B's frequency grid (A's when both exist: the engine uses one grid for every design). */
+/**
+ * The charts' frequency grid: the wider of A's and B's (a design with a tweeter is analysed higher
+ * up); the engine spaces every grid alike, so the other design's points fall on it or inside it.
+ */
 function grid(pair: Pair): Float64Array | null {
-  return pair.a?.curves.freqHz ?? pair.b?.curves.freqHz ?? null;
+  const fa = pair.a?.analysis.curves.freqHz ?? null;
+  const fb = pair.b?.analysis.curves.freqHz ?? null;
+  if (!fa || !fb) return fa ?? fb;
+  const span = (f: Float64Array) => Math.log(f[f.length - 1] / f[0]);
+  return span(fb) > span(fa) ? fb : fa;
 }
 
-/** Values of a design's curve on the shared grid; a design on another grid is resampled by nearest log frequency. */
+/**
+ * Values of a design's curve on the shared grid, by nearest log frequency; outside the design's own
+ * grid there is no value (NaN: a gap in the line, a dash in the tables).
+ */
 function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | null): ArrayLike<number> | null {
   if (!values) return null;
   const f = an.curves.freqHz;
   if (f === target || (f.length === target.length && f[0] === target[0] && f[f.length - 1] === target[target.length - 1])) return values;
   const out = new Float64Array(target.length);
+  // Half a grid step of slack at each end, so rounding never drops an end point.
+  const slack = f.length > 1 ? Math.sqrt(f[1] / f[0]) : 1;
   let j = 0;
   for (let i = 0; i < target.length; i++) {
+    if (target[i] < f[0] / slack || target[i] > f[f.length - 1] * slack) {
+      out[i] = Number.NaN;
+      continue;
+    }
     while (j < f.length - 1 && Math.abs(Math.log(f[j + 1] / target[i])) <= Math.abs(Math.log(f[j] / target[i]))) j++;
     out[i] = values[j];
   }
   return out;
 }
 
+/** The first driver way's Xmax and Xlim in mm (where a single driver is meant). */
+function limitsMm(m: Model): { xmax: number; xlim: number; re: number } {
+  const w = firstDriverOf(m.system);
+  return w ? { xmax: w.unit.xmax * K.mm, xlim: w.unit.xlim * K.mm, re: w.driver.re } : { xmax: NaN, xlim: NaN, re: NaN };
+}
+
 const constant = (n: number, v: number) => new Float64Array(n).fill(v);
 
-export function buildCharts(pair: Pair): ChartSpec[] {
-  const f = grid(pair);
+export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec[] {
+  const pair: Record<Slot, Analysis | null> = { a: models.a?.analysis ?? null, b: models.b?.analysis ?? null };
+  const showWays = options.showWays ?? false;
+  const f = grid(models);
   if (!f) {
     return CHART_IDS.map((id) => ({
       id,
@@ -98,15 +140,37 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       const an = pair[s];
       return {
         label: `${SLOT_LABEL[s]}`,
-        longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined,
+        longLabel: an ? `${SLOT_LABEL[s]}: ${models[s]!.system.name}` : undefined,
         role: s,
         values: an ? onGrid(f, an, pick(an)) : null,
         ...extra,
       };
     });
+  /** Each way's own curve, when asked for and the analysis reports ways. */
+  const perWay = (pick: (c: WayCurvesView) => ArrayLike<number> | null | undefined): SeriesSpec[] =>
+    showWays
+      ? SLOTS.flatMap((s) => {
+          const an = pair[s];
+          if (!an) return [];
+          return waysOf(an).flatMap((w) => {
+            const values = pick(w.curves);
+            return values
+              ? [
+                  {
+                    label: `${SLOT_LABEL[s]} ${w.name}`,
+                    longLabel: `${SLOT_LABEL[s]}: ${models[s]!.system.name}, ${w.name}`,
+                    role: `${s}-way` as Role,
+                    values: onGrid(f, an, values),
+                  },
+                ]
+              : [];
+          });
+        })
+      : [];
   const present = SLOTS.filter((s) => pair[s] !== null) as Slot[];
   const fig = (s: Slot) => pair[s]!.figures;
-  const sys = (s: Slot) => pair[s]!.system;
+  const sys = (s: Slot) => models[s]!.system;
+  const sum = (s: Slot) => sumOf(pair[s]!);
 
   // SPL at the seat, with each design's ideal flat reference.
   const spl: ChartSpec = {
@@ -115,11 +179,12 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     unit: 'dB',
     digits: 3,
     freqHz: f,
-    series: [...per((a) => a.curves.splDb), ...referenceSeries(pair, f)],
-    summary: present.map(
-      (s) =>
-        `${SLOT_LABEL[s]}: −3 dB at ${num(fig(s).f3Hz, 3)} Hz, −10 dB at ${num(fig(s).f10Hz, 3)} Hz; passband ${num(fig(s).passbandSplDb, 3)} dB at ${num(sys(s).listening.distance, 2)} m for ${num(pair[s]!.driveV, 3)} V.`,
-    ),
+    series: [...per((a) => sumOf(a).splDb), ...referenceSeries(pair, f), ...perWay((c) => c.splDb)],
+    summary: present.map((s) => {
+      const g = { ...fig(s), ...sum(s).figures };
+      const ways = sys(s).ways.length;
+      return `${SLOT_LABEL[s]}${ways > 1 && hasSum(pair[s]!) ? ` (sum of ${ways} ways)` : ''}: −3 dB at ${num(g.f3Hz, 3)} Hz, −10 dB at ${num(g.f10Hz, 3)} Hz; passband ${num(g.passbandSplDb, 3)} dB at ${num(sys(s).listening.distance, 2)} m for ${num(pair[s]!.driveV, 3)} V.`;
+    }),
   };
 
   // Excursion at the planned level against the limits.
@@ -130,8 +195,9 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       exSeries.push({ label: `${SLOT_LABEL[s]} radiator`, role: `${s}-aux` as Role, values: onGrid(f, an, an.curves.radiatorExcursionMm) });
   }
   exSeries.push(
-    ...limitLines(pair, n, (a) => a.system.driver.xmax * K.mm, 'Xmax ±', 'limit'),
-    ...limitLines(pair, n, (a) => a.system.driver.xlim * K.mm, 'Xlim ±', 'limit-hard'),
+    ...perWay((c) => c.plannedExcursionMm),
+    ...limitLines(models, n, (m) => limitsMm(m).xmax, 'Xmax ±', 'limit'),
+    ...limitLines(models, n, (m) => limitsMm(m).xlim, 'Xlim ±', 'limit-hard'),
   );
   const excursion: ChartSpec = {
     id: 'excursion',
@@ -143,9 +209,10 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     series: exSeries,
     summary: present.map((s) => {
       const pk = peakOf(pair[s]!.curves.plannedExcursionMm);
-      const xmax = sys(s).driver.xmax * K.mm;
+      const xmax = limitsMm(models[s]!).xmax;
+      const woofer = firstDriverOf(sys(s))?.name ?? '';
       return pk
-        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} mm at ${num(f[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
+        ? `${SLOT_LABEL[s]}${sys(s).ways.length > 1 ? ` ${woofer}` : ''}: peak ${num(pk.value, 3)} mm at ${num(pair[s]!.curves.freqHz[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
         : `${SLOT_LABEL[s]}: no excursion data.`;
     }),
   };
@@ -157,9 +224,10 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     digits: 3,
     yMin: 0,
     freqHz: f,
-    series: per((a) => a.curves.impedanceOhm),
+    series: [...per((a) => a.curves.impedanceOhm), ...perWay((c) => c.impedanceOhm)],
     summary: present.map(
-      (s) => `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(sys(s).driver.re, 3)} Ω).`,
+      (s) =>
+        `${SLOT_LABEL[s]}: minimum ${num(fig(s).zMinOhm, 3)} Ω at ${num(fig(s).zMinHz, 3)} Hz (Re ${num(limitsMm(models[s]!).re, 3)} Ω).`,
     ),
   };
 
@@ -205,13 +273,14 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     series: anyPort
       ? [
           ...per((a) => a.curves.plannedPortAirSpeed),
+          ...perWay((c) => c.plannedPortAirSpeed),
           { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT) },
         ]
       : [],
     summary: present.map((s) => {
       const pk = peakOf(pair[s]!.curves.plannedPortAirSpeed);
       return pk
-        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} m/s at ${num(f[pk.index], 3)} Hz at the planned level (limit ${PORT_SPEED_LIMIT} m/s${pk.value > PORT_SPEED_LIMIT ? ', exceeded' : ''}).`
+        ? `${SLOT_LABEL[s]}: peak ${num(pk.value, 3)} m/s at ${num(pair[s]!.curves.freqHz[pk.index], 3)} Hz at the planned level (limit ${PORT_SPEED_LIMIT} m/s${pk.value > PORT_SPEED_LIMIT ? ', exceeded' : ''}).`
         : `${SLOT_LABEL[s]}: no port.`;
     }),
     empty: anyPort ? undefined : 'Neither design has a port.',
@@ -228,7 +297,7 @@ export function buildCharts(pair: Pair): ChartSpec[] {
       const lim = an?.curves.maxSplLimit;
       return {
         label: SLOT_LABEL[s],
-        longLabel: an ? `${SLOT_LABEL[s]}: ${an.system.name}` : undefined,
+        longLabel: an ? `${SLOT_LABEL[s]}: ${models[s]!.system.name}` : undefined,
         role: s,
         values: an ? onGrid(f, an, an.curves.maxSplDb) : null,
         annotate: lim && an && an.curves.freqHz.length === n ? (i: number) => LIMIT_TEXT[lim[i]] ?? '' : undefined,
@@ -236,8 +305,8 @@ export function buildCharts(pair: Pair): ChartSpec[] {
     }),
     summary: present.map((s) => {
       const c = pair[s]!.curves;
-      const i40 = nearest(f, 40);
-      const i100 = nearest(f, 100);
+      const i40 = nearest(c.freqHz, 40);
+      const i100 = nearest(c.freqHz, 100);
       return `${SLOT_LABEL[s]}: ${num(c.maxSplDb[i40], 3)} dB at 40 Hz (${LIMIT_TEXT[c.maxSplLimit[i40]]}), ${num(c.maxSplDb[i100], 3)} dB at 100 Hz (${LIMIT_TEXT[c.maxSplLimit[i100]]}).`;
     }),
   };
@@ -261,13 +330,13 @@ function nearest(f: Float64Array, hz: number) {
   return best;
 }
 
-function referenceSeries(pair: Pair, f: Float64Array): SeriesSpec[] {
+function referenceSeries(pair: Record<Slot, Analysis | null>, f: Float64Array): SeriesSpec[] {
   const refs = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: onGrid(f, pair[s]!, pair[s]!.curves.referenceSplDb)! }));
   if (refs.length === 2 && sameValues(refs[0].v, refs[1].v)) return [{ label: 'ideal', role: 'reference', values: refs[0].v }];
   return refs.map((r) => ({ label: `${SLOT_LABEL[r.s]} ideal`, role: 'reference' as Role, values: r.v }));
 }
 
-function limitLines(pair: Pair, n: number, pick: (a: Analysis) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {
+function limitLines(pair: Pair, n: number, pick: (m: Model) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {
   const vals = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: pick(pair[s]!) }));
   if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role, values: constant(n, vals[0].v) }];
   return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `${role}-${x.s}` as Role, values: constant(n, x.v) }));

@@ -72,8 +72,7 @@ export function Row(p: { label: string; symbol?: string; hint?: string; cell: (s
 export function useModel(slot: Slot): { system: SpeakerSystem | null; analysis: Analysis | null; stale: boolean } {
   const { derived } = useApp();
   const d = derived[slot];
-  const system = d.parse.ok ? d.parse.system : (d.analysis?.system ?? null);
-  return { system, analysis: d.analysis, stale: d.stale };
+  return { system: d.system, analysis: d.analysis, stale: d.stale };
 }
 
 export function fieldId(slot: Slot, path: string) {
@@ -98,6 +97,8 @@ export interface NumProps {
   alsoPaths?: string[];
   /** A slider beside the field, over [min, max]; log spacing for quantities judged in ratios. */
   slider?: { min: number; max: number; log?: boolean };
+  /** Writes the value some other way than an edit at `path` (e.g. creating its parent object too). */
+  commit?: (value: number | undefined) => void;
 }
 
 const SLIDER_STEPS = 1000;
@@ -137,7 +138,7 @@ export function Num(p: NumProps) {
         max={p.max}
         issues={issues}
         placeholder={p.placeholder ?? (modelValue !== null && !typed ? num(modelValue, p.modelDigits ?? 3) : undefined)}
-        onCommit={(v) => dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v })}
+        onCommit={(v) => (p.commit ? p.commit(v) : dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v }))}
       />
       {p.slider ? (
         <input

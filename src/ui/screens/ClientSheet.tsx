@@ -1,11 +1,14 @@
 // Client sheet: one printable document for the client — both designs' key parameters and figures,
 // their curves, the plain-language verdict, the designer's title and notes, the date, the cautions.
 // The browser prints it (or saves it as PDF) through the print stylesheet.
-import type { Analysis } from '../../engine/response/types.ts';
+import type { Figures } from '../../engine/response/types.ts';
+import type { ActiveFilter, DriverWay, SpeakerSystem, Way } from '../../engine/system.ts';
 import { CAUTIONS } from '../Cautions.tsx';
 import { useApp } from '../context.ts';
 import { FigureTable } from '../FigureTable.tsx';
-import { num, TO_DISPLAY as K } from '../format.ts';
+import { fixed, num, TO_DISPLAY as K } from '../format.ts';
+import { boxLabel } from '../boxes.ts';
+import { wayFigures } from '../analysis-view.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { useCharts } from './Curves.tsx';
 import { PrintChart } from '../sheet/PrintChart.tsx';
@@ -13,7 +16,6 @@ import { useVerdict } from '../sheet/hooks.ts';
 import '../sheet/sheet.css';
 
 const SHEET_CHARTS = ['spl', 'excursion', 'port-speed', 'max-spl'] as const;
-const BOX_NAME = { sealed: 'Sealed', vented: 'Vented (ported)', 'passive-radiator': 'Passive radiator' } as const;
 const SPACE = {
   full: 'free space',
   half: 'against a wall (half space)',
@@ -22,35 +24,75 @@ const SPACE = {
 } as const;
 export const DEFAULT_SHEET_TITLE = 'Loudspeaker design comparison';
 
+/** A design-wide row: the amplifier, the seat, the level. */
 interface ParamRow {
   label: string;
-  value: (a: Analysis) => string | null;
+  value: (system: SpeakerSystem) => string | null;
+}
+
+/** A row of one way of a design (its system way, and the analysis for figures such as the port length). */
+interface WayParamRow {
+  label: string;
+  value: (way: Way, figures: Partial<Figures> | null) => string | null;
 }
 
 const u = (v: number | null | undefined, digits: number, unit: string) =>
   v === null || v === undefined ? null : `${num(v, digits)} ${unit}`;
 
-const PARAMS: ParamRow[] = [
-  { label: 'Enclosure', value: (a) => `${BOX_NAME[a.system.box.type]}, ${num(a.system.box.vbNet * K.litres, 3)} l net` },
-  { label: 'Tuning fb', value: (a) => (a.system.box.type === 'sealed' ? null : u(a.system.box.fb, 3, 'Hz')) },
+const SHAPE = { lr2: 'LR 12 dB', lr4: 'LR 24 dB', lr8: 'LR 48 dB', bw2: 'BW 12 dB', bw3: 'BW 18 dB', bw4: 'BW 24 dB' } as const;
+
+function filterText(f: ActiveFilter): string {
+  const parts: string[] = [];
+  if (f.highpass) parts.push(`high-pass ${SHAPE[f.highpass.shape]} at ${num(f.highpass.hz, 3)} Hz`);
+  if (f.lowpass) parts.push(`low-pass ${SHAPE[f.lowpass.shape]} at ${num(f.lowpass.hz, 3)} Hz`);
+  if (f.gain !== 1) parts.push(`${fixed(20 * Math.log10(f.gain), 1)} dB`);
+  if (f.delay > 0) parts.push(`delayed ${num(f.delay * 1000, 3)} ms`);
+  return parts.length ? parts.join(', ') : 'full range';
+}
+
+const driverOnly = (w: Way, f: (w: DriverWay) => string | null) => (w.kind === 'driver' ? f(w) : null);
+
+// Few rows per way, so a two-way pair still prints on two pages.
+const WAY_PARAMS: WayParamRow[] = [
+  { label: 'Filter', value: (w) => filterText(w.filter) + (w.polarity < 0 ? ', inverted' : '') },
+  {
+    label: 'Enclosure',
+    value: (w) =>
+      driverOnly(
+        w,
+        (d) =>
+          `${boxLabel(d.box.type)}, ${num(d.box.vbNet * K.litres, 3)} l net${'fb' in d.box ? `, tuned to ${num(d.box.fb, 3)} Hz` : ''}`,
+      ),
+  },
   {
     label: 'Port',
-    value: (a) =>
-      a.system.box.type === 'vented'
-        ? `${a.system.box.portCount} × ${num(a.system.box.portRadius * 2 * K.cm, 3)} cm equivalent diameter, ${num(a.figures.portLengthCm, 3)} cm long`
-        : null,
+    value: (w, f) =>
+      driverOnly(w, (d) =>
+        d.box.type === 'vented'
+          ? `${d.box.portCount} × ${num(d.box.portRadius * 2 * K.cm, 3)} cm equivalent diameter${f?.portLengthCm ? `, ${num(f.portLengthCm, 3)} cm long` : ''}`
+          : null,
+      ),
   },
-  { label: 'Driver fs / Qts', value: (a) => `${num(a.system.driver.fs, 3)} Hz / ${num(a.system.driver.qts, 3)}` },
-  { label: 'Vas', value: (a) => u(a.system.driver.vas * K.litres, 3, 'l') },
-  { label: 'Sd', value: (a) => u(a.system.driver.sd * K.cm2, 3, 'cm²') },
-  { label: 'Xmax / Xlim (one way)', value: (a) => `${num(a.system.driver.xmax * K.mm, 3)} / ${num(a.system.driver.xlim * K.mm, 3)} mm` },
-  { label: 'Rated power Pe', value: (a) => u(a.system.driver.pe, 3, 'W') },
-  { label: 'Amplifier', value: (a) => `${num(a.system.amplifier.power, 3)} W into ${num(a.system.amplifier.load, 2)} Ω` },
-  { label: 'Listening seat', value: (a) => `${num(a.system.listening.distance, 2)} m, ${SPACE[a.system.listening.space]}` },
+  { label: 'Driver fs / Qts', value: (w) => driverOnly(w, (d) => `${num(d.unit.fs, 3)} Hz / ${num(d.unit.qts, 3)}`) },
+  { label: 'Vas / Sd', value: (w) => driverOnly(w, (d) => `${num(d.unit.vas * K.litres, 3)} l / ${num(d.unit.sd * K.cm2, 3)} cm²`) },
+  {
+    label: 'Xmax / Xlim (one way)',
+    value: (w) => driverOnly(w, (d) => `${num(d.unit.xmax * K.mm, 3)} / ${num(d.unit.xlim * K.mm, 3)} mm`),
+  },
+  { label: 'Rated power Pe', value: (w) => driverOnly(w, (d) => u(d.unit.pe, 3, 'W')) },
+];
+
+/** How a way's drivers are named in its heading row. */
+const driversText = (w: Way, name: string | null) =>
+  w.kind === 'flat' ? 'an ideal flat band' : `${name ?? 'driver'}${w.count > 1 ? `, ${w.count} in ${w.wiring}` : ''}`;
+
+const PARAMS: ParamRow[] = [
+  { label: 'Amplifier', value: (s) => `${num(s.amplifier.power, 3)} W into ${num(s.amplifier.load, 2)} Ω, one channel per way` },
+  { label: 'Listening seat', value: (s) => `${num(s.listening.distance, 2)} m, ${SPACE[s.listening.space]}` },
   {
     label: 'Planned level',
-    value: (a) => {
-      const lv = a.system.listening.level;
+    value: (s) => {
+      const lv = s.listening.level;
       return lv.mode === 'spl'
         ? `${num(lv.splDb, 3)} dB(C) long-term average at the seat`
         : `${num(lv.voltsFs, 3)} V peak at digital full scale`;
@@ -68,8 +110,49 @@ export function ClientSheet() {
   const v = useVerdict();
   const title = state.settings.sheetTitle ?? '';
   const notes = state.settings.sheetNotes ?? '';
-  const an: Record<Slot, Analysis | null> = { a: derived.a.analysis, b: derived.b.analysis };
-  const driverName = (s: Slot) => state.designs[s].driver.name ?? null;
+  const sys: Record<Slot, SpeakerSystem | null> = { a: derived.a.system, b: derived.b.system };
+  const wayCount = Math.max(...SLOTS.map((s) => sys[s]?.ways.length ?? 0));
+  /** The way at position k of a design, with its name as typed, its driver's name and its figures. */
+  const wayAt = (s: Slot, k: number) => {
+    const w = sys[s]?.ways[k];
+    if (!w) return null;
+    const doc = state.designs[s];
+    const index = doc.ways.findIndex((d) => d.name === w.name);
+    const wd = doc.ways[index];
+    const an = derived[s].analysis;
+    return {
+      way: w,
+      driverName: wd?.kind === 'driver' ? (wd.driver.name ?? null) : null,
+      figures: an && index >= 0 ? wayFigures(an, doc, index) : null,
+    };
+  };
+  const wayRows = (k: number) => {
+    const cells = SLOTS.map((s) => wayAt(s, k));
+    return [
+      <tr class="way-head" data-testid={`sheet-way-${k}`}>
+        <th scope="row">Way {k + 1}</th>
+        {cells.map((c) => (
+          <td>
+            {c ? (
+              <>
+                <strong>{c.way.name}</strong>: {driversText(c.way, c.driverName)}
+              </>
+            ) : (
+              '—'
+            )}
+          </td>
+        ))}
+      </tr>,
+      ...WAY_PARAMS.filter((r) => cells.some((c) => c && r.value(c.way, c.figures) !== null)).map((r) => (
+        <tr>
+          <th scope="row">{r.label}</th>
+          {cells.map((c) => (
+            <td>{(c && r.value(c.way, c.figures)) ?? '—'}</td>
+          ))}
+        </tr>
+      )),
+    ];
+  };
 
   return (
     <section class="client" aria-labelledby="client-h">
@@ -170,23 +253,18 @@ export function ClientSheet() {
               </tr>
             </thead>
             <tbody>
-              <tr>
-                <th scope="row">Woofer</th>
-                {SLOTS.map((s) => (
-                  <td>{driverName(s) ?? '—'}</td>
-                ))}
-              </tr>
-              {PARAMS.filter((r) => SLOTS.some((s) => an[s] && r.value(an[s]!) !== null)).map((r) => (
+              {Array.from({ length: wayCount }, (_, k) => wayRows(k))}
+              {PARAMS.filter((r) => SLOTS.some((s) => sys[s] && r.value(sys[s]!) !== null)).map((r) => (
                 <tr>
                   <th scope="row">{r.label}</th>
                   {SLOTS.map((s) => (
-                    <td>{(an[s] && r.value(an[s]!)) ?? '—'}</td>
+                    <td>{(sys[s] && r.value(sys[s]!)) ?? '—'}</td>
                   ))}
                 </tr>
               ))}
             </tbody>
           </table>
-          <FigureTable />
+          <FigureTable paper />
         </section>
 
         <section class="paper-section paper-curves">

@@ -9,11 +9,18 @@ import { num, nearestIndex } from '../format.ts';
 
 const TABLE_HZ = [20, 25, 31.5, 40, 50, 63, 80, 100, 125, 160, 200, 315, 500, 1000];
 
+/** The charts of both designs; each way beside the sum when the Curves toggle asks for it. */
 export function useCharts(): ChartSpec[] {
-  const { derived } = useApp();
+  const { derived, state } = useApp();
   const a = derived.a.analysis;
   const b = derived.b.analysis;
-  return useMemo(() => buildCharts({ a, b }), [a, b]);
+  const sa = derived.a.system;
+  const sb = derived.b.system;
+  const showWays = state.settings.showWays ?? false;
+  return useMemo(
+    () => buildCharts({ a: a && sa ? { analysis: a, system: sa } : null, b: b && sb ? { analysis: b, system: sb } : null }, { showWays }),
+    [a, b, sa, sb, showWays],
+  );
 }
 
 function ValuesTable({ spec }: { spec: ChartSpec }) {
@@ -27,7 +34,7 @@ function ValuesTable({ spec }: { spec: ChartSpec }) {
     );
   }
   const cols = spec.series.filter(
-    (s) => s.values && (s.role === 'a' || s.role === 'b' || s.role === 'reference' || s.role.endsWith('-aux')),
+    (s) => s.values && (s.role === 'a' || s.role === 'b' || s.role === 'reference' || s.role.endsWith('-aux') || s.role.endsWith('-way')),
   );
   const f = spec.freqHz;
   const idx = TABLE_HZ.filter((hz) => f.length && hz >= f[0] && hz <= f[f.length - 1]).map((hz) => nearestIndex(f, hz));
@@ -83,6 +90,23 @@ export function ChartCard({ spec, height = 250, theme }: { spec: ChartSpec; heig
   );
 }
 
+function WaysToggle() {
+  const { state, dispatch } = useApp();
+  const many = state.designs.a.ways.length > 1 || state.designs.b.ways.length > 1;
+  return (
+    <label class="check ways-toggle">
+      <input
+        type="checkbox"
+        data-testid="show-ways"
+        checked={state.settings.showWays ?? false}
+        disabled={!many}
+        onChange={(e) => dispatch({ type: 'settings', patch: { showWays: (e.currentTarget as HTMLInputElement).checked } })}
+      />{' '}
+      Show each way beside the sum
+    </label>
+  );
+}
+
 export function Curves({ theme }: { theme: string }) {
   const charts = useCharts();
   return (
@@ -90,9 +114,10 @@ export function Curves({ theme }: { theme: string }) {
       <div class="curves-head">
         <h2 id="curves-h">Curves</h2>
         <p class="sheet-intro">
-          Small-signal model. SPL, impedance and group delay at 2.83 V; excursion and port air speed at each design's planned level. Hover a
-          chart for readouts; the charts follow one cursor.
+          Small-signal model. SPL (the sum of all ways at the seat), impedance and group delay at 2.83 V; excursion and port air speed at
+          each design's planned level. Hover a chart for readouts; the charts follow one cursor.
         </p>
+        <WaysToggle />
       </div>
       <div class="curves-layout">
         <div class="chart-grid">

@@ -1,5 +1,6 @@
-// Drive & seat: amplifier, crossover, where the listener sits, how loud it will be played, the air.
-import type { CrossoverDoc, ListeningDoc, PlannedLevelDoc } from '../../engine/design/document.ts';
+// Drive & seat: amplifier, where the listener sits, how loud it will be played, the air. Each way's
+// filters (the first version's crossover) are set with that way on the Driver sheet.
+import type { ListeningDoc, PlannedLevelDoc } from '../../engine/design/document.ts';
 import { useApp } from '../context.ts';
 import { Choice, Group, Num, Out, Row, Sheet, useModel } from '../components/Sheet.tsx';
 import type { Slot } from '../store.ts';
@@ -9,13 +10,6 @@ const SPACES: { value: ListeningDoc['space']; label: string }[] = [
   { value: 'half', label: 'On a floor or against a wall (half space)' },
   { value: 'quarter', label: 'Floor and wall (quarter space)' },
   { value: 'eighth', label: 'In a corner (eighth space)' },
-];
-
-const CROSSOVERS: { value: CrossoverDoc['type']; label: string }[] = [
-  { value: 'lr2', label: 'Linkwitz-Riley, 2nd order' },
-  { value: 'lr4', label: 'Linkwitz-Riley, 4th order' },
-  { value: 'lr8', label: 'Linkwitz-Riley, 8th order' },
-  { value: 'none', label: 'None (full range)' },
 ];
 
 type LevelMode = PlannedLevelDoc['mode'];
@@ -38,7 +32,7 @@ export function DriveSeat() {
     <Sheet
       id="drive"
       title="Drive & seat"
-      intro="What drives each design and where it is heard. The planned level sets the drive used for the excursion and port-speed curves and for listening."
+      intro="What drives each design and where it is heard. The planned level sets the drive used for the excursion and port-speed curves and for listening. One amplifier model drives every way, each from its own channel; each way's filters are set with that way on the Driver sheet."
     >
       <Group title="Amplifier">
         <Row
@@ -83,54 +77,6 @@ export function DriveSeat() {
                 { value: 'soft', label: 'Soft' },
               ]}
               onChange={(v) => dispatch({ type: 'edit', slot: s, path: 'amplifier.clip', value: v })}
-            />
-          )}
-        />
-      </Group>
-      <Group title="Crossover" note="the woofer gets the low band">
-        <Row
-          label="Filter"
-          cell={(s) => (
-            <Choice<CrossoverDoc['type']>
-              slot={s}
-              path="crossover.type"
-              label="Crossover filter"
-              value={state.designs[s].crossover.type}
-              options={CROSSOVERS}
-              onChange={(v) => dispatch({ type: 'edit', slot: s, path: 'crossover.type', value: v })}
-            />
-          )}
-        />
-        <Row
-          label="Crossover frequency"
-          symbol="fx"
-          cell={(s) =>
-            state.designs[s].crossover.type === 'none' ? null : (
-              <Num
-                slot={s}
-                path="crossover.fx_hz"
-                label="Crossover frequency"
-                unit="Hz"
-                step={10}
-                model={(y) => y.crossover.fx}
-                emptyTag="default"
-              />
-            )
-          }
-        />
-        <Row
-          label="Subsonic high-pass"
-          hint="12 dB/octave before the amplifier; 0 = none"
-          cell={(s) => (
-            <Num
-              slot={s}
-              path="crossover.highpass_hz"
-              label="Subsonic high-pass"
-              unit="Hz"
-              step={1}
-              min={0}
-              model={(y) => y.crossover.highpassHz ?? 0}
-              emptyTag="default"
             />
           )}
         />

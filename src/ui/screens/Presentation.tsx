@@ -58,7 +58,7 @@ export function Presentation() {
 
   const name = (id: LaneId) => (id === 'ref' ? 'the ideal speaker: no box, no limits' : state.designs[id].name);
   const level = (id: 'a' | 'b') => {
-    const lv = derived[id].analysis?.system.listening.level;
+    const lv = derived[id].system?.listening.level;
     if (!lv) return '—';
     return lv.mode === 'spl' ? `${fixed(lv.splDb, 0)} dB at the seat` : `${fixed(lv.voltsFs, 1)} V at full scale`;
   };

@@ -1,5 +1,5 @@
 // Stress strip: where in the track, and why, each design overloads. One lane of stress events per
-// design under the waveform, a legend, hover for cause / peak / limit, click to jump there and
+// way of each design under the waveform (the kinds told apart by colour), a legend, hover for cause / peak / limit, click to jump there and
 // listen, drag to loop, and the engine's traces following the playhead.
 import { useEffect, useMemo } from 'preact/hooks';
 import type { StressEvent, EventKind } from '../../engine/render/index.ts';
@@ -14,6 +14,7 @@ import { Overview } from '../bench/Overview.tsx';
 import { TraceCharts } from '../bench/TraceChart.tsx';
 import { clock, colourOf, KIND_LABEL, KIND_MEANING } from '../bench/palette.ts';
 import { BenchNotices, OfflineProgress } from './ListeningBench.tsx';
+import { eventLanes, wayOfEvent } from '../bench/event-lanes.ts';
 import '../bench/bench.css';
 
 /** Tracks up to this long are rendered offline by themselves when the strip opens, s. */
@@ -30,6 +31,14 @@ export function StressStrip({ theme }: { theme: string }) {
   const events: Record<DesignSlot, StressEvent[]> =
     fresh && o.results ? { a: o.results.a.summary.events, b: o.results.b.summary.events } : state.liveEvents;
   const dur = state.track ? state.track.frames / state.track.sampleRate : 0;
+  // The ways that can be stressed: each design's driver ways, the first one first (events that name
+  // no way are the first driver way's).
+  const wayNames = (s: DesignSlot) => app.designs[s].ways.filter((w) => w.kind === 'driver').map((w) => w.name);
+  const wa = wayNames('a').join('\u0000');
+  const wb = wayNames('b').join('\u0000');
+  const lanes = useMemo(() => eventLanes(events, { a: wayNames('a'), b: wayNames('b') }), [events, wa, wb]);
+  const firstWay = (s: DesignSlot) => wayNames(s)[0] ?? '';
+  const multiWay = wayNames('a').length > 1 || wayNames('b').length > 1;
 
   // A short track is rendered offline as soon as the strip opens, and again after design edits.
   useEffect(() => {
@@ -79,7 +88,7 @@ export function StressStrip({ theme }: { theme: string }) {
       <BenchNotices bench={bench} state={state} />
       <div class="bench-card player">
         <Transport bench={bench} state={state} store={store} names={names} />
-        <Overview bench={bench} state={state} theme={theme} height={76} events={events} names={names} />
+        <Overview bench={bench} state={state} theme={theme} height={76} events={lanes} names={names} />
         <div class="strip-foot">
           <span class="fine" data-testid="strip-source">
             {source ? `Events from the ${source}.` : 'No events yet: play the track or render it offline.'}
@@ -112,6 +121,7 @@ export function StressStrip({ theme }: { theme: string }) {
             <thead>
               <tr>
                 <th>Design</th>
+                {multiWay ? <th>Way</th> : null}
                 <th>What</th>
                 <th class="n">At</th>
                 <th class="n">For</th>
@@ -122,10 +132,11 @@ export function StressStrip({ theme }: { theme: string }) {
             </thead>
             <tbody>
               {list.map(({ s, e }) => (
-                <tr data-kind={e.kind} data-slot={s} data-start={e.start_s}>
+                <tr data-kind={e.kind} data-slot={s} data-way={wayOfEvent(e, firstWay(s))} data-start={e.start_s}>
                   <td>
                     <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
                   </td>
+                  {multiWay ? <td>{wayOfEvent(e, firstWay(s))}</td> : null}
                   <td>
                     <i class="swatch" style={{ background: colourOf(e.kind, theme) }} /> {KIND_LABEL[e.kind]}
                   </td>

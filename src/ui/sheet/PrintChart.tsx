@@ -7,6 +7,7 @@ const INK: Record<'a' | 'b' | 'reference' | 'limit', string> = { a: '#0b6b70', b
 function strokeOf(role: Role): { color: string; width: number; dash?: string } {
   if (role === 'a' || role === 'b') return { color: INK[role], width: 1.8 };
   if (role === 'a-aux' || role === 'b-aux') return { color: INK[role === 'a-aux' ? 'a' : 'b'], width: 1.2, dash: '2 2' };
+  if (role === 'a-way' || role === 'b-way') return { color: INK[role === 'a-way' ? 'a' : 'b'], width: 1, dash: '6 2 1 2' };
   if (role === 'reference') return { color: INK.reference, width: 1.2, dash: '5 3' };
   if (role === 'limit' || role === 'limit-hard') return { color: INK.limit, width: 1, dash: role === 'limit' ? '4 3' : undefined };
   const slot = role.endsWith('-a') ? 'a' : 'b';

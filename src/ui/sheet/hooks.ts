@@ -11,8 +11,8 @@ import { headroomProbe, type ProbeState } from './probe.ts';
 /** The systems being analysed (a design with errors keeps its last valid version, as the curves do). */
 export function useSystems(): Record<Slot, SpeakerSystem | null> {
   const { derived } = useApp();
-  const a = derived.a.analysis?.system ?? null;
-  const b = derived.b.analysis?.system ?? null;
+  const a = derived.a.system;
+  const b = derived.b.system;
   return useMemo(() => ({ a, b }), [a, b]);
 }
 
