@@ -117,9 +117,12 @@ describe('room modes', () => {
       compared++;
       worst = Math.max(worst, Math.abs(gotDb[k] - refDb[k]));
     }
-    if (process.env.ROOM_DEBUG) for (let k = 0; k < nf; k += 8) console.log((f0 + k * df).toFixed(1), refDb[k].toFixed(2), (gotDb[k] - refDb[k]).toFixed(2));
+    if (process.env.ROOM_DEBUG)
+      for (let k = 0; k < nf; k += 8) console.log((f0 + k * df).toFixed(1), refDb[k].toFixed(2), (gotDb[k] - refDb[k]).toFixed(2));
     expect(compared).toBeGreaterThan(0.8 * nf);
     expect(worst).toBeLessThan(1);
-    console.log(`fS ${fS.toFixed(1)} Hz, T60 ${model.reverb.t60.toFixed(3)} s, ${model.modes.length} modes, worst ${worst.toFixed(3)} dB over ${compared}/${nf}`);
+    console.log(
+      `fS ${fS.toFixed(1)} Hz, T60 ${model.reverb.t60.toFixed(3)} s, ${model.modes.length} modes, worst ${worst.toFixed(3)} dB over ${compared}/${nf}`,
+    );
   });
 });

@@ -49,7 +49,15 @@ describe('the listening room', () => {
     const out = parseDesign(withRoom(vented, { ...room, seat_m: [6, 1, 1] }));
     expect(out.ok).toBe(false);
     if (!out.ok) expect(out.errors.map((e) => e.path)).toContain('listening.room.seat_m[0]');
-    const pair = system(withRoom(vented, { ...room, speaker_m: [[0.6, 0.9, 0.3], [0.7, 3.0, 0.3]] }));
+    const pair = system(
+      withRoom(vented, {
+        ...room,
+        speaker_m: [
+          [0.6, 0.9, 0.3],
+          [0.7, 3.0, 0.3],
+        ],
+      }),
+    );
     expect(pair.listening.room!.speakers[1]).toEqual([0.7, 3.0, 0.3]);
   });
 

@@ -33,7 +33,9 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
   const weights = chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, () => cWeightingFilter(sampleRate)));
   // The level at the seat is the level in the room when there is one (channel c from speaker c mod the pair).
   const paths = roomPaths(sys);
-  const rooms = paths && chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, (_, c) => new RoomStage(paths[c % paths.length], sampleRate)));
+  const rooms =
+    paths &&
+    chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, (_, c) => new RoomStage(paths[c % paths.length], sampleRate)));
   const views: ArrayLike<number>[] = new Array(nCh);
   let energy = 0;
   for (let s = 0; s < frames; s += block) {

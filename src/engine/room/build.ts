@@ -42,13 +42,18 @@ export function toRoom(listening: ListeningDoc, issues: Issue[]): Room | undefin
   const speakers: Vec3[] = pair
     ? (given as [Vec3, Vec3]).map((p) => [...p] as Vec3)
     : [[...(given as Vec3)] as Vec3, [given[0] as number, size[1] - (given[1] as number), given[2] as number]];
-  speakers.forEach((p, k) => inside(p, size, pair ? `${path}.speaker_m[${k}]` : `${path}.speaker_m`, 'speaker', issues));
+  // A mirrored speaker lies inside whenever the given one does: check only what was given.
+  for (let k = 0; k < (pair ? 2 : 1); k++)
+    inside(speakers[k], size, pair ? `${path}.speaker_m[${k}]` : `${path}.speaker_m`, 'speaker', issues);
   const seat: Vec3 = [...doc.seat_m];
   inside(seat, size, `${path}.seat_m`, 'seat', issues);
   speakers.forEach((p, k) => {
     if (distance(p, seat) < MIN_SPEAKER_SEAT_M)
       issues.push(
-        error(`${path}.seat_m`, `the seat is ${fmt(distance(p, seat))} m from speaker ${k + 1}; it must be at least ${MIN_SPEAKER_SEAT_M} m away`),
+        error(
+          `${path}.seat_m`,
+          `the seat is ${fmt(distance(p, seat))} m from speaker ${k + 1}; it must be at least ${MIN_SPEAKER_SEAT_M} m away`,
+        ),
       );
   });
   const a = doc.absorption;

@@ -15,7 +15,8 @@
 // a sum of second-order low-pass resonances (the render's resonator bank). Above the Schroeder
 // frequency the modes overlap; there H turns, through a Linkwitz-Riley crossover at f_S, into the
 // energy sum of the direct field and the reverberant field: |p_rev|^2 = 4·rho·c·W/A (Kuttruff ch. 5)
-// with W the source's power in Omega, which gives |H|^2 = (r_d/r)^2 + 4·Omega·r_d^2/A.
+// with W the source's power in Omega, which gives |H|^2 = (r_d/r)^2 + 4·Omega·r_d^2/A. The modes'
+// branch is also smoothed above twice the transition, so the render can run it at a low rate.
 import type { ActiveFilter, Air, Listening, Room, RoomSurface, Vec3 } from '../system.ts';
 import { add, cx, mul, scale, type Complex } from '../complex.ts';
 import { wayFilterAt } from '../filters/way-filter.ts';
@@ -29,6 +30,8 @@ export interface RoomMode {
 
 /** Modes are summed up to this multiple of the Schroeder frequency (Kuttruff: the modal region ends there; the sum needs its neighbours above). */
 export const MODES_TO_SCHROEDER = 2;
+/** The modes' branch is smoothed at this multiple of the transition (room/stage.ts: its low rate). */
+export const SMOOTH_TO_TRANSITION = 2;
 /**
  * The modes above the sum still add their stiffness far below their resonance; they are summed as one
  * constant up to this multiple of the Schroeder frequency (at most MAX_TAIL_MODES of them).
@@ -125,6 +128,8 @@ export interface RoomPath {
   /** The crossover between the modes and the diffuse field: a fourth-order Linkwitz-Riley pair at the transition. */
   low: ActiveFilter;
   high: ActiveFilter;
+  /** A fourth-order Butterworth low-pass at twice the transition on the modes' branch: it lets the render run the modes at a low rate. */
+  smooth: ActiveFilter;
 }
 
 export interface RoomModel {
@@ -172,7 +177,14 @@ export function roomModel(listening: Listening, air: Air): RoomModel | null {
     const band = { shape: 'lr4' as const, hz: transitionHz };
     const low: ActiveFilter = { type: 'active', highpass: null, lowpass: band, gain: 1, delay: 0 };
     const high: ActiveFilter = { type: 'active', highpass: band, lowpass: null, gain: 1, delay: 0 };
-    return { w, k, residual, delta: reverb.delta, transitionHz, diffuseGain, low, high };
+    const smooth: ActiveFilter = {
+      type: 'active',
+      highpass: null,
+      lowpass: { shape: 'bw4', hz: SMOOTH_TO_TRANSITION * transitionHz },
+      gain: 1,
+      delay: 0,
+    };
+    return { w, k, residual, delta: reverb.delta, transitionHz, diffuseGain, low, high, smooth };
   });
   return { modes, reverb, schroederHz: fS, paths };
 }
@@ -195,8 +207,8 @@ export function modalSumAt(path: RoomPath, w: number): Complex {
 /** The room's whole transfer at f Hz from the design's own seat pressure to the seat in the room. */
 export function roomTransferAt(path: RoomPath, f: number): Complex {
   const w = 2 * Math.PI * f;
-  const { low, high } = path;
-  return add(mul(wayFilterAt(low, w), modalSumAt(path, w)), scale(wayFilterAt(high, w), path.diffuseGain));
+  const { low, high, smooth } = path;
+  return add(mul(mul(wayFilterAt(low, w), wayFilterAt(smooth, w)), modalSumAt(path, w)), scale(wayFilterAt(high, w), path.diffuseGain));
 }
 
 /** Level change the room makes at f, dB (|H| in dB). */
@@ -204,4 +216,3 @@ export const roomGainDb = (path: RoomPath, f: number): number => {
   const h = roomTransferAt(path, f);
   return 10 * Math.log10(h.re * h.re + h.im * h.im);
 };
-
