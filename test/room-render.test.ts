@@ -135,3 +135,20 @@ describe('the listening room', () => {
     console.log(`room gain at ${f} Hz ${gain.toFixed(2)} dB, calibration change ${diff.toFixed(2)} dB`);
   });
 });
+
+describe('the room in plain words', () => {
+  it('says what the room does, with the numbers of the analysis', async () => {
+    const { verdict } = await import('../src/engine/verdict/verdict.ts');
+    const { roomSpanDb } = await import('../src/engine/room/sentence.ts');
+    const sealed = JSON.parse(readFileSync('public/examples/living-room-sealed.json', 'utf8'));
+    const a = analyze(system(withRoom(sealed)));
+    const b = analyze(system(withRoom(vented)));
+    const line = verdict(a, b).find((l) => l.id === 'room')!;
+    expect(line.text).toContain(`${roomSpanDb(a.room!).toFixed(1)} dB`);
+    expect(line.text).toContain(`${roomSpanDb(b.room!).toFixed(1)} dB`);
+    expect(line.text).toContain(`first modes at ${a.room!.modes[0].hz.toFixed(0)}, `);
+    expect(line.text.split('. ').length).toBe(1);
+    console.log(line.text);
+    expect(verdict(analyze(system(sealed)), analyze(system(vented))).some((l) => l.id === 'room')).toBe(false);
+  });
+});
