@@ -10,7 +10,8 @@ import { systemPressure } from '../src/engine/response/frequency.ts';
 import { analyze } from '../src/engine/response/analyze.ts';
 import { seatLeqCPerVolt } from '../src/engine/level/calibration.ts';
 
-const room = JSON.parse(readFileSync('public/examples/client-living-room.json', 'utf8'));
+// The invented client's living room of the example design.
+const room = JSON.parse(readFileSync('public/examples/living-room-vented-in-room.json', 'utf8')).listening.room;
 const vented = JSON.parse(readFileSync('public/examples/living-room-vented.json', 'utf8'));
 
 function withRoom(doc: Record<string, unknown>, r: unknown = room): Record<string, unknown> {

@@ -16,7 +16,7 @@ const now = () => performance.now();
 
 function vented(withRoom: boolean): SpeakerSystem {
   const doc = JSON.parse(readFileSync('public/examples/living-room-vented.json', 'utf8'));
-  if (withRoom) doc.listening.room = JSON.parse(readFileSync('public/examples/client-living-room.json', 'utf8'));
+  if (withRoom) doc.listening.room = JSON.parse(readFileSync('public/examples/living-room-vented-in-room.json', 'utf8')).listening.room;
   const r = parseDesign(doc);
   if (!r.ok) throw new Error('the example does not parse');
   return r.system;

@@ -33,8 +33,8 @@ export function roomSentence(a: Analysis, b: Analysis, [na, nb]: [string, string
   const band = `${ROOM_BAND_HZ[0]} to ${ROOM_BAND_HZ[1]} Hz`;
   const spans =
     ra && rb
-      ? `${na}'s bass at the seat swings ${one(roomSpanDb(ra))} dB from peak to dip from ${band} and ${nb}'s ${one(roomSpanDb(rb))} dB`
-      : `${ra ? na : nb}'s bass at the seat swings ${one(roomSpanDb(r))} dB from peak to dip from ${band} (${ra ? nb : na} is heard without a room)`;
+      ? `${na}'s bass at the seat swings ${one(roomSpanDb(ra))} dB from peak to dip over ${band} and ${nb}'s ${one(roomSpanDb(rb))} dB`
+      : `${ra ? na : nb}'s bass at the seat swings ${one(roomSpanDb(r))} dB from peak to dip over ${band} (${ra ? nb : na} is heard without a room)`;
   return (
     `In the ${fmt(lx)} × ${fmt(ly)} × ${fmt(lz)} m room (reverberation ${r.t60S.toFixed(2)} s, first modes at ${first} Hz, modes rule below ${whole(r.schroederHz)} Hz), ` +
     `${spans}: the room adds up to ${one(r.peakDb)} dB near ${whole(r.peakHz)} Hz and takes up to ${one(-r.dipDb)} dB near ${whole(r.dipHz)} Hz.`
