@@ -2,7 +2,7 @@
 // The room on Drive & seat: the demo pair switched into the client's room, the sketch dragged.
 // uPlot draws on a canvas that happy-dom lacks: it is replaced by a recorder of what would be drawn.
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { cleanup, fireEvent, render, screen, within, act } from '@testing-library/preact';
+import { cleanup, fireEvent, render, screen, act } from '@testing-library/preact';
 
 const drawn: { id: string; data: unknown[] }[] = [];
 vi.mock('uplot', () => {
