@@ -142,6 +142,45 @@ export interface RoomModel {
 
 const cosMode = (n: number, x: number, l: number): number => (n === 0 ? 1 : Math.cos((n * Math.PI * x) / l));
 
+/**
+ * sum eps_n·psi_n(src)·psi_n(seat)/w_n^2 over the modes from fromHz (exclusive) to toHz, at most
+ * MAX_TAIL_MODES of them; the cosines come from one table per axis (tens of thousands of modes).
+ */
+function tailSum(room: Room, src: Vec3, c: number, fromHz: number, toHz: number): number {
+  const axis = (i: number) => {
+    const l = room.size[i];
+    const top = Math.floor((2 * toHz * l) / c);
+    const product = new Float64Array(top + 1);
+    const k2 = new Float64Array(top + 1);
+    for (let n = 0; n <= top; n++) {
+      product[n] = (n ? 2 : 1) * cosMode(n, src[i], l) * cosMode(n, room.seat[i], l);
+      k2[n] = ((n * Math.PI) / l) ** 2;
+    }
+    return { product, k2, top };
+  };
+  const [ax, ay, az] = [axis(0), axis(1), axis(2)];
+  // w_n^2 = c^2·k^2; the bounds compare k^2 with (2 pi f / c)^2.
+  // (A hair above fromHz, so the mode at fromHz, already in the sum, is not counted twice.)
+  const from2 = ((2 * Math.PI * fromHz) / c) ** 2 * (1 + 1e-9);
+  const to2 = ((2 * Math.PI * toHz) / c) ** 2;
+  let sum = 0;
+  let count = 0;
+  for (let nx = 0; nx <= ax.top; nx++)
+    for (let ny = 0; ny <= ay.top; ny++) {
+      const kxy = ax.k2[nx] + ay.k2[ny];
+      if (kxy > to2) break;
+      const pxy = ax.product[nx] * ay.product[ny];
+      for (let nz = 0; nz <= az.top; nz++) {
+        const k2 = kxy + az.k2[nz];
+        if (k2 > to2) break;
+        if (k2 <= from2) continue;
+        if (++count > MAX_TAIL_MODES) return sum / (c * c);
+        sum += (pxy * az.product[nz]) / k2;
+      }
+    }
+  return sum / (c * c);
+}
+
 /** The modal model of the listening room, or null when the design has none. */
 export function roomModel(listening: Listening, air: Air): RoomModel | null {
   const room = listening.room;
@@ -166,12 +205,7 @@ export function roomModel(listening: Listening, air: Air): RoomModel | null {
       k[i] = scaleK * eps(m) * shape(m, src) * shape(m, room.seat);
     });
     // The modes above, far below their resonances, act as one constant: sum K_n/w_n^2.
-    let residual = 0;
-    forEachMode(room.size, c, TAIL_TO_SCHROEDER * fS, (nx, ny, nz, hz) => {
-      if (hz <= topHz) return;
-      const m = { nx, ny, nz, hz };
-      residual += (scaleK * eps(m) * shape(m, src) * shape(m, room.seat)) / (2 * Math.PI * hz) ** 2;
-    });
+    const residual = tailSum(room, src, c, topHz, TAIL_TO_SCHROEDER * fS) * scaleK;
     const r = Math.hypot(src[0] - room.seat[0], src[1] - room.seat[1], src[2] - room.seat[2]);
     const diffuseGain = Math.sqrt((rd / r) ** 2 + (4 * listening.omega * rd * rd) / reverb.absorptionArea);
     const band = { shape: 'lr4' as const, hz: transitionHz };
