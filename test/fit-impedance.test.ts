@@ -1,70 +1,10 @@
-// Driver parameters from impedance: sweeps synthesised here from a driver's mechanical elements
-// (Bl, Mms, Cms, Rms, the coil), written out independently of the fit's own model, with noise.
+// Driver parameters from impedance, checked on synthetic sweeps (helpers/impedance-sweep.ts).
 import { describe, expect, it } from 'vitest';
-import { airAt } from '../src/engine/air.ts';
 import { fitImpedance } from '../src/engine/fit/impedance-fit.ts';
-import { parseImpedanceTable, type ImpedanceTable } from '../src/engine/fit/impedance-table.ts';
+import { parseImpedanceTable } from '../src/engine/fit/impedance-table.ts';
 import { addedMassMms, closedBoxVas, mechanicalSet } from '../src/engine/fit/mechanical.ts';
-
-const air = airAt();
-const rhoC2 = air.rho * air.c * air.c;
-
-/** An invented 6.5-inch woofer. */
-const D = { re: 5.8, le: 0.35e-3, l2: 0.9e-3, r2: 6.5, bl: 7.2, mms: 0.022, cms: 0.65e-3, rms: 1.1, sd: 0.0133 };
-const ws = 1 / Math.sqrt(D.mms * D.cms);
-const truth = {
-  fs: ws / (2 * Math.PI),
-  qes: (ws * D.mms * D.re) / D.bl ** 2,
-  qms: (ws * D.mms) / D.rms,
-  vas: rhoC2 * D.sd ** 2 * D.cms,
-};
-
-/** Seeded uniform numbers (mulberry32) and Box–Muller normals, so the noise is the same every run. */
-function normals(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(uniform() + 1e-300)) * Math.cos(2 * Math.PI * uniform());
-}
-
-/**
- * A sweep from 10 Hz to 20 kHz, 24 points an octave: Z = Re + jwLe + (jwL2 || R2) + Bl^2/Zm, with
- * Zm = Rms + jwM + 1/(jwC). Noise: each point multiplied by (1 + n1 + j·n2), n1, n2 normal with a
- * standard deviation of `noise` (0.5% by default: a careful bench measurement).
- */
-function sweep(opts: { mms?: number; cms?: number; noise?: number; seed?: number; phase?: boolean } = {}): ImpedanceTable {
-  const { mms = D.mms, cms = D.cms, noise = 0.005, seed = 7, phase = true } = opts;
-  const n = normals(seed);
-  const freq: number[] = [];
-  const magnitude: number[] = [];
-  const phaseDeg: number[] = [];
-  for (let k = 0; k <= 11 * 24; k++) {
-    const f = 10 * 2 ** (k / 24);
-    const w = 2 * Math.PI * f;
-    // L2 || R2: jwL2·R2/(R2 + jwL2)
-    const den = D.r2 ** 2 + (w * D.l2) ** 2;
-    const semiRe = (D.r2 * (w * D.l2) ** 2) / den;
-    const semiIm = (w * D.l2 * D.r2 ** 2) / den;
-    const xm = w * mms - 1 / (w * cms);
-    const zmDen = D.rms ** 2 + xm ** 2;
-    const motRe = (D.bl ** 2 * D.rms) / zmDen;
-    const motIm = -(D.bl ** 2 * xm) / zmDen;
-    let re = D.re + semiRe + motRe;
-    let im = w * D.le + semiIm + motIm;
-    const n1 = noise * n();
-    const n2 = noise * n();
-    [re, im] = [re * (1 + n1) - im * n2, im * (1 + n1) + re * n2];
-    freq.push(f);
-    magnitude.push(Math.hypot(re, im));
-    phaseDeg.push((Math.atan2(im, re) * 180) / Math.PI);
-  }
-  return { freq, magnitude, phaseDeg: phase ? phaseDeg : null };
-}
+import { withFittedFields } from '../src/engine/fit/driver-fields.ts';
+import { air, D, rhoC2, sweep, truth } from './helpers/impedance-sweep.ts';
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
 
@@ -211,5 +151,27 @@ describe('impedance table reader', () => {
       expect(r.line).toBe(line);
       expect(r.message).toMatch(message);
     }
+  });
+});
+
+describe('fitted fields in a driver', () => {
+  const base = { re_ohm: 6, sd_cm2: 130, xmax_mm: 5, pe_w: 60, fs_hz: 40, qes: 0.5, qms: 4, bl_tm: 7, mms_g: 20, l2_mh: 1, r2_ohm: 5 };
+  it('replaces the small-signal fields, keeps one mechanical figure and drops what would contradict it', () => {
+    const next = withFittedFields(base, { re_ohm: 5.8, fs_hz: 42.1, qes: 0.65, qms: 5.3, le_mh: 0.35 });
+    expect(next).toEqual({ re_ohm: 5.8, sd_cm2: 130, xmax_mm: 5, pe_w: 60, fs_hz: 42.1, qes: 0.65, qms: 5.3, mms_g: 20, le_mh: 0.35 });
+    const withVas = withFittedFields(base, {
+      re_ohm: 5.8,
+      fs_hz: 42.1,
+      qes: 0.65,
+      qms: 5.3,
+      le_mh: 0.35,
+      l2_mh: 0.9,
+      r2_ohm: 6.5,
+      vas_l: 16.3,
+    });
+    expect(withVas.vas_l).toBe(16.3);
+    expect(withVas.mms_g).toBeUndefined();
+    expect(withVas.bl_tm).toBeUndefined();
+    expect(withVas.l2_mh).toBe(0.9);
   });
 });

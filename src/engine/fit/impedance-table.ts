@@ -117,7 +117,8 @@ export function parseImpedanceTable(text: string): TableResult {
     return {
       ok: false,
       line: rowLines[0],
-      message: 'cannot tell the columns apart: give a header such as "Hz Ohm Deg", or put frequency (rising) first and impedance (above zero) next',
+      message:
+        'cannot tell the columns apart: give a header such as "Hz Ohm Deg", or put frequency (rising) first and impedance (above zero) next',
     };
   const fi = roles.indexOf('freq');
   const mi = roles.indexOf('mag');
@@ -129,14 +130,20 @@ export function parseImpedanceTable(text: string): TableResult {
     const r = rows[k];
     const lineNo = rowLines[k];
     if (!(r[fi] > 0)) return { ok: false, line: lineNo, message: `frequency ${r[fi]} Hz must be above zero` };
-    if (k > 0 && !(r[fi] > freq[k - 1])) return { ok: false, line: lineNo, message: `frequency ${r[fi]} Hz does not rise from the line before` };
+    if (k > 0 && !(r[fi] > freq[k - 1]))
+      return { ok: false, line: lineNo, message: `frequency ${r[fi]} Hz does not rise from the line before` };
     if (!(r[mi] > 0)) return { ok: false, line: lineNo, message: `impedance ${r[mi]} ohm must be above zero` };
-    if (pi >= 0 && !(Math.abs(r[pi]) <= 180)) return { ok: false, line: lineNo, message: `phase ${r[pi]}° must be from -180 to 180 degrees` };
+    if (pi >= 0 && !(Math.abs(r[pi]) <= 180))
+      return { ok: false, line: lineNo, message: `phase ${r[pi]}° must be from -180 to 180 degrees` };
     freq.push(r[fi]);
     magnitude.push(r[mi]);
     if (pi >= 0) phaseDeg.push(r[pi]);
   }
   if (freq.length < MIN_TABLE_ROWS)
-    return { ok: false, line: rowLines[rowLines.length - 1], message: `the table has ${freq.length} rows; a fit needs at least ${MIN_TABLE_ROWS}` };
+    return {
+      ok: false,
+      line: rowLines[rowLines.length - 1],
+      message: `the table has ${freq.length} rows; a fit needs at least ${MIN_TABLE_ROWS}`,
+    };
   return { ok: true, table: { freq, magnitude, phaseDeg: pi >= 0 ? phaseDeg : null } };
 }

@@ -20,7 +20,9 @@ export const closedBoxVas = (vb: number, fs: number, qes: number, fc: number, qe
 /** Vas (m^3) of a suspension of compliance Cms behind a cone of area Sd. */
 export const vasFromCms = (cms: number, sd: number, air: Air): number => bulkModulus(air) * sd * sd * cms;
 
-export type SecondSweep = { kind: 'added-mass'; massKg: number; fit: ImpedanceFit } | { kind: 'closed-box'; vbM3: number; fit: ImpedanceFit };
+export type SecondSweep =
+  | { kind: 'added-mass'; massKg: number; fit: ImpedanceFit }
+  | { kind: 'closed-box'; vbM3: number; fit: ImpedanceFit };
 
 export interface MechanicalResult {
   /** m^3; null when it cannot be known (added mass without Sd). */
@@ -54,7 +56,13 @@ function propagate(f: (x: number[]) => number, x: number[], sigma: number[]): nu
  * needed for the mechanical set and, with an added mass, for Vas. Throws RangeError for a second
  * sweep that contradicts the first (a resonance that did not move the right way).
  */
-export function mechanicalSet(free: ImpedanceFit, second: SecondSweep | null, sd: number | null, typedVas: number | null, air: Air): MechanicalResult {
+export function mechanicalSet(
+  free: ImpedanceFit,
+  second: SecondSweep | null,
+  sd: number | null,
+  typedVas: number | null,
+  air: Air,
+): MechanicalResult {
   const { fs, qes, qms, re } = free.params;
   const s = free.sigma;
   let vas: number | null = null;
@@ -80,7 +88,9 @@ export function mechanicalSet(free: ImpedanceFit, second: SecondSweep | null, sd
   } else if (second?.kind === 'closed-box') {
     const { fs: fc, qes: qec } = second.fit.params;
     if (!(fc > fs * 1.005))
-      throw new RangeError(`the resonance in the box (${fc.toFixed(2)} Hz) must be clearly above the resonance in free air (${fs.toFixed(2)} Hz)`);
+      throw new RangeError(
+        `the resonance in the box (${fc.toFixed(2)} Hz) must be clearly above the resonance in free air (${fs.toFixed(2)} Hz)`,
+      );
     const f = (x: number[]) => closedBoxVas(second.vbM3, x[0], x[1], x[2], x[3]);
     vas = f([fs, qes, fc, qec]);
     vasSigma = propagate(f, [fs, qes, fc, qec], [s.fs, s.qes, second.fit.sigma.fs, second.fit.sigma.qes]);
