@@ -49,7 +49,9 @@ describe('Driver sheet: fit from impedance', () => {
       fireEvent.click(fit);
       expect(screen.getByLabelText('Fitted parameters').textContent).toMatch(/Vas[\d.]+ ± [\d.]+ L/);
     });
-    await act(() => fireEvent.click(screen.getByRole('button', { name: 'Fill the driver fields' })));
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Fill the driver fields' }));
+    });
     const way = store.get().designs.a.ways[0];
     if (way.kind !== 'driver') throw new Error('the demo woofer way is a driver way');
     expect(Math.abs(way.driver.fs_hz! / truth.fs - 1)).toBeLessThan(0.01);
