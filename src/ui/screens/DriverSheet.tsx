@@ -13,6 +13,7 @@ import { wayFigures } from '../analysis-view.ts';
 import { systemDriverWay } from '../ways.ts';
 import type { Slot } from '../store.ts';
 import { ImpedanceFitDialog } from '../components/ImpedanceFitDialog.tsx';
+import { DriverShelf } from '../components/DriverShelf.tsx';
 
 /** A numeric driver field: its document key, how it reads, and the model's value of it in display units. */
 interface DriverField {
@@ -185,6 +186,7 @@ export function DriverSheet() {
           {fitting && isDriver(fitting) ? (
             <ImpedanceFitDialog slot={fitting} wayIndex={shown[fitting].index} onClose={() => setFitting(null)} />
           ) : null}
+          <DriverShelf />
           <Group title="Small-signal parameters">
             {SMALL_SIGNAL.slice(0, 3).map(fieldRow)}
             <Row
