@@ -122,6 +122,14 @@ export function wayHarmonics(system: SpeakerSystem, way: DriverWay, f: number, v
   return { point, model, atSeat };
 }
 
+/** Third-octave steps from 20 Hz to 2 kHz, to 16 kHz when more than one way has drivers. */
+export function distortionFrequencies(system: SpeakerSystem): number[] {
+  const top = system.ways.filter((w) => w.kind === 'driver').length > 1 ? 16000 : 2000;
+  const out: number[] = [];
+  for (let k = 0; 20 * 2 ** (k / 3) <= top * 1.001; k++) out.push(Number((20 * 2 ** (k / 3)).toPrecision(4)));
+  return out;
+}
+
 export interface DistortionCurves {
   levelsVolts: number;
   ways: { name: string; points: DistortionPoint[] }[];
