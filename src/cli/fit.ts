@@ -5,7 +5,7 @@ import { fittedFields } from '../engine/fit/driver-fields.ts';
 import { fitImpedance, type CoilModel, type ImpedanceFit } from '../engine/fit/impedance-fit.ts';
 import { parseImpedanceTable } from '../engine/fit/impedance-table.ts';
 import { mechanicalSet, type MechanicalResult, type SecondSweep } from '../engine/fit/mechanical.ts';
-import { fmt } from '../engine/issues.ts';
+import { fmt, InputProblem } from '../engine/issues.ts';
 import { EXIT_OK, InputError, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { readSmallText } from './design-file.ts';
 import { planOutputs } from './output-files.ts';
@@ -48,7 +48,7 @@ async function fitFile(path: string, coil: CoilModel | 'auto'): Promise<Impedanc
   try {
     return fitImpedance(parsed.table, coil);
   } catch (e) {
-    if (e instanceof RangeError) throw new InputError(`${printable(path)}: ${e.message}`);
+    if (e instanceof InputProblem) throw new InputError(`${printable(path)}: ${e.message}`);
     throw e;
   }
 }
@@ -190,7 +190,7 @@ export const fitCommand: Command = {
         try {
           mech = mechanicalSet(free, second, sdM2, vasL !== undefined ? vasL / 1000 : null, airAt());
         } catch (e) {
-          if (e instanceof RangeError) throw new InputError(e.message);
+          if (e instanceof InputProblem) throw new InputError(e.message);
           throw e;
         }
       }

@@ -1,5 +1,6 @@
 // The Driver sheet's fit from measured impedance: reads the user's tables through the engine's
 // reader, fits, and turns the result into driver fields and a design with them (one undo step).
+import { InputProblem } from '../engine/issues.ts';
 import { airAt } from '../engine/air.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { fittedFields, withFittedFields, type FittedFields } from '../engine/fit/driver-fields.ts';
@@ -33,7 +34,7 @@ function fitTable(text: string, name: string): ImpedanceFit | string {
   try {
     return fitImpedance(parsed.table);
   } catch (e) {
-    if (e instanceof RangeError) return `${name}: ${e.message}`;
+    if (e instanceof InputProblem) return `${name}: ${e.message}`;
     throw e;
   }
 }
@@ -60,7 +61,7 @@ export function runFit(r: FitRequest): FitOutcome {
     try {
       mech = mechanicalSet(fit, second, sdM2, typedVas, airAt());
     } catch (e) {
-      if (e instanceof RangeError) return { ok: false, message: e.message };
+      if (e instanceof InputProblem) return { ok: false, message: e.message };
       throw e;
     }
   }

@@ -3,6 +3,7 @@
 // with the blocked coil of response/frequency.ts (Le, plus the L2R2 semi-inductance when chosen),
 // fitted over the whole curve by nonlinear least squares. Parameters are fitted as logarithms, so
 // they stay positive and their standard errors are relative.
+import { InputProblem } from '../issues.ts';
 import { abs, arg, add, cx, div, sub, type Complex } from '../complex.ts';
 import { coilImpedance } from '../response/frequency.ts';
 import type { ImpedanceTable } from './impedance-table.ts';
@@ -138,13 +139,13 @@ const SEMI_GAIN = 0.8;
 
 /**
  * Fits the model to a table. `coil: 'auto'` fits Le alone and Le with the semi-inductance, and keeps
- * the second when it lowers the sum of squares by more than a fifth. Throws RangeError with a
+ * the second when it lowers the sum of squares by more than a fifth. Throws InputProblem with a
  * message for a person when the curve has no resonance to fit.
  */
 export function fitImpedance(t: ImpedanceTable, coil: CoilModel | 'auto' = 'auto'): ImpedanceFit {
   const start = startingPoint(t);
   if (!start)
-    throw new RangeError(
+    throw new InputProblem(
       'the curve shows no resonance peak followed by a minimum: the sweep must start below the resonance and go well above it',
     );
   const simple = attempt(t, 'le', start);

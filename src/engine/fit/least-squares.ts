@@ -91,7 +91,7 @@ export function levenbergMarquardt(
   let x = x0.slice();
   let r = residuals(x);
   let ssr = sumSquares(r);
-  if (!Number.isFinite(ssr)) throw new RangeError('the starting point of the fit gives no finite residual');
+  if (!Number.isFinite(ssr)) throw new Error('the starting point of the fit gives no finite residual');
   let lambda = 1e-3;
   let converged = false;
   let iterations = 0;

@@ -6,6 +6,7 @@
 // then Bl = sqrt(2π·fs·Mms·Re/Qes), Rms = 2π·fs·Mms/Qms through the one derivation in driver.ts.
 // Uncertainties go through by first-order propagation of the fits' standard errors (independent
 // sweeps); the mass, volume and Sd are taken as exact.
+import { InputProblem } from '../issues.ts';
 import { bulkModulus } from '../air.ts';
 import { deriveSmallSignal, type SmallSignalSet } from '../driver.ts';
 import type { Air } from '../system.ts';
@@ -53,7 +54,7 @@ function propagate(f: (x: number[]) => number, x: number[], sigma: number[]): nu
 
 /**
  * Vas and the mechanical set. `typedVas` (m^3) is used when no second sweep is given; `sd` (m^2) is
- * needed for the mechanical set and, with an added mass, for Vas. Throws RangeError for a second
+ * needed for the mechanical set and, with an added mass, for Vas. Throws InputProblem for a second
  * sweep that contradicts the first (a resonance that did not move the right way).
  */
 export function mechanicalSet(
@@ -73,7 +74,7 @@ export function mechanicalSet(
   if (second?.kind === 'added-mass') {
     const fm = second.fit.params.fs;
     if (!(fm < fs * 0.995))
-      throw new RangeError(
+      throw new InputProblem(
         `the resonance with the added mass (${fm.toFixed(2)} Hz) must be clearly below the resonance without it (${fs.toFixed(2)} Hz)`,
       );
     const f = (x: number[]) => addedMassMms(x[0], x[1], second.massKg);
@@ -88,7 +89,7 @@ export function mechanicalSet(
   } else if (second?.kind === 'closed-box') {
     const { fs: fc, qes: qec } = second.fit.params;
     if (!(fc > fs * 1.005))
-      throw new RangeError(
+      throw new InputProblem(
         `the resonance in the box (${fc.toFixed(2)} Hz) must be clearly above the resonance in free air (${fs.toFixed(2)} Hz)`,
       );
     const f = (x: number[]) => closedBoxVas(second.vbM3, x[0], x[1], x[2], x[3]);
