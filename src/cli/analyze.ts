@@ -5,8 +5,9 @@ import type { RoomAnalysis } from '../engine/room/analysis.ts';
 import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { printable } from './user-text.ts';
+import { distortionJson } from './distortion-report.ts';
 
-const HELP = `usage: preheard analyze <design.json> [--json] [--volts V]
+const HELP = `usage: preheard analyze <design.json> [--json] [--volts V] [--distortion]
 
 Small-signal analysis of a design: for each way with drivers its f3, box figures,
 sensitivity and curves (SPL at the listening seat through the way's filter, excursion,
@@ -15,6 +16,8 @@ response at the seat with its f3 and sensitivity.
 
   --volts V   drive voltage for the curves, V rms at the amplifier (default 2.83)
   --json      print one JSON object instead of the table
+  --distortion  with --json: add "distortion", stepped-sine THD, H2, H3 and compression of the
+              large-signal model per way and for the sum, at the planned level (or --volts)
   --help      this text
 
 exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
@@ -230,6 +233,7 @@ export const analyzeCommand: Command = {
       const { values, positionals } = parseCommandArgs(argv, {
         json: { type: 'boolean' },
         volts: { type: 'string' },
+        distortion: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
       });
       if (values.help) {
@@ -241,7 +245,11 @@ export const analyzeCommand: Command = {
       const { system, warnings } = await loadDesignFile(positionals[0]);
       const a = analyze(system, { driveV });
       a.warnings.unshift(...warnings);
-      process.stdout.write(values.json ? JSON.stringify(analysisJson(a)) + '\n' : table(a));
+      if (values.distortion && !values.json) throw new UsageError('--distortion goes with --json');
+      const json = values.json
+        ? { ...analysisJson(a), ...(values.distortion ? { distortion: distortionJson(system, driveV) } : {}) }
+        : null;
+      process.stdout.write(json ? JSON.stringify(json) + '\n' : table(a));
       return EXIT_OK;
     }),
 };

@@ -19,36 +19,48 @@ export const MAX_DESIGN_BYTES = 1 << 20;
  * The text of a design file: regular files only, at most MAX_DESIGN_BYTES read, UTF-8 (a leading
  * byte-order mark is dropped, as the app does).
  */
-export async function readDesignText(path: string): Promise<string> {
+export const readDesignText = (path: string): Promise<string> =>
+  readSmallText(path, { noun: 'design file', maxBytes: MAX_DESIGN_BYTES, sizeWords: '1 MiB', typical: 'real ones are a few kB' });
+
+/** A small text input of any kind (a design, a measured table): what it is called and how large it may be. */
+export interface SmallTextKind {
+  noun: string;
+  maxBytes: number;
+  sizeWords: string;
+  typical: string;
+}
+
+/** The text of a small input file: regular files only, at most `maxBytes` read, UTF-8. */
+export async function readSmallText(path: string, kind: SmallTextKind): Promise<string> {
   const shown = printable(path);
   let file: FileHandle;
   try {
     // O_NONBLOCK: opening a FIFO with no writer returns at once instead of waiting for one.
     file = await open(path, constants.O_RDONLY | constants.O_NONBLOCK);
   } catch (e) {
-    throw new InputError(`cannot read the design file ${shown}: ${systemErrorWords(e)}`);
+    throw new InputError(`cannot read the ${kind.noun} ${shown}: ${systemErrorWords(e)}`);
   }
   try {
     const info = await file.stat();
-    if (info.isDirectory()) throw new InputError(`${shown} is a folder, not a design file`);
-    if (!info.isFile()) throw new InputError(`${shown} is not a regular file (a device, pipe or socket): give a design file`);
-    const buf = Buffer.alloc(MAX_DESIGN_BYTES + 1);
+    if (info.isDirectory()) throw new InputError(`${shown} is a folder, not a ${kind.noun}`);
+    if (!info.isFile()) throw new InputError(`${shown} is not a regular file (a device, pipe or socket): give a ${kind.noun}`);
+    const buf = Buffer.alloc(kind.maxBytes + 1);
     let length = 0;
     while (length < buf.length) {
       const { bytesRead } = await file.read(buf, length, buf.length - length, null);
       if (bytesRead === 0) break;
       length += bytesRead;
     }
-    if (length > MAX_DESIGN_BYTES)
-      throw new InputError(`${shown} is larger than 1 MiB, too large for a design file (real ones are a few kB)`);
+    if (length > kind.maxBytes)
+      throw new InputError(`${shown} is larger than ${kind.sizeWords}, too large for a ${kind.noun} (${kind.typical})`);
     try {
       return new TextDecoder('utf-8', { fatal: true }).decode(buf.subarray(0, length));
     } catch {
-      throw new InputError(`${shown} is not UTF-8 text, so it is not a design file`);
+      throw new InputError(`${shown} is not UTF-8 text, so it is not a ${kind.noun}`);
     }
   } catch (e) {
     if (e instanceof InputError) throw e;
-    throw new InputError(`cannot read the design file ${shown}: ${systemErrorWords(e)}`);
+    throw new InputError(`cannot read the ${kind.noun} ${shown}: ${systemErrorWords(e)}`);
   } finally {
     await file.close().catch(() => undefined);
   }

@@ -5,9 +5,10 @@ import { EXIT_USAGE, type Command } from './command.ts';
 import { renderCommand } from './render.ts';
 import { compareCommand } from './compare.ts';
 import { headroomCommand } from './headroom.ts';
+import { fitCommand } from './fit.ts';
 import { printable } from './user-text.ts';
 
-const COMMANDS: Command[] = [analyzeCommand, renderCommand, compareCommand, headroomCommand, sweepCommand];
+const COMMANDS: Command[] = [analyzeCommand, renderCommand, compareCommand, headroomCommand, sweepCommand, fitCommand];
 
 function usage(): string {
   const lines = COMMANDS.map((c) => `  ${c.name.padEnd(10)} ${c.summary}`);

@@ -398,4 +398,22 @@ export const tests = [
       assert.equal(await p.getByLabel('Net volume Vb, design A', { exact: true }).inputValue(), ctx.state.newVb);
     },
   },
+  {
+    name: 'Curves: distortion computed in a real Worker, with progress; the Driver sheet opens the impedance fit',
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await tab(p, 'Curves');
+      await p.getByRole('button', { name: 'Compute distortion' }).click();
+      await p.getByRole('button', { name: 'Compute again' }).waitFor({ timeout: 120000 });
+      await p.locator('[data-chart=thd]').first().waitFor();
+      assert.match(await p.locator('.distortion-panel').innerText(), /A: at most [\d.]+ % THD/);
+      mkdirSync(SHOTS, { recursive: true });
+      await p.locator('.distortion-panel').screenshot({ path: join(SHOTS, 'distortion.png') });
+      await tab(p, 'Driver sheet');
+      await p.getByRole('button', { name: 'Fit from impedance…' }).first().click();
+      await p.getByRole('dialog').waitFor();
+      assert.match(await p.getByRole('dialog').innerText(), /Free-air sweep/);
+      await p.keyboard.press('Escape');
+    },
+  },
 ];

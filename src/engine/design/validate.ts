@@ -27,7 +27,7 @@ function shown(value: unknown): string {
   return text === undefined ? String(value) : text.length > 60 ? `${text.slice(0, 57)}...` : text;
 }
 
-function schemaIssue(issue: v.BaseIssue<unknown>): Issue {
+export function schemaIssue(issue: v.BaseIssue<unknown>): Issue {
   const path = pathOf(issue);
   if (issue.type === 'strict_object' && issue.expected === 'never') return error(path, 'is not a field of this design format');
   if (issue.input === undefined) return error(path, 'is required');

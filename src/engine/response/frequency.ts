@@ -34,7 +34,7 @@ export interface PointResponse {
  * L2R2 lossy-inductance model: eddy currents make the coil's inductance fall and its resistance rise
  * with frequency).
  */
-export function coilImpedance(d: Driver, w: number): Complex {
+export function coilImpedance(d: Pick<Driver, 're' | 'le' | 'l2' | 'r2'>, w: number): Complex {
   const z = cx(d.re, w * d.le);
   if (!(d.l2 > 0)) return z;
   const jwl2 = cx(0, w * d.l2);

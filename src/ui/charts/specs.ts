@@ -52,7 +52,9 @@ export interface ChartSpec {
   empty?: string;
 }
 
-export type ChartId = 'spl' | 'excursion' | 'impedance' | 'phase' | 'group-delay' | 'port-speed' | 'max-spl';
+export type ChartId = 'spl' | 'excursion' | 'impedance' | 'phase' | 'group-delay' | 'port-speed' | 'max-spl' | DistortionChartId;
+/** The distortion section's charts (components/DistortionPanel.tsx), drawn on request only. */
+export type DistortionChartId = 'thd' | 'h3' | 'compression';
 
 export const CHART_IDS: ChartId[] = ['spl', 'excursion', 'impedance', 'phase', 'group-delay', 'port-speed', 'max-spl'];
 
@@ -322,6 +324,9 @@ export const TITLES: Record<ChartId, string> = {
   'group-delay': 'Group delay',
   'port-speed': 'Port air speed at the planned level',
   'max-spl': 'Maximum SPL at the seat',
+  thd: 'Total harmonic distortion',
+  h3: 'Third harmonic',
+  compression: 'Compression of the fundamental',
 };
 
 function nearest(f: Float64Array, hz: number) {

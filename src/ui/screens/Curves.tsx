@@ -1,4 +1,5 @@
 // Curves: every chart with A and B overlaid and the ideal reference, the key numbers as text.
+import { DistortionPanel } from '../components/DistortionPanel.tsx';
 import { useMemo, useState } from 'preact/hooks';
 import { useApp } from '../context.ts';
 import { Chart } from '../charts/Chart.tsx';
@@ -124,6 +125,7 @@ export function Curves({ theme }: { theme: string }) {
           {charts.map((c) => (
             <ChartCard spec={c} theme={theme} />
           ))}
+          <DistortionPanel theme={theme} />
         </div>
         <div class="curves-side">
           <FigureTable />

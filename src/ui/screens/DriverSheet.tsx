@@ -12,6 +12,8 @@ import { WayFieldRows } from '../components/WayFields.tsx';
 import { wayFigures } from '../analysis-view.ts';
 import { systemDriverWay } from '../ways.ts';
 import type { Slot } from '../store.ts';
+import { ImpedanceFitDialog } from '../components/ImpedanceFitDialog.tsx';
+import { DriverShelf } from '../components/DriverShelf.tsx';
 
 /** A numeric driver field: its document key, how it reads, and the model's value of it in display units. */
 interface DriverField {
@@ -127,6 +129,7 @@ export function DriverSheet() {
   const { state, dispatch } = useApp();
   const shown = useShownWays();
   const [folded, setFolded] = useState(true);
+  const [fitting, setFitting] = useState<Slot | null>(null);
   const isDriver = (s: Slot) => shown[s].way.kind === 'driver';
   const path = (s: Slot, key: string) => `${shown[s].path}.driver.${key}`;
   /** One driver as entered, in the model: for display and per-driver limits. */
@@ -169,6 +172,21 @@ export function DriverSheet() {
             hint="make and model, for your notes"
             cell={(s) => (isDriver(s) ? <TextField slot={s} path={path(s, 'name')} label="Driver name" /> : null)}
           />
+          <Row
+            label="From a measurement"
+            hint="fit the fields to an impedance sweep"
+            cell={(s) =>
+              isDriver(s) ? (
+                <button type="button" onClick={() => setFitting(s)}>
+                  Fit from impedance…
+                </button>
+              ) : null
+            }
+          />
+          {fitting && isDriver(fitting) ? (
+            <ImpedanceFitDialog slot={fitting} wayIndex={shown[fitting].index} onClose={() => setFitting(null)} />
+          ) : null}
+          <DriverShelf />
           <Group title="Small-signal parameters">
             {SMALL_SIGNAL.slice(0, 3).map(fieldRow)}
             <Row

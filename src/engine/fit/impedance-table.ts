@@ -1,0 +1,149 @@
+// Reading a measured impedance table: frequency, |Z| (ohm) and phase (degrees, optional) in any of
+// the common column orders, with header or comment lines, decimal points or decimal commas.
+// A table that cannot be read is a value naming the line, never an exception.
+
+export interface ImpedanceTable {
+  /** Hz, strictly rising. */
+  freq: number[];
+  /** ohm */
+  magnitude: number[];
+  /** degrees; null when the table has no phase column. */
+  phaseDeg: number[] | null;
+}
+
+export type TableResult = { ok: true; table: ImpedanceTable } | { ok: false; line: number; message: string };
+
+/** Longest table read; a sweep has a few thousand points at most. */
+export const MAX_TABLE_ROWS = 100_000;
+/** Fewest points a fit can use (seven parameters, with room to judge the residual). */
+export const MIN_TABLE_ROWS = 20;
+
+const COMMENT = /^\s*(#|\*|;|\/\/|%|!)/;
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+const DECIMAL_COMMA_NUMBER = /^[+-]?\d+(,\d+)?([eE][+-]?\d+)?$/;
+
+/**
+ * The fields of one line. Tabs and semicolons separate fields (a comma inside one is a decimal
+ * comma); with neither, fields separated by white space that all read as numbers with a decimal
+ * comma are taken so; otherwise commas and white space both separate.
+ */
+function splitFields(line: string): string[] {
+  const trimmed = line.trim();
+  if (/[\t;]/.test(trimmed)) return trimmed.split(/\s*[\t;]\s*/).map((f) => f.trim().replace(',', '.'));
+  const bySpace = trimmed.split(/\s+/);
+  if (bySpace.length >= 2 && bySpace.every((f) => DECIMAL_COMMA_NUMBER.test(f)) && bySpace.some((f) => f.includes(',')))
+    return bySpace.map((f) => f.replace(',', '.'));
+  return trimmed.split(/\s*,\s*|\s+/).filter((f) => f !== '');
+}
+
+type Role = 'freq' | 'mag' | 'phase' | 'other';
+
+/** Column roles from a header's words, or null when the header names no frequency and impedance. */
+function rolesFromHeader(fields: string[]): Role[] | null {
+  const roles = fields.map((raw): Role => {
+    const f = raw.toLowerCase();
+    if (/freq|^f$|hz/.test(f)) return 'freq';
+    if (/phase|deg|^ph|angle|arg|°/.test(f)) return 'phase';
+    if (/imp|ohm|mag|^\|?z\|?$|^z\b|ω|Ω/i.test(f)) return 'mag';
+    return 'other';
+  });
+  return roles.includes('freq') && roles.includes('mag') ? roles : null;
+}
+
+/**
+ * Column roles from the numbers alone: frequency is the column that rises (but for a stray step); of the others, a column
+ * with negative values or values the size of angles and of both signs is the phase, and the first
+ * column positive throughout is |Z|. With two positive candidates the common order f, |Z|, phase
+ * is taken.
+ */
+function rolesFromData(rows: number[][]): Role[] | null {
+  const n = rows[0].length;
+  const col = (j: number) => rows.map((r) => r[j]);
+  // The column rising most often: one step out of order is then reported on its own line.
+  const risingSteps = (c: number[]) => c.filter((x, i) => i > 0 && x > c[i - 1]).length;
+  const candidates = Array.from({ length: n }, (_, j) => j).filter((j) => col(j).every((x) => x > 0));
+  if (candidates.length < 2) return null;
+  const freqCol = candidates.reduce((a, b) => (risingSteps(col(b)) > risingSteps(col(a)) ? b : a));
+  if (risingSteps(col(freqCol)) < 0.9 * (rows.length - 1)) return null;
+  const roles: Role[] = new Array(n).fill('other');
+  roles[freqCol] = 'freq';
+  const rest = Array.from({ length: n }, (_, j) => j).filter((j) => j !== freqCol);
+  const positive = rest.filter((j) => col(j).every((x) => x > 0));
+  const phaseLike = rest.filter((j) => col(j).some((x) => x < 0) && col(j).every((x) => Math.abs(x) <= 180));
+  const magCol = positive[0];
+  if (magCol === undefined) return null;
+  roles[magCol] = 'mag';
+  const phaseCol = phaseLike.find((j) => j !== magCol) ?? (rest.length >= 2 ? rest.find((j) => j !== magCol) : undefined);
+  if (phaseCol !== undefined) roles[phaseCol] = 'phase';
+  return roles;
+}
+
+/** Reads a table of frequency, |Z| and optional phase. */
+export function parseImpedanceTable(text: string): TableResult {
+  const lines = text.split(/\r\n|\r|\n/);
+  let headerRoles: Role[] | null = null;
+  const rows: number[][] = [];
+  const rowLines: number[] = [];
+  let width = 0;
+  for (let i = 0; i < lines.length; i++) {
+    const lineNo = i + 1;
+    const line = lines[i];
+    if (line.trim() === '' || COMMENT.test(line)) continue;
+    const fields = splitFields(line);
+    const numeric = fields.every((f) => NUMBER.test(f));
+    if (!numeric) {
+      if (rows.length === 0) {
+        // Text before the first row of numbers is a header; the last one naming columns counts.
+        const names = /[\t;,]/.test(line) ? line.trim().split(/\s*[\t;,]\s*/) : fields;
+        headerRoles = rolesFromHeader(names) ?? headerRoles;
+        continue;
+      }
+      const bad = fields.find((f) => !NUMBER.test(f)) ?? '';
+      return { ok: false, line: lineNo, message: `"${bad.slice(0, 40)}" is not a number` };
+    }
+    if (fields.length < 2) return { ok: false, line: lineNo, message: 'needs at least two columns: frequency and impedance' };
+    if (width === 0) width = fields.length;
+    else if (fields.length !== width)
+      return { ok: false, line: lineNo, message: `has ${fields.length} columns where the lines before have ${width}` };
+    const values = fields.map(Number);
+    if (!values.every(Number.isFinite)) return { ok: false, line: lineNo, message: 'has a number too large to use' };
+    rows.push(values);
+    rowLines.push(lineNo);
+    if (rows.length > MAX_TABLE_ROWS) return { ok: false, line: lineNo, message: `the table is longer than ${MAX_TABLE_ROWS} rows` };
+  }
+  if (rows.length === 0) return { ok: false, line: lines.length, message: 'the table has no rows of numbers' };
+  const roles = headerRoles && headerRoles.length === width ? headerRoles : rolesFromData(rows);
+  if (!roles)
+    return {
+      ok: false,
+      line: rowLines[0],
+      message:
+        'cannot tell the columns apart: give a header such as "Hz Ohm Deg", or put frequency (rising) first and impedance (above zero) next',
+    };
+  const fi = roles.indexOf('freq');
+  const mi = roles.indexOf('mag');
+  const pi = roles.indexOf('phase');
+  const freq: number[] = [];
+  const magnitude: number[] = [];
+  const phaseDeg: number[] = [];
+  for (let k = 0; k < rows.length; k++) {
+    const r = rows[k];
+    const lineNo = rowLines[k];
+    if (!(r[fi] > 0)) return { ok: false, line: lineNo, message: `frequency ${r[fi]} Hz must be above zero` };
+    if (k > 0 && !(r[fi] > freq[k - 1]))
+      return { ok: false, line: lineNo, message: `frequency ${r[fi]} Hz does not rise from the line before` };
+    if (!(r[mi] > 0)) return { ok: false, line: lineNo, message: `impedance ${r[mi]} ohm must be above zero` };
+    if (pi >= 0 && !(Math.abs(r[pi]) <= 180))
+      return { ok: false, line: lineNo, message: `phase ${r[pi]}° must be from -180 to 180 degrees` };
+    freq.push(r[fi]);
+    magnitude.push(r[mi]);
+    if (pi >= 0) phaseDeg.push(r[pi]);
+  }
+  if (freq.length < MIN_TABLE_ROWS)
+    return {
+      ok: false,
+      line: rowLines[rowLines.length - 1],
+      message: `the table has ${freq.length} rows; a fit needs at least ${MIN_TABLE_ROWS}`,
+    };
+  return { ok: true, table: { freq, magnitude, phaseDeg: pi >= 0 ? phaseDeg : null } };
+}
