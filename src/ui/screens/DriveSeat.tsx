@@ -159,7 +159,14 @@ export function DriveSeat() {
           )}
         />
       </Group>
-      <Group title="Planned level">
+      <Group
+        title="Planned level"
+        note={
+          state.project.sharedLevel
+            ? `Shared by all ${state.project.variants.length} variants of the project: a change here reaches every one (Project… to plan them apart).`
+            : undefined
+        }
+      >
         <Row
           label="Stated as"
           cell={(s) => (

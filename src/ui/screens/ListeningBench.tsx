@@ -1,5 +1,6 @@
 // Listening bench: the user's own audio (decoded here, never uploaded) or the built-in demo track,
 // played through A, B and the ideal reference with instant switching; levels; offline render and export.
+import { VariantSwitch } from '../bench/VariantSwitch.tsx';
 import { useRef, useState } from 'preact/hooks';
 import type { BenchAudio, BenchState } from '../../audio/bench.ts';
 import { LISTEN_MODES, LISTEN_MODE_LABEL, type DesignSlot, type ListenMode } from '../../audio/protocol.ts';
@@ -360,6 +361,7 @@ export function ListeningBench(_p: { theme: string }) {
       <TrackCard bench={bench} state={state} />
       <div class="bench-card player">
         <Transport bench={bench} state={state} store={store} names={names} full />
+        <VariantSwitch bench={bench} state={state} store={store} project={app.project} />
         <Overview bench={bench} state={state} theme={_p.theme} height={84} />
         <p class="fine overview-hint">Click the waveform to jump, drag across it to loop a passage.</p>
       </div>
