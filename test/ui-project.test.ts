@@ -7,7 +7,7 @@ import { parseDesign } from '../src/engine/design/validate.ts';
 import type { DesignDoc } from '../src/engine/design/document.ts';
 import { demoPair } from '../src/ui/demo.ts';
 import { Autosave, memoryBackend, type SavedState } from '../src/ui/persist.ts';
-import { MAX_VARIANTS, pairOf, projectFileText, projectFromPair, readProject, type Project } from '../src/ui/project.ts';
+import { MAX_VARIANTS, pairOf, projectFileText, projectFromPair, readProject } from '../src/ui/project.ts';
 import { Store } from '../src/ui/store.ts';
 
 /** What parseDesign makes of a document: the migration is the engine's, independent of the project code. */
@@ -67,7 +67,12 @@ describe('a project of many variants', () => {
     // Apart again: an edit of one level stays in its variant.
     store.dispatch({ type: 'share-level', shared: false });
     store.dispatch({ type: 'edit', slot: 'a', path: 'listening.level.spl_db', value: 88 });
-    expect(store.get().project.variants.map((v) => (v.design.listening.level as { spl_db: number }).spl_db).sort()).toEqual([88, 97, 97, 97]);
+    expect(
+      store
+        .get()
+        .project.variants.map((v) => (v.design.listening.level as { spl_db: number }).spl_db)
+        .sort(),
+    ).toEqual([88, 97, 97, 97]);
   });
 });
 
@@ -97,8 +102,16 @@ describe('the project file', () => {
 
   it.each([
     ['not an object', 'a project', /no project or design/],
-    ['no variants', { format: 'preheard-project', version: 1, name: 'x', variants: [], compared: { a: 'v1', b: 'v1' } }, /at least one variant/],
-    ['too many variants', { format: 'preheard-project', version: 1, name: 'x', variants: Array(MAX_VARIANTS + 1).fill({}), compared: {} }, /at most 64/],
+    [
+      'no variants',
+      { format: 'preheard-project', version: 1, name: 'x', variants: [], compared: { a: 'v1', b: 'v1' } },
+      /at least one variant/,
+    ],
+    [
+      'too many variants',
+      { format: 'preheard-project', version: 1, name: 'x', variants: Array(MAX_VARIANTS + 1).fill({}), compared: {} },
+      /at most 64/,
+    ],
     ['a later version', { format: 'preheard-project', version: 9, name: 'x', variants: [], compared: {} }, /version 9/],
   ])('%s: one clear message', (_name, raw, message) => {
     const r = readProject(raw);
@@ -142,6 +155,7 @@ describe('older forms open as a project without loss', () => {
     expect(written.version).toBe(2);
     expect(written.state.project.variants).toHaveLength(3);
     const again = await new Autosave(backend).load();
-    expect((again?.project as Project).variants.map((v) => v.design.name)).toEqual(written.state.project.variants.map((v) => v.design.name));
+    if (!again) throw new Error('the project was not read back');
+    expect(again.project.variants.map((v) => v.design.name)).toEqual(written.state.project.variants.map((v) => v.design.name));
   });
 });

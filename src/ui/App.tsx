@@ -38,7 +38,14 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const derived = { a: derive('a', state.designs.a), b: derive('b', state.designs.b) };
   const view: AppView = useMemo(() => ({ state, derived, dispatch: (i) => store.dispatch(i), store }), [state, derived.a, derived.b]);
   const sharedView = useMemo(() => new SharedView(store, autosave), [store, autosave]);
-  const deps: TransferDeps = { store, derived, notify, showProblems: setProblems, openShared: (project) => sharedView.open(project), confirm };
+  const deps: TransferDeps = {
+    store,
+    derived,
+    notify,
+    showProblems: setProblems,
+    openShared: (project) => sharedView.open(project),
+    confirm,
+  };
 
   useShareLinks(deps, () => registerServiceWorker((u) => setUpdate(u)));
   useUndoKeys(store);

@@ -190,7 +190,9 @@ function describeFailure(e: unknown): SaveStatus {
 }
 
 /** A stored state of either version: a project (2) or an A/B pair (1), not yet validated. */
-export function isSavedState(v: unknown): v is { kind: 'preheard-app-state'; version: 1 | 2; savedAt: number; state: Record<string, unknown> } {
+export function isSavedState(
+  v: unknown,
+): v is { kind: 'preheard-app-state'; version: 1 | 2; savedAt: number; state: Record<string, unknown> } {
   if (v === null || typeof v !== 'object') return false;
   const s = v as { kind?: unknown; version?: unknown; savedAt?: unknown; state?: Record<string, unknown> };
   const st = s.state;

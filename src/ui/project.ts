@@ -88,7 +88,8 @@ export function freshName(project: Project, base: string): string {
 
 function withVariants(project: Project, variants: Variant[]): Project {
   const ids = new Set(variants.map((v) => v.id));
-  const keep = (s: Slot) => (ids.has(project.compared[s]) ? project.compared[s] : variants[Math.min(s === 'a' ? 0 : 1, variants.length - 1)].id);
+  const keep = (s: Slot) =>
+    ids.has(project.compared[s]) ? project.compared[s] : variants[Math.min(s === 'a' ? 0 : 1, variants.length - 1)].id;
   return { ...project, variants, compared: { a: keep('a'), b: keep('b') } };
 }
 
@@ -176,19 +177,32 @@ const isRecord = (v: unknown): v is Record<string, unknown> => v !== null && typ
  * variant through parseDesign. The designs come back as parseDesign gives them.
  */
 export function readProject(raw: unknown): ProjectRead {
-  if (!isRecord(raw)) return { ok: false, errors: [problem('', 'the file holds no project or design (expected a JSON object)')], warnings: [] };
+  if (!isRecord(raw))
+    return { ok: false, errors: [problem('', 'the file holds no project or design (expected a JSON object)')], warnings: [] };
   if (raw.format === PROJECT_FILE_KIND) return readProjectFile(raw);
   if ('a' in raw && 'b' in raw && !('format' in raw)) {
     const a = parseDesign(raw.a);
     const b = parseDesign(raw.b);
-    const warnings = [...variantIssues(a.warnings, 0, a.ok ? a.design.name : undefined), ...variantIssues(b.warnings, 1, b.ok ? b.design.name : undefined)];
+    const warnings = [
+      ...variantIssues(a.warnings, 0, a.ok ? a.design.name : undefined),
+      ...variantIssues(b.warnings, 1, b.ok ? b.design.name : undefined),
+    ];
     if (!a.ok || !b.ok)
-      return { ok: false, errors: [...(a.ok ? [] : variantIssues(a.errors, 0, undefined)), ...(b.ok ? [] : variantIssues(b.errors, 1, undefined))], warnings };
+      return {
+        ok: false,
+        errors: [...(a.ok ? [] : variantIssues(a.errors, 0, undefined)), ...(b.ok ? [] : variantIssues(b.errors, 1, undefined))],
+        warnings,
+      };
     return { ok: true, project: projectFromPair({ a: a.design, b: b.design }), warnings, kind: 'pair' };
   }
   const d = parseDesign(raw);
   if (!d.ok) return { ok: false, errors: d.errors, warnings: d.warnings };
-  const project: Project = { name: d.design.name || 'My project', variants: [{ id: 'v1', design: d.design }], compared: { a: 'v1', b: 'v1' }, sharedLevel: false };
+  const project: Project = {
+    name: d.design.name || 'My project',
+    variants: [{ id: 'v1', design: d.design }],
+    compared: { a: 'v1', b: 'v1' },
+    sharedLevel: false,
+  };
   return { ok: true, project, warnings: d.warnings, kind: 'design' };
 }
 
@@ -209,11 +223,15 @@ function readProjectFile(raw: Record<string, unknown>): ProjectRead {
   const errors: Issue[] = [];
   const warnings: Issue[] = [];
   if (raw.version !== PROJECT_FILE_VERSION)
-    errors.push(problem('version', `this project file is version ${JSON.stringify(raw.version)}; this app reads version ${PROJECT_FILE_VERSION}`));
-  if (typeof raw.name !== 'string' || raw.name.length > 200) errors.push(problem('name', 'the project name must be text of at most 200 characters'));
+    errors.push(
+      problem('version', `this project file is version ${JSON.stringify(raw.version)}; this app reads version ${PROJECT_FILE_VERSION}`),
+    );
+  if (typeof raw.name !== 'string' || raw.name.length > 200)
+    errors.push(problem('name', 'the project name must be text of at most 200 characters'));
   const list = raw.variants;
   if (!Array.isArray(list) || list.length === 0) errors.push(problem('variants', 'a project needs at least one variant'));
-  else if (list.length > MAX_VARIANTS) errors.push(problem('variants', `a project holds at most ${MAX_VARIANTS} variants; this one has ${list.length}`));
+  else if (list.length > MAX_VARIANTS)
+    errors.push(problem('variants', `a project holds at most ${MAX_VARIANTS} variants; this one has ${list.length}`));
   if (errors.length) return { ok: false, errors, warnings };
   const variants: Variant[] = [];
   const ids = new Set<string>();

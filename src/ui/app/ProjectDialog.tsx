@@ -70,7 +70,10 @@ export function ProjectDialog(p: { store: Store; state: AppState; actions: Proje
                       onChange={() => store.dispatch({ type: 'compare', slot: s, id: v.id })}
                     />
                     <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
-                    <span class="visually-hidden"> compare “{v.design.name}” as {SLOT_LABEL[s]}</span>
+                    <span class="visually-hidden">
+                      {' '}
+                      compare “{v.design.name}” as {SLOT_LABEL[s]}
+                    </span>
                   </label>
                 ))}
               </td>
@@ -87,8 +90,8 @@ export function ProjectDialog(p: { store: Store; state: AppState; actions: Proje
         </tbody>
       </table>
       <p class="fine">
-        {project.variants.length} of at most {MAX_VARIANTS} variants. Screens compare the two chosen as A and B; the Listening bench can switch
-        among up to four.
+        {project.variants.length} of at most {MAX_VARIANTS} variants. Screens compare the two chosen as A and B; the Listening bench can
+        switch among up to four.
       </p>
       <label class="check">
         <input

@@ -5,7 +5,6 @@ import { SLOTS, SLOT_LABEL, type AppState, type ScreenId, type Slot } from '../s
 import { SCREENS } from './screens.tsx';
 import { plural } from '../format.ts';
 
-
 export function Tabs(p: {
   state: AppState;
   derived: Record<Slot, Derived>;

@@ -67,7 +67,6 @@ export function useShareLinks(d: TransferDeps, onStart: () => void) {
   }, []);
 }
 
-
 function parsedText(text: string): { ok: true; value: unknown } | { ok: false; errors: Issue[] } {
   try {
     return { ok: true, value: JSON.parse(text) };
@@ -124,7 +123,10 @@ export function exportProject(d: TransferDeps): void {
   downloadText(projectFileText(project), `${fileStem(project.name || 'project')}${PROJECT_FILE_SUFFIX}`);
   const bad = project.variants.filter((v) => !validate(v.design).ok);
   if (bad.length)
-    d.notify(`The project was saved with problems in ${bad.map((v) => `“${v.design.name}”`).join(', ')}; fix them before opening it elsewhere.`, 'warn');
+    d.notify(
+      `The project was saved with problems in ${bad.map((v) => `“${v.design.name}”`).join(', ')}; fix them before opening it elsewhere.`,
+      'warn',
+    );
 }
 
 /** The share link of the pair, or null (with a notice) while a design has errors. */

@@ -157,7 +157,7 @@ export function StressStrip({ theme }: { theme: string }) {
                       type="button"
                       class="small"
                       onClick={() => (bench.seek(Math.max(0, e.start_s - 0.5)), bench.selectLane(s))}
-                      aria-label={`Hear ${KIND_LABEL[e.kind]} in design ${SLOT_LABEL[s]} at ${clock(e.start_s, 2)}`}
+                      aria-label={`Hear it: ${KIND_LABEL[e.kind]} in design ${SLOT_LABEL[s]} at ${clock(e.start_s, 2)}`}
                     >
                       Hear it
                     </button>
