@@ -25,7 +25,7 @@ import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
-import { decodedProblem, fileProblem, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
+import { decodedProblem, fileProblem, loudestBassStart, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
 import { forgetTrack, keepResults, keepTrack, keptResults, keptTrack, MAX_KEPT_TRACK_BYTES, resultsKey } from './kept-track.ts';
 import { levelFailure, levelProblem } from './level-message.ts';
 import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';
@@ -51,7 +51,7 @@ export interface TrackInfo {
   droppedChannels: number;
   /** Min and max of all channels per overview bin. */
   overview: { min: Float32Array; max: Float32Array };
-  /** Where the demo's loud section starts, s. */
+  /** Where the loud section starts, s: the demo's own, or a file's loudest bass passage. */
   loudFromS?: number;
   /** Integrated programme loudness of the file itself (ITU-R BS.1770), LUFS; -Infinity when silent. */
   loudnessLufs?: number;
@@ -409,6 +409,8 @@ export class BenchAudio {
       channels: channels.length,
       overview: overviewOf(channels),
       loudnessLufs: integratedLoudness(channels, info.sampleRate),
+      // A file's loud part is found, not assumed: the blind trial loops from there.
+      loudFromS: info.loudFromS ?? loudestBassStart(channels, info.sampleRate),
     };
     this.set({
       track,
