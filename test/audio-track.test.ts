@@ -1,7 +1,15 @@
 // Track checks of the listening bench: clear messages for files that cannot be used, and the
 // overview envelope (min and max of each bin over all channels).
 import { describe, expect, it } from 'vitest';
-import { decodedProblem, fileProblem, MAX_FILE_BYTES, MAX_TRACK_S, overviewOf, wavTruncation } from '../src/audio/track.ts';
+import {
+  decodedProblem,
+  fileProblem,
+  loudestBassStart,
+  MAX_FILE_BYTES,
+  MAX_TRACK_S,
+  overviewOf,
+  wavTruncation,
+} from '../src/audio/track.ts';
 
 describe('files the bench refuses', () => {
   it('says an empty or oversized file is empty or too big, by name and size', () => {
@@ -70,5 +78,28 @@ describe('a WAV file that ends early', () => {
     expect(wavTruncation(wav(0xffffffff, 192000))).toBeNull();
     expect(wavTruncation(wav(0, 192000))).toBeNull();
     expect(wavTruncation(new TextEncoder().encode('ID3 not a wave file at all').buffer as ArrayBuffer)).toBeNull();
+  });
+});
+
+describe('the loudest bass passage (where a blind trial loops)', () => {
+  it('finds a 40 Hz passage, not a louder treble one, and starts its 8 s window so the passage is in it', () => {
+    const sr = 8000;
+    const n = 40 * sr;
+    const l = new Float32Array(n);
+    for (let i = 0; i < n; i++) {
+      const t = i / sr;
+      // A loud 2 kHz passage at 2-6 s (treble: the woofer's limits are not in it), a 40 Hz one at 20-24 s.
+      if (t >= 2 && t < 6) l[i] = 0.9 * Math.sin(2 * Math.PI * 2000 * t);
+      if (t >= 20 && t < 24) l[i] = 0.3 * Math.sin(2 * Math.PI * 40 * t);
+    }
+    const start = loudestBassStart([l, l.slice()], sr);
+    // The earliest 8 s window holding the whole 20-24 s passage starts at 16 s; the low-pass lags a little.
+    expect(start).toBeGreaterThanOrEqual(15.5);
+    expect(start).toBeLessThanOrEqual(20);
+  });
+
+  it('a track no longer than the window loops from its start', () => {
+    expect(loudestBassStart([new Float32Array(8000 * 5)], 8000)).toBe(0);
+    expect(loudestBassStart([new Float32Array(0)], 8000)).toBe(0);
   });
 });

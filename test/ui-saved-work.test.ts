@@ -3,13 +3,17 @@
 // the page closes.
 import { describe, expect, it } from 'vitest';
 import { Autosave, memoryBackend, type SavedState, type StorageBackend } from '../src/ui/persist.ts';
-import { Store, type AppState } from '../src/ui/store.ts';
+import { Store } from '../src/ui/store.ts';
 import { demoPair } from '../src/ui/demo.ts';
 import { retryStorage, startStorage } from '../src/ui/startup.ts';
 import { SharedView } from '../src/ui/shared-view.ts';
 import { connectTabs } from '../src/ui/tabsync.ts';
 import { setAt } from '../src/ui/paths.ts';
 import type { DesignDoc } from '../src/engine/design/document.ts';
+import { pairOf, projectFromPair } from '../src/ui/project.ts';
+
+/** The compared pair of a stored state. */
+const savedPair = (v: unknown) => pairOf((v as SavedState).state.project);
 
 /** The woofer box (the first way) of a design, any box kind. */
 const boxOf = (d: DesignDoc | undefined) => {
@@ -25,9 +29,9 @@ function usersWork(): SavedState {
   designs.a = { ...setAt(designs.a, 'ways.0.box.vb_l', 23.5), name: 'My own design' };
   return {
     kind: 'preheard-app-state',
-    version: 1,
+    version: 2,
     savedAt: 1000,
-    state: { designs, settings: { screen: 'curves', theme: 'auto', cautionsDismissed: true } },
+    state: { project: projectFromPair(designs), settings: { screen: 'curves', theme: 'auto', cautionsDismissed: true } },
   };
 }
 
@@ -44,12 +48,12 @@ describe('a slow or failing start-up read never leads to an overwrite', () => {
     store.dispatch({ type: 'edit', slot: 'b', path: 'ways.0.box.vb_l', value: 9 });
     await autosave.flush();
     expect(backend.writes).toBe(0);
-    expect((backend.value as SavedState).state.designs.a.name).toBe('My own design');
+    expect(savedPair(backend.value).a.name).toBe('My own design');
     await sleep(250);
     await autosave.flush();
     expect(store.get().designs.a.name).toBe('My own design');
     expect(autosave.status.kind).toBe('saved');
-    expect((backend.lastGood as SavedState).state.designs.a.name).toBe('My own design');
+    expect(savedPair(backend.lastGood).a.name).toBe('My own design');
     // The edit made while waiting is one undo away.
     store.dispatch({ type: 'undo' });
     expect(boxOf(store.get().designs.b).vb_l).toBe(9);
@@ -83,9 +87,11 @@ describe('a slow or failing start-up read never leads to an overwrite', () => {
 
 describe('a stored state is validated as a design file before use', () => {
   const cases: [string, (s: SavedState) => void][] = [
-    ['designs = {a: {}, b: {}}', (s) => ((s.state.designs as unknown) = { a: {}, b: {} })],
-    ['box: {type: "bogus"}', (s) => ((s.state.designs.a.ways[0] as unknown as { box: unknown }).box = { type: 'bogus' })],
-    ['a design missing', (s) => delete (s.state.designs as Partial<AppState['designs']>).b],
+    ['variants = [{}, {}]', (s) => ((s.state.project.variants as unknown) = [{}, {}])],
+    ['box: {type: "bogus"}', (s) => ((s.state.project.variants[0].design.ways[0] as unknown as { box: unknown }).box = { type: 'bogus' })],
+    ['a variant missing', (s) => s.state.project.variants.pop()],
+    ['a compared variant unknown', (s) => (s.state.project.compared.b = 'v9')],
+    ['a variant not a design', (s) => ((s.state.project.variants[1].design as unknown) = 'vented')],
     ['settings not an object', (s) => ((s.state as unknown as { settings: unknown }).settings = 7)],
   ];
   for (const [name, damage] of cases) {
@@ -114,8 +120,8 @@ describe('a stored state is validated as a design file before use', () => {
     autosave.attach(store);
     store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.type', value: 'bogus' });
     await autosave.flush();
-    expect(boxOf((backend.value as SavedState).state.designs.a).type).toBe('bogus');
-    expect(boxOf((backend.lastGood as SavedState).state.designs.a).type).toBe(boxOf(usersWork().state.designs.a).type);
+    expect(boxOf(savedPair(backend.value).a).type).toBe('bogus');
+    expect(boxOf(savedPair(backend.lastGood).a).type).toBe(boxOf(savedPair(usersWork()).a).type);
     // Next start: the bad state is set aside and the last good one restored.
     const next = new Autosave(backend);
     expect(boxOf((await next.load())?.designs.a).vb_l).toBe(23.5);
@@ -142,7 +148,7 @@ describe('a share link is a look until the user keeps it', () => {
     const shared = demoPair();
     shared.a = { ...shared.a, name: 'From a link' };
     const view = new SharedView(s1, a1);
-    view.open(shared);
+    view.open(projectFromPair(shared));
     s1.dispatch({ type: 'edit', slot: 'b', path: 'ways.0.box.vb_l', value: 11 });
     await a1.flush();
     await sleep(50);
@@ -152,13 +158,13 @@ describe('a share link is a look until the user keeps it', () => {
     await view.leave();
     await a1.flush();
     expect(s1.get().designs.a.name).toBe('My own design');
-    expect((backend.value as SavedState).state.designs.a.name).toBe('My own design');
+    expect(savedPair(backend.value).a.name).toBe('My own design');
 
-    view.open(shared);
-    view.keep();
+    view.open(projectFromPair(shared));
+    await view.keep();
     await a1.flush();
     await sleep(50);
-    expect((backend.value as SavedState).state.designs.a.name).toBe('From a link');
+    expect(savedPair(backend.value).a.name).toBe('From a link');
     expect(s2.get().designs.a.name).toBe('From a link');
     for (const f of off) f();
   });
@@ -182,7 +188,7 @@ describe('an edit made just before the page closes', () => {
   it('an older journal does not win over a newer stored state', async () => {
     const backend = memoryBackend(usersWork());
     backend.journaled = { ...usersWork(), savedAt: 10 };
-    (backend.journaled as SavedState).state.designs.a.name = 'stale';
+    (backend.journaled as SavedState).state.project.variants[0].design.name = 'stale';
     const autosave = new Autosave(backend);
     expect((await autosave.load())?.designs.a.name).toBe('My own design');
     expect(backend.journaled).toBeUndefined();

@@ -50,6 +50,11 @@ describe('Blind trial through the bench player', () => {
     const store = new Store(demoPair);
     store.dispatch({ type: 'settings', patch: { cautionsDismissed: true, screen: 'trial', trialRounds: 6 } });
     render(<App store={store} autosave={new Autosave(memoryBackend())} />);
+    // Six rounds can reach p < 0.05 (a perfect score: 0.5^6 = 1.6 %); three cannot (12.5 %), and the screen says so.
+    expect(screen.queryByTestId('trial-rounds-warning')).toBeNull();
+    await act(() => store.dispatch({ type: 'settings', patch: { trialRounds: 3 } }));
+    expect(screen.getByTestId('trial-rounds-warning').textContent).toMatch(/12\.5 % chance by guessing.*at least 5 rounds/);
+    await act(() => store.dispatch({ type: 'settings', patch: { trialRounds: 6 } }));
     await act(() => {
       fireEvent.click(screen.getByTestId('trial-start'));
     });

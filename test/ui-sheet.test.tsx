@@ -6,7 +6,7 @@ import { act, cleanup, fireEvent, render, screen, within } from '@testing-librar
 vi.mock('uplot', () => import('./helpers/fake-uplot.ts'));
 
 import { App } from '../src/ui/App.tsx';
-import { Store } from '../src/ui/store.ts';
+import { Store, stateOf } from '../src/ui/store.ts';
 import { Autosave, memoryBackend, type SavedState } from '../src/ui/persist.ts';
 import { demoPair } from '../src/ui/demo.ts';
 import { validate } from '../src/ui/engine.ts';
@@ -83,7 +83,7 @@ describe('Client sheet', () => {
     cleanup();
     // A fresh page restores the saved state.
     const store2 = new Store(demoPair);
-    store2.dispatch({ type: 'restore', state: saved.state });
+    store2.dispatch({ type: 'restore', state: stateOf(saved.state.project, saved.state.settings) });
     render(<App store={store2} autosave={new Autosave(memoryBackend())} />);
     expect((screen.getByTestId('sheet-title') as HTMLInputElement).value).toBe('Two boxes for the Okafor shelf');
     expect(store.get().settings.sheetNotes).toBe('Port at the front.\nSecond line.');

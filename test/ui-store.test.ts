@@ -68,7 +68,8 @@ describe('store: one history of design edits', () => {
     expect(store.get().designs.a).toBe(b);
     expect(store.get().designs.b).toBe(a);
     store.dispatch({ type: 'copy-a-to-b' });
-    expect(store.get().designs.b).toEqual(b);
+    // B takes every setting of A but keeps its own name, so the project's variants stay told apart.
+    expect(store.get().designs.b).toEqual({ ...b, name: a.name });
     expect(store.get().designs.b).not.toBe(store.get().designs.a);
     store.dispatch({ type: 'settings', patch: { screen: 'curves' } });
     store.dispatch({ type: 'reset-demo' });

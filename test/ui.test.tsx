@@ -151,7 +151,7 @@ describe('the app', () => {
     expect(woofer(store.get().designs.b).box).toEqual(woofer(b0).box);
     // Copy to A: added as A's third way, identical, and shown there.
     await act(() => {
-      fireEvent.click(screen.getByRole('button', { name: 'Copy way tweeter from design B to design A' }));
+      fireEvent.click(screen.getByRole('button', { name: 'Copy to A: way tweeter from design B to design A' }));
     });
     expect(store.get().designs.a.ways[2]).toEqual(store.get().designs.b.ways[2]);
     expect(store.get().designs.a.ways[2]).not.toBe(store.get().designs.b.ways[2]);

@@ -25,11 +25,12 @@ import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
-import { decodedProblem, fileProblem, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
+import { decodedProblem, fileProblem, loudestBassStart, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
+import { forgetTrack, keepResults, keepTrack, keptResults, keptTrack, MAX_KEPT_TRACK_BYTES, resultsKey } from './kept-track.ts';
 import { levelFailure, levelProblem } from './level-message.ts';
 import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';
 
-export { MAX_TRACK_S };
+export { MAX_KEPT_TRACK_BYTES, MAX_TRACK_S };
 
 /** A design edit reaches the worklet this soon, ms. */
 const DESIGN_DEBOUNCE_MS = 40;
@@ -50,10 +51,12 @@ export interface TrackInfo {
   droppedChannels: number;
   /** Min and max of all channels per overview bin. */
   overview: { min: Float32Array; max: Float32Array };
-  /** Where the demo's loud section starts, s. */
+  /** Where the loud section starts, s: the demo's own, or a file's loudest bass passage. */
   loudFromS?: number;
   /** Integrated programme loudness of the file itself (ITU-R BS.1770), LUFS; -Infinity when silent. */
   loudnessLufs?: number;
+  /** A file kept for the next visit, brought back from the last one, or too large to keep. */
+  kept?: 'kept' | 'restored' | 'too-large';
   /** The WAV file ends before its header says: how long it should be and how much was read, s. */
   truncated?: { statedS: number; presentS: number };
 }
@@ -200,7 +203,7 @@ export class BenchAudio {
       this.node = node;
       this.set({ status: 'ready', sampleRate: ctx.sampleRate });
       this.spawnWorker();
-      await this.loadDemo();
+      if (!(await this.restoreKept())) this.useDemo();
     } catch (e) {
       this.set({ status: 'error', message: `The audio engine could not start: ${(e as Error).message}` });
     }
@@ -302,7 +305,29 @@ export class BenchAudio {
 
   // ---- tracks ----
 
+  /** The demo track, chosen by the user: the kept file is forgotten. */
   async loadDemo(): Promise<void> {
+    void forgetTrack();
+    this.useDemo();
+  }
+
+  /** The track kept from the last visit, with its render results when the designs are unchanged. */
+  private async restoreKept(): Promise<boolean> {
+    const kept = await keptTrack();
+    if (!kept) return false;
+    const ok = await this.loadFile(new File([kept.bytes], kept.name, { type: kept.type }), true);
+    const track = this.state.track;
+    const { a, b } = this.systems;
+    if (!ok || !track || !a || !b) return ok;
+    const results = await keptResults(resultsKey(track, { a, b }));
+    if (results && this.state.track === track && this.systems.a === a && this.systems.b === b && this.state.offline.status === 'idle')
+      this.set({
+        offline: { status: 'done', progress: 1, job: null, results, systems: { a, b }, message: 'Results kept from your last visit.' },
+      });
+    return ok;
+  }
+
+  private useDemo(): void {
     const sr = this.state.sampleRate || 48000;
     const demo = synthesizeDemoTrack(sr);
     this.useTrack(demo.channels, {
@@ -315,13 +340,14 @@ export class BenchAudio {
   }
 
   /** Decodes a file locally (nothing leaves the machine) and makes it the track. */
-  async loadFile(file: File): Promise<boolean> {
+  async loadFile(file: File, restored = false): Promise<boolean> {
     const problem = fileProblem(file);
     if (problem) {
       this.set({ fileError: problem });
       return false;
     }
-    await this.start();
+    // A kept track is restored while the engine starts: waiting for the start here would wait for itself.
+    if (!restored) await this.start();
     const ctx = this.ctx;
     if (!ctx) {
       this.set({ fileError: this.state.message ?? 'The audio engine is not running, so the file cannot be decoded.' });
@@ -332,6 +358,8 @@ export class BenchAudio {
       const bytes = await file.arrayBuffer();
       // Before decoding: decoding takes the bytes over.
       const truncated = wavTruncation(bytes) ?? undefined;
+      const keepable = bytes.byteLength <= MAX_KEPT_TRACK_BYTES;
+      const copy = keepable && !restored ? bytes.slice(0) : null;
       let buf: AudioBuffer;
       try {
         buf = await ctx.decodeAudioData(bytes);
@@ -361,7 +389,12 @@ export class BenchAudio {
         sampleRate: ctx.sampleRate,
         droppedChannels: buf.numberOfChannels - n,
         truncated,
+        kept: restored ? 'restored' : keepable ? 'kept' : 'too-large',
       });
+      if (!restored) {
+        if (copy) void keepTrack({ name: file.name, type: file.type, bytes: copy });
+        else void forgetTrack();
+      }
       return true;
     } finally {
       this.set({ loading: null });
@@ -376,6 +409,8 @@ export class BenchAudio {
       channels: channels.length,
       overview: overviewOf(channels),
       loudnessLufs: integratedLoudness(channels, info.sampleRate),
+      // A file's loud part is found, not assumed: the blind trial loops from there.
+      loudFromS: info.loudFromS ?? loudestBassStart(channels, info.sampleRate),
     };
     this.set({
       track,
@@ -557,8 +592,11 @@ export class BenchAudio {
         (id) => ({ type: 'render', id, systems }),
         (f) => this.set({ offline: { ...this.state.offline, progress: f } }),
       );
-      if (r.type === 'rendered')
+      if (r.type === 'rendered') {
         this.set({ offline: { status: 'done', progress: 1, job: null, results: r.results, systems, message: null } });
+        const track = this.state.track;
+        if (track?.source === 'file' && track.kept !== 'too-large') void keepResults(resultsKey(track, systems), r.results);
+      }
     } catch (e) {
       if (this.state.offline.status === 'cancelled') return;
       this.set({ offline: { ...this.state.offline, status: 'error', job: null, message: (e as Error).message } });

@@ -80,3 +80,46 @@ export function wavTruncation(bytes: ArrayBuffer): { statedS: number; presentS: 
   }
   return null;
 }
+
+/** Below this the passage counts as bass: the woofer's own band (common practice, no source). */
+const BASS_HZ = 150;
+/** Step of the search, s. */
+const BASS_HOP_S = 0.5;
+
+/**
+ * Where the `windowS`-long passage with the most bass energy starts, s (0 for a track no longer
+ * than the window): the mono mix through a one-pole low-pass at BASS_HZ, energy summed per hop,
+ * the window slid in hops. A blind trial's loop starts there rather than on a quiet fade-in.
+ */
+export function loudestBassStart(channels: Float32Array[], sampleRate: number, windowS = 8): number {
+  const n = channels[0]?.length ?? 0;
+  const hop = Math.max(1, Math.round(BASS_HOP_S * sampleRate));
+  const hops = Math.floor(n / hop);
+  const per = Math.max(1, Math.round(windowS / BASS_HOP_S));
+  if (hops <= per) return 0;
+  const k = 1 - Math.exp((-2 * Math.PI * BASS_HZ) / sampleRate);
+  const energy = new Float64Array(hops);
+  let y = 0;
+  for (let h = 0; h < hops; h++) {
+    let e = 0;
+    for (let i = h * hop, end = i + hop; i < end; i++) {
+      let x = 0;
+      for (const c of channels) x += c[i];
+      y += k * (x / channels.length - y);
+      e += y * y;
+    }
+    energy[h] = e;
+  }
+  let sum = 0;
+  for (let h = 0; h < per; h++) sum += energy[h];
+  let best = sum;
+  let at = 0;
+  for (let h = per; h < hops; h++) {
+    sum += energy[h] - energy[h - per];
+    if (sum > best) {
+      best = sum;
+      at = h - per + 1;
+    }
+  }
+  return at * BASS_HOP_S;
+}

@@ -8,13 +8,14 @@ import type { Autosave } from './persist.ts';
 import { registerServiceWorker, type UpdateHandle } from './pwa.ts';
 import type { ScreenId, Store } from './store.ts';
 import { Banners, SaveIndicator } from './app/Banners.tsx';
-import { ProblemsDialog, ShareDialog, type ProblemReport } from './app/dialogs.tsx';
+import { ConfirmDialog, ProblemsDialog, ShareDialog, type ConfirmQuestion, type ProblemReport } from './app/dialogs.tsx';
+import { ProjectDialog } from './app/ProjectDialog.tsx';
 import { Glance } from './app/Glance.tsx';
 import { Header } from './app/Header.tsx';
 import { useNotices, useResolvedTheme, useSaveStatus, useStoreState, useUndoKeys } from './app/hooks.ts';
 import { screenOf } from './app/screens.tsx';
 import { Tabs } from './app/Tabs.tsx';
-import { exportDesign, importFile, makeShareUrl, useShareLinks, type TransferDeps } from './app/transfer.ts';
+import { exportDesign, exportProject, importFile, makeShareUrl, useShareLinks, type TransferDeps } from './app/transfer.ts';
 import { SharedView } from './shared-view.ts';
 import { StorageBanners } from './StorageBanners.tsx';
 import { retryStorage } from './startup.ts';
@@ -29,12 +30,22 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const [problems, setProblems] = useState<ProblemReport | null>(null);
   const [share, setShare] = useState<string | null>(null);
   const [update, setUpdate] = useState<UpdateHandle | null>(null);
+  const [projectOpen, setProjectOpen] = useState(false);
+  const [question, setQuestion] = useState<{ q: ConfirmQuestion; answer: (yes: boolean) => void } | null>(null);
+  const confirm = (q: ConfirmQuestion) => new Promise<boolean>((answer) => setQuestion({ q, answer }));
   const { notices, notify } = useNotices();
 
   const derived = { a: derive('a', state.designs.a), b: derive('b', state.designs.b) };
   const view: AppView = useMemo(() => ({ state, derived, dispatch: (i) => store.dispatch(i), store }), [state, derived.a, derived.b]);
   const sharedView = useMemo(() => new SharedView(store, autosave), [store, autosave]);
-  const deps: TransferDeps = { store, derived, notify, showProblems: setProblems, openShared: (designs) => sharedView.open(designs) };
+  const deps: TransferDeps = {
+    store,
+    derived,
+    notify,
+    showProblems: setProblems,
+    openShared: (project) => sharedView.open(project),
+    confirm,
+  };
 
   useShareLinks(deps, () => registerServiceWorker((u) => setUpdate(u)));
   useUndoKeys(store);
@@ -55,8 +66,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           actions={{
             importInto: (file, slot) => void importFile(deps, file, slot),
             exportDesign: (slot) => exportDesign(deps, slot),
+            exportProject: () => exportProject(deps),
             share: () => void makeShareUrl(deps).then((url) => url && setShare(url)),
             showCautions: () => setCautionsOpen(true),
+            confirm,
           }}
         />
         <Banners update={update} status={status} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
@@ -64,10 +77,16 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           status={status}
           onRetry={() => void retryStorage(store, autosave)}
           onExport={(slot) => exportDesign(deps, slot)}
-          onKeepShared={() => sharedView.keep()}
+          onKeepShared={() => void sharedView.keep()}
           onLeaveShared={() => void sharedView.leave()}
         />
-        <Tabs state={state} derived={derived} go={go} />
+        <Tabs
+          state={state}
+          derived={derived}
+          go={go}
+          compare={(slot, id) => store.dispatch({ type: 'compare', slot, id })}
+          openProject={() => setProjectOpen(true)}
+        />
 
         <div class="body">
           <main>
@@ -96,6 +115,23 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         {cautionsOpen ? <CautionsPanel onClose={closeCautions} firstRun={!state.settings.cautionsDismissed} /> : null}
         {problems ? <ProblemsDialog report={problems} onClose={() => setProblems(null)} /> : null}
         {share ? <ShareDialog url={share} onClose={() => setShare(null)} /> : null}
+        {projectOpen ? (
+          <ProjectDialog
+            store={store}
+            state={state}
+            actions={{ exportProject: () => exportProject(deps), importFile: (file) => void importFile(deps, file, 'a'), confirm }}
+            onClose={() => setProjectOpen(false)}
+          />
+        ) : null}
+        {question ? (
+          <ConfirmDialog
+            question={question.q}
+            onAnswer={(yes) => {
+              setQuestion(null);
+              question.answer(yes);
+            }}
+          />
+        ) : null}
       </div>
     </AppContext.Provider>
   );

@@ -1,5 +1,6 @@
 // Every problem of both designs, with the field it belongs to.
 import { useApp } from './context.ts';
+import { plural } from './format.ts';
 import { SLOTS, SLOT_LABEL } from './store.ts';
 
 export function IssueList() {
@@ -12,8 +13,9 @@ export function IssueList() {
         derived[s].issues.length ? (
           <div>
             <h4>
-              <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {derived[s].issues.filter((i) => i.severity === 'error').length} errors,{' '}
-              {derived[s].issues.filter((i) => i.severity === 'warning').length} warnings
+              <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>{' '}
+              {plural(derived[s].issues.filter((i) => i.severity === 'error').length, 'error')},{' '}
+              {plural(derived[s].issues.filter((i) => i.severity === 'warning').length, 'warning')}
             </h4>
             <ul class="problems">
               {derived[s].issues.map((i) => (

@@ -73,3 +73,8 @@ export function fileStem(name: string): string {
     .replace(/^-+|-+$/g, '');
   return s.slice(0, 60) || 'design';
 }
+
+/** "1 warning", "3 warnings": a count with its noun in the right number. */
+export function plural(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}

@@ -3,18 +3,24 @@
 //
 // Nothing is written before the stored state has been read: a slow or failing start-up read leaves
 // storage untouched (the status says so, with a retry), so the demo pair can never replace saved work
-// it has not seen. A stored state is used only when both designs pass the same validation as a design
-// file (parseDesign); the last good copy is only ever a state that passed it. While the tab shows a
+// it has not seen. A stored state is used only when every variant of its project passes the same
+// validation as a design file (parseDesign); the last good copy is only ever a state that passed it.
+// An A/B pair stored by an earlier version (state version 1) opens as a two-variant project. While the tab shows a
 // shared link, saving is held until the user keeps the shared designs.
 import { openDB, type IDBPDatabase } from 'idb';
 import { parseDesign } from '../engine/design/validate.ts';
-import { DEFAULT_SETTINGS, SLOTS, type AppState, type Settings, type Store } from './store.ts';
+import { checkProject, projectFromPair, type Project } from './project.ts';
+import { DEFAULT_SETTINGS, stateOf, type AppState, type Settings, type Store } from './store.ts';
 
 export interface SavedState {
   kind: 'preheard-app-state';
-  version: 1;
+  version: 2;
   savedAt: number;
-  state: AppState;
+  state: { project: Project; settings: Settings };
+}
+
+function savedState(state: AppState, savedAt: number): SavedState {
+  return { kind: 'preheard-app-state', version: 2, savedAt, state: { project: state.project, settings: state.settings } };
 }
 
 export interface StorageBackend {
@@ -183,26 +189,27 @@ function describeFailure(e: unknown): SaveStatus {
   };
 }
 
-export function isSavedState(v: unknown): v is SavedState {
+/** A stored state of either version: a project (2) or an A/B pair (1), not yet validated. */
+export function isSavedState(
+  v: unknown,
+): v is { kind: 'preheard-app-state'; version: 1 | 2; savedAt: number; state: Record<string, unknown> } {
   if (v === null || typeof v !== 'object') return false;
-  const s = v as Partial<SavedState>;
-  const st = s.state as Partial<AppState> | undefined;
+  const s = v as { kind?: unknown; version?: unknown; savedAt?: unknown; state?: Record<string, unknown> };
+  const st = s.state;
+  const body = s.version === 1 ? st?.designs : s.version === 2 ? st?.project : undefined;
   return (
     s.kind === 'preheard-app-state' &&
-    s.version === 1 &&
     typeof s.savedAt === 'number' &&
-    !!st &&
-    typeof st === 'object' &&
-    !!st.designs &&
-    typeof st.designs === 'object' &&
-    !!st.settings &&
+    !!body &&
+    typeof body === 'object' &&
+    !!st?.settings &&
     typeof st.settings === 'object'
   );
 }
 
-/** True when both designs pass the design-file validation: only such a state becomes the last good one. */
+/** True when every variant passes the design-file validation: only such a state becomes the last good one. */
 export function designsValid(state: AppState): boolean {
-  return SLOTS.every((slot) => parseDesign(state.designs[slot]).ok);
+  return state.project.variants.every((v) => parseDesign(v.design).ok);
 }
 
 /** Settings as stored, with anything of the wrong type replaced by the default. */
@@ -223,11 +230,16 @@ function checkedSettings(raw: unknown): Settings {
  */
 export function usableState(v: unknown): { savedAt: number; state: AppState } | null {
   if (!isSavedState(v)) return null;
-  const designs = v.state.designs as unknown as Record<string, unknown>;
-  const a = parseDesign(designs.a);
-  const b = parseDesign(designs.b);
-  if (!a.ok || !b.ok) return null;
-  return { savedAt: v.savedAt, state: { designs: { a: a.design, b: b.design }, settings: checkedSettings(v.state.settings) } };
+  const settings = checkedSettings(v.state.settings);
+  if (v.version === 1) {
+    const designs = v.state.designs as Record<string, unknown>;
+    const a = parseDesign(designs.a);
+    const b = parseDesign(designs.b);
+    if (!a.ok || !b.ok) return null;
+    return { savedAt: v.savedAt, state: stateOf(projectFromPair({ a: a.design, b: b.design }), settings) };
+  }
+  const r = checkProject(v.state.project);
+  return r.ok ? { savedAt: v.savedAt, state: stateOf(r.project, settings) } : null;
 }
 
 /** Connects a store to a backend: every change is saved (coalesced within one task). */
@@ -313,7 +325,7 @@ export class Autosave {
     if (!this.store || this.read !== 'yes' || this.holding || !this.backend.journal) return;
     const state = this.store.get();
     if (state === this.lastWritten || state === this.journaled) return;
-    this.backend.journal.write({ kind: 'preheard-app-state', version: 1, savedAt: this.now(), state });
+    this.backend.journal.write(savedState(state, this.now()));
     this.journaled = state;
   }
 
@@ -404,7 +416,7 @@ export class Autosave {
       while (this.dirty) {
         this.dirty = false;
         const state = store.get();
-        const value: SavedState = { kind: 'preheard-app-state', version: 1, savedAt: this.now(), state };
+        const value = savedState(state, this.now());
         try {
           await this.backend.save(value, designsValid(state));
           this.lastWritten = state;

@@ -1,12 +1,14 @@
 // A share link opens in the tab that opened it, as a look: storage and the other tabs are untouched
-// until the user keeps the shared designs. Going back re-reads the saved designs (another tab may
-// have changed them meanwhile) and shows them again.
+// until the user keeps the shared designs. Keeping adds them to the saved project as new variants
+// (nothing the user had is replaced); going back re-reads the saved project (another tab may have
+// changed it meanwhile) and shows it again.
 import type { Autosave } from './persist.ts';
-import type { Designs, Store } from './store.ts';
+import { addVariant, type Project } from './project.ts';
+import type { Store } from './store.ts';
 
 export class SharedView {
-  /** The designs on show before the first shared link was opened. */
-  private before: Designs | null = null;
+  /** The project on show before the first shared link was opened. */
+  private before: Project | null = null;
 
   constructor(
     private readonly store: Store,
@@ -17,24 +19,33 @@ export class SharedView {
     return this.autosave.held;
   }
 
-  open(designs: Designs): void {
-    if (!this.autosave.held) this.before = this.store.get().designs;
+  open(shared: Project): void {
+    if (!this.autosave.held) this.before = this.store.get().project;
     this.autosave.hold();
-    this.store.dispatch({ type: 'replace-pair', designs, reason: 'open a shared link' });
+    this.store.dispatch({ type: 'replace-project', project: shared, reason: 'open a shared link' });
   }
 
-  /** The user keeps the shared designs: they are saved (and reach the other tabs). */
-  keep(): void {
+  /** The user keeps the shared designs: they join the saved project, are saved, and reach the other tabs. */
+  async keep(): Promise<void> {
+    const shared = this.store.get().project;
+    const saved = this.autosave.hasRead ? await this.autosave.load() : undefined;
+    const base = saved?.project ?? this.before;
     this.before = null;
+    if (base) {
+      let merged = base;
+      const slotOf = (id: string) => (shared.compared.a === id ? 'a' : shared.compared.b === id ? 'b' : null);
+      for (const v of shared.variants) merged = addVariant(merged, v.design, slotOf(v.id));
+      this.store.dispatch({ type: 'replace-project', project: merged, reason: 'keep the shared designs' });
+    }
     this.autosave.release(true);
   }
 
-  /** Back to the saved designs, as stored now. */
+  /** Back to the saved project, as stored now. */
   async leave(): Promise<void> {
     const saved = this.autosave.hasRead ? await this.autosave.load() : undefined;
-    const designs = saved?.designs ?? this.before;
+    const project = saved?.project ?? this.before;
     this.before = null;
     this.autosave.release(false);
-    if (designs) this.store.dispatch({ type: 'replace-pair', designs, reason: 'back to your saved designs' });
+    if (project) this.store.dispatch({ type: 'replace-project', project, reason: 'back to your saved designs' });
   }
 }

@@ -36,7 +36,7 @@ function adopt(store: Store, autosave: Autosave, state: AppState | undefined, us
   if (state) {
     if (userEdited) {
       // Keep the edits made while waiting one undo away, and the user's reading of the cautions.
-      store.dispatch({ type: 'replace-pair', designs: state.designs, reason: 'load your saved designs' });
+      store.dispatch({ type: 'replace-project', project: state.project, reason: 'load your saved designs' });
       store.dispatch({ type: 'settings', patch: { ...state.settings, screen: store.get().settings.screen } });
     } else store.dispatch({ type: 'restore', state });
   }

@@ -6,10 +6,13 @@ import { join } from 'node:path';
 import { ROOT, buildApp, launchBrowser, startPreview } from './harness.mjs';
 
 const SHOTS = join(ROOT, 'test', 'e2e', 'screenshots');
+/** The names of the variants compared as A and B (the selected option of each picker). */
+const pairNames = (p) => p.locator('.pair-name').evaluateAll((els) => els.map((e) => e.selectedOptions[0]?.text ?? ''));
 /** Reads a design from stdin through the engine's own parseDesign; prints whether it passed and its ways' kinds. */
 const PARSE_STDIN = `
 import { readFileSync } from 'node:fs';
 import { parseDesign } from './src/engine/design/validate.ts';
+
 const r = parseDesign(readFileSync(0, 'utf8'));
 console.log(JSON.stringify({ ok: r.ok, ways: r.ok ? r.design.ways.map((w) => w.kind) : r.errors }));
 `;
@@ -68,7 +71,7 @@ export const tests = [
       await dlg.getByRole('button', { name: 'I understand' }).click();
       await dlg.waitFor({ state: 'detached' });
       assert.equal(await p.title(), 'preheard');
-      const names = await p.locator('.pair-name').allInnerTexts();
+      const names = await pairNames(p);
       assert.equal(names.length, 2);
       assert.match(names[0], /sealed/i);
       assert.match(names[1], /vented/i);
@@ -145,7 +148,7 @@ export const tests = [
     name: 'importing a broken design file lists every problem and loads nothing',
     fn: async (ctx) => {
       const p = await page(ctx);
-      const nameA = await p.locator('.pair-name').first().innerText();
+      const nameA = (await pairNames(p))[0];
       const broken = {
         format: 'preheard-design',
         version: 1,
@@ -166,7 +169,7 @@ export const tests = [
       for (const path of ['driver.fs_hz', 'driver.pe_w', 'box.vb_l', 'box.ports']) assert.ok(text.includes(path), `lists ${path}: ${text}`);
       assert.ok(items.length >= 4);
       await dlg.getByRole('button', { name: 'Close' }).click();
-      assert.equal(await p.locator('.pair-name').first().innerText(), nameA, 'design A is unchanged');
+      assert.equal((await pairNames(p))[0], nameA, 'design A is unchanged');
       // A file that is not JSON at all.
       await p
         .locator('[data-testid=import-file]')

@@ -245,6 +245,33 @@ export const tests = [
     },
   },
   {
+    name: 'bench: a reload keeps the track and its offline render; a design change makes the render stale',
+    fn: async (ctx) => {
+      const p = await benchPage(ctx);
+      const bytes = readFileSync(join(ctx.state.benchDir, 'burst.wav'));
+      await p.getByTestId('audio-file').setInputFiles({ name: 'burst.wav', mimeType: 'audio/wav', buffer: bytes });
+      await p.waitForSelector('[data-testid=track-kept]:has-text("Kept on this device")');
+      await p.getByTestId('render-offline').click();
+      await p.waitForSelector('[data-testid=offline-results]', { timeout: 30_000 });
+      // The results are written after the render: give the write a moment before the reload.
+      await p.waitForTimeout(500);
+      await p.reload();
+      await tab(p, 'Listening bench');
+      await p.waitForSelector('[data-testid=track-name]:has-text("burst.wav")', { timeout: 30_000 });
+      assert.match(await p.getByTestId('track-kept').innerText(), /Brought back from your last visit/);
+      assert.equal(Number(await p.getByTestId('track-name').getAttribute('data-frames')), ctx.state.benchFrames);
+      await p.waitForSelector('[data-testid=offline-results]:not(.stale)', { timeout: 30_000 });
+      // An edit of a design: the kept render no longer describes it.
+      await tab(p, 'Cabinet');
+      const vb = p.getByLabel('Net volume Vb, design A', { exact: true });
+      await vb.fill(String(Number(await vb.inputValue()) + 1));
+      await vb.press('Tab');
+      await tab(p, 'Listening bench');
+      await p.waitForSelector('[data-testid=offline-results].stale');
+      await p.getByRole('button', { name: 'Undo' }).click();
+    },
+  },
+  {
     name: 'bench: screenshots of the bench and the strip at desktop and tablet widths',
     fn: async (ctx) => {
       const p = await benchPage(ctx);

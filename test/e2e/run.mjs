@@ -6,6 +6,7 @@ import { tests } from './app.e2e.mjs';
 import { tests as sheetTests } from './sheet.e2e.mjs';
 import { tests as benchTests } from './bench.e2e.mjs';
 import { tests as reliabilityTests } from './reliability.e2e.mjs';
+import { tests as projectTests } from './project.e2e.mjs';
 
 const only = process.argv[2];
 let server;
@@ -21,7 +22,7 @@ try {
   console.log(`[e2e] serving on ${server.origin}`);
   browser = await launchBrowser(server.origin, ['--autoplay-policy=no-user-gesture-required']);
   ctx = { ...browser, server, state: {} };
-  for (const t of [...tests, ...benchTests, ...sheetTests, ...reliabilityTests]) {
+  for (const t of [...tests, ...benchTests, ...sheetTests, ...reliabilityTests, ...projectTests]) {
     if (only && !t.name.includes(only)) continue;
     const start = Date.now();
     try {

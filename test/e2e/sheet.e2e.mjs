@@ -27,6 +27,7 @@ async function sheetPage(ctx) {
   if (await first.isVisible().catch(() => false)) await first.click();
   // Earlier tests edit the designs: start these from the demo pair.
   await p.getByRole('button', { name: 'Reset to demo pair' }).click();
+  await p.getByRole('dialog', { name: 'Reset to the demo pair?' }).getByRole('button', { name: 'Reset to the demo pair' }).click();
   ctx.state.sheetPage = p;
   return p;
 }

@@ -1,13 +1,16 @@
-// The header: the brand and the toolbar of actions on the design pair (undo, copy, files, share,
-// theme, cautions), with the hidden file input the import uses.
+// The header: the brand and the toolbar of actions on the project and its compared pair (undo, copy,
+// files, share, theme, cautions), with the hidden file input the import uses. Destructive actions ask.
 import { useRef } from 'preact/hooks';
 import { SLOTS, SLOT_LABEL, type AppState, type Slot, type Store } from '../store.ts';
+import type { ConfirmQuestion } from './dialogs.tsx';
 
 export interface HeaderActions {
   importInto: (file: File, slot: Slot) => void;
   exportDesign: (slot: Slot) => void;
+  exportProject: () => void;
   share: () => void;
   showCautions: () => void;
+  confirm: (q: ConfirmQuestion) => Promise<boolean>;
 }
 
 function closeMenu(e: Event) {
@@ -55,13 +58,35 @@ export function Header(p: { store: Store; state: AppState; actions: HeaderAction
           </button>
         </div>
         <div class="tgroup">
-          <button type="button" onClick={() => store.dispatch({ type: 'copy-a-to-b' })}>
+          <button
+            type="button"
+            disabled={state.project.compared.a === state.project.compared.b}
+            onClick={async () => {
+              const ok = await actions.confirm({
+                title: 'Copy A over B?',
+                text: `Every setting of “${state.designs.b.name}” is replaced by those of “${state.designs.a.name}” (B keeps its name). Undo brings it back.`,
+                action: 'Copy A to B',
+              });
+              if (ok) store.dispatch({ type: 'copy-a-to-b' });
+            }}
+          >
             Copy A to B
           </button>
           <button type="button" onClick={() => store.dispatch({ type: 'swap' })}>
             Swap
           </button>
-          <button type="button" onClick={() => store.dispatch({ type: 'reset-demo' })}>
+          <button
+            type="button"
+            onClick={async () => {
+              const n = state.project.variants.length;
+              const ok = await actions.confirm({
+                title: 'Reset to the demo pair?',
+                text: `The project “${state.project.name}” and its ${n === 1 ? 'variant' : `${n} variants`} give way to the two demo designs. Undo brings them back; save the project file first to keep a copy.`,
+                action: 'Reset to the demo pair',
+              });
+              if (ok) store.dispatch({ type: 'reset-demo' });
+            }}
+          >
             Reset to demo pair
           </button>
         </div>
@@ -70,7 +95,7 @@ export function Header(p: { store: Store; state: AppState; actions: HeaderAction
           <div class="menu-body" role="menu">
             {SLOTS.map((s) => (
               <button type="button" role="menuitem" onClick={(e) => (closeMenu(e), startImport(s))}>
-                Import design into {SLOT_LABEL[s]}…
+                Add a design file as a variant, compared as {SLOT_LABEL[s]}…
               </button>
             ))}
             {SLOTS.map((s) => (
@@ -78,6 +103,9 @@ export function Header(p: { store: Store; state: AppState; actions: HeaderAction
                 Export design {SLOT_LABEL[s]}
               </button>
             ))}
+            <button type="button" role="menuitem" onClick={(e) => (closeMenu(e), actions.exportProject())}>
+              Save project file (every variant)
+            </button>
             <button type="button" role="menuitem" onClick={(e) => (closeMenu(e), actions.share())}>
               Share link…
             </button>

@@ -1,9 +1,18 @@
-// The screen tabs (arrow keys, Home and End move between them) and the two designs' names.
+// The screen tabs (arrow keys, Home and End move between them) and the two compared variants, each
+// chosen from the project's variants, with the project's own dialog one button away.
 import type { Derived } from '../engine.ts';
 import { SLOTS, SLOT_LABEL, type AppState, type ScreenId, type Slot } from '../store.ts';
 import { SCREENS } from './screens.tsx';
+import { plural } from '../format.ts';
 
-export function Tabs(p: { state: AppState; derived: Record<Slot, Derived>; go: (screen: ScreenId) => void }) {
+export function Tabs(p: {
+  state: AppState;
+  derived: Record<Slot, Derived>;
+  go: (screen: ScreenId) => void;
+  compare: (slot: Slot, id: string) => void;
+  openProject: () => void;
+}) {
+  const { project } = p.state;
   const screen = p.state.settings.screen;
   const onTabKey = (e: KeyboardEvent) => {
     const i = SCREENS.findIndex((s) => s.id === screen);
@@ -35,16 +44,34 @@ export function Tabs(p: { state: AppState; derived: Record<Slot, Derived>; go: (
           </button>
         ))}
       </div>
-      <div class="pair" aria-label="The two designs">
+      <div class="pair" role="group" aria-label="The two variants compared">
         {SLOTS.map((s) => (
           <span class={`pair-item pair-${s}`}>
-            <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span>
-            <span class="pair-name">{p.state.designs[s].name}</span>
+            <label class="pair-pick">
+              <span class={`chip chip-${s}`} aria-hidden="true">
+                {SLOT_LABEL[s]}
+              </span>
+              <span class="visually-hidden">Variant compared as {SLOT_LABEL[s]}</span>
+              <select
+                class="pair-name"
+                data-testid={`compare-${s}`}
+                value={project.compared[s]}
+                title={p.state.designs[s].name}
+                onChange={(e) => p.compare(s, (e.currentTarget as HTMLSelectElement).value)}
+              >
+                {project.variants.map((v) => (
+                  <option value={v.id}>{v.design.name}</option>
+                ))}
+              </select>
+            </label>
             {p.derived[s].parse.ok ? null : (
-              <span class="badge-error">{p.derived[s].issues.filter((i) => i.severity === 'error').length} errors</span>
+              <span class="badge-error">{plural(p.derived[s].issues.filter((i) => i.severity === 'error').length, 'error')}</span>
             )}
           </span>
         ))}
+        <button type="button" class="project-button" data-testid="open-project" onClick={p.openProject}>
+          Project ({project.variants.length})
+        </button>
       </div>
     </nav>
   );

@@ -86,3 +86,33 @@ export function ShareDialog(p: { url: string; onClose: () => void }) {
     </Dialog>
   );
 }
+
+export interface ConfirmQuestion {
+  title: string;
+  text: string;
+  /** The button that goes ahead, named for what it does. */
+  action: string;
+}
+
+/** Asks before a destructive step; Escape, the backdrop and Cancel all keep things as they are. */
+export function ConfirmDialog(p: { question: ConfirmQuestion; onAnswer: (yes: boolean) => void }) {
+  return (
+    <Dialog
+      id="confirm"
+      title={p.question.title}
+      onClose={() => p.onAnswer(false)}
+      actions={
+        <>
+          <button type="button" data-autofocus onClick={() => p.onAnswer(false)}>
+            Cancel
+          </button>
+          <button type="button" class="danger" data-testid="confirm-yes" onClick={() => p.onAnswer(true)}>
+            {p.question.action}
+          </button>
+        </>
+      }
+    >
+      <p>{p.question.text}</p>
+    </Dialog>
+  );
+}

@@ -105,7 +105,7 @@ function WayControls(p: { slot: Slot }) {
             ? `Replaces the way of the same name in ${SLOT_LABEL[to]}, or adds it`
             : `Design ${SLOT_LABEL[to]} has no room for another way`
         }
-        aria-label={`Copy way ${doc.ways[index].name} from design ${label} to design ${SLOT_LABEL[to]}`}
+        aria-label={`Copy to ${SLOT_LABEL[to]}: way ${doc.ways[index].name} from design ${label} to design ${SLOT_LABEL[to]}`}
         data-testid={`way-copy-${p.slot}`}
         onClick={copy}
       >

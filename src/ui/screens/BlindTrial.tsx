@@ -1,12 +1,13 @@
 // Blind trial: A/B/X rounds through the listening bench's player. X is A or B by a cryptographic
 // coin; what X is stays hidden until the end; levels are matched; an optional fixed loop region.
 // Keys: A, B, X to listen; 1 = "X is A", 2 = "X is B"; space plays or pauses.
+import { probabilityAtLeast } from '../../engine/trial/binomial.ts';
 import { useEffect, useState } from 'preact/hooks';
 import { LISTEN_MODE_LABEL } from '../../audio/protocol.ts';
 import { clock } from '../../engine/verdict/verdict.ts';
 import { useApp } from '../context.ts';
 import { downloadText } from '../files.ts';
-import { fileStem, fixed } from '../format.ts';
+import { fileStem, fixed, num } from '../format.ts';
 import { SLOTS, SLOT_LABEL } from '../store.ts';
 import { useBench } from '../bench/useBench.ts';
 import { useSystems } from '../sheet/hooks.ts';
@@ -30,6 +31,16 @@ import {
   type TrialLane,
   type TrialSettings,
 } from '../trial.ts';
+
+/** The usual threshold for "not by guessing" (common practice, no source). */
+const SIGNIFICANCE = 0.05;
+
+/** The fewest rounds in which a perfect score reaches p < SIGNIFICANCE. */
+function roundsForSignificance(): number {
+  let n = 1;
+  while (probabilityAtLeast(n, n) >= SIGNIFICANCE) n++;
+  return n;
+}
 
 /** The trial outlives a visit to another screen. */
 let kept: Trial | null = null;
@@ -161,6 +172,13 @@ export function BlindTrial() {
               }}
             />
           </label>
+          {probabilityAtLeast(rounds, rounds) >= SIGNIFICANCE ? (
+            <p class="msg warning" role="status" data-testid="trial-rounds-warning">
+              With {rounds} {rounds === 1 ? 'round' : 'rounds'} even a perfect score has a{' '}
+              {num(100 * probabilityAtLeast(rounds, rounds), 3)} % chance by guessing, so it cannot show a difference at p &lt; 0.05: use at
+              least {roundsForSignificance()} rounds.
+            </p>
+          ) : null}
           <label class="check">
             <input type="checkbox" checked={loopOn} onChange={(e) => setLoopOn((e.currentTarget as HTMLInputElement).checked)} /> Loop a
             fixed region
@@ -272,7 +290,7 @@ function Round(p: {
       </div>
       <p class="fine">
         {tl.answered} answered so far; the score is shown at the end.{' '}
-        {t.settings.loop ? `Looping ${fixed(t.settings.loop.startS, 1)}–${fixed(t.settings.loop.endS, 1)} s.` : 'Playing the whole track.'}{' '}
+        {t.settings.loop ? `Looping ${clock(t.settings.loop.startS)}–${clock(t.settings.loop.endS)}.` : 'Playing the whole track.'}{' '}
         <button type="button" class="small ghost" onClick={p.onStop}>
           End the trial here
         </button>

@@ -164,7 +164,14 @@ export function DriveSeat() {
         <Row label="Both designs" cell={(s) => (s === 'a' ? <RoomPairSwitch /> : null)} />
         <Row label="Seen from above" hint="front wall at the top" cell={(s) => <RoomSketch slot={s} />} />
       </Group>
-      <Group title="Planned level">
+      <Group
+        title="Planned level"
+        note={
+          state.project.sharedLevel
+            ? `Shared by all ${state.project.variants.length} variants of the project: a change here reaches every one (Project… to plan them apart).`
+            : undefined
+        }
+      >
         <Row
           label="Stated as"
           cell={(s) => (

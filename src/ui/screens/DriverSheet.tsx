@@ -215,10 +215,14 @@ export function DriverSheet() {
           </Group>
           <Group title="Limits">{LIMITS.map(fieldRow)}</Group>
           <div class="sheet-fold" role="row">
-            <button type="button" class="fold" aria-expanded={!folded} aria-controls="driver-large" onClick={() => setFolded(!folded)}>
-              <span aria-hidden="true">{folded ? '▸' : '▾'}</span> Large-signal and thermal parameters
-            </button>
-            <span class="group-note">{folded ? 'folded: defaults fitted from Xmax, Xlim and Pe are used' : ''}</span>
+            <span role="cell">
+              <button type="button" class="fold" aria-expanded={!folded} aria-controls="driver-large" onClick={() => setFolded(!folded)}>
+                <span aria-hidden="true">{folded ? '▸' : '▾'}</span> Large-signal and thermal parameters
+              </button>
+            </span>
+            <span role="cell" class="group-note">
+              {folded ? 'folded: defaults fitted from Xmax, Xlim and Pe are used' : ''}
+            </span>
           </div>
           {folded ? null : (
             <div id="driver-large" class="sheet-sub">

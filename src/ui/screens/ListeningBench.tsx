@@ -1,7 +1,9 @@
 // Listening bench: the user's own audio (decoded here, never uploaded) or the built-in demo track,
 // played through A, B and the ideal reference with instant switching; levels; offline render and export.
+import { VariantSwitch } from '../bench/VariantSwitch.tsx';
 import { useRef, useState } from 'preact/hooks';
 import type { BenchAudio, BenchState } from '../../audio/bench.ts';
+import { MAX_KEPT_TRACK_BYTES } from '../../audio/bench.ts';
 import { LISTEN_MODES, LISTEN_MODE_LABEL, type DesignSlot, type ListenMode } from '../../audio/protocol.ts';
 import { fullScaleSineSplDb, gainToDb } from '../../audio/levels.ts';
 import type { ExportFormat } from '../../audio/wav-export.ts';
@@ -66,6 +68,15 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
         ) : (
           <p class="fine">{p.state.status === 'starting' ? 'Starting the audio engine…' : 'No track yet.'}</p>
         )}
+        {t?.kept ? (
+          <p class="fine" data-testid="track-kept">
+            {t.kept === 'restored'
+              ? 'Brought back from your last visit (kept on this device only).'
+              : t.kept === 'kept'
+                ? `Kept on this device for your next visit (files up to ${MAX_KEPT_TRACK_BYTES / 2 ** 20} MB), with its offline render while the designs stay the same.`
+                : `Not kept for your next visit: larger than ${MAX_KEPT_TRACK_BYTES / 2 ** 20} MB.`}
+          </p>
+        ) : null}
         {t?.truncated ? (
           <p class="fine notice-warn" role="status" data-testid="track-truncated">
             This file ends early: its header announces {clock(t.truncated.statedS)} of audio, but only {clock(t.truncated.presentS)} is in
@@ -360,6 +371,7 @@ export function ListeningBench(_p: { theme: string }) {
       <TrackCard bench={bench} state={state} />
       <div class="bench-card player">
         <Transport bench={bench} state={state} store={store} names={names} full />
+        <VariantSwitch bench={bench} state={state} store={store} project={app.project} />
         <Overview bench={bench} state={state} theme={_p.theme} height={84} />
         <p class="fine overview-hint">Click the waveform to jump, drag across it to loop a passage.</p>
       </div>

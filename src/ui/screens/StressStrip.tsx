@@ -1,7 +1,7 @@
 // Stress strip: where in the track, and why, each design overloads. One lane of stress events per
 // way of each design under the waveform (the kinds told apart by colour), a legend, hover for cause / peak / limit, click to jump there and
 // listen, drag to loop, and the engine's traces following the playhead.
-import { useEffect, useMemo } from 'preact/hooks';
+import { useEffect, useMemo, useState } from 'preact/hooks';
 import type { StressEvent, EventKind } from '../../engine/render/index.ts';
 import { EVENT_KINDS } from '../../engine/render/index.ts';
 import type { DesignSlot } from '../../audio/protocol.ts';
@@ -15,6 +15,8 @@ import { TraceCharts } from '../bench/TraceChart.tsx';
 import { clock, colourOf, KIND_LABEL, KIND_MEANING } from '../bench/palette.ts';
 import { BenchNotices, OfflineProgress } from './ListeningBench.tsx';
 import { eventLanes, wayOfEvent } from '../bench/event-lanes.ts';
+import { summarizeEvents } from '../bench/event-summary.ts';
+import { plural } from '../format.ts';
 import '../bench/bench.css';
 
 /** Tracks up to this long are rendered offline by themselves when the strip opens, s. */
@@ -53,13 +55,12 @@ export function StressStrip({ theme }: { theme: string }) {
     for (const s of SLOTS) for (const e of events[s]) present.add(e.kind);
     return present;
   }, [events]);
-  const list = useMemo(
-    () =>
-      SLOTS.flatMap((s) => events[s].map((e) => ({ s, e })))
-        .sort((x, y) => x.e.start_s - y.e.start_s)
-        .slice(0, LIST_LIMIT),
-    [events],
-  );
+  // Kinds the user has hidden from the list (the summary always counts every kind).
+  const [hidden, setHidden] = useState<ReadonlySet<EventKind>>(new Set());
+  const shown = useMemo(() => SLOTS.flatMap((s) => events[s].filter((e) => !hidden.has(e.kind)).map((e) => ({ s, e }))), [events, hidden]);
+  const list = useMemo(() => [...shown].sort((x, y) => x.e.start_s - y.e.start_s).slice(0, LIST_LIMIT), [shown]);
+  const groups = useMemo(() => summarizeEvents(events, firstWay), [events, wa, wb]);
+  const hear = (s: DesignSlot, e: StressEvent) => (bench.seek(Math.max(0, e.start_s - 0.5)), bench.selectLane(s));
   const total = events.a.length + events.b.length;
   const source = fresh ? 'offline render of the whole track' : state.playing || total ? 'live listening so far' : null;
 
@@ -112,10 +113,82 @@ export function StressStrip({ theme }: { theme: string }) {
           Events{' '}
           <span class="fine">
             {total
-              ? `${events.a.length} in A, ${events.b.length} in B${total > LIST_LIMIT ? `, first ${LIST_LIMIT} listed` : ''}`
+              ? `${plural(events.a.length, 'event')} in A, ${events.b.length} in B${shown.length > LIST_LIMIT ? `; the first ${LIST_LIMIT} of the ${shown.length} chosen below are listed` : ''}`
               : 'none so far'}
           </span>
         </h3>
+        {groups.length ? (
+          <table class="figures bench-table events-summary" data-testid="event-summary">
+            <caption class="visually-hidden">Events per design, kind and way, with the worst of each</caption>
+            <thead>
+              <tr>
+                <th scope="col">Design</th>
+                {multiWay ? <th scope="col">Way</th> : null}
+                <th scope="col">What</th>
+                <th scope="col" class="n">
+                  How many
+                </th>
+                <th scope="col" class="n">
+                  Time in it
+                </th>
+                <th scope="col" class="n">
+                  Worst
+                </th>
+                <th scope="col">
+                  <span class="visually-hidden">Hear the worst</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {groups.map((g) => (
+                <tr data-kind={g.kind} data-slot={g.slot} data-count={g.count}>
+                  <td>
+                    <span class={`chip chip-${g.slot}`}>{SLOT_LABEL[g.slot]}</span>
+                  </td>
+                  {multiWay ? <td>{g.way}</td> : null}
+                  <td>
+                    <i class="swatch" style={{ background: colourOf(g.kind, theme) }} /> {KIND_LABEL[g.kind]}
+                  </td>
+                  <td class="n">{g.count}</td>
+                  <td class="n">{num(g.seconds, 3)} s</td>
+                  <td class="n">
+                    {num(g.worst.peak, 3)} {g.worst.unit} at {clock(g.worst.start_s, 1)}
+                  </td>
+                  <td>
+                    <button
+                      type="button"
+                      class="small"
+                      onClick={() => hear(g.slot, g.worst)}
+                      aria-label={`Hear the worst: ${KIND_LABEL[g.kind]} in design ${SLOT_LABEL[g.slot]} at ${clock(g.worst.start_s, 2)}`}
+                    >
+                      Hear the worst
+                    </button>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        ) : null}
+        {kinds.size > 1 ? (
+          <fieldset class="kind-filter" data-testid="kind-filter">
+            <legend>List these kinds</legend>
+            {EVENT_KINDS.filter((k) => kinds.has(k)).map((k) => (
+              <label class="check">
+                <input
+                  type="checkbox"
+                  checked={!hidden.has(k)}
+                  onChange={(e) => {
+                    const next = new Set(hidden);
+                    if ((e.currentTarget as HTMLInputElement).checked) next.delete(k);
+                    else next.add(k);
+                    setHidden(next);
+                  }}
+                />{' '}
+                {KIND_LABEL[k]}
+              </label>
+            ))}
+          </fieldset>
+        ) : null}
         {list.length ? (
           <table class="figures bench-table events-table" data-testid="event-list">
             <thead>
@@ -156,8 +229,8 @@ export function StressStrip({ theme }: { theme: string }) {
                     <button
                       type="button"
                       class="small"
-                      onClick={() => (bench.seek(Math.max(0, e.start_s - 0.5)), bench.selectLane(s))}
-                      aria-label={`Hear ${KIND_LABEL[e.kind]} in design ${SLOT_LABEL[s]} at ${clock(e.start_s, 2)}`}
+                      onClick={() => hear(s, e)}
+                      aria-label={`Hear it: ${KIND_LABEL[e.kind]} in design ${SLOT_LABEL[s]} at ${clock(e.start_s, 2)}`}
                     >
                       Hear it
                     </button>
