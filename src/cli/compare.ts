@@ -99,8 +99,10 @@ export const compareCommand: Command = {
       const rendered: Float32Array[][] = [];
       let matchDb = 0;
       try {
-        const va = resolveVolts(A.system, channels, sampleRate, level).volts;
-        const vb = resolveVolts(B.system, channels, sampleRate, level).volts;
+        const la = resolveVolts(A.system, channels, sampleRate, level);
+        const lb = resolveVolts(B.system, channels, sampleRate, level);
+        const va = la.volts,
+          vb = lb.volts;
         checkVolts(va, A.system);
         checkVolts(vb, B.system);
         const passA = passbandPaPerV(A.system) * va;
@@ -110,19 +112,20 @@ export const compareCommand: Command = {
         const paB = values['no-match'] ? paA : paA * (passB / passA);
         matchDb = r2(20 * Math.log10(paA / paB));
         const long = channels[0].length > sampleRate * 30;
-        for (const [d, v, pa, tag] of [
-          [A, va, paA, 'a'],
-          [B, vb, paB, 'b'],
+        for (const [d, v, pa, tag, leqPerVoltDb] of [
+          [A, va, paA, 'a', la.leqPerVoltDb],
+          [B, vb, paB, 'b', lb.leqPerVoltDb],
         ] as const) {
           const res = renderBuffer(d.system, channels, sampleRate, {
             voltsFs: v,
+            leqPerVoltDb,
             paPerFs: pa,
             onProgress: long ? progressBar(`rendering ${tag}`) : undefined,
           });
           rendered.push(res.audio);
           const fig = bassRelative(d.system);
           const progress = progressCounter(`finding headroom ${tag}`, 'render');
-          const headroom = findHeadroom(d.system, channels, sampleRate, { onRender: progress?.tick });
+          const headroom = findHeadroom(d.system, channels, sampleRate, { onRender: progress?.tick, leqPerVoltDb });
           progress?.done();
           sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom });
         }
