@@ -16,9 +16,16 @@ function agree(sys: Parameters<typeof findHeadroom>[0], channels: Float32Array[]
   const exact = findHeadroom(sys, channels, fs, { exact: true });
   const fast = findHeadroom(sys, channels, fs);
   expect(Math.abs(20 * Math.log10(fast.clean_volts / exact.clean_volts))).toBeLessThanOrEqual(STEP_DB);
-  expect(fast.first_limit).toBe(exact.first_limit);
-  expect(fast.first_limit_way).toBe(exact.first_limit_way);
-  if (exact.first_limit_s !== null) expect(Math.abs(fast.first_limit_s! - exact.first_limit_s)).toBeLessThan(0.5);
+  if (fast.first_limit !== exact.first_limit) {
+    // Two limits within one step of each other: which comes first depends on where in that step the
+    // search lands. Then one step above the exact clean level both start together (within 0.1 s).
+    const above = renderBuffer(sys, channels, fs, { voltsFs: exact.clean_volts * 10 ** (STEP_DB / 20), analysisOnly: true });
+    const startOf = (kind: string | null) => above.summary.events.find((e) => e.kind === kind)?.start_s ?? Infinity;
+    expect(Math.abs(startOf(fast.first_limit) - startOf(exact.first_limit))).toBeLessThan(0.1);
+  } else {
+    expect(fast.first_limit_way).toBe(exact.first_limit_way);
+    if (exact.first_limit_s !== null) expect(Math.abs(fast.first_limit_s! - exact.first_limit_s)).toBeLessThan(0.5);
+  }
   return fast;
 }
 

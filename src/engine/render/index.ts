@@ -276,12 +276,17 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   const fast = opt.exact !== true;
   // The last clean probe's way summaries: the linear guess scales them.
   let cleanWays: WaySummary[] = [];
+  let cleanResidualDb = -Infinity;
   const probe = (v: number) => {
     renders++;
     opt.onRender?.();
     // A probe with an event needs no more of the track: only whether there is one, and the first.
     const res = renderBuffer(sys, channels, sampleRate, { voltsFs: v, leqPerVoltDb: l1, analysisOnly: true, stopAtFirstEvent: fast });
-    if (res.summary.events.length === 0) cleanWays = res.summary.ways;
+    if (res.summary.events.length === 0) {
+      cleanWays = res.summary.ways;
+      cleanResidualDb = -Infinity;
+      for (const d of res.traces.residualDb) if (d > cleanResidualDb) cleanResidualDb = d;
+    }
     return res.summary.events;
   };
   let peakIn = 0;
@@ -334,7 +339,10 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   // tries the linear model's guess and then walks from it in steps that double while the verdict
   // holds (few clean probes when the guess is close); once the verdict turns it bisects as before.
   const wide = (a: number, b: number) => 20 * Math.log10(b / a) > tol * (1 + 1e-9);
-  let guess = fast ? linearHeadroomGuess(sys, cleanWays, lo) : null;
+  let guess = fast ? linearHeadroomGuess(sys, cleanWays, cleanResidualDb, lo) : null;
+  // A guess outside the bracket starts one step inside it (from above, the probes are cheap).
+  const stepUp = Math.pow(10, tol / 20);
+  if (guess !== null) guess = Math.min(Math.max(guess, lo * stepUp), hi / stepUp);
   if (guess !== null && !(guess > lo && guess < hi)) guess = null;
   let walkDb = tol;
   let lastDirty: boolean | null = null;
