@@ -1,6 +1,7 @@
 // The body of `preheard compare`'s worker thread: design B's side (compare-side.ts) over the shared
 // audio; the audio it renders is handed back without a copy.
 import { parentPort, workerData } from 'node:worker_threads';
+import { InputProblem } from '../engine/issues.ts';
 import { loadDesignFile } from './design-file.ts';
 import { renderSide } from './compare-side.ts';
 
@@ -14,6 +15,6 @@ try {
     side.audio.map((a) => a.buffer as ArrayBuffer),
   );
 } catch (e) {
-  // A RangeError is the user's input (the main thread words it); anything else is a fault.
-  port.postMessage({ error: e instanceof Error ? e.message : String(e), range: e instanceof RangeError });
+  // An InputProblem is the user's input (the main thread words it); anything else is a fault.
+  port.postMessage({ error: e instanceof Error ? e.message : String(e), problem: e instanceof InputProblem });
 }

@@ -1,4 +1,5 @@
 // preheard compare: two designs through the same calibration, passband levels matched.
+import { InputProblem } from '../engine/issues.ts';
 import { analyze } from '../engine/response/analyze.ts';
 import { Worker } from 'node:worker_threads';
 import { passbandPaPerV, resolveVolts, type Headroom, type RenderSummary } from '../engine/render/index.ts';
@@ -52,7 +53,7 @@ function bassRelative(sys: SpeakerSystem) {
   };
 }
 
-/** Design B's side in a worker thread over the shared audio; a RangeError comes back as one. */
+/** Design B's side in a worker thread over the shared audio; an InputProblem comes back as one. */
 function sideInWorker(
   designPath: string,
   channels: Float32Array[],
@@ -68,10 +69,10 @@ function sideInWorker(
     workerData: { designPath, channels: shared, sampleRate, level },
   });
   const result = new Promise<SideResult>((resolve, reject) => {
-    w.once('message', (msg: { side?: SideResult; error?: string; range?: boolean }) => {
+    w.once('message', (msg: { side?: SideResult; error?: string; problem?: boolean }) => {
       void w.terminate();
       if (msg.side) resolve(msg.side);
-      else reject(msg.range ? new RangeError(msg.error) : new Error(msg.error));
+      else reject(msg.problem ? new InputProblem(msg.error) : new Error(msg.error));
     });
     w.once('error', reject);
   });
@@ -168,7 +169,7 @@ export const compareCommand: Command = {
           sides.push({ name: d.system.name, summary: side.summary, ...bassRelative(d.system), headroom: side.headroom });
         }
       } catch (e) {
-        if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
+        if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
       // Both files are written only when both designs rendered, and put in place together.
