@@ -1,7 +1,8 @@
 // preheard compare: two designs through the same calibration, passband levels matched.
 import { InputProblem } from '../engine/issues.ts';
 import { analyze } from '../engine/response/analyze.ts';
-import { findHeadroom, passbandPaPerV, renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
+import { Worker } from 'node:worker_threads';
+import { passbandPaPerV, resolveVolts, type Headroom, type RenderSummary } from '../engine/render/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
@@ -9,6 +10,7 @@ import { writeWav } from './wav.ts';
 import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progressCounter, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 import { printable } from './user-text.ts';
+import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
 
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
 
@@ -33,7 +35,7 @@ interface Side {
   summary: RenderSummary;
   f3Hz: number;
   bass: { hz: number; db: number }[];
-  headroom: ReturnType<typeof findHeadroom>;
+  headroom: Headroom;
 }
 
 const r2 = (v: number) => Number(v.toFixed(2));
@@ -49,6 +51,34 @@ function bassRelative(sys: SpeakerSystem) {
       { hz: 50, db: r2(f.spl50Db - f.passbandSplDb) },
     ],
   };
+}
+
+/** Design B's side in a worker thread over the shared audio; an InputProblem comes back as one. */
+function sideInWorker(
+  designPath: string,
+  channels: Float32Array[],
+  sampleRate: number,
+  level: SideLevel,
+): { result: Promise<SideResult>; cancel: () => void } {
+  const shared = channels.map((ch) => {
+    const sab = new SharedArrayBuffer(ch.byteLength);
+    new Float32Array(sab).set(ch);
+    return sab;
+  });
+  const w = new Worker(new URL('./compare-worker.mjs', import.meta.url), {
+    workerData: { designPath, channels: shared, sampleRate, level },
+  });
+  const result = new Promise<SideResult>((resolve, reject) => {
+    w.once('message', (msg: { side?: SideResult; error?: string; problem?: boolean }) => {
+      void w.terminate();
+      if (msg.side) resolve(msg.side);
+      else reject(msg.problem ? new InputProblem(msg.error) : new Error(msg.error));
+    });
+    w.once('error', reject);
+  });
+  // Awaited only when A succeeds: a failure of B meanwhile must not go unhandled.
+  result.catch(() => undefined);
+  return { result, cancel: () => void w.terminate() };
 }
 
 function sideJson(s: Side) {
@@ -100,8 +130,10 @@ export const compareCommand: Command = {
       const rendered: Float32Array[][] = [];
       let matchDb = 0;
       try {
-        const va = resolveVolts(A.system, channels, sampleRate, level).volts;
-        const vb = resolveVolts(B.system, channels, sampleRate, level).volts;
+        const la = resolveVolts(A.system, channels, sampleRate, level);
+        const lb = resolveVolts(B.system, channels, sampleRate, level);
+        const va = la.volts,
+          vb = lb.volts;
         checkVolts(va, A.system);
         checkVolts(vb, B.system);
         const passA = passbandPaPerV(A.system) * va;
@@ -111,21 +143,30 @@ export const compareCommand: Command = {
         const paB = values['no-match'] ? paA : paA * (passB / passA);
         matchDb = r2(20 * Math.log10(paA / paB));
         const long = channels[0].length > sampleRate * 30;
-        for (const [d, v, pa, tag] of [
-          [A, va, paA, 'a'],
-          [B, vb, paB, 'b'],
+        // B in a worker thread on the other core while A runs here.
+        const sideB = sideInWorker(bPath, channels, sampleRate, { voltsFs: vb, paPerFs: paB, leqPerVoltDb: lb.leqPerVoltDb });
+        const progress = progressCounter('finding headroom a', 'render');
+        let sideA: SideResult;
+        try {
+          sideA = renderSide(
+            A.system,
+            channels,
+            sampleRate,
+            { voltsFs: va, paPerFs: paA, leqPerVoltDb: la.leqPerVoltDb },
+            { render: long ? progressBar('rendering a') : undefined, headroomTick: progress?.tick },
+          );
+        } catch (e) {
+          sideB.cancel();
+          throw e;
+        }
+        progress?.done();
+        const b = await sideB.result;
+        for (const [d, side] of [
+          [A, sideA],
+          [B, b],
         ] as const) {
-          const res = renderBuffer(d.system, channels, sampleRate, {
-            voltsFs: v,
-            paPerFs: pa,
-            onProgress: long ? progressBar(`rendering ${tag}`) : undefined,
-          });
-          rendered.push(res.audio);
-          const fig = bassRelative(d.system);
-          const progress = progressCounter(`finding headroom ${tag}`, 'render');
-          const headroom = findHeadroom(d.system, channels, sampleRate, { onRender: progress?.tick });
-          progress?.done();
-          sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom });
+          rendered.push(side.audio);
+          sides.push({ name: d.system.name, summary: side.summary, ...bassRelative(d.system), headroom: side.headroom });
         }
       } catch (e) {
         if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);

@@ -104,10 +104,11 @@ export const renderCommand: Command = {
       const audio = await readInputAudio(inPath);
       let result: ReturnType<typeof renderBuffer>;
       try {
-        const { volts } = resolveVolts(system, audio.channels, audio.sampleRate, level);
+        const { volts, leqPerVoltDb } = resolveVolts(system, audio.channels, audio.sampleRate, level);
         checkVolts(volts, system);
         result = renderBuffer(system, audio.channels, audio.sampleRate, {
           voltsFs: volts,
+          leqPerVoltDb,
           mode: values.linear ? 'linear' : values.residual ? 'residual' : 'nonlinear',
           onProgress: audio.channels[0].length > audio.sampleRate * 30 ? progressBar('rendering') : undefined,
         });

@@ -1,6 +1,7 @@
 // CLI benchmarks, each a ratio measured side by side in one run:
 //  - `preheard render` (the bundle, as users run it) of a 5-minute stereo 48 kHz 16-bit WAV, against
 //    Debian's sox running five biquads over the same file, WAV in and out: a native yardstick;
+//  - `preheard headroom` and `preheard compare` against one `render` of the same minute of the track;
 //  - `preheard --help` start-up: the bundle against the TypeScript source run through tsx;
 //  - WAV read and write in MB/s of file: src/cli/wav.ts against wavefile 11.0.0 (the CLI's old way);
 //  - peak memory of reading that WAV against the decoded audio (child process).
@@ -121,6 +122,23 @@ export async function bench(): Promise<BenchResult[]> {
       engineS = Math.min(engineS, 300 / JSON.parse(r.stdout).realtime_factor);
     });
 
+    // headroom and compare against one render, each of the bundle on the first minute of the track.
+    const minuteIn = join(dir, 'minute.wav');
+    await writeWav(
+      minuteIn,
+      five.map((c) => c.subarray(0, 60 * 48000)),
+      48000,
+      '16',
+    );
+    const sealed = join(ROOT, 'public/examples/living-room-sealed.json');
+    const cli = (args: string[]) => () => {
+      const r = spawnSync(process.execPath, [BUNDLE, ...args], { encoding: 'utf8' });
+      if (r.status !== 0) throw new Error(`preheard ${args[0]} failed: ${r.stderr}`);
+    };
+    const renderMinMs = bestMs(2, cli(['render', design, minuteIn, '-o', join(dir, 'm.wav')]));
+    const headroomMs = bestMs(2, cli(['headroom', design, minuteIn]));
+    const compareMs = bestMs(2, cli(['compare', design, sealed, minuteIn, '-o', join(dir, 'cmp')]));
+
     const helpBundle = medianMs(5, () => mustRun(process.execPath, [BUNDLE, '--help']));
     const helpTsx = medianMs(5, () => mustRun(process.execPath, [join(ROOT, 'src/cli/preheard.mjs'), '--help']));
 
@@ -187,6 +205,14 @@ export async function bench(): Promise<BenchResult[]> {
         target: '',
       },
       { name: '  preheard render / sox', value: Number((cliMs / soxMs).toFixed(2)), unit: 'time ratio', target: '<= 4 (goal 2)' },
+      { name: 'preheard render, 60 s of the track, wall time', value: Number((renderMinMs / 1000).toFixed(2)), unit: 's', target: '' },
+      { name: '  preheard headroom / render', value: Number((headroomMs / renderMinMs).toFixed(2)), unit: 'time ratio', target: '<= 2.5' },
+      {
+        name: '  preheard compare (vented vs sealed) / render',
+        value: Number((compareMs / renderMinMs).toFixed(2)),
+        unit: 'time ratio',
+        target: '<= 3',
+      },
       { name: 'preheard --help start-up, bundle (median of 5)', value: Number(helpBundle.toFixed(0)), unit: 'ms', target: '' },
       { name: '  through tsx from source', value: Number(helpTsx.toFixed(0)), unit: 'ms', target: '' },
       { name: '  tsx / bundle', value: Number((helpTsx / helpBundle).toFixed(1)), unit: 'time ratio', target: '>= 5' },

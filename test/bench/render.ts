@@ -2,6 +2,7 @@
 //  - full large-signal render of the vented example, stereo 48 kHz, one core: times real time;
 //  - the linear chain against node-web-audio-api's OfflineAudioContext running the same biquads
 //    (one IIRFilterNode per section): our time / its time;
+//  - the nonlinear render per sample as a multiple of one biquad section per sample;
 //  - the woofer model against odex at equal accuracy: its time / ours;
 //  - peak memory of a 10-minute stereo render against the decoded audio (child process).
 import { spawnSync } from 'node:child_process';
@@ -195,6 +196,33 @@ async function versusOdex(): Promise<BenchResult[]> {
   ];
 }
 
+/**
+ * The engine's nonlinear render per lane sample (one channel, one frame: every stage of the way
+ * chain, the stress meters, the guard) as a multiple of one biquad section per sample, both timed
+ * here on the demo track. The render is given its drive, so no calibration pass is counted.
+ */
+function perSampleVsBiquad(): BenchResult[] {
+  const sys = exampleSystem('vented');
+  const fs = 48000;
+  const track = synthesizeDemoTrack(fs);
+  const frames = track.channels[0].length;
+  const lanes = frames * track.channels.length;
+  const opt = { voltsFs: 10, leqPerVoltDb: 0, analysisOnly: true };
+  renderBuffer(sys, track.channels, fs, opt);
+  const renderMs = best(3, () => renderBuffer(sys, track.channels, fs, opt)).ms;
+  const buf = Float64Array.from(track.channels[0]);
+  const one = new BiquadCascade(Float64Array.of(0.2, 0.4, 0.2, -0.6, 0.2));
+  one.processInPlace(buf);
+  const biquadMs = best(5, () => one.processInPlace(buf)).ms;
+  const renderNs = (renderMs * 1e6) / lanes,
+    biquadNs = (biquadMs * 1e6) / frames;
+  return [
+    { name: 'nonlinear render (vented, demo track), per channel and frame', value: Number(renderNs.toFixed(1)), unit: 'ns', target: '' },
+    { name: '  one biquad section, per sample', value: Number(biquadNs.toFixed(2)), unit: 'ns', target: '' },
+    { name: '  render / biquad', value: Number((renderNs / biquadNs).toFixed(1)), unit: 'biquads', target: 'as low as it goes (report)' },
+  ];
+}
+
 function memory(): BenchResult {
   const r = spawnSync(process.execPath, ['--import', 'tsx', join(HERE, 'render-memory-child.ts')], {
     encoding: 'utf8',
@@ -217,6 +245,7 @@ async function part(name: string, run: () => BenchResult[] | Promise<BenchResult
 export async function bench(): Promise<BenchResult[]> {
   return [
     ...(await part('realtime', () => [realtime()])),
+    ...(await part('per sample', perSampleVsBiquad)),
     ...(await part('linear chain', linearVsWebAudio)),
     ...(await part('odex', versusOdex)),
     ...(await part('memory', () => [memory()])),

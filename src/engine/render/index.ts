@@ -36,6 +36,7 @@ import type { SpeakerSystem } from '../system.ts';
 import { createRenderer, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces, type WayStats } from './renderer.ts';
 import type { EventKind, StressEvent } from './events.ts';
 import { passbandPaPerV, seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
+import { linearHeadroomGuess } from './headroom-guess.ts';
 
 export { createRenderer, passbandPaPerV, Renderer, voltsForSpl };
 export type { RenderMode, Traces, StressEvent, EventKind };
@@ -74,15 +75,19 @@ export interface RenderSummary {
   ways: WaySummary[];
 }
 
-export interface RenderBufferOptions {
-  voltsFs?: number;
-  splDb?: number;
+export interface RenderBufferOptions extends LevelRequest {
   mode?: RenderMode;
   paPerFs?: number;
   /** Also return the linear and residual streams. */
   extraStreams?: boolean;
   /** Skip writing audio (headroom search): only the summary. */
   analysisOnly?: boolean;
+  /**
+   * Stop after the block in which the first stress event starts (with analysisOnly): the summary
+   * then covers the track up to there. Events are marked as the frames go by and a start never
+   * moves, so the first event (and any other starting in the same frame) is already final.
+   */
+  stopAtFirstEvent?: boolean;
   blockFrames?: number;
   onProgress?: (fraction: number) => void;
   /** Milliseconds clock for the realtime factor (default performance.now or Date.now). */
@@ -116,28 +121,39 @@ function defaultClock(): () => number {
   return perf ? () => perf.now() : () => Date.now();
 }
 
+/** A drive level: explicit volts, a planned SPL, or the design's own; `leqPerVoltDb` when already measured on this track. */
+export interface LevelRequest {
+  voltsFs?: number;
+  splDb?: number;
+  /** The track's Leq,C at the seat per volt (seatLeqCPerVolt), dB: given, the calibration pass is not run again. */
+  leqPerVoltDb?: number;
+}
+
 export function resolveVolts(
   sys: SpeakerSystem,
   channels: ArrayLike<number>[],
   sampleRate: number,
-  opt: { voltsFs?: number; splDb?: number },
-): { volts: number; spl: number } {
+  opt: LevelRequest,
+): { volts: number; spl: number; leqPerVoltDb: number } {
   const level = sys.listening.level;
   const explicit = opt.voltsFs ?? (opt.splDb === undefined && level.mode === 'volts' ? level.voltsFs : undefined);
   if (explicit !== undefined) {
     // A drive in volts needs no level from the audio; silent audio then has no SPL (-Infinity).
-    let l1 = -Infinity;
-    try {
-      l1 = seatLeqCPerVolt(sys, channels, sampleRate);
-    } catch (e) {
-      if (!(e instanceof InputProblem)) throw e;
+    let l1 = opt.leqPerVoltDb ?? -Infinity;
+    if (opt.leqPerVoltDb === undefined) {
+      try {
+        l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+      } catch (e) {
+        if (!(e instanceof InputProblem)) throw e;
+      }
     }
-    return { volts: explicit, spl: l1 + 20 * Math.log10(explicit) };
+    return { volts: explicit, spl: l1 + 20 * Math.log10(explicit), leqPerVoltDb: l1 };
   }
-  const l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+  const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate);
+  if (!Number.isFinite(l1)) throw new InputProblem('the audio is silent in the band the design plays: a level cannot be set from it');
   const target = opt.splDb ?? (level.mode === 'spl' ? level.splDb : 0);
   const volts = Math.pow(10, (target - l1) / 20);
-  return { volts, spl: l1 + 20 * Math.log10(volts) };
+  return { volts, spl: l1 + 20 * Math.log10(volts), leqPerVoltDb: l1 };
 }
 
 export function renderBuffer(
@@ -187,6 +203,7 @@ export function renderBuffer(
       }
     }
     r.process(views, outB, n, extra);
+    if (opt.stopAtFirstEvent && r.events.count > 0) break;
     if (keep) {
       // Drop the first `lat` output frames: the result is aligned with the input.
       const j0 = Math.max(0, lat - s),
@@ -237,23 +254,40 @@ export interface Headroom {
   renders: number;
 }
 
+export interface HeadroomOptions {
+  /** Bisection step, dB (default 0.25). */
+  tolDb?: number;
+  startVolts?: number;
+  /** Called before each probe render. */
+  onRender?: () => void;
+  /** The track's Leq,C per volt if already measured (resolveVolts), dB. */
+  leqPerVoltDb?: number;
+  /** Run every probe to the end of the track (the search as first written; for tests). */
+  exact?: boolean;
+}
+
 /**
  * The highest drive with no stress event on this track: bracket by 6 dB steps, then bisect the
  * gap in dB to tolDb (default 0.25), relying on stress growing with level.
  */
-export function findHeadroom(
-  sys: SpeakerSystem,
-  channels: ArrayLike<number>[],
-  sampleRate: number,
-  opt: { tolDb?: number; startVolts?: number; onRender?: () => void } = {},
-): Headroom {
+export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: HeadroomOptions = {}): Headroom {
   const tol = opt.tolDb ?? 0.25;
-  const l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+  const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate);
   let renders = 0;
+  const fast = opt.exact !== true;
+  // The last clean probe's way summaries: the linear guess scales them.
+  let cleanWays: WaySummary[] = [];
+  let cleanResidualDb = -Infinity;
   const probe = (v: number) => {
     renders++;
     opt.onRender?.();
-    const res = renderBuffer(sys, channels, sampleRate, { voltsFs: v, analysisOnly: true });
+    // A probe with an event needs no more of the track: only whether there is one, and the first.
+    const res = renderBuffer(sys, channels, sampleRate, { voltsFs: v, leqPerVoltDb: l1, analysisOnly: true, stopAtFirstEvent: fast });
+    if (res.summary.events.length === 0) {
+      cleanWays = res.summary.ways;
+      cleanResidualDb = -Infinity;
+      for (const d of res.traces.residualDb) if (d > cleanResidualDb) cleanResidualDb = d;
+    }
     return res.summary.events;
   };
   let peakIn = 0;
@@ -302,13 +336,31 @@ export function findHeadroom(
       renders,
     };
   if (lo === 0) throw new InputProblem('no clean level found down to -240 dB: the design overloads at any level');
-  while (20 * Math.log10(hi / lo) > tol) {
-    const mid = Math.sqrt(lo * hi);
-    ev = probe(mid);
-    if (ev.length > 0) {
-      hi = mid;
+  // Clean probes run the whole track and probes with an event stop early, so the fast search first
+  // tries the linear model's guess and then walks from it in steps that double while the verdict
+  // holds (few clean probes when the guess is close); once the verdict turns it bisects as before.
+  const wide = (a: number, b: number) => 20 * Math.log10(b / a) > tol * (1 + 1e-9);
+  let guess = fast ? linearHeadroomGuess(sys, cleanWays, cleanResidualDb, lo) : null;
+  // A guess outside the bracket starts one step inside it (from above, the probes are cheap).
+  const stepUp = Math.pow(10, tol / 20);
+  if (guess !== null) guess = Math.min(Math.max(guess, lo * stepUp), hi / stepUp);
+  if (guess !== null && !(guess > lo && guess < hi)) guess = null;
+  let walkDb = tol;
+  let lastDirty: boolean | null = null;
+  while (wide(lo, hi)) {
+    const at = guess ?? Math.sqrt(lo * hi);
+    ev = probe(at);
+    const dirty = ev.length > 0;
+    if (dirty) {
+      hi = at;
       hiEvents = ev;
-    } else lo = mid;
+    } else lo = at;
+    if (guess !== null && (lastDirty === null || lastDirty === dirty)) {
+      const next = at * Math.pow(10, ((dirty ? -1 : 1) * walkDb) / 20);
+      walkDb *= 2;
+      guess = next > lo && next < hi ? next : null;
+      lastDirty = dirty;
+    } else guess = null;
   }
   const first = hiEvents.reduce((a, b) => (b.start_s < a.start_s ? b : a));
   return {
