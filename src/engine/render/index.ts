@@ -68,6 +68,10 @@ export interface RenderSummary {
   amp_clip_s: number;
   max_compression_db: number;
   limiter_db: number;
+  /** The summed output's largest compression: the part of the residual coherent with the linear output, dB. */
+  output_compression_db: number;
+  /** The summed output's largest distortion: the rest of the residual against the output, dB (null: never judged). */
+  output_distortion_db: number | null;
   events: StressEvent[];
   realtime_factor: number;
   ways: WaySummary[];
@@ -217,6 +221,8 @@ export function renderBuffer(
     pa_per_fs: Number(r.paPerFs.toPrecision(6)),
     ...bass,
     limiter_db: r3(st.limiterDb),
+    output_compression_db: r3(st.outputCompressionDb),
+    output_distortion_db: Number.isFinite(st.outputDistortionDb) ? Number(st.outputDistortionDb.toFixed(2)) : null,
     events: r.events.list(1 / sampleRate),
     realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
     ways,
