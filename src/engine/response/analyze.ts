@@ -241,22 +241,57 @@ function outletStress(box: Box, outletFlow: Complex, w: number): { kind: BoxProb
   return { kind: probe.kind, value: Math.SQRT2 * quantity * probe.toUnit, limit: probe.limit };
 }
 
-/** The largest drive, V rms at the amplifier's input, before the way reaches a limit for a sine at f. */
-function maxVolts(system: SpeakerSystem, way: DriverWay, r: PointResponse, volts: number, f: number): { v: number; limit: MaxSplLimit } {
+/** The way with its coil `riseK` kelvin above ambient (Re(T) = Re0·(1 + alpha_R·ΔT), REFERENCES). */
+function hotWay(way: DriverWay, riseK: number): DriverWay {
+  if (riseK === 0) return way;
+  const d = way.driver;
+  return { ...way, driver: { ...d, re: d.re * (1 + d.thermal.alphaR * riseK) } };
+}
+
+/** Power in the coil's resistance, W, for a response at some drive (rms current). */
+const coilPower = (way: DriverWay, r: PointResponse) => abs(r.current) ** 2 * way.driver.re;
+
+/**
+ * The largest drive (V rms at the way's input) and the seat pressure there (Pa rms) for a sine at f
+ * before the way reaches a limit: cone Xmax, port air speed or radiator travel (the box kind's
+ * probe), the amplifier's rail, or the coil's rated temperature. Every limit is taken with the
+ * coil at its thermal equilibrium at that drive: steady state ΔT = P·(Rtv + Rtm) of the two-node
+ * network (REFERENCES, voice-coil heating), with P the power in the hot coil's resistance, found by
+ * fixed-point iteration (the hot coil draws less, so the iteration settles in a few steps).
+ */
+export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: number; pa: number; limit: MaxSplLimit } {
   const d = way.driver;
   const w = 2 * Math.PI * f;
-  const filterGain = abs(wayFilterAt(way.filter, w));
-  const candidates: { v: number; limit: MaxSplLimit }[] = [
-    { v: (volts * d.xmax) / (Math.SQRT2 * abs(r.excursion)), limit: 'excursion' },
-    // Thermal: the rated power dissipated in the coil's resistance.
-    { v: volts * Math.sqrt(d.pe / (abs(r.current) ** 2 * d.re)), limit: 'thermal' },
-    // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
-    { v: system.amplifier.vPeak / (Math.SQRT2 * filterGain), limit: 'amplifier' },
-  ];
-  // Radiator travel is a hard limit; port air speed is noise, not a limit of the level (as before).
-  const stress = outletStress(way.box, r.outletFlow, w);
-  if (stress?.kind === 'radiator') candidates.push({ v: (volts * stress.limit) / stress.value, limit: 'radiator' });
-  return candidates.reduce((a, b) => (b.v < a.v ? b : a));
+  const rth = d.thermal.rtv + d.thermal.rtm;
+  const riseMax = Math.max(d.thermal.coilMaxC - system.air.temperatureC, 0);
+  // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
+  const vAmp = system.amplifier.vPeak / (Math.SQRT2 * abs(wayFilterAt(way.filter, w)));
+  // Thermal: the drive that holds the coil at its rating, with the coil's resistance at the rating.
+  const atMax = hotWay(way, riseMax);
+  const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, respond(system, atMax, f, 1))));
+  let rise = 0;
+  let best = { v: vAmp, pa: 0, limit: 'amplifier' as MaxSplLimit };
+  for (let it = 0; it < 12; it++) {
+    const hot = hotWay(way, rise);
+    const r = respond(system, hot, f, 1);
+    best = { v: vAmp, pa: 0, limit: 'amplifier' };
+    const consider = (v: number, limit: MaxSplLimit) => {
+      if (v < best.v) best = { v, pa: 0, limit };
+    };
+    consider(d.xmax / (Math.SQRT2 * abs(r.excursion)), 'excursion');
+    const stress = outletStress(way.box, r.outletFlow, w);
+    if (stress) consider(stress.limit / stress.value, stress.kind === 'radiator' ? 'radiator' : 'port');
+    const riseHere = rth * coilPower(hot, r) * best.v * best.v;
+    if (riseHere >= riseMax || vThermal <= best.v) {
+      // The coil reaches its rating first: the drive that holds it there, with the hot coil's response.
+      const r2 = respond(system, atMax, f, 1);
+      return { v: vThermal, pa: abs(r2.pressure) * vThermal, limit: 'thermal' };
+    }
+    best.pa = abs(r.pressure) * best.v;
+    if (Math.abs(riseHere - rise) < 1e-3) break;
+    rise = riseHere;
+  }
+  return best;
 }
 
 function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz: Float64Array, driveV: number, planned: number): Curves {
@@ -301,8 +336,8 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
       curves.portAirSpeed[k] = stress.value;
       curves.plannedPortAirSpeed[k] = (stress.value * planned) / driveV;
     }
-    const lim = maxVolts(system, way, r, driveV, f);
-    curves.maxSplDb[k] = curves.splDb[k] + 20 * Math.log10(lim.v / driveV);
+    const lim = maxSine(system, way, f);
+    curves.maxSplDb[k] = splDb(lim.pa);
     curves.maxSplLimit[k] = lim.limit;
   }
   return curves;

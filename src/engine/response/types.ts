@@ -2,7 +2,8 @@ import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
 import type { BoxFigure } from '../box/physics.ts';
 
-export type MaxSplLimit = 'excursion' | 'thermal' | 'amplifier' | 'radiator';
+/** What sets a way's highest sine level at a frequency (analyze.ts `maxSine`). */
+export type MaxSplLimit = 'excursion' | 'port' | 'radiator' | 'amplifier' | 'thermal';
 
 /**
  * Small-signal curves of one driver way on one log-spaced frequency grid; all arrays have
@@ -33,7 +34,11 @@ export interface Curves {
   portAirSpeed: Float64Array | null;
   /** Peak port air speed at the planned level, m/s (boxes with a port). */
   plannedPortAirSpeed: Float64Array | null;
-  /** Highest SPL of the way at the seat for a sine at each frequency, and what limits it. */
+  /**
+   * Highest SPL of the way at the seat for a sine at each frequency (a sine figure), and what limits
+   * it: Xmax, port air speed, radiator travel, the amplifier's rail, or the coil at its rated
+   * temperature; every limit with the coil at its thermal equilibrium at that drive (hot Re).
+   */
   maxSplDb: Float64Array;
   maxSplLimit: MaxSplLimit[];
 }

@@ -70,7 +70,8 @@ export interface ChartOptions {
 
 const LIMIT_TEXT: Record<MaxSplLimit, string> = {
   excursion: 'excursion',
-  thermal: 'coil power',
+  port: 'port air speed',
+  thermal: 'coil heat',
   amplifier: 'amplifier',
   radiator: 'radiator travel',
 };
