@@ -119,6 +119,18 @@ export function analysisJson(a: Analysis) {
     name: a.system.name,
     ...first,
     warnings: a.warnings.map((w) => ({ path: w.path, message: w.message })),
+    // The planned level against the amplifier (its errors are also in `warnings`, marked there).
+    errors: a.warnings.filter((w) => w.severity === 'error').map((w) => ({ path: w.path, message: w.message })),
+    planned_programme: {
+      volts_rms: round(a.programme.voltsRms),
+      leq_c_per_volt_db: round(a.programme.leqCPerVoltDb),
+      amplifier_shortfalls: a.programme.shortfalls.map((s) => ({
+        way: s.way,
+        need_v: round(s.needV),
+        rail_v: round(s.railV),
+        short_db: round(s.shortDb),
+      })),
+    },
     ways: a.ways.map((wa) => wayJson(a, wa)),
     system: sumJson(a),
   };

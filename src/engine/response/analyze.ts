@@ -5,7 +5,8 @@ import { BOX_KINDS } from '../box/index.ts';
 import type { BoxFigure, BoxProbe } from '../box/physics.ts';
 import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
 import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
-import { fmt, warning, type Issue } from '../issues.ts';
+import { error, fmt, warning, type Issue } from '../issues.ts';
+import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
 import { offsetDelay, passbandPressure, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import type { Analysis, Curves, Figures, MaxSplLimit, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
@@ -494,6 +495,22 @@ function analyzeSum(
   };
 }
 
+/** The planned level with the programme stand-in, and what the amplifier cannot give of it. */
+function plannedProgramme(system: SpeakerSystem): Analysis['programme'] {
+  const voltsRms = programmeVoltsRms(system);
+  return { voltsRms, leqCPerVoltDb: programmeLeqCPerVolt(system), shortfalls: amplifierShortfalls(system, voltsRms) };
+}
+
+function shortfallError(system: SpeakerSystem, s: AmplifierShortfall): Issue {
+  const several = system.ways.filter((w) => w.kind === 'driver').length > 1;
+  const lv = system.listening.level;
+  const level = lv.mode === 'spl' ? `${fmt(lv.splDb)} dB(C) at the seat` : `${fmt(lv.voltsFs)} V at full scale`;
+  return error(
+    'listening.level',
+    `the planned level (${level}, with the programme stand-in) needs ${fmt(s.needV)} V peaks from the amplifier${several ? ` on the ${s.way} way` : ''}; it gives ${fmt(s.railV)} V: ${fmt(s.shortDb)} dB (${fmt(s.needV - s.railV)} V) short, so it clips on every loud passage`,
+  );
+}
+
 export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): Analysis {
   const driveV = options.driveV ?? SENSITIVITY_VOLTS;
   const driverWays = system.ways.filter((w): w is DriverWay => w.kind === 'driver');
@@ -504,12 +521,14 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const placed = placeWays(system, freqHz, driveV);
   const ways = driverWays.map((way) => analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned));
   const first = ways[0];
+  const programme = plannedProgramme(system);
   return {
     ...first,
     system,
     driveV,
     ways,
     sum: analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned),
-    warnings: ways.flatMap((w) => w.warnings),
+    programme,
+    warnings: [...programme.shortfalls.map((s) => shortfallError(system, s)), ...ways.flatMap((w) => w.warnings)],
   };
 }

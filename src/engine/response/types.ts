@@ -1,6 +1,7 @@
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
 import type { BoxFigure } from '../box/physics.ts';
+import type { AmplifierShortfall } from '../level/programme.ts';
 
 /** What sets a way's highest sine level at a frequency (analyze.ts `maxSine`). */
 export type MaxSplLimit = 'excursion' | 'port' | 'radiator' | 'amplifier' | 'thermal';
@@ -142,6 +143,11 @@ export interface SumAnalysis {
  */
 export interface Analysis extends WayAnalysis {
   system: SpeakerSystem;
+  /**
+   * The planned level with the programme stand-in (level/programme.ts): its channel volts rms, its
+   * Leq,C at the seat per volt, and each way whose amplifier channel cannot give its peaks.
+   */
+  programme: { voltsRms: number; leqCPerVoltDb: number; shortfalls: AmplifierShortfall[] };
   /** Analysis drive, V rms at the amplifier (default 2.83). */
   driveV: number;
   ways: WayAnalysis[];
