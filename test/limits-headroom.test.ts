@@ -5,7 +5,7 @@
 // independently of the meter: a DFT of the last second of the steady-state output, harmonics 2..15
 // over the fundamental.
 import { describe, expect, it } from 'vitest';
-import { findHeadroom, renderBuffer } from '../src/engine/render/index.ts';
+import { CLIP_WARNING_FRACTION, findHeadroom, renderBuffer, renderWarnings } from '../src/engine/render/index.ts';
 import { exampleSystem } from './helpers/audio-bench.ts';
 
 const fs = 48000;
@@ -71,5 +71,23 @@ describe('headroom: distortion apart from compression', () => {
     };
     const at10 = onset((v) => thd(v) > 0.1, 2, 40);
     expect(Math.abs(db(h.clean_volts, at10))).toBeLessThan(1);
+  });
+
+  it('a render that clips on more than 1 % of the track is warned about; the fraction is the sine’s own', () => {
+    const sys = exampleSystem('vented');
+    const x = tone(40, 2);
+    const quiet = renderBuffer(sys, [x], fs, { voltsFs: 30, analysisOnly: true }).summary;
+    expect(quiet.amp_clip_s).toBe(0);
+    expect(renderWarnings(quiet)).toEqual([]);
+    const loud = renderBuffer(sys, [x], fs, { voltsFs: 60, analysisOnly: true }).summary;
+    // A sine of peak A over a rail R spends 1 − (2/π)·asin(R/A) of its time above it (the fade-in's
+    // 0.1 s spends less: the bound brackets the measured fraction). Rail: sqrt(2·100·8) = 40 V.
+    const steady = 1 - (2 / Math.PI) * Math.asin(40 / 60);
+    const fraction = loud.amp_clip_s / loud.duration_s;
+    expect(fraction).toBeGreaterThan(steady * 0.9);
+    expect(fraction).toBeLessThan(steady * 1.02);
+    expect(fraction).toBeGreaterThan(CLIP_WARNING_FRACTION);
+    const [w] = renderWarnings(loud);
+    expect(w).toContain(`${Number((100 * fraction).toFixed(2))}% of the track`);
   });
 });

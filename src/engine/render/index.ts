@@ -230,6 +230,21 @@ export function renderBuffer(
   return { audio, linear, residual, summary, traces: r.traces() };
 }
 
+/** A render that clips its amplifier for more than this fraction of the track is warned about. */
+export const CLIP_WARNING_FRACTION = 0.01;
+
+/** Warnings a render's summary calls for: each way whose amplifier clipped on more than CLIP_WARNING_FRACTION of it. */
+export function renderWarnings(s: RenderSummary): string[] {
+  if (!(s.duration_s > 0)) return [];
+  const several = s.ways.length > 1;
+  return s.ways
+    .filter((w) => w.amp_clip_s / s.duration_s > CLIP_WARNING_FRACTION)
+    .map(
+      (w) =>
+        `the amplifier clips${several ? ` on the ${w.name} way` : ''} for ${Number(((100 * w.amp_clip_s) / s.duration_s).toFixed(2))}% of the track (over ${100 * CLIP_WARNING_FRACTION}%): the level asks more than it can give`,
+    );
+}
+
 export interface Headroom {
   clean_volts: number;
   clean_spl_db: number;
