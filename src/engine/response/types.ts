@@ -65,7 +65,10 @@ export interface Figures {
   box: BoxFigure[];
   /** Small's reference efficiency (half space) of the way's drivers together, percent. */
   eta0Pct: number;
-  /** Passband SPL of the way's drivers in their box for 2.83 V at 1 m in the design's own space (no filter; series resistance included). */
+  /**
+   * Passband SPL of the way's drivers in their box for 2.83 V at 1 m in the design's own space (no
+   * filter; series resistance included; without the baffle step, which the curves at the seat include).
+   */
   sensitivityDb: number;
   /** Passband SPL at the seat for the analysis drive, through the filter's gain. */
   passbandSplDb: number;
@@ -121,7 +124,7 @@ export interface SumFigures {
   f3Hz: number;
   f6Hz: number;
   f10Hz: number;
-  /** Passband SPL of the sum for 2.83 V at 1 m in the design's own space. */
+  /** Passband SPL of the sum for 2.83 V at 1 m in the design's own space, without the baffle step. */
   sensitivityDb: number;
   /** Passband SPL of the sum at the seat for the analysis drive. */
   passbandSplDb: number;
