@@ -84,4 +84,16 @@ describe('the programme stand-in', () => {
     expect(errors[0].message).toContain(`${Number(s.shortDb.toPrecision(4))} dB`);
     expect(errors[0].message).toContain('40 V');
   });
+
+  it('is the planned level every figure quotes: the analysis drives its sine figures with its volts', () => {
+    const sys = exampleSystem('sealed');
+    const a = analyze(sys);
+    expect(a.figures.plannedVoltsRms).toBeCloseTo(programmeVoltsRms(sys), 9);
+    // The example plans 85 dB(C) at the seat (public/examples/living-room-sealed.json).
+    expect(a.figures.plannedSplDb).toBeCloseTo(85, 6);
+    expect(a.sum.figures.plannedSplDb).toBeCloseTo(85, 6);
+    // The planned excursion curve is the 2.83 V curve scaled to that drive.
+    const k = 40;
+    expect(a.curves.plannedExcursionMm[k] / a.curves.excursionMm[k]).toBeCloseTo(programmeVoltsRms(sys) / 2.83, 9);
+  });
 });

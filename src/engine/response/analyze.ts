@@ -102,11 +102,13 @@ export function sumPassbandPerVolt(system: SpeakerSystem, distance = system.list
   return levels[(levels.length - 1) / 2];
 }
 
-/** Amplifier volts (rms) for the planned level: SPL of the sum's passband at the seat, or volts at full scale. */
-export function plannedVoltsRms(system: SpeakerSystem, sumPerVolt = sumPassbandPerVolt(system)): number {
-  const level = system.listening.level;
-  if (level.mode === 'volts') return level.voltsFs / Math.SQRT2;
-  return 10 ** ((level.splDb - splDb(sumPerVolt)) / 20);
+/**
+ * Amplifier volts (rms) for the planned level: the programme stand-in's (level/programme.ts), whose
+ * long-term C-weighted level at the seat is the planned SPL, or whose peaks reach the planned volts
+ * at full scale. The renders use the track's own Leq,C the same way.
+ */
+export function plannedVoltsRms(system: SpeakerSystem): number {
+  return programmeVoltsRms(system);
 }
 
 /**
@@ -413,7 +415,7 @@ function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>)
     out.push(
       warning(
         'listening.level',
-        `${who}a sine at the planned level (${fmt(figures.plannedVoltsRms)} V rms) moves the cone ${fmt(worstX)} mm at ${fmt(figures.plannedPeakExcursionHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
+        `${who}a sine at the planned level's drive (${fmt(figures.plannedVoltsRms)} V rms, the programme stand-in's) moves the cone ${fmt(worstX)} mm at ${fmt(figures.plannedPeakExcursionHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
       ),
     );
   }
@@ -496,8 +498,7 @@ function analyzeSum(
 }
 
 /** The planned level with the programme stand-in, and what the amplifier cannot give of it. */
-function plannedProgramme(system: SpeakerSystem): Analysis['programme'] {
-  const voltsRms = programmeVoltsRms(system);
+function plannedProgramme(system: SpeakerSystem, voltsRms: number): Analysis['programme'] {
   return { voltsRms, leqCPerVoltDb: programmeLeqCPerVolt(system), shortfalls: amplifierShortfalls(system, voltsRms) };
 }
 
@@ -517,17 +518,23 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const fMax = options.fMaxHz ?? (driverWays.length > 1 ? 20000 : 2000);
   const freqHz = logGrid(options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48);
   const sumPerVolt = sumPassbandPerVolt(system);
-  const planned = plannedVoltsRms(system, sumPerVolt);
+  const planned = plannedVoltsRms(system);
   const placed = placeWays(system, freqHz, driveV);
-  const ways = driverWays.map((way) => analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned));
+  const programme = plannedProgramme(system, planned);
+  // The planned level itself, as every figure quotes it: the stand-in's Leq,C at the seat.
+  const plannedLevelDb = programme.leqCPerVoltDb + 20 * Math.log10(planned);
+  const ways = driverWays.map((way) => {
+    const wa = analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned);
+    return { ...wa, figures: { ...wa.figures, plannedSplDb: plannedLevelDb } };
+  });
   const first = ways[0];
-  const programme = plannedProgramme(system);
+  const sum = analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned);
   return {
     ...first,
     system,
     driveV,
     ways,
-    sum: analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned),
+    sum: { ...sum, figures: { ...sum.figures, plannedSplDb: plannedLevelDb } },
     programme,
     warnings: [...programme.shortfalls.map((s) => shortfallError(system, s)), ...ways.flatMap((w) => w.warnings)],
   };

@@ -85,9 +85,9 @@ export interface Figures {
   /** Minimum impedance above the first resonance, ohm. */
   zMinOhm: number;
   zMinHz: number;
-  /** Amplifier volts (rms) for the planned level: the system's (one drive for every way). */
+  /** Amplifier volts (rms) for the planned level: the programme stand-in's, the system's (one drive for every way). */
   plannedVoltsRms: number;
-  /** The way's passband SPL at the seat at the planned drive. */
+  /** The planned level at the seat: the programme stand-in's long-term Leq,C, both speakers (level/programme.ts). */
   plannedSplDb: number;
   /** SPL at the seat at 30/40/50 Hz for the analysis drive. */
   spl30Db: number;
@@ -128,7 +128,7 @@ export interface SumFigures {
   sensitivityDb: number;
   /** Passband SPL of the sum at the seat for the analysis drive. */
   passbandSplDb: number;
-  /** Amplifier volts (rms) for the planned level. */
+  /** Amplifier volts (rms) for the planned level (the programme stand-in's), and that level at the seat (its Leq,C). */
   plannedVoltsRms: number;
   plannedSplDb: number;
   groupDelay40Ms: number;
