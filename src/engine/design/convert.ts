@@ -128,6 +128,8 @@ function toDriver(d: DriverDoc, air: Air, path: string, issues: Issue[]): Driver
     kmsRelPerMm: d.kms_rel_per_mm ?? [],
     leRelPerMm: d.le_rel_per_mm ?? [],
     nonlinearFitted: d.bl_rel_per_mm === undefined && d.kms_rel_per_mm === undefined,
+    ...(d.bl_offset_mm ? { blOffset: d.bl_offset_mm / 1000 } : {}),
+    ...(d.kms_asymmetry ? { kmsAsymmetry: d.kms_asymmetry } : {}),
     thermal: {
       rtv: d.rtv_k_per_w ?? estimate.rtv,
       ctv: d.ctv_j_per_k ?? estimate.ctv,
