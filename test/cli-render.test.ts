@@ -8,6 +8,8 @@ import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } fro
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import wavefile from 'wavefile';
+import { parseDesign } from '../src/engine/design/validate.ts';
+import { passbandPaPerV } from '../src/engine/level/calibration.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'preheard-render-'));
 const VENTED = 'public/examples/living-room-vented.json';
@@ -151,5 +153,18 @@ describe('preheard headroom and compare', () => {
     }
     expect(j.b.f3_hz).toBeLessThan(j.a.f3_hz);
     expect(existsSync(`${prefix}-a.wav`) && existsSync(`${prefix}-b.wav`)).toBe(true);
+    // The bench's level policy (src/audio/levels.ts), worked out here from the two summaries: each
+    // passband at full scale is passbandPaPerV·volts; the louder one sets -6 dBFS, matching brings
+    // both to the quieter one's.
+    const pass = (side: typeof j.a, design: string) => {
+      const r = parseDesign(JSON.parse(readFileSync(design, 'utf8')));
+      if (!r.ok) throw new Error('example invalid');
+      return passbandPaPerV(r.system) * side.volts_fs;
+    };
+    const pa = pass(j.a, SEALED),
+      pb = pass(j.b, VENTED);
+    expect(pa / j.a.pa_per_fs).toBeCloseTo(Math.min(pa, pb) / (2 * Math.max(pa, pb)), 4);
+    expect(pb / j.b.pa_per_fs).toBeCloseTo(Math.min(pa, pb) / (2 * Math.max(pa, pb)), 4);
+    expect(j.match_db).toBeCloseTo(20 * Math.log10(j.a.pa_per_fs / j.b.pa_per_fs), 1);
   });
 });

@@ -42,6 +42,18 @@ function demoVerdict(): string[] {
 afterEach(() => cleanup());
 
 describe('Client sheet', () => {
+  it('says so when a planned level is beyond the amplifier, with the shortfall the analysis found', () => {
+    const { store } = mount('sheet');
+    act(() => store.dispatch({ type: 'edit', slot: 'b', path: 'listening.level.spl_db', value: 110 }));
+    const paper = screen.getByTestId('client-sheet');
+    const note = within(paper).getByTestId('sheet-unreachable').textContent ?? '';
+    expect(note).toMatch(/^Design B's planned level is beyond the amplifier: needs [\d.]+ V peaks, it gives 40\.0 V \([\d.]+ dB short\)/);
+    expect(note).not.toMatch(/Design A/);
+    expect(within(paper).getByTestId('sheet-params').textContent).toMatch(
+      /110 dB\(C\) long-term average at the seat — beyond the amplifier/,
+    );
+  });
+
   it('shows only the verdict the engine computed, says headroom was not measured, and carries every caution and the date', () => {
     mount('sheet');
     const paper = screen.getByTestId('client-sheet');

@@ -6,62 +6,22 @@
 //  - the monitor gain decides how loud the user listens on their own headphones or speakers. It starts
 //    low and going above a threshold needs an explicit confirmation (hearing caution).
 // "Match levels" scales the heard lanes so A and B have the same passband level, so the ear judges
-// bass and overload rather than loudness.
+// bass and overload rather than loudness: the policy lives in engine/level/matching.ts, shared
+// with the CLI's `compare`.
 import { P_REF } from '../engine/units.ts';
-import type { LaneId } from './lanes.ts';
-
-export interface LaneLevel {
-  /** Passband seat pressure per amplifier volt, Pa/V (the engine's renderer.passbandPaPerV). */
-  passbandPaPerV: number;
-  /** Amplifier peak volts for a full-scale sample (the planned level, resolved by the engine). */
-  voltsFs: number;
-}
 
 /** Field-quantity decibels: 20·log10 of an amplitude ratio. */
 export const dbToGain = (db: number): number => Math.pow(10, db / 20);
 export const gainToDb = (g: number): number => 20 * Math.log10(g);
 
-/** Seat pressure of a full-scale input in the passband, Pa: what the design makes of the planned level. */
-export function passbandPa(l: LaneLevel): number {
-  if (!(l.passbandPaPerV > 0) || !Number.isFinite(l.passbandPaPerV))
-    throw new RangeError(`passbandPaPerV must be a positive number, got ${l.passbandPaPerV}`);
-  if (!(l.voltsFs > 0) || !Number.isFinite(l.voltsFs)) throw new RangeError(`voltsFs must be a positive number, got ${l.voltsFs}`);
-  return l.passbandPaPerV * l.voltsFs;
-}
-
-/**
- * The one calibration both designs are heard through (Pa per full-scale output sample): the louder
- * design's full-scale passband lands at -6 dBFS, as the engine does for a single design, leaving
- * room for bass boost and overshoot before its true-peak guard acts.
- */
-export function commonPaPerFs(a: LaneLevel, b: LaneLevel): number {
-  return 2 * Math.max(passbandPa(a), passbandPa(b));
-}
-
-export interface LaneGains {
-  /** Linear gains applied to each lane after rendering (1 = as calibrated). */
-  gains: Record<LaneId, number>;
-  /** Passband pressure the flat reference plays at, Pa per full-scale input. */
-  referencePa: number;
-}
-
-/**
- * Gains that put A, B and the reference at one passband level when `match` is on: the quieter
- * design's level (so nothing is raised towards full scale). With `match` off, A and B play as their
- * planned levels make them and the reference follows A.
- */
-export function laneGains(a: LaneLevel, b: LaneLevel, match: boolean): LaneGains {
-  const pa = passbandPa(a);
-  const pb = passbandPa(b);
-  if (!match) return { gains: { a: 1, b: 1, ref: 1 }, referencePa: pa };
-  const target = Math.min(pa, pb);
-  return { gains: { a: target / pa, b: target / pb, ref: 1 }, referencePa: target };
-}
-
-/** How much louder A's passband is than B's at their planned levels, dB. */
-export function passbandDifferenceDb(a: LaneLevel, b: LaneLevel): number {
-  return gainToDb(passbandPa(a) / passbandPa(b));
-}
+export {
+  commonPaPerFs,
+  type LaneGains,
+  type LaneLevel,
+  laneGains,
+  passbandDifferenceDb,
+  passbandPa,
+} from '../engine/level/matching.ts';
 
 // Monitor gain (how loud the user listens), dB relative to the calibrated output.
 /** Where the monitor starts on every visit: low. */

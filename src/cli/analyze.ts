@@ -139,6 +139,18 @@ export function analysisJson(a: Analysis) {
     name: a.system.name,
     ...first,
     warnings: a.warnings.map((w) => ({ path: w.path, message: w.message })),
+    // The planned level against the amplifier (its errors are also in `warnings`, marked there).
+    errors: a.warnings.filter((w) => w.severity === 'error').map((w) => ({ path: w.path, message: w.message })),
+    planned_programme: {
+      volts_rms: round(a.programme.voltsRms),
+      leq_c_per_volt_db: round(a.programme.leqCPerVoltDb),
+      amplifier_shortfalls: a.programme.shortfalls.map((s) => ({
+        way: s.way,
+        need_v: round(s.needV),
+        rail_v: round(s.railV),
+        short_db: round(s.shortDb),
+      })),
+    },
     ways: a.ways.map((wa) => wayJson(a, wa)),
     system: sumJson(a),
     ...(a.room ? { room: roomJson(a.room) } : {}),
@@ -167,7 +179,7 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
   rows.push(
     ['f3 / f6 / f10', `${j.f3_hz} / ${j.f6_hz} / ${j.f10_hz} Hz`],
     ['eta0', `${j.driver.eta0_pct} %`],
-    ['sensitivity', `${j.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space)`],
+    ['sensitivity', `${j.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space, without the baffle step)`],
     [
       `at ${j.drive_v} V, ${a.system.listening.distance} m`,
       `passband ${j.passband_spl_db} dB` + (bass ? `; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB` : ''),
@@ -192,7 +204,7 @@ function table(a: Analysis): string {
       title: 'system (all ways summed at the seat)',
       rows: [
         ['f3 / f6 / f10', `${s.f3_hz} / ${s.f6_hz} / ${s.f10_hz} Hz`],
-        ['sensitivity', `${s.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space)`],
+        ['sensitivity', `${s.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space, without the baffle step)`],
         [`at ${j.drive_v} V, ${a.system.listening.distance} m`, `passband ${s.passband_spl_db} dB`],
         ['group delay at 40 Hz', `${s.group_delay_40_ms} ms`],
         ['planned level', `${s.planned_volts_rms} V rms`],

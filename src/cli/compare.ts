@@ -4,6 +4,7 @@ import { analyze } from '../engine/response/analyze.ts';
 import { Worker } from 'node:worker_threads';
 import { passbandPaPerV, resolveVolts, type Headroom, type RenderSummary } from '../engine/render/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
+import { commonPaPerFs, laneGains } from '../engine/level/matching.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
@@ -15,13 +16,14 @@ import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
 
 Renders the track through both designs with one calibration and writes <prefix>-a.wav and
-<prefix>-b.wav. By default B's output is scaled so both passbands play equally loud, so the ear
-judges bass and overload rather than loudness. Prints what differs: f3, bass at 30/40/50 Hz,
+<prefix>-b.wav. Levels follow the listening bench's policy: the louder design's full-scale
+passband lands at -6 dBFS, and by default the louder design is brought down to the quieter one's
+passband, so the ear judges bass and overload rather than loudness. Prints what differs: f3, bass at 30/40/50 Hz,
 the first limit and when, stress events per design and each design's headroom on this track.
 ${INPUT_HELP}
 
 ${LEVEL_HELP}
-  --no-match  keep B at its own level (same calibration factor as A)
+  --no-match  keep each design at its own level (one calibration factor for both)
   --json      one object: {a, b, match_db}, a and b in the form of render --json plus figures
   --help      this text
 
@@ -136,12 +138,16 @@ export const compareCommand: Command = {
           vb = lb.volts;
         checkVolts(va, A.system);
         checkVolts(vb, B.system);
-        const passA = passbandPaPerV(A.system) * va;
-        const passB = passbandPaPerV(B.system) * vb;
-        // One calibration: A's default; matching scales B so the passbands come out equal.
-        const paA = 2 * passA;
-        const paB = values['no-match'] ? paA : paA * (passB / passA);
-        matchDb = r2(20 * Math.log10(paA / paB));
+        // The bench's policy (engine/level/matching.ts): one calibration, the louder passband at
+        // -6 dBFS; matching brings the louder design down to the quieter one's passband.
+        const laneA = { passbandPaPerV: passbandPaPerV(A.system), voltsFs: va };
+        const laneB = { passbandPaPerV: passbandPaPerV(B.system), voltsFs: vb };
+        const common = commonPaPerFs(laneA, laneB);
+        const { gains } = laneGains(laneA, laneB, !values['no-match']);
+        // A lane's gain g plays its output g times louder: the same as a calibration of common/g.
+        const paA = common / gains.a;
+        const paB = common / gains.b;
+        matchDb = r2(20 * Math.log10(gains.b / gains.a));
         const long = channels[0].length > sampleRate * 30;
         // B in a worker thread on the other core while A runs here.
         const sideB = sideInWorker(bPath, channels, sampleRate, { voltsFs: vb, paPerFs: paB, leqPerVoltDb: lb.leqPerVoltDb });
@@ -197,7 +203,7 @@ export const compareCommand: Command = {
       out += row('stress events', counts(a), counts(b));
       out += row('headroom (clean to)', `${a.headroom.clean_spl_db} dB(C)`, `${b.headroom.clean_spl_db} dB(C)`);
       out += row('limit above that', a.headroom.first_limit ?? 'none', b.headroom.first_limit ?? 'none');
-      out += `\nlevels ${values['no-match'] ? 'not matched' : `matched: B played ${matchDb >= 0 ? '+' : ''}${matchDb} dB`}; wrote ${values.output}-a.wav and ${values.output}-b.wav\n`;
+      out += `\nlevels ${values['no-match'] ? 'not matched' : `matched: B played ${matchDb >= 0 ? '+' : ''}${matchDb} dB against A`}; wrote ${values.output}-a.wav and ${values.output}-b.wav\n`;
       process.stdout.write(out);
       return EXIT_OK;
     }),

@@ -8,8 +8,9 @@ import { INPUT_HELP, progressCounter, readInputAudio } from './render-common.ts'
 const HELP = `usage: preheard headroom <design.json> <in.wav> [--json]
 
 Finds the highest drive at which the design plays this track without any stress event in any
-way (excursion, end stop, coil temperature, port speed, amplifier clipping, compression) or in
-the sum (distortion), by bisection to 0.25 dB, and names the limit that arrives first above it
+way (excursion, end stop, coil temperature, port speed, amplifier clipping, the hot coil's
+compression) or in the sum (distortion over 10 %, the output's compression over 3 dB), by
+bisection to 0.25 dB, and names the limit that arrives first above it
 and the way it belongs to.
 ${INPUT_HELP}
 

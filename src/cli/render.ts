@@ -1,6 +1,6 @@
 // preheard render: a WAV file through a design's large-signal model, at a calibrated level.
 import { InputProblem } from '../engine/issues.ts';
-import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
+import { renderBuffer, renderWarnings, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
@@ -41,7 +41,8 @@ export function summaryLines(s: RenderSummary): string[] {
   lines.push(
     `peak coil temp     ${s.peak_coil_temp_c} °C`,
     `amplifier clipping ${s.amp_clip_s} s`,
-    `max compression    ${s.max_compression_db} dB`,
+    `max compression    ${s.max_compression_db} dB (hot coil); ${s.output_compression_db} dB at the output (port, suspension)`,
+    `max distortion     ${s.output_distortion_db === null ? 'not judged (too quiet)' : `${s.output_distortion_db} dB against the output`}`,
     `true-peak guard    ${s.limiter_db > 0 ? `${s.limiter_db} dB of gain reduction` : 'did not act'}`,
     `realtime factor    ${s.realtime_factor}x`,
   );
@@ -68,6 +69,7 @@ export function summaryLines(s: RenderSummary): string[] {
     );
   }
   if (s.events.length > 12) lines.push(`  ... ${s.events.length - 12} more (use --events FILE or --json)`);
+  for (const w of renderWarnings(s)) lines.push(`warning: ${w}`);
   return lines;
 }
 
@@ -120,7 +122,7 @@ export const renderCommand: Command = {
       await writeWav(outputs.staging(values.output), result.audio, audio.sampleRate, format);
       if (values.events) await writeTextAtomic(outputs.staging(values.events), `${JSON.stringify(result.summary.events, null, 2)}\n`);
       outputs.commit();
-      if (values.json) process.stdout.write(`${JSON.stringify(result.summary)}\n`);
+      if (values.json) process.stdout.write(`${JSON.stringify({ ...result.summary, warnings: renderWarnings(result.summary) })}\n`);
       else process.stdout.write(`${summaryLines(result.summary).join('\n')}\n`);
       return EXIT_OK;
     }),

@@ -65,6 +65,9 @@ export interface Driver {
   leRelPerMm: number[];
   /** True where the polynomial was fitted from xmax/xlim rather than typed. */
   nonlinearFitted: boolean;
+  /** Even-order asymmetry of the fitted shapes (0 = symmetric): where Bl peaks, m; Kms(+Xmax) vs Kms(-Xmax). */
+  blOffset?: number;
+  kmsAsymmetry?: number;
   thermal: ThermalParams;
 }
 

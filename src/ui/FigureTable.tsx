@@ -35,7 +35,7 @@ interface FigureRow {
 const SYSTEM_ROWS: FigureRow[] = [
   { id: 'f3', label: 'f3 (−3 dB)', unit: 'Hz', value: (c) => c.system.f3Hz },
   { id: 'f10', label: 'f10 (−10 dB)', unit: 'Hz', value: (c) => c.system.f10Hz },
-  { id: 'sens', label: 'Sensitivity, 2.83 V at 1 m', unit: 'dB', value: (c) => c.system.sensitivityDb },
+  { id: 'sens', label: 'Sensitivity, 2.83 V at 1 m, no baffle step', unit: 'dB', value: (c) => c.system.sensitivityDb },
   { id: 'volts', label: 'Drive for the planned level', unit: 'V rms', value: (c) => c.analysis.figures.plannedVoltsRms },
 ];
 

@@ -6,6 +6,7 @@
 import type { Analysis, Curves, Figures } from '../engine/response/types.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { firstDriverIndex } from './ways.ts';
+import type { AmplifierShortfall } from '../engine/level/programme.ts';
 
 /** One way's curves on the analysis grid (driver-only curves are absent for a flat way). */
 export interface WayCurvesView {
@@ -133,4 +134,9 @@ export function sumOf(a: Analysis): SumView {
 /** True when the analysis reports the system sum apart from the first driver way. */
 export function hasSum(a: Analysis): boolean {
   return sumRaw(a) !== null;
+}
+
+/** The way whose amplifier channel falls furthest short of the planned level's programme peaks, or null. */
+export function worstShortfall(an: Analysis | null): AmplifierShortfall | null {
+  return an?.programme.shortfalls.reduce<AmplifierShortfall | null>((a, b) => (a && a.shortDb >= b.shortDb ? a : b), null) ?? null;
 }

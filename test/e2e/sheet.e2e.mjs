@@ -177,8 +177,8 @@ export const tests = [
         'coil-temperature': 'coil heat',
         'port-speed': 'port air speed',
         'amplifier-clip': 'amplifier power',
-        compression: 'power compression',
-        distortion: 'distortion',
+        compression: 'compression',
+        distortion: 'distortion (10 %)',
       };
       for (const [i, s] of ['a', 'b'].entries()) {
         const ref = cli[i];

@@ -25,6 +25,11 @@ export const DEFAULT_COIL_MAX_C = 150;
  * Thermal estimates when the datasheet gives none (estimates, not measurements): the rated power
  * held continuously brings the coil to its rating, split 60:40 coil-to-magnet : magnet-to-air;
  * time constants 10 s (coil) and 25 min (magnet), inside the typical ranges of Henricksen (1987).
+ * The resistances come out below the typical 2-4 K/W (coil) and 1-3 K/W (magnet) of small woofers
+ * (REFERENCES, from memory) on purpose: the model has no convective cooling from cone motion, which
+ * is what lets a real driver survive its rating, so typical values would put the model's coil past
+ * its limit at a third to a half of the driver's own rating. Tied to the rating, the coil event fires
+ * where the datasheet says the driver stops being safe. A designer who knows the network enters it.
  */
 export function estimateThermal(peW: number, coilMaxC: number, ambientC: number): Omit<ThermalParams, 'alphaR' | 'material' | 'coilMaxC'> {
   const total = Math.max(coilMaxC - ambientC, 10) / peW;
@@ -124,6 +129,8 @@ function toDriver(d: DriverDoc, air: Air, path: string, issues: Issue[]): Driver
     kmsRelPerMm: d.kms_rel_per_mm ?? [],
     leRelPerMm: d.le_rel_per_mm ?? [],
     nonlinearFitted: d.bl_rel_per_mm === undefined && d.kms_rel_per_mm === undefined,
+    ...(d.bl_offset_mm ? { blOffset: d.bl_offset_mm / 1000 } : {}),
+    ...(d.kms_asymmetry ? { kmsAsymmetry: d.kms_asymmetry } : {}),
     thermal: {
       rtv: d.rtv_k_per_w ?? estimate.rtv,
       ctv: d.ctv_j_per_k ?? estimate.ctv,

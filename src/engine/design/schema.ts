@@ -48,6 +48,8 @@ export const driverSchema = v.strictObject({
   bl_rel_per_mm: v.optional(coefficients),
   kms_rel_per_mm: v.optional(coefficients),
   le_rel_per_mm: v.optional(coefficients),
+  bl_offset_mm: v.optional(num(-50, 50, 'mm')),
+  kms_asymmetry: v.optional(num(-0.9, 0.9)),
   rtv_k_per_w: v.optional(num(0.01, 100, 'K/W')),
   ctv_j_per_k: v.optional(num(0.01, 10000, 'J/K')),
   rtm_k_per_w: v.optional(num(0.01, 100, 'K/W')),

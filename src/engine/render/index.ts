@@ -70,6 +70,10 @@ export interface RenderSummary {
   amp_clip_s: number;
   max_compression_db: number;
   limiter_db: number;
+  /** The summed output's largest compression: the part of the residual coherent with the linear output, dB. */
+  output_compression_db: number;
+  /** The summed output's largest distortion: the rest of the residual against the output, dB (null: never judged). */
+  output_distortion_db: number | null;
   events: StressEvent[];
   realtime_factor: number;
   ways: WaySummary[];
@@ -235,11 +239,28 @@ export function renderBuffer(
     pa_per_fs: Number(r.paPerFs.toPrecision(6)),
     ...bass,
     limiter_db: r3(st.limiterDb),
+    output_compression_db: r3(st.outputCompressionDb),
+    output_distortion_db: Number.isFinite(st.outputDistortionDb) ? Number(st.outputDistortionDb.toFixed(2)) : null,
     events: r.events.list(1 / sampleRate),
     realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
     ways,
   };
   return { audio, linear, residual, summary, traces: r.traces() };
+}
+
+/** A render that clips its amplifier for more than this fraction of the track is warned about. */
+export const CLIP_WARNING_FRACTION = 0.01;
+
+/** Warnings a render's summary calls for: each way whose amplifier clipped on more than CLIP_WARNING_FRACTION of it. */
+export function renderWarnings(s: RenderSummary): string[] {
+  if (!(s.duration_s > 0)) return [];
+  const several = s.ways.length > 1;
+  return s.ways
+    .filter((w) => w.amp_clip_s / s.duration_s > CLIP_WARNING_FRACTION)
+    .map(
+      (w) =>
+        `the amplifier clips${several ? ` on the ${w.name} way` : ''} for ${Number(((100 * w.amp_clip_s) / s.duration_s).toFixed(2))}% of the track (over ${100 * CLIP_WARNING_FRACTION}%): the level asks more than it can give`,
+    );
 }
 
 export interface Headroom {

@@ -51,6 +51,10 @@ export interface RenderStats {
   ampClipFrames: number;
   maxCompressionDb: number;
   limiterDb: number;
+  /** The summed output's largest coherent compression, dB (level/distortion.ts). */
+  outputCompressionDb: number;
+  /** The summed output's largest distortion (incoherent residual over output), dB. */
+  outputDistortionDb: number;
   ways: WayStats[];
 }
 
@@ -261,7 +265,7 @@ export class Renderer {
     // 3. Stress; times refer to the input (the driver ways run `STAGE_DELAY` frames late).
     const t0 = (this.frames - STAGE_DELAY) / this.sampleRate,
       dt = 1 / this.sampleRate;
-    this.distortion.measure(outN, outR, n, t0, dt, this.events);
+    this.distortion.measure(outN, outL, outR, n, t0, dt, this.events);
     for (let w = 0; w < this.drivers.length; w++) this.stress[w].measure(this.drivers[w].lanes, n, t0, dt, this.events);
     this.recorder.advance(n, this.stress, this.distortion);
     // The room changes what the listener hears, not what the drivers do: after the stress meters.
@@ -284,6 +288,8 @@ export class Renderer {
       ampClipFrames: first.ampClipFrames,
       maxCompressionDb: first.maxCompressionDb,
       limiterDb: this.limiterDb,
+      outputCompressionDb: this.distortion.maxCompressionDb,
+      outputDistortionDb: this.distortion.maxRatio > 0 ? 10 * Math.log10(this.distortion.maxRatio) : -Infinity,
       ways,
     };
   }

@@ -27,6 +27,11 @@ export const DISTORTION_WINDOW_S = 0.05;
 export const DISTORTION_FLOOR_PA = 0.002;
 /** Compression event threshold, dB below the cold-coil output. */
 export const COMPRESSION_LIMIT_DB = 1;
+/**
+ * The output's own compression event (the coherent part of the residual: port, suspension and
+ * motor losses at the fundamental), dB below the linear output.
+ */
+export const OUTPUT_COMPRESSION_LIMIT_DB = 3;
 /** |x| at this fraction of Xlim counts as reaching the end stop. */
 export const XLIM_FRACTION = 0.98;
 
@@ -195,35 +200,56 @@ export function emptyWayStats(name: string, outlet: Outlet): WayStats {
 }
 
 /**
- * Distortion of the summed output: the residual's sliding energy against the output's, per metered
- * channel; the worst channel per frame counts.
+ * Distortion and compression of the summed output, per metered channel (the worst channel per
+ * frame counts): the residual split into its part coherent with the linear output (a level and
+ * phase change, reported as compression) and the rest (distortion), over the same window
+ * (level/distortion.ts).
  */
 export class OutputDistortion {
   private meters: ResidualMeter[] = [];
   readonly ratio = new Float64Array(CHUNK);
+  /** dB by which the coherent part of the residual lowers the linear output, per frame. */
+  readonly loss = new Float64Array(CHUNK);
   /** Worst ratio since the trace recorder's last point. */
   traceRatio = 0;
+  /** Largest output compression so far, dB (the coherent part; the coil's heat is in the linear twin). */
+  maxCompressionDb = 0;
+  /** Largest distortion ratio so far (energy). */
+  maxRatio = 0;
   private readonly ratioLim = Math.pow(10, -DISTORTION_WITHIN_DB / 10);
 
   constructor(private readonly sampleRate: number) {}
 
   /** Fresh meters for `count` channels. */
   setChannels(count: number, events: EventLog): void {
+    this.maxCompressionDb = this.maxRatio = 0;
     this.meters = Array.from({ length: count }, () => new ResidualMeter(this.sampleRate, DISTORTION_WINDOW_S));
     events.setLimit(OUTPUT_SOURCE, EV_DISTORTION, -DISTORTION_WITHIN_DB);
+    events.setLimit(OUTPUT_SOURCE, EV_COMPRESSION, OUTPUT_COMPRESSION_LIMIT_DB);
   }
 
-  measure(out: Float64Array[], residual: Float64Array[], n: number, t0: number, dt: number, ev: EventLog): void {
+  measure(out: Float64Array[], linear: Float64Array[], residual: Float64Array[], n: number, t0: number, dt: number, ev: EventLog): void {
     const floor2 = DISTORTION_FLOOR_PA * DISTORTION_FLOOR_PA;
-    const ratio = this.ratio;
+    const ratio = this.ratio,
+      loss = this.loss;
     ratio.fill(0, 0, n);
-    for (let c = 0; c < this.meters.length; c++) this.meters[c].processBlock(out[c], residual[c], n, floor2, ratio);
-    let peakR = 0;
-    for (let k = 0; k < n; k++) if (ratio[k] > peakR) peakR = ratio[k];
+    loss.fill(0, 0, n);
+    for (let c = 0; c < this.meters.length; c++) this.meters[c].processBlock(out[c], linear[c], residual[c], n, floor2, ratio, loss);
+    let peakR = 0,
+      peakL = 0;
+    for (let k = 0; k < n; k++) {
+      if (ratio[k] > peakR) peakR = ratio[k];
+      if (loss[k] > peakL) peakL = loss[k];
+    }
     const ratioLim = this.ratioLim;
     if (peakR > ratioLim) {
       for (let k = 0; k < n; k++) if (ratio[k] > ratioLim) ev.mark(OUTPUT_SOURCE, EV_DISTORTION, t0 + k * dt, 10 * Math.log10(ratio[k]));
     }
+    if (peakL > OUTPUT_COMPRESSION_LIMIT_DB) {
+      for (let k = 0; k < n; k++) if (loss[k] > OUTPUT_COMPRESSION_LIMIT_DB) ev.mark(OUTPUT_SOURCE, EV_COMPRESSION, t0 + k * dt, loss[k]);
+    }
     if (peakR > this.traceRatio) this.traceRatio = peakR;
+    if (peakL > this.maxCompressionDb) this.maxCompressionDb = peakL;
+    if (peakR > this.maxRatio) this.maxRatio = peakR;
   }
 }

@@ -5,7 +5,8 @@ import { BOX_KINDS } from '../box/index.ts';
 import type { BoxFigure, BoxProbe } from '../box/physics.ts';
 import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
 import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
-import { fmt, warning, type Issue } from '../issues.ts';
+import { error, fmt, warning, type Issue } from '../issues.ts';
+import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
 import { offsetDelay, passbandPressure, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import type { Analysis, Curves, Figures, MaxSplLimit, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
@@ -102,11 +103,13 @@ export function sumPassbandPerVolt(system: SpeakerSystem, distance = system.list
   return levels[(levels.length - 1) / 2];
 }
 
-/** Amplifier volts (rms) for the planned level: SPL of the sum's passband at the seat, or volts at full scale. */
-export function plannedVoltsRms(system: SpeakerSystem, sumPerVolt = sumPassbandPerVolt(system)): number {
-  const level = system.listening.level;
-  if (level.mode === 'volts') return level.voltsFs / Math.SQRT2;
-  return 10 ** ((level.splDb - splDb(sumPerVolt)) / 20);
+/**
+ * Amplifier volts (rms) for the planned level: the programme stand-in's (level/programme.ts), whose
+ * long-term C-weighted level at the seat is the planned SPL, or whose peaks reach the planned volts
+ * at full scale. The renders use the track's own Leq,C the same way.
+ */
+export function plannedVoltsRms(system: SpeakerSystem): number {
+  return programmeVoltsRms(system);
 }
 
 /**
@@ -242,22 +245,57 @@ function outletStress(box: Box, outletFlow: Complex, w: number): { kind: BoxProb
   return { kind: probe.kind, value: Math.SQRT2 * quantity * probe.toUnit, limit: probe.limit };
 }
 
-/** The largest drive, V rms at the amplifier's input, before the way reaches a limit for a sine at f. */
-function maxVolts(system: SpeakerSystem, way: DriverWay, r: PointResponse, volts: number, f: number): { v: number; limit: MaxSplLimit } {
+/** The way with its coil `riseK` kelvin above ambient (Re(T) = Re0·(1 + alpha_R·ΔT), REFERENCES). */
+function hotWay(way: DriverWay, riseK: number): DriverWay {
+  if (riseK === 0) return way;
+  const d = way.driver;
+  return { ...way, driver: { ...d, re: d.re * (1 + d.thermal.alphaR * riseK) } };
+}
+
+/** Power in the coil's resistance, W, for a response at some drive (rms current). */
+const coilPower = (way: DriverWay, r: PointResponse) => abs(r.current) ** 2 * way.driver.re;
+
+/**
+ * The largest drive (V rms at the way's input) and the seat pressure there (Pa rms) for a sine at f
+ * before the way reaches a limit: cone Xmax, port air speed or radiator travel (the box kind's
+ * probe), the amplifier's rail, or the coil's rated temperature. Every limit is taken with the
+ * coil at its thermal equilibrium at that drive: steady state ΔT = P·(Rtv + Rtm) of the two-node
+ * network (REFERENCES, voice-coil heating), with P the power in the hot coil's resistance, found by
+ * fixed-point iteration (the hot coil draws less, so the iteration settles in a few steps).
+ */
+export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: number; pa: number; limit: MaxSplLimit } {
   const d = way.driver;
   const w = 2 * Math.PI * f;
-  const filterGain = abs(wayFilterAt(way.filter, w));
-  const candidates: { v: number; limit: MaxSplLimit }[] = [
-    { v: (volts * d.xmax) / (Math.SQRT2 * abs(r.excursion)), limit: 'excursion' },
-    // Thermal: the rated power dissipated in the coil's resistance.
-    { v: volts * Math.sqrt(d.pe / (abs(r.current) ** 2 * d.re)), limit: 'thermal' },
-    // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
-    { v: system.amplifier.vPeak / (Math.SQRT2 * filterGain), limit: 'amplifier' },
-  ];
-  // Radiator travel is a hard limit; port air speed is noise, not a limit of the level (as before).
-  const stress = outletStress(way.box, r.outletFlow, w);
-  if (stress?.kind === 'radiator') candidates.push({ v: (volts * stress.limit) / stress.value, limit: 'radiator' });
-  return candidates.reduce((a, b) => (b.v < a.v ? b : a));
+  const rth = d.thermal.rtv + d.thermal.rtm;
+  const riseMax = Math.max(d.thermal.coilMaxC - system.air.temperatureC, 0);
+  // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
+  const vAmp = system.amplifier.vPeak / (Math.SQRT2 * abs(wayFilterAt(way.filter, w)));
+  // Thermal: the drive that holds the coil at its rating, with the coil's resistance at the rating.
+  const atMax = hotWay(way, riseMax);
+  const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, respond(system, atMax, f, 1))));
+  let rise = 0;
+  let best = { v: vAmp, pa: 0, limit: 'amplifier' as MaxSplLimit };
+  for (let it = 0; it < 12; it++) {
+    const hot = hotWay(way, rise);
+    const r = respond(system, hot, f, 1);
+    best = { v: vAmp, pa: 0, limit: 'amplifier' };
+    const consider = (v: number, limit: MaxSplLimit) => {
+      if (v < best.v) best = { v, pa: 0, limit };
+    };
+    consider(d.xmax / (Math.SQRT2 * abs(r.excursion)), 'excursion');
+    const stress = outletStress(way.box, r.outletFlow, w);
+    if (stress) consider(stress.limit / stress.value, stress.kind === 'radiator' ? 'radiator' : 'port');
+    const riseHere = rth * coilPower(hot, r) * best.v * best.v;
+    if (riseHere >= riseMax || vThermal <= best.v) {
+      // The coil reaches its rating first: the drive that holds it there, with the hot coil's response.
+      const r2 = respond(system, atMax, f, 1);
+      return { v: vThermal, pa: abs(r2.pressure) * vThermal, limit: 'thermal' };
+    }
+    best.pa = abs(r.pressure) * best.v;
+    if (Math.abs(riseHere - rise) < 1e-3) break;
+    rise = riseHere;
+  }
+  return best;
 }
 
 function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz: Float64Array, driveV: number, planned: number): Curves {
@@ -302,8 +340,8 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
       curves.portAirSpeed[k] = stress.value;
       curves.plannedPortAirSpeed[k] = (stress.value * planned) / driveV;
     }
-    const lim = maxVolts(system, way, r, driveV, f);
-    curves.maxSplDb[k] = curves.splDb[k] + 20 * Math.log10(lim.v / driveV);
+    const lim = maxSine(system, way, f);
+    curves.maxSplDb[k] = splDb(lim.pa);
     curves.maxSplLimit[k] = lim.limit;
   }
   return curves;
@@ -378,7 +416,7 @@ function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>)
     out.push(
       warning(
         'listening.level',
-        `${who}a sine at the planned level (${fmt(figures.plannedVoltsRms)} V rms) moves the cone ${fmt(worstX)} mm at ${fmt(figures.plannedPeakExcursionHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
+        `${who}a sine at the planned level's drive (${fmt(figures.plannedVoltsRms)} V rms, the programme stand-in's) moves the cone ${fmt(worstX)} mm at ${fmt(figures.plannedPeakExcursionHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
       ),
     );
   }
@@ -460,15 +498,36 @@ function analyzeSum(
   };
 }
 
+/** The planned level with the programme stand-in, and what the amplifier cannot give of it. */
+function plannedProgramme(system: SpeakerSystem, voltsRms: number): Analysis['programme'] {
+  return { voltsRms, leqCPerVoltDb: programmeLeqCPerVolt(system), shortfalls: amplifierShortfalls(system, voltsRms) };
+}
+
+function shortfallError(system: SpeakerSystem, s: AmplifierShortfall): Issue {
+  const several = system.ways.filter((w) => w.kind === 'driver').length > 1;
+  const lv = system.listening.level;
+  const level = lv.mode === 'spl' ? `${fmt(lv.splDb)} dB(C) at the seat` : `${fmt(lv.voltsFs)} V at full scale`;
+  return error(
+    'listening.level',
+    `the planned level (${level}, with the programme stand-in) needs ${fmt(s.needV)} V peaks from the amplifier${several ? ` on the ${s.way} way` : ''}; it gives ${fmt(s.railV)} V: ${fmt(s.shortDb)} dB (${fmt(s.needV - s.railV)} V) short, so it clips on every loud passage`,
+  );
+}
+
 export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): Analysis {
   const driveV = options.driveV ?? SENSITIVITY_VOLTS;
   const driverWays = system.ways.filter((w): w is DriverWay => w.kind === 'driver');
   const fMax = options.fMaxHz ?? (driverWays.length > 1 ? 20000 : 2000);
   const freqHz = logGrid(options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48);
   const sumPerVolt = sumPassbandPerVolt(system);
-  const planned = plannedVoltsRms(system, sumPerVolt);
+  const planned = plannedVoltsRms(system);
   const placed = placeWays(system, freqHz, driveV);
-  const ways = driverWays.map((way) => analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned));
+  const programme = plannedProgramme(system, planned);
+  // The planned level itself, as every figure quotes it: the stand-in's Leq,C at the seat.
+  const plannedLevelDb = programme.leqCPerVoltDb + 20 * Math.log10(planned);
+  const ways = driverWays.map((way) => {
+    const wa = analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned);
+    return { ...wa, figures: { ...wa.figures, plannedSplDb: plannedLevelDb } };
+  });
   const first = ways[0];
   const sum = analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned);
   const room = roomAnalysis(system, freqHz, sum.curves.splDb);
@@ -477,8 +536,9 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
     system,
     driveV,
     ways,
-    sum,
+    sum: { ...sum, figures: { ...sum.figures, plannedSplDb: plannedLevelDb } },
     ...(room ? { room } : {}),
-    warnings: ways.flatMap((w) => w.warnings),
+    programme,
+    warnings: [...programme.shortfalls.map((s) => shortfallError(system, s)), ...ways.flatMap((w) => w.warnings)],
   };
 }

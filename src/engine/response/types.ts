@@ -2,8 +2,10 @@ import type { RoomAnalysis } from '../room/analysis.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
 import type { BoxFigure } from '../box/physics.ts';
+import type { AmplifierShortfall } from '../level/programme.ts';
 
-export type MaxSplLimit = 'excursion' | 'thermal' | 'amplifier' | 'radiator';
+/** What sets a way's highest sine level at a frequency (analyze.ts `maxSine`). */
+export type MaxSplLimit = 'excursion' | 'port' | 'radiator' | 'amplifier' | 'thermal';
 
 /**
  * Small-signal curves of one driver way on one log-spaced frequency grid; all arrays have
@@ -34,7 +36,11 @@ export interface Curves {
   portAirSpeed: Float64Array | null;
   /** Peak port air speed at the planned level, m/s (boxes with a port). */
   plannedPortAirSpeed: Float64Array | null;
-  /** Highest SPL of the way at the seat for a sine at each frequency, and what limits it. */
+  /**
+   * Highest SPL of the way at the seat for a sine at each frequency (a sine figure), and what limits
+   * it: Xmax, port air speed, radiator travel, the amplifier's rail, or the coil at its rated
+   * temperature; every limit with the coil at its thermal equilibrium at that drive (hot Re).
+   */
   maxSplDb: Float64Array;
   maxSplLimit: MaxSplLimit[];
 }
@@ -60,7 +66,10 @@ export interface Figures {
   box: BoxFigure[];
   /** Small's reference efficiency (half space) of the way's drivers together, percent. */
   eta0Pct: number;
-  /** Passband SPL of the way's drivers in their box for 2.83 V at 1 m in the design's own space (no filter; series resistance included). */
+  /**
+   * Passband SPL of the way's drivers in their box for 2.83 V at 1 m in the design's own space (no
+   * filter; series resistance included; without the baffle step, which the curves at the seat include).
+   */
   sensitivityDb: number;
   /** Passband SPL at the seat for the analysis drive, through the filter's gain. */
   passbandSplDb: number;
@@ -77,9 +86,9 @@ export interface Figures {
   /** Minimum impedance above the first resonance, ohm. */
   zMinOhm: number;
   zMinHz: number;
-  /** Amplifier volts (rms) for the planned level: the system's (one drive for every way). */
+  /** Amplifier volts (rms) for the planned level: the programme stand-in's, the system's (one drive for every way). */
   plannedVoltsRms: number;
-  /** The way's passband SPL at the seat at the planned drive. */
+  /** The planned level at the seat: the programme stand-in's long-term Leq,C, both speakers (level/programme.ts). */
   plannedSplDb: number;
   /** SPL at the seat at 30/40/50 Hz for the analysis drive. */
   spl30Db: number;
@@ -116,11 +125,11 @@ export interface SumFigures {
   f3Hz: number;
   f6Hz: number;
   f10Hz: number;
-  /** Passband SPL of the sum for 2.83 V at 1 m in the design's own space. */
+  /** Passband SPL of the sum for 2.83 V at 1 m in the design's own space, without the baffle step. */
   sensitivityDb: number;
   /** Passband SPL of the sum at the seat for the analysis drive. */
   passbandSplDb: number;
-  /** Amplifier volts (rms) for the planned level. */
+  /** Amplifier volts (rms) for the planned level (the programme stand-in's), and that level at the seat (its Leq,C). */
   plannedVoltsRms: number;
   plannedSplDb: number;
   groupDelay40Ms: number;
@@ -138,6 +147,11 @@ export interface SumAnalysis {
  */
 export interface Analysis extends WayAnalysis {
   system: SpeakerSystem;
+  /**
+   * The planned level with the programme stand-in (level/programme.ts): its channel volts rms, its
+   * Leq,C at the seat per volt, and each way whose amplifier channel cannot give its peaks.
+   */
+  programme: { voltsRms: number; leqCPerVoltDb: number; shortfalls: AmplifierShortfall[] };
   /** Analysis drive, V rms at the amplifier (default 2.83). */
   driveV: number;
   ways: WayAnalysis[];

@@ -55,9 +55,29 @@ export function fitDefaultNonlinear(xmax: number, xlim: number): FittedNonlinear
   };
 }
 
+/**
+ * Even-order asymmetry on the default fit (both 0: the symmetric shapes unchanged, bit for bit).
+ * Bl: the parabola centred on x0 instead of 0, Bl(x)/Bl(0) = (1 + bl2·(x − x0)^2)/(1 + bl2·x0^2), so
+ * Bl(0) stays the datasheet's. Kms: a linear term s·(KMS_AT_XMAX − 1)·x/Xmax, so Kms(±Xmax) =
+ * 1 + (KMS_AT_XMAX − 1)·(1 ± s) (the polynomial floors keep it positive).
+ */
+export function withAsymmetry(fit: FittedNonlinear, xmax: number, blOffset: number, kmsAsymmetry: number): FittedNonlinear {
+  const X = xmax * 1000;
+  let bl = fit.blRelPerMm;
+  if (blOffset !== 0) {
+    const x0 = blOffset * 1000;
+    const b2 = bl[1];
+    const n = 1 + b2 * x0 * x0;
+    bl = [(-2 * b2 * x0) / n, b2 / n];
+  }
+  let kms = fit.kmsRelPerMm;
+  if (kmsAsymmetry !== 0) kms = [kms[0] + (kmsAsymmetry * (KMS_AT_XMAX - 1)) / X, ...kms.slice(1)];
+  return { ...fit, blRelPerMm: bl, kmsRelPerMm: kms };
+}
+
 /** The polynomials the simulator uses: typed ones, or the default fit where the design left them empty. */
 export function effectiveNonlinear(d: Driver): FittedNonlinear {
-  const fit = fitDefaultNonlinear(d.xmax, d.xlim);
+  const fit = withAsymmetry(fitDefaultNonlinear(d.xmax, d.xlim), d.xmax, d.blOffset ?? 0, d.kmsAsymmetry ?? 0);
   const pick = (given: number[], dflt: number[]) => (given.length > 0 ? given : d.nonlinearFitted ? dflt : []);
   return {
     blRelPerMm: pick(d.blRelPerMm, fit.blRelPerMm),

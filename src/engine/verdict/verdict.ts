@@ -26,8 +26,8 @@ export const LIMIT_WORDS: Record<string, string> = {
   'coil-temperature': 'coil heat',
   'port-speed': 'port air speed',
   'amplifier-clip': 'amplifier power',
-  compression: 'power compression',
-  distortion: 'distortion',
+  compression: 'compression',
+  distortion: 'distortion (10 %)',
 };
 
 /** What the design does when it reaches that limit, as a verb phrase (sentences). */
@@ -38,8 +38,8 @@ export const LIMIT_PHRASES: Record<string, string> = {
   'coil-temperature': 'heats its coil past the rating',
   'port-speed': 'runs out of port air speed',
   'amplifier-clip': 'runs out of amplifier power',
-  compression: 'loses over 1 dB to power compression',
-  distortion: 'distorts to within 20 dB of the music',
+  compression: 'loses level to compression (over 1 dB from the hot coil, or over 3 dB at the output)',
+  distortion: 'distorts to within 20 dB (10 %) of the music',
 };
 
 const one = (x: number) => x.toFixed(1);

@@ -21,8 +21,8 @@ export const KIND_LABEL: Record<EventKind, string> = {
   'coil-temperature': 'Coil above its rating',
   'port-speed': 'Port air too fast',
   'amplifier-clip': 'Amplifier clipping',
-  compression: 'Power compression over 1 dB',
-  distortion: 'Distortion within 20 dB of the music',
+  compression: 'Compression: the hot coil over 1 dB, or the output over 3 dB',
+  distortion: 'Distortion within 20 dB (10 %) of the music',
 };
 
 /** Plain words on what an event means for the listener. */
@@ -33,7 +33,7 @@ export const KIND_MEANING: Record<EventKind, string> = {
   'coil-temperature': 'the voice coil runs hotter than its rating: long-term damage risk',
   'port-speed': 'air in the port moves fast enough to be heard as chuffing',
   'amplifier-clip': 'the amplifier runs out of voltage: harsh, flattened peaks',
-  compression: 'the hot coil has lost level: the speaker plays quieter than asked',
+  compression: 'the speaker plays quieter than asked: a hot coil, or the port and suspension holding back the bass',
   distortion: 'the added distortion is loud enough, relative to the music, to be heard',
 };
 

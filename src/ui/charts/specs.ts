@@ -72,7 +72,8 @@ export interface ChartOptions {
 
 const LIMIT_TEXT: Record<MaxSplLimit, string> = {
   excursion: 'excursion',
-  thermal: 'coil power',
+  port: 'port air speed',
+  thermal: 'coil heat',
   amplifier: 'amplifier',
   radiator: 'radiator travel',
 };
@@ -214,7 +215,7 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
       const xmax = limitsMm(models[s]!).xmax;
       const woofer = firstDriverOf(sys(s))?.name ?? '';
       return pk
-        ? `${SLOT_LABEL[s]}${sys(s).ways.length > 1 ? ` ${woofer}` : ''}: peak ${num(pk.value, 3)} mm at ${num(pair[s]!.curves.freqHz[pk.index], 3)} Hz for ${num(fig(s).plannedSplDb, 3)} dB at the seat (${num(fig(s).plannedVoltsRms, 3)} V); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
+        ? `${SLOT_LABEL[s]}${sys(s).ways.length > 1 ? ` ${woofer}` : ''}: peak ${num(pk.value, 3)} mm at ${num(pair[s]!.curves.freqHz[pk.index], 3)} Hz, a sine at the planned level's drive (${num(fig(s).plannedVoltsRms, 3)} V rms, ${num(fig(s).plannedSplDb, 3)} dB(C) of programme at the seat); Xmax ${num(xmax, 3)} mm${pk.value > xmax ? ' — exceeded' : ''}.`
         : `${SLOT_LABEL[s]}: no excursion data.`;
     }),
   };

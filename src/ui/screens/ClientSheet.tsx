@@ -1,14 +1,14 @@
 // Client sheet: one printable document for the client — both designs' key parameters and figures,
 // their curves, the plain-language verdict, the designer's title and notes, the date, the cautions.
 // The browser prints it (or saves it as PDF) through the print stylesheet.
-import type { Figures } from '../../engine/response/types.ts';
+import type { Analysis, Figures } from '../../engine/response/types.ts';
 import type { ActiveFilter, DriverWay, SpeakerSystem, Way } from '../../engine/system.ts';
 import { CAUTIONS } from '../Cautions.tsx';
 import { useApp } from '../context.ts';
 import { FigureTable } from '../FigureTable.tsx';
 import { fixed, num, TO_DISPLAY as K } from '../format.ts';
 import { boxLabel } from '../boxes.ts';
-import { wayFigures } from '../analysis-view.ts';
+import { wayFigures, worstShortfall } from '../analysis-view.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { useCharts } from './Curves.tsx';
 import { PrintChart } from '../sheet/PrintChart.tsx';
@@ -27,7 +27,15 @@ export const DEFAULT_SHEET_TITLE = 'Loudspeaker design comparison';
 /** A design-wide row: the amplifier, the seat, the level. */
 interface ParamRow {
   label: string;
-  value: (system: SpeakerSystem) => string | null;
+  value: (system: SpeakerSystem, analysis: Analysis | null) => string | null;
+}
+
+/** The amplifier's shortfall on the programme stand-in's peaks, as words (null when it reaches the level). */
+function shortfallText(analysis: Analysis | null): string | null {
+  const worst = worstShortfall(analysis);
+  return worst
+    ? `beyond the amplifier: needs ${num(worst.needV, 3)} V peaks, it gives ${num(worst.railV, 3)} V (${num(worst.shortDb, 2)} dB short)`
+    : null;
 }
 
 /** A row of one way of a design (its system way, and the analysis for figures such as the port length). */
@@ -91,11 +99,14 @@ const PARAMS: ParamRow[] = [
   { label: 'Listening seat', value: (s) => `${num(s.listening.distance, 2)} m, ${SPACE[s.listening.space]}` },
   {
     label: 'Planned level',
-    value: (s) => {
+    value: (s, an) => {
       const lv = s.listening.level;
-      return lv.mode === 'spl'
-        ? `${num(lv.splDb, 3)} dB(C) long-term average at the seat`
-        : `${num(lv.voltsFs, 3)} V peak at digital full scale`;
+      const level =
+        lv.mode === 'spl'
+          ? `${num(lv.splDb, 3)} dB(C) long-term average at the seat`
+          : `${num(lv.voltsFs, 3)} V peak at digital full scale`;
+      const short = shortfallText(an);
+      return short ? `${level} — ${short}` : level;
     },
   },
 ];
@@ -221,6 +232,14 @@ export function ClientSheet() {
             has errors being edited: this sheet shows its last valid version.
           </p>
         ) : null}
+        {SLOTS.some((s) => shortfallText(derived[s].analysis)) ? (
+          <p class="paper-warn" role="note" data-testid="sheet-unreachable">
+            {SLOTS.filter((s) => shortfallText(derived[s].analysis))
+              .map((s) => `Design ${SLOT_LABEL[s]}'s planned level is ${shortfallText(derived[s].analysis)}.`)
+              .join(' ')}{' '}
+            Its figures at the planned level describe a level that amplifier cannot play cleanly.
+          </p>
+        ) : null}
         <section class="paper-section">
           <h2>In plain words</h2>
           {v ? (
@@ -254,11 +273,11 @@ export function ClientSheet() {
             </thead>
             <tbody>
               {Array.from({ length: wayCount }, (_, k) => wayRows(k))}
-              {PARAMS.filter((r) => SLOTS.some((s) => sys[s] && r.value(sys[s]!) !== null)).map((r) => (
+              {PARAMS.filter((r) => SLOTS.some((s) => sys[s] && r.value(sys[s]!, derived[s].analysis) !== null)).map((r) => (
                 <tr>
                   <th scope="row">{r.label}</th>
                   {SLOTS.map((s) => (
-                    <td>{(sys[s] && r.value(sys[s]!)) ?? '—'}</td>
+                    <td>{(sys[s] && r.value(sys[s]!, derived[s].analysis)) ?? '—'}</td>
                   ))}
                 </tr>
               ))}
