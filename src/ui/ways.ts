@@ -1,6 +1,6 @@
 // The ways of a design document: which one is meant, and the edits that add, remove or copy one.
 // Pure functions on documents; the new document goes to the store as one undoable step.
-import { MAX_WAYS, type DesignDoc, type DriverWayDoc, type FlatWayDoc, type WayDoc } from '../engine/design/document.ts';
+import { activeFilterOf, MAX_WAYS, type DesignDoc, type DriverWayDoc, type FlatWayDoc, type WayDoc } from '../engine/design/document.ts';
 import type { DriverWay, SpeakerSystem, Way } from '../engine/system.ts';
 
 export { MAX_WAYS };
@@ -59,9 +59,10 @@ export function freeName(doc: DesignDoc, base: string): string {
   for (let k = 2; ; k++) if (!used.has(`${base} ${k}`)) return `${base} ${k}`;
 }
 
-/** Where the design splits bass from treble: the first driver way's low-pass, else 2200 Hz. */
+/** Where the design splits bass from treble: the first driver way's active low-pass, else 2200 Hz. */
 export function crossoverHz(doc: DesignDoc): number {
-  return firstDriverWay(doc)?.filter?.lowpass?.hz ?? 2200;
+  const first = firstDriverWay(doc);
+  return (first && activeFilterOf(first)?.lowpass?.hz) ?? 2200;
 }
 
 /**

@@ -1,6 +1,6 @@
 // The fields every way has: its active filter (high-pass, low-pass, gain, delay), polarity and
 // acoustic offset; a driver way's count and wiring; a flat band's own level.
-import { FILTER_SHAPES, type FilterDoc, type FilterShape } from '../../engine/design/document.ts';
+import { activeFilterOf, FILTER_SHAPES, type FilterDoc, type FilterShape } from '../../engine/design/document.ts';
 import { useApp } from '../context.ts';
 import { setAt } from '../paths.ts';
 import type { Slot } from '../store.ts';
@@ -28,7 +28,7 @@ type Band = 'highpass' | 'lowpass';
 export function WayFieldRows() {
   const { dispatch } = useApp();
   const shown = useShownWays();
-  const filterOf = (s: Slot): FilterDoc | undefined => shown[s].way.filter;
+  const filterOf = (s: Slot): FilterDoc | undefined => activeFilterOf(shown[s].way);
   /** Writes one filter field; a way without a filter gets one (an active filter is the only kind yet). */
   const setFilter = (s: Slot, sub: string, value: unknown) => {
     const base = filterOf(s);
