@@ -204,7 +204,9 @@ function table(a: Analysis): string {
       ],
     });
     if (s.passive_load_min_ohm !== null)
-      sections.at(-1)!.rows.push(['amplifier load minimum', `${s.passive_load_min_ohm} ohm at ${s.passive_load_min_hz} Hz (the passive ways together)`]);
+      sections
+        .at(-1)!
+        .rows.push(['amplifier load minimum', `${s.passive_load_min_ohm} ohm at ${s.passive_load_min_hz} Hz (the passive ways together)`]);
   }
   const width = Math.max(...sections.flatMap((s) => s.rows.map(([k]) => k.length)));
   const lines = sections.flatMap((s) => [

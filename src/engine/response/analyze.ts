@@ -510,7 +510,8 @@ function analyzeSum(
   if (curves.passiveLoadOhm) {
     loadMin = { value: Infinity, hz: Number.NaN };
     for (let k = 0; k < n; k++) {
-      if (freqHz[k] >= 20 && freqHz[k] <= 20000 && curves.passiveLoadOhm[k] < loadMin.value) loadMin = { value: curves.passiveLoadOhm[k], hz: freqHz[k] };
+      if (freqHz[k] >= 20 && freqHz[k] <= 20000 && curves.passiveLoadOhm[k] < loadMin.value)
+        loadMin = { value: curves.passiveLoadOhm[k], hz: freqHz[k] };
     }
   }
   for (let k = 0; k < n; k++) {
