@@ -206,3 +206,17 @@ describe('passive network documents', () => {
     expect(r.ok && r.warnings.filter((w) => w.path.startsWith('ways[1].driver.fs'))).toEqual([]);
   });
 });
+
+describe('part ratings', () => {
+  it('a resistor rated below its heat at the planned level is named in a warning', () => {
+    const d = example('bookshelf-two-way-passive') as unknown as { ways: { filter: { ladder: { w?: number }[] } }[] };
+    // The tweeter's series pad takes about 1.8 W at the planned level: rate it 1 W.
+    d.ways[1].filter.ladder[2].w = 1;
+    const a = analyze(parsed(d));
+    const w = a.warnings.find((x) => x.path === 'ways[1].filter.ladder[2].w');
+    expect(w?.message).toMatch(/over its rating of 1 W/);
+    expect(analyze(sys()).warnings.some((x) => x.path.includes('ladder'))).toBe(false);
+  });
+});
+
+const sys = () => parsed(example('bookshelf-two-way-passive'));

@@ -44,7 +44,7 @@ afterEach(() => {
 });
 
 describe('passive network editor', () => {
-  it('switches B\'s woofer to a passive network, edits its parts and keeps the design valid', async () => {
+  it("switches B's woofer to a passive network, edits its parts and keeps the design valid", async () => {
     const store = new Store(demoPair);
     store.dispatch({ type: 'settings', patch: { cautionsDismissed: true } });
     const autosave = new Autosave(memoryBackend());

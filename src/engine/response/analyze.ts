@@ -454,6 +454,17 @@ function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>)
       ),
     );
   }
+  // A resistor's rated power against its heat for a sine at the planned level (a passive network).
+  for (const [j, part] of (figures.parts ?? []).entries()) {
+    if (part.ratedW !== null && part.peakPowerW > part.ratedW) {
+      out.push(
+        warning(
+          `ways[${index}].filter.ladder[${j}].w`,
+          `${who}part ${part.label} takes ${fmt(part.peakPowerW)} W at ${fmt(part.peakPowerHz)} Hz for a sine at the planned level, over its rating of ${fmt(part.ratedW)} W`,
+        ),
+      );
+    }
+  }
   const worstPort = figures.plannedPeakPortSpeed ?? 0;
   const worstPortHz = figures.plannedPeakPortSpeedHz ?? 0;
   const path = `ways[${index}].box.ports`;
