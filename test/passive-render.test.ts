@@ -4,10 +4,10 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { renderBuffer } from '../src/engine/render/index.ts';
-import { systemPressure } from '../src/engine/response/frequency.ts';
+import { respond, systemPressure } from '../src/engine/response/frequency.ts';
 import { abs } from '../src/engine/complex.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
-import type { SpeakerSystem } from '../src/engine/system.ts';
+import type { DriverWay, SpeakerSystem } from '../src/engine/system.ts';
 
 function example(name: string): SpeakerSystem {
   const r = parseDesign(readFileSync(`public/examples/${name}.json`, 'utf8'));
@@ -45,4 +45,31 @@ describe('passive two-way render', () => {
       }
     });
   }
+});
+
+describe('a passive tweeter fed too low', () => {
+  it('crossed near 1 kHz, moves past its Xmax through its network on a loud low tone, and the events name it', () => {
+    // The tweeter's high-pass moved down to about 1 kHz (22 µF, 1.2 mH): crossed too low.
+    const d = JSON.parse(readFileSync('public/examples/bookshelf-two-way-passive.json', 'utf8'));
+    d.ways[1].filter.ladder[0].uf = 22;
+    d.ways[1].filter.ladder[1].mh = 1.2;
+    const parsed = parseDesign(d);
+    if (!parsed.ok) throw new Error('does not parse');
+    const sys = parsed.system;
+    const tweeter = sys.ways[1] as DriverWay;
+    const f = 700;
+    // Peak volts for a small-signal peak excursion of 1.5 Xmax through the network.
+    const loud = (1.5 * tweeter.unit.xmax) / abs(respond(sys, tweeter, f, 1).excursion);
+    expect(loud).toBeLessThan(sys.amplifier.vPeak);
+    const sr = 48000;
+    const n = Math.round(0.3 * sr);
+    const fade = 0.02 * sr;
+    const x = Float32Array.from({ length: n }, (_, k) => Math.sin((2 * Math.PI * f * k) / sr) * Math.min(1, k / fade, (n - 1 - k) / fade));
+    const r = renderBuffer(sys, [x], sr, { voltsFs: loud });
+    const exc = r.summary.events.find((e) => e.way === 'tweeter' && e.kind === 'excursion');
+    expect(exc?.peak).toBeGreaterThan(0.3);
+    expect(exc?.peak).toBeLessThan(1.5 * 0.3 * 1.1);
+    const quiet = renderBuffer(sys, [x], sr, { voltsFs: loud / 3 });
+    expect(quiet.summary.events.filter((e) => e.way === 'tweeter' && e.kind === 'excursion')).toEqual([]);
+  });
 });
