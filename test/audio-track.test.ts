@@ -1,7 +1,7 @@
 // Track checks of the listening bench: clear messages for files that cannot be used, and the
 // overview envelope (min and max of each bin over all channels).
 import { describe, expect, it } from 'vitest';
-import { decodedProblem, fileProblem, MAX_FILE_BYTES, MAX_TRACK_S, overviewOf } from '../src/audio/track.ts';
+import { decodedProblem, fileProblem, MAX_FILE_BYTES, MAX_TRACK_S, overviewOf, wavTruncation } from '../src/audio/track.ts';
 
 describe('files the bench refuses', () => {
   it('says an empty or oversized file is empty or too big, by name and size', () => {
@@ -34,5 +34,41 @@ describe('overview', () => {
     const o = overviewOf([l, r], 4);
     expect([...o.max]).toEqual([0.5, 0, 0, 0.8999999761581421]);
     expect([...o.min]).toEqual([0, -0.75, -0.25, 0]);
+  });
+});
+
+describe('a WAV file that ends early', () => {
+  /** A 16-bit stereo 48 kHz WAV header announcing `statedBytes` of data, followed by `presentBytes` of zeros. */
+  function wav(statedBytes: number, presentBytes: number): ArrayBuffer {
+    const b = new ArrayBuffer(44 + presentBytes);
+    const v = new DataView(b);
+    const put = (at: number, s: string) => {
+      for (let k = 0; k < 4; k++) v.setUint8(at + k, s.charCodeAt(k));
+    };
+    put(0, 'RIFF');
+    v.setUint32(4, 36 + statedBytes, true);
+    put(8, 'WAVE');
+    put(12, 'fmt ');
+    v.setUint32(16, 16, true);
+    v.setUint16(20, 1, true);
+    v.setUint16(22, 2, true);
+    v.setUint32(24, 48000, true);
+    v.setUint32(28, 192000, true);
+    v.setUint16(32, 4, true);
+    v.setUint16(34, 16, true);
+    put(36, 'data');
+    v.setUint32(40, statedBytes, true);
+    return b;
+  }
+
+  it('says how long the header announces and how much is in the file', () => {
+    expect(wavTruncation(wav(384000, 192000))).toEqual({ statedS: 2, presentS: 1 });
+  });
+
+  it('is quiet for whole files, streaming headers and other formats', () => {
+    expect(wavTruncation(wav(192000, 192000))).toBeNull();
+    expect(wavTruncation(wav(0xffffffff, 192000))).toBeNull();
+    expect(wavTruncation(wav(0, 192000))).toBeNull();
+    expect(wavTruncation(new TextEncoder().encode('ID3 not a wave file at all').buffer as ArrayBuffer)).toBeNull();
   });
 });

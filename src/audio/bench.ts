@@ -25,7 +25,7 @@ import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
-import { decodedProblem, fileProblem, MAX_TRACK_S, overviewOf } from './track.ts';
+import { decodedProblem, fileProblem, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
 import { levelFailure, levelProblem } from './level-message.ts';
 import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';
 
@@ -54,6 +54,8 @@ export interface TrackInfo {
   loudFromS?: number;
   /** Integrated programme loudness of the file itself (ITU-R BS.1770), LUFS; -Infinity when silent. */
   loudnessLufs?: number;
+  /** The WAV file ends before its header says: how long it should be and how much was read, s. */
+  truncated?: { statedS: number; presentS: number };
 }
 
 export interface OfflineState {
@@ -328,6 +330,8 @@ export class BenchAudio {
     this.set({ loading: `Decoding “${file.name}”…`, fileError: null });
     try {
       const bytes = await file.arrayBuffer();
+      // Before decoding: decoding takes the bytes over.
+      const truncated = wavTruncation(bytes) ?? undefined;
       let buf: AudioBuffer;
       try {
         buf = await ctx.decodeAudioData(bytes);
@@ -351,7 +355,13 @@ export class BenchAudio {
         this.set({ fileError: bad });
         return false;
       }
-      this.useTrack(channels, { name: file.name, source: 'file', sampleRate: ctx.sampleRate, droppedChannels: buf.numberOfChannels - n });
+      this.useTrack(channels, {
+        name: file.name,
+        source: 'file',
+        sampleRate: ctx.sampleRate,
+        droppedChannels: buf.numberOfChannels - n,
+        truncated,
+      });
       return true;
     } finally {
       this.set({ loading: null });

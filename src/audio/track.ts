@@ -56,3 +56,27 @@ export function decodedProblem(name: string, durationS: number, channels: Float3
   for (const ch of channels) for (let j = 0; j < ch.length; j++) if (ch[j] !== 0) return null;
   return `“${name}” is silent from start to end: there is nothing to hear or to set a level from.`;
 }
+
+/**
+ * A WAV file that ends before its data chunk says (a cut-off download or copy): how long the
+ * header says the audio is and how much of it is in the file, s. Null for other files, complete WAV
+ * files and streaming headers (a data size of 0 or 0xFFFFFFFF, written before the length was known).
+ */
+export function wavTruncation(bytes: ArrayBuffer): { statedS: number; presentS: number } | null {
+  const v = new DataView(bytes);
+  const tag = (at: number) => String.fromCharCode(v.getUint8(at), v.getUint8(at + 1), v.getUint8(at + 2), v.getUint8(at + 3));
+  if (bytes.byteLength < 12 || tag(0) !== 'RIFF' || tag(8) !== 'WAVE') return null;
+  let byteRate = 0;
+  for (let at = 12; at + 8 <= bytes.byteLength; ) {
+    const id = tag(at),
+      size = v.getUint32(at + 4, true);
+    if (id === 'fmt ' && at + 16 <= bytes.byteLength) byteRate = v.getUint32(at + 16, true);
+    if (id === 'data') {
+      const present = bytes.byteLength - (at + 8);
+      if (size === 0 || size === 0xffffffff || size <= present || !(byteRate > 0)) return null;
+      return { statedS: size / byteRate, presentS: present / byteRate };
+    }
+    at += 8 + size + (size % 2);
+  }
+  return null;
+}

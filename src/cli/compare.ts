@@ -1,4 +1,5 @@
 // preheard compare: two designs through the same calibration, passband levels matched.
+import { InputProblem } from '../engine/issues.ts';
 import { analyze } from '../engine/response/analyze.ts';
 import { findHeadroom, passbandPaPerV, renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
@@ -127,7 +128,7 @@ export const compareCommand: Command = {
           sides.push({ name: d.system.name, summary: res.summary, ...fig, headroom });
         }
       } catch (e) {
-        if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
+        if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
       // Both files are written only when both designs rendered, and put in place together.

@@ -1,4 +1,5 @@
 // preheard headroom: the loudest level at which a design plays this track with no stress event.
+import { InputProblem } from '../engine/issues.ts';
 import { findHeadroom } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
@@ -42,7 +43,7 @@ export const headroomCommand: Command = {
         h = findHeadroom(system, audio.channels, audio.sampleRate, { onRender: progress?.tick });
         progress?.done();
       } catch (e) {
-        if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
+        if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
       const out = {

@@ -1,4 +1,5 @@
 // preheard render: a WAV file through a design's large-signal model, at a calibrated level.
+import { InputProblem } from '../engine/issues.ts';
 import { renderBuffer, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
@@ -111,7 +112,7 @@ export const renderCommand: Command = {
           onProgress: audio.channels[0].length > audio.sampleRate * 30 ? progressBar('rendering') : undefined,
         });
       } catch (e) {
-        if (e instanceof RangeError) throw new InputError(`${inPath}: ${e.message}`);
+        if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
       const format = (values.format as WavFormat | undefined) ?? audio.format;

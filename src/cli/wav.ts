@@ -11,7 +11,8 @@ import { InputError } from './command.ts';
 import { checkFloatRange } from './float-range.ts';
 import { checkInputLength, openInput } from './input-file.ts';
 
-export type WavFormat = '16' | '24' | 'f32';
+export type { WavFormat } from '../wav/encode.ts';
+import { encodeBlock, FORMAT_FLOAT, FORMAT_PCM, LITTLE_ENDIAN, wavHeader, type WavFormat } from '../wav/encode.ts';
 
 export interface WavAudio {
   sampleRate: number;
@@ -27,10 +28,7 @@ const MAX_CHUNKS = 10_000;
 /** Bytes per read or write block: large enough for full disk speed, small beside the audio. */
 const BLOCK_BYTES = 1 << 22;
 
-const FORMAT_PCM = 1;
-const FORMAT_FLOAT = 3;
 const FORMAT_EXTENSIBLE = 0xfffe;
-const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
 
 /** What the decoder needs, exactly as checked. */
 export interface WavHeader {
@@ -211,66 +209,6 @@ export async function readWav(path: string, onProgress?: (fraction: number) => v
   } finally {
     file.close();
   }
-}
-
-/** Interleaves `n` frames from frame `at` into `block`, quantised to the format (round to nearest, saturate). */
-function encodeBlock(channels: Float32Array[], format: WavFormat, at: number, n: number, block: Uint8Array): void {
-  const nc = channels.length;
-  if (format === 'f32') {
-    if (LITTLE_ENDIAN) {
-      const dst = new Float32Array(block.buffer, block.byteOffset, n * nc);
-      for (let c = 0; c < nc; c++) {
-        const src = channels[c];
-        for (let k = 0, j = c; k < n; k++, j += nc) dst[j] = src[at + k];
-      }
-    } else {
-      const view = new DataView(block.buffer, block.byteOffset);
-      for (let c = 0; c < nc; c++) {
-        const src = channels[c];
-        for (let k = 0, j = 4 * c; k < n; k++, j += 4 * nc) view.setFloat32(j, src[at + k], true);
-      }
-    }
-    return;
-  }
-  const bytes = format === '24' ? 3 : 2;
-  const full = format === '24' ? 8388607 : 32767;
-  const stride = bytes * nc;
-  for (let c = 0; c < nc; c++) {
-    const src = channels[c];
-    for (let k = 0, j = bytes * c; k < n; k++, j += stride) {
-      const r = Math.round(src[at + k] * (full + 1));
-      // NaN becomes 0, as an integer typed array would store it.
-      const v = r > full ? full : r < -full - 1 ? -full - 1 : r | 0;
-      block[j] = v;
-      block[j + 1] = v >> 8;
-      if (bytes === 3) block[j + 2] = v >> 16;
-    }
-  }
-}
-
-/** The canonical 44-byte header: a 16-byte fmt chunk (PCM, or IEEE float for f32) and the data chunk. */
-function wavHeader(channels: number, sampleRate: number, format: WavFormat, frames: number): Uint8Array {
-  const bytes = format === '16' ? 2 : format === '24' ? 3 : 4;
-  const dataBytes = frames * channels * bytes;
-  const b = new Uint8Array(44);
-  const v = new DataView(b.buffer);
-  const ascii = (o: number, s: string) => {
-    for (let k = 0; k < 4; k++) b[o + k] = s.charCodeAt(k);
-  };
-  ascii(0, 'RIFF');
-  v.setUint32(4, 36 + dataBytes, true);
-  ascii(8, 'WAVE');
-  ascii(12, 'fmt ');
-  v.setUint32(16, 16, true);
-  v.setUint16(20, format === 'f32' ? FORMAT_FLOAT : FORMAT_PCM, true);
-  v.setUint16(22, channels, true);
-  v.setUint32(24, sampleRate, true);
-  v.setUint32(28, sampleRate * channels * bytes, true);
-  v.setUint16(32, channels * bytes, true);
-  v.setUint16(34, bytes * 8, true);
-  ascii(36, 'data');
-  v.setUint32(40, dataBytes, true);
-  return b;
 }
 
 /**

@@ -13,3 +13,4 @@ export { DEFAULT_QL } from './box/common.ts';
 export { verdict, LIMIT_WORDS, LIMIT_PHRASES, type VerdictLine, type HeadroomFinding } from './verdict/verdict.ts';
 export { probabilityAtLeast } from './trial/binomial.ts';
 export { synthesizeDemoTrack, type DemoTrack } from './demo/track.ts';
+export { InputProblem } from './issues.ts';

@@ -17,3 +17,11 @@ export function fmt(value: number): string {
   if (a !== 0 && (a < 1e-3 || a >= 1e6)) return value.toExponential(3);
   return String(Number(value.toPrecision(4)));
 }
+
+/**
+ * A problem with what the user gave (an empty or silent track, an impossible drive level): the one
+ * error the engine throws for input; its message is written for a user. Any other error is a defect.
+ */
+export class InputProblem extends Error {
+  override name = 'InputProblem';
+}

@@ -215,6 +215,36 @@ export const tests = [
     },
   },
   {
+    name: 'bench: a WAV that ends early loads with a notice of how much was read',
+    fn: async (ctx) => {
+      const p = await benchPage(ctx);
+      // 16-bit stereo 48 kHz, a 0.5 s 100 Hz tone; the header announces 2 s.
+      const frames = 24000;
+      const b = Buffer.alloc(44 + frames * 4);
+      b.write('RIFF', 0);
+      b.writeUInt32LE(36 + 4 * 96000, 4);
+      b.write('WAVEfmt ', 8);
+      b.writeUInt32LE(16, 16);
+      b.writeUInt16LE(1, 20);
+      b.writeUInt16LE(2, 22);
+      b.writeUInt32LE(48000, 24);
+      b.writeUInt32LE(192000, 28);
+      b.writeUInt16LE(4, 32);
+      b.writeUInt16LE(16, 34);
+      b.write('data', 36);
+      b.writeUInt32LE(4 * 96000, 40);
+      for (let k = 0; k < frames; k++) {
+        const v = Math.round(8000 * Math.sin((2 * Math.PI * 100 * k) / 48000));
+        b.writeInt16LE(v, 44 + 4 * k);
+        b.writeInt16LE(v, 46 + 4 * k);
+      }
+      await p.getByTestId('audio-file').setInputFiles({ name: 'cut.wav', mimeType: 'audio/wav', buffer: b });
+      await p.waitForSelector('[data-testid=track-name]:has-text("cut.wav")');
+      const notice = await p.getByTestId('track-truncated').innerText();
+      assert.match(notice, /ends early: its header announces 0:02.0 of audio, but only 0:00.5 is in/);
+    },
+  },
+  {
     name: 'bench: screenshots of the bench and the strip at desktop and tablet widths',
     fn: async (ctx) => {
       const p = await benchPage(ctx);

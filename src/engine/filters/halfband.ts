@@ -4,16 +4,7 @@
 // A half-band filter has every other tap zero and a centre tap of 1/2, so each output costs half
 // the taps, and the symmetric taps are folded.
 
-function besselI0(x: number): number {
-  let sum = 1,
-    term = 1;
-  for (let k = 1; k < 50; k++) {
-    term *= (x / (2 * k)) * (x / (2 * k));
-    sum += term;
-    if (term < 1e-17 * sum) break;
-  }
-  return sum;
-}
+import { besselI0 } from './kaiser.ts';
 
 export interface HalfbandDesign {
   /** The odd-offset taps h[1], h[3], ..., h[M] (h[-k] = h[k]); the centre tap is 1/2. */

@@ -1,5 +1,6 @@
 // Planned level -> amplifier volts: the long-term average C-weighted SPL at the seat of a track
 // played through the design's own linear chain (so a less sensitive design needs more volts).
+import { InputProblem } from '../issues.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { LinearChain } from '../render/linear-chain.ts';
 import { cWeightingFilter } from './weighting.ts';
@@ -12,7 +13,7 @@ import { drivenPaPerV } from '../design/convert.ts';
  */
 export function passbandPaPerV(sys: SpeakerSystem): number {
   const bass = sys.ways.find((w): w is DriverWay => w.kind === 'driver');
-  if (!bass) throw new RangeError('the design has no way with a driver');
+  if (!bass) throw new InputProblem('the design has no way with a driver');
   return drivenPaPerV(bass.driver, sys.amplifier.rs, sys.air, sys.listening) * bass.filter.gain;
 }
 
@@ -24,7 +25,7 @@ export function passbandPaPerV(sys: SpeakerSystem): number {
 export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number): number {
   const nCh = channels.length;
   const frames = channels[0]?.length ?? 0;
-  if (nCh === 0 || frames === 0) throw new RangeError('the audio is empty: a level cannot be set from silence');
+  if (nCh === 0 || frames === 0) throw new InputProblem('the audio is empty: a level cannot be set from silence');
   const chain = new LinearChain(sys, sampleRate, nCh, 1);
   const block = 8192;
   const nWays = chain.ways.length;
@@ -46,7 +47,7 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
     }
   }
   const ms = energy / frames;
-  if (!(ms > 0)) throw new RangeError('the audio is silent in the band the design plays: a level cannot be set from it');
+  if (!(ms > 0)) throw new InputProblem('the audio is silent in the band the design plays: a level cannot be set from it');
   return splDbOfMeanSquare(ms);
 }
 

@@ -4,6 +4,8 @@
 // look-ahead, smoothed by a moving average of the same length: it reaches the needed value exactly
 // at the peak and never steps.
 
+import { besselI0 } from '../filters/kaiser.ts';
+
 const PHASES = 4;
 const TAPS = 12; // per phase
 const HALF = TAPS / 2;
@@ -11,23 +13,14 @@ const HALF = TAPS / 2;
 function interpolationTaps(): Float64Array {
   // Kaiser-windowed sinc (beta 6) for phases 1..3 of 4.
   const t = new Float64Array(PHASES * TAPS);
-  const i0 = (x: number) => {
-    let s = 1,
-      term = 1;
-    for (let k = 1; k < 40; k++) {
-      term *= (x / (2 * k)) ** 2;
-      s += term;
-    }
-    return s;
-  };
   const beta = 6,
-    i0b = i0(beta);
+    i0b = besselI0(beta);
   for (let ph = 0; ph < PHASES; ph++) {
     for (let k = 0; k < TAPS; k++) {
       const pos = k - (HALF - 1) - ph / PHASES; // sample offset from the interpolated point
       const sinc = pos === 0 ? 1 : Math.sin(Math.PI * pos) / (Math.PI * pos);
       const r = pos / (HALF + 0.5);
-      const w = Math.abs(r) < 1 ? i0(beta * Math.sqrt(1 - r * r)) / i0b : 0;
+      const w = Math.abs(r) < 1 ? besselI0(beta * Math.sqrt(1 - r * r)) / i0b : 0;
       t[ph * TAPS + k] = sinc * w;
     }
   }

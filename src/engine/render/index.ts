@@ -31,6 +31,7 @@
 // output sample = seat pressure / paPerFs. The default paPerFs puts a full-scale input in the bass
 // way's passband at -6 dBFS; the true-peak guard keeps the result at or under -0.1 dBTP and its
 // action is reported as limiter_db.
+import { InputProblem } from '../issues.ts';
 import type { SpeakerSystem } from '../system.ts';
 import { createRenderer, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces, type WayStats } from './renderer.ts';
 import type { EventKind, StressEvent } from './events.ts';
@@ -129,7 +130,7 @@ export function resolveVolts(
     try {
       l1 = seatLeqCPerVolt(sys, channels, sampleRate);
     } catch (e) {
-      if (!(e instanceof RangeError)) throw e;
+      if (!(e instanceof InputProblem)) throw e;
     }
     return { volts: explicit, spl: l1 + 20 * Math.log10(explicit) };
   }
@@ -147,7 +148,7 @@ export function renderBuffer(
 ): RenderResult {
   const nCh = channels.length;
   const frames = channels[0]?.length ?? 0;
-  if (nCh === 0 || frames === 0) throw new RangeError('the audio is empty');
+  if (nCh === 0 || frames === 0) throw new InputProblem('the audio is empty');
   const { volts, spl } = resolveVolts(sys, channels, sampleRate, opt);
   const clock = opt.clock ?? defaultClock();
   const t0 = clock();
@@ -257,7 +258,7 @@ export function findHeadroom(
   };
   let peakIn = 0;
   for (const ch of channels) for (let j = 0; j < ch.length; j++) peakIn = Math.max(peakIn, Math.abs(ch[j]));
-  if (!(peakIn > 0)) throw new RangeError('the audio is silent: there is no level to find');
+  if (!(peakIn > 0)) throw new InputProblem('the audio is silent: there is no level to find');
   const step = Math.pow(10, 6 / 20);
   // A very quiet track would need more drive than the model takes: search below that ceiling.
   const ceiling = MAX_VOLTS_FS * 0.999;
@@ -300,7 +301,7 @@ export function findHeadroom(
       first_limit_s: null,
       renders,
     };
-  if (lo === 0) throw new RangeError('no clean level found down to -240 dB: the design overloads at any level');
+  if (lo === 0) throw new InputProblem('no clean level found down to -240 dB: the design overloads at any level');
   while (20 * Math.log10(hi / lo) > tol) {
     const mid = Math.sqrt(lo * hi);
     ev = probe(mid);

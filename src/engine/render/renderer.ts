@@ -4,6 +4,7 @@
 // carried across calls; no allocation per block. The driver models run at the audio rate: their
 // nonlinearities act on the cone and port motion, far below the audio band's top; the amplifier's
 // clipping, whose harmonics reach it, runs oversampled.
+import { InputProblem } from '../issues.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { passbandPaPerV } from '../level/calibration.ts';
 import { EventLog } from './events.ts';
@@ -86,10 +87,10 @@ export class Renderer {
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
-      throw new RangeError(`the sample rate must be 8000 to 384000 Hz, got ${opt.sampleRate} Hz`);
+      throw new InputProblem(`the sample rate must be 8000 to 384000 Hz, got ${opt.sampleRate} Hz`);
     if (!(Number.isInteger(opt.channels) && opt.channels >= 1 && opt.channels <= 8))
-      throw new RangeError(`the audio must have 1 to 8 channels, got ${opt.channels}`);
-    if (!(opt.voltsFs > 0 && opt.voltsFs < MAX_VOLTS_FS)) throw new RangeError(driveMessage(opt.voltsFs));
+      throw new InputProblem(`the audio must have 1 to 8 channels, got ${opt.channels}`);
+    if (!(opt.voltsFs > 0 && opt.voltsFs < MAX_VOLTS_FS)) throw new InputProblem(driveMessage(opt.voltsFs));
     this.system = sys;
     this.sampleRate = opt.sampleRate;
     this.channels = opt.channels;
@@ -163,7 +164,7 @@ export class Renderer {
   }
 
   setVoltsFs(v: number): void {
-    if (!(v > 0 && v < MAX_VOLTS_FS)) throw new RangeError(driveMessage(v));
+    if (!(v > 0 && v < MAX_VOLTS_FS)) throw new InputProblem(driveMessage(v));
     this.voltsFs = v;
   }
 

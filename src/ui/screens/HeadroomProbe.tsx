@@ -94,6 +94,7 @@ export function HeadroomProbe() {
                     clean_spl_db: r.clean_spl_db,
                     first_limit: r.first_limit,
                     first_limit_s: r.first_limit_s,
+                    first_limit_way: r.first_limit_way ?? null,
                   }
                 );
               }),

@@ -66,6 +66,12 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
         ) : (
           <p class="fine">{p.state.status === 'starting' ? 'Starting the audio engine…' : 'No track yet.'}</p>
         )}
+        {t?.truncated ? (
+          <p class="fine notice-warn" role="status" data-testid="track-truncated">
+            This file ends early: its header announces {clock(t.truncated.statedS)} of audio, but only {clock(t.truncated.presentS)} is in
+            the file (a download or copy that was cut off?). The bench plays what was read.
+          </p>
+        ) : null}
         {p.state.loading ? (
           <p class="fine" aria-live="polite">
             {p.state.loading}
