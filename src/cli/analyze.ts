@@ -179,7 +179,9 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
     const rated = p.rated_w === null ? '' : ` (rated ${p.rated_w} W)`;
     rows.push([
       `part ${p.part}`,
-      `${p.peak_current_a} A rms at ${p.peak_current_hz} Hz, ${p.peak_power_w} W at ${p.peak_power_hz} Hz${rated} (sine at the planned level)`,
+      `${p.peak_current_a} A rms at ${p.peak_current_hz} Hz, ` +
+        (p.peak_power_w ? `${p.peak_power_w} W at ${p.peak_power_hz} Hz${rated}` : 'no heat (an ideal part)') +
+        ' (sine at the planned level)',
     ]);
   }
   return rows;
