@@ -87,3 +87,24 @@ describe('passive network editor', () => {
     expect((store.get().designs.b.ways[0] as DriverWayDoc).filter).toEqual({ type: 'active' });
   });
 });
+
+describe('the passive two-way pair', () => {
+  it('loads from the header with one click: both designs passive, undo brings the demo pair back', async () => {
+    const store = new Store(demoPair);
+    store.dispatch({ type: 'settings', patch: { cautionsDismissed: true } });
+    const autosave = new Autosave(memoryBackend());
+    autosave.attach(store);
+    render(<App store={store} autosave={autosave} />);
+    const before = store.get().designs;
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Passive two-way pair' }));
+    });
+    const { a, b } = store.get().designs;
+    expect([a.name, b.name]).toEqual(['Bookshelf two-way, passive second-order', 'Bookshelf two-way, passive third-order tweeter']);
+    expect(a.ways.every((w) => w.filter?.type === 'passive')).toBe(true);
+    await act(() => {
+      store.dispatch({ type: 'undo' });
+    });
+    expect(store.get().designs).toEqual(before);
+  });
+});

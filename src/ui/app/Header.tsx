@@ -2,6 +2,7 @@
 // theme, cautions), with the hidden file input the import uses.
 import { useRef } from 'preact/hooks';
 import { SLOTS, SLOT_LABEL, type AppState, type Slot, type Store } from '../store.ts';
+import { passivePair } from '../demo.ts';
 
 export interface HeaderActions {
   importInto: (file: File, slot: Slot) => void;
@@ -63,6 +64,12 @@ export function Header(p: { store: Store; state: AppState; actions: HeaderAction
           </button>
           <button type="button" onClick={() => store.dispatch({ type: 'reset-demo' })}>
             Reset to demo pair
+          </button>
+          <button
+            type="button"
+            onClick={() => store.dispatch({ type: 'replace-pair', designs: passivePair(), reason: 'the passive two-way pair' })}
+          >
+            Passive two-way pair
           </button>
         </div>
         <details class="menu tgroup">
