@@ -1,6 +1,7 @@
 // preheard analyze: the small-signal figures and curves of one design.
 import { analyze } from '../engine/response/analyze.ts';
 import type { Analysis, WayAnalysis } from '../engine/response/types.ts';
+import type { RoomAnalysis } from '../engine/room/analysis.ts';
 import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { printable } from './user-text.ts';
@@ -128,6 +129,22 @@ function sumJson(a: Analysis) {
   };
 }
 
+/** The listening room: its modes, its Schroeder frequency and the sum at the seat with and without it. */
+function roomJson(r: RoomAnalysis) {
+  return {
+    schroeder_hz: round(r.schroederHz),
+    t60_s: round(r.t60S),
+    transition_hz: round(r.transitionHz),
+    modes_summed: r.modeCount,
+    modes: r.modes.map((m) => ({ nx: m.nx, ny: m.ny, nz: m.nz, hz: round(m.hz) })),
+    peak_db: round(r.peakDb),
+    peak_hz: round(r.peakHz),
+    dip_db: round(r.dipDb),
+    dip_hz: round(r.dipHz),
+    curves: { freq_hz: list(r.curves.freqHz), spl_db: list(r.curves.splDb), free_spl_db: list(r.curves.freeSplDb) },
+  };
+}
+
 /**
  * The first version's top-level fields (for the first driver way, the woofer of a first-version
  * design), every driver way under `ways` and the summed system under `system`.
@@ -140,6 +157,7 @@ export function analysisJson(a: Analysis) {
     warnings: a.warnings.map((w) => ({ path: w.path, message: w.message })),
     ways: a.ways.map((wa) => wayJson(a, wa)),
     system: sumJson(a),
+    ...(a.room ? { room: roomJson(a.room) } : {}),
   };
 }
 
@@ -209,6 +227,23 @@ function table(a: Analysis): string {
       sections
         .at(-1)!
         .rows.push(['amplifier load minimum', `${s.passive_load_min_ohm} ohm at ${s.passive_load_min_hz} Hz (the passive ways together)`]);
+  }
+  if (j.room) {
+    const r = j.room;
+    sections.push({
+      title: 'room (modal sum at the seat, first speaker)',
+      rows: [
+        ['Schroeder frequency', `${r.schroeder_hz} Hz (reverberation ${r.t60_s} s, Eyring)`],
+        [
+          'first modes',
+          r.modes
+            .slice(0, 6)
+            .map((m) => `${m.hz} Hz (${m.nx},${m.ny},${m.nz})`)
+            .join(', '),
+        ],
+        ['room against free, 20-200 Hz', `up to +${r.peak_db} dB at ${r.peak_hz} Hz, down to ${r.dip_db} dB at ${r.dip_hz} Hz`],
+      ],
+    });
   }
   const width = Math.max(...sections.flatMap((s) => s.rows.map(([k]) => k.length)));
   const lines = sections.flatMap((s) => [

@@ -168,6 +168,21 @@ export interface Listening {
   roomGainHz: number;
   /** Baffle width for the baffle step, m; 0 or absent = none. */
   baffleWidth?: number;
+  /** A rectangular room around speakers and seat; absent = the free or half space of `space`. */
+  room?: Room;
+}
+
+export type Vec3 = [number, number, number];
+export type RoomSurface = 'floor' | 'ceiling' | 'front' | 'back' | 'left' | 'right';
+
+/** A rectangular room, m: x along its length from the front wall, y from the left wall, z from the floor. */
+export interface Room {
+  size: Vec3;
+  /** One position per speaker of the pair: left, right. */
+  speakers: Vec3[];
+  seat: Vec3;
+  /** Absorption coefficient of each surface. */
+  absorption: Record<RoomSurface, number>;
 }
 
 export interface SpeakerSystem {

@@ -7,6 +7,7 @@ const BENCHES: { name: string; load: () => Promise<{ bench(): Promise<BenchResul
   { name: 'cli', load: () => import('./cli.ts') },
   { name: 'ui-redraw', load: () => import('./ui-redraw.ts') },
   { name: 'worklet', load: () => import('./worklet.ts') },
+  { name: 'room', load: () => import('./room.ts') },
 ];
 
 const only = process.argv.slice(2);

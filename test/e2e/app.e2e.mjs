@@ -327,6 +327,31 @@ export const tests = [
     },
   },
   {
+    name: "the demo pair in the client's room: the seat dragged in the sketch moves the modes' effect",
+    fn: async (ctx) => {
+      const p = await page(ctx);
+      await tab(p, 'Drive & seat');
+      await p.getByRole('button', { name: 'Both in the client’s room' }).click();
+      const sketch = p.getByRole('img', { name: /seen from above/ }).first();
+      await sketch.scrollIntoViewIfNeeded();
+      const figures = p.locator('.room-figures').first();
+      assert.match(await figures.innerText(), /Schroeder frequency \d+ Hz .*\(1,0,0\)/);
+      const seat = sketch.locator('circle');
+      const box = await seat.boundingBox();
+      await p.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+      await p.mouse.down();
+      await p.mouse.move(box.x + box.width / 2 + 20, box.y + box.height / 2 - 30, { steps: 5 });
+      await p.mouse.up();
+      const moved = await seat.boundingBox();
+      assert.ok(Math.abs(moved.y - box.y + 30) < 3, `the seat follows the pointer: ${box.y} -> ${moved.y}`);
+      await p.screenshot({ path: join(SHOTS, 'desktop-drive-room.png') });
+      await p.getByRole('button', { name: 'Undo' }).click();
+      await p.getByRole('button', { name: 'Both without a room' }).click();
+      assert.equal(await p.locator('.room-figures').count(), 0);
+      assert.deepEqual(ctx.state.errors, []);
+    },
+  },
+  {
     name: 'with the server stopped, a reload comes from the service worker',
     fn: async (ctx) => {
       const p = await page(ctx);

@@ -1,5 +1,6 @@
 // DesignDoc (document units) -> SpeakerSystem (SI). The only place units are converted on the way in.
 import { activeFilterOf, type DesignDoc, type DriverDoc, type FilterDoc, type FlatWayDoc, type PassiveFilterDoc } from './document.ts';
+import { toRoom } from '../room/build.ts';
 import type { ActiveFilter, Air, LadderPart, Driver, DriverWay, FlatWay, Listening, SpeakerSystem, ThermalParams, Way } from '../system.ts';
 import { P_REF, SENSITIVITY_VOLTS } from '../units.ts';
 import { airAt } from '../air.ts';
@@ -204,6 +205,8 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
     roomGainHz: doc.listening.room_gain_hz ?? 0,
     baffleWidth: (doc.listening.baffle_width_cm ?? 0) / 100,
   };
+  const room = toRoom(doc.listening, issues);
+  if (room) listening.room = room;
   const names = new Set<string>();
   doc.ways.forEach((w, k) => {
     if (names.has(w.name)) issues.push(error(`ways[${k}].name`, `"${w.name}" is the name of an earlier way; each way needs its own name`));

@@ -144,6 +144,34 @@ export const amplifierSchema = v.strictObject({
   clip: v.optional(v.picklist(['hard', 'soft'], 'must be "hard" or "soft"')),
 });
 
+const position = v.tuple([num(0, 50, 'm'), num(0, 50, 'm'), num(0, 50, 'm')], 'must be [x, y, z] in metres');
+const absorption = num(0.01, 0.99);
+
+/** A rectangular listening room: x along its length from the front wall, y across from the left wall, z up from the floor. */
+export const roomSchema = v.strictObject({
+  length_m: num(1.5, 50, 'm'),
+  width_m: num(1.5, 50, 'm'),
+  height_m: num(1.5, 20, 'm'),
+  /** One position (the pair mirrored about the centre line) or the left and right speakers' own. */
+  speaker_m: v.union([position, v.tuple([position, position])], 'must be [x, y, z] or [[x, y, z], [x, y, z]] in metres'),
+  seat_m: position,
+  /** The average absorption coefficient, or one per surface. */
+  absorption: v.union(
+    [
+      absorption,
+      v.strictObject({
+        floor: absorption,
+        ceiling: absorption,
+        front: absorption,
+        back: absorption,
+        left: absorption,
+        right: absorption,
+      }),
+    ],
+    'must be a number from 0.01 to 0.99, or {floor, ceiling, front, back, left, right} each from 0.01 to 0.99',
+  ),
+});
+
 export const listeningSchema = v.strictObject({
   distance_m: num(0.1, 200, 'm'),
   space: v.picklist(['full', 'half', 'quarter', 'eighth'], 'must be "full", "half", "quarter" or "eighth"'),
@@ -160,6 +188,7 @@ export const listeningSchema = v.strictObject({
   ),
   room_gain_hz: v.optional(num(0, 200, 'Hz')),
   baffle_width_cm: v.optional(num(0, 300, 'cm')),
+  room: v.optional(roomSchema),
 });
 
 export const airSchema = v.optional(

@@ -6,6 +6,7 @@ import { LinearChain } from '../render/linear-chain.ts';
 import { cWeightingFilter } from './weighting.ts';
 import { splDbOfMeanSquare } from '../units.ts';
 import { drivenPaPerV } from '../design/convert.ts';
+import { roomPaths, RoomStage } from '../room/stage.ts';
 
 /**
  * Passband seat pressure per amplifier volt of the design, Pa/V: its bass way's (the first driver
@@ -31,6 +32,11 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
   const nWays = chain.ways.length;
   const out = chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, () => new Float64Array(block)));
   const weights = chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, () => cWeightingFilter(sampleRate)));
+  // The level at the seat is the level in the room when there is one (channel c from speaker c mod the pair).
+  const paths = roomPaths(sys);
+  const rooms =
+    paths &&
+    chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, (_, c) => new RoomStage(paths[c % paths.length], sampleRate)));
   const views: ArrayLike<number>[] = new Array(nCh);
   let energy = 0;
   for (let s = 0; s < frames; s += block) {
@@ -41,6 +47,7 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
       for (let w = 0; w < nWays; w++) {
         if (c >= out[w].length) continue;
         const o = out[w][c];
+        rooms?.[w][c].process(o, n);
         weights[w][c].processInPlace(o, 0, n);
         for (let j = 0; j < n; j++) energy += o[j] * o[j];
       }

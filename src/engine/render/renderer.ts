@@ -12,6 +12,7 @@ import { CHUNK, DriverWayChain, FlatWayChain, type LaneSource, offsetDelays, STA
 import { emptyWayStats, OutputDistortion, WayStress, type WayStats } from './stress-meter.ts';
 import { TraceRecorder, type Traces } from './trace-recorder.ts';
 import { OutputGuard, type RenderMode, type SampleBuffer, type SideStreams } from './output-guard.ts';
+import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
 
 export type { RenderMode, SampleBuffer } from './output-guard.ts';
 export {
@@ -84,6 +85,8 @@ export class Renderer {
   private readonly src: LaneSource = { inputs: [], s: 0, n: 0, channels: 1 };
   private frames = 0;
   private limiterDb = 0;
+  /** The listening room on the summed output (none without a room). */
+  private room: { key: string; streams: RoomStreams } | null = null;
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
@@ -149,6 +152,7 @@ export class Renderer {
       return s;
     });
     this.recorder.setWays(this.drivers.map((d) => d.way.name));
+    this.room = roomStreamsFor(sys, this.channels, fsr, fresh ? null : this.room);
     // When every driver way is shared, the channels' residuals are one: meter one channel.
     if (fresh) this.distortion.setChannels(this.drivers.every((d) => d.monoSum) ? 1 : this.channels, this.events);
   }
@@ -260,6 +264,8 @@ export class Renderer {
     this.distortion.measure(outN, outR, n, t0, dt, this.events);
     for (let w = 0; w < this.drivers.length; w++) this.stress[w].measure(this.drivers[w].lanes, n, t0, dt, this.events);
     this.recorder.advance(n, this.stress, this.distortion);
+    // The room changes what the listener hears, not what the drivers do: after the stress meters.
+    this.room?.streams.process(this.streams, n);
     // 4. Calibration and the true-peak guard.
     this.guard.write(this.mode, this.streams, n, 1 / this.paPerFs, outputs, s, extra);
     this.frames += n;

@@ -12,6 +12,7 @@ import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import type { Analysis, Curves, Figures, MaxSplLimit, NetworkCurves, PartFigure, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
 import { sealedAlignment } from '../box/sealed.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
+import { roomAnalysis } from '../room/analysis.ts';
 
 /** "-3 dB" is the half-power point, 10·log10(2) = 3.0103 dB down, as in the published F3 tables. */
 export const HALF_POWER_DB = 10 * Math.log10(2);
@@ -581,12 +582,15 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const placed = placeWays(system, freqHz, driveV);
   const ways = driverWays.map((way) => analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned));
   const first = ways[0];
+  const sum = analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned);
+  const room = roomAnalysis(system, freqHz, sum.curves.splDb);
   return {
     ...first,
     system,
     driveV,
     ways,
-    sum: analyzeSum(system, placed, freqHz, driveV, sumPerVolt, planned),
+    sum,
+    ...(room ? { room } : {}),
     warnings: ways.flatMap((w) => w.warnings),
   };
 }

@@ -1,3 +1,4 @@
+import type { RoomAnalysis } from '../room/analysis.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
 import type { BoxFigure } from '../box/physics.ts';
@@ -174,4 +175,6 @@ export interface Analysis extends WayAnalysis {
   driveV: number;
   ways: WayAnalysis[];
   sum: SumAnalysis;
+  /** The listening room's effect on the sum at the seat, when the design has a room. */
+  room?: RoomAnalysis;
 }

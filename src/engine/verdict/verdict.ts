@@ -2,6 +2,7 @@
 // A sentence whose inputs are missing is left out rather than guessed.
 import type { Analysis } from '../response/types.ts';
 import { PORT_SPEED_LIMIT } from '../response/analyze.ts';
+import { roomSentence } from '../room/sentence.ts';
 
 /** What a headroom search on one track found (the same fields as `preheard headroom --json`). */
 export interface HeadroomFinding {
@@ -13,7 +14,7 @@ export interface HeadroomFinding {
 }
 
 export interface VerdictLine {
-  id: 'extension' | 'bass' | 'sensitivity' | 'size' | 'headroom' | 'port' | 'delay' | 'limit';
+  id: 'extension' | 'bass' | 'sensitivity' | 'size' | 'headroom' | 'port' | 'delay' | 'limit' | 'room';
   text: string;
 }
 
@@ -131,5 +132,7 @@ export function verdict(
     id: 'delay',
     text: `Group delay at 40 Hz: ${na} ${one(fa.groupDelay40Ms)} ms, ${nb} ${one(fb.groupDelay40Ms)} ms.`,
   });
+  const room = roomSentence(a, b, [na, nb]);
+  if (room) out.push({ id: 'room', text: room });
   return out;
 }

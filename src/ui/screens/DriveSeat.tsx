@@ -4,6 +4,7 @@ import type { ListeningDoc, PlannedLevelDoc } from '../../engine/design/document
 import { useApp } from '../context.ts';
 import { Choice, Group, Num, Out, Row, Sheet, useModel } from '../components/Sheet.tsx';
 import type { Slot } from '../store.ts';
+import { RoomPairSwitch, RoomSketch } from '../components/RoomSketch.tsx';
 
 const SPACES: { value: ListeningDoc['space']; label: string }[] = [
   { value: 'full', label: 'Free field (full space)' },
@@ -158,6 +159,10 @@ export function DriveSeat() {
             />
           )}
         />
+      </Group>
+      <Group title="Room" note="a rectangular room's modes at the seat; drag the speakers and the seat">
+        <Row label="Both designs" cell={(s) => (s === 'a' ? <RoomPairSwitch /> : null)} />
+        <Row label="Seen from above" hint="front wall at the top" cell={(s) => <RoomSketch slot={s} />} />
       </Group>
       <Group title="Planned level">
         <Row
