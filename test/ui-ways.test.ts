@@ -7,7 +7,7 @@ import { addWay, canRemoveWay, clampWay, copyWayInto, firstDriverIndex, freeName
 import { eventLanes } from '../src/ui/bench/event-lanes.ts';
 import { buildCharts } from '../src/ui/charts/specs.ts';
 import { analyze } from '../src/engine/response/analyze.ts';
-import type { DesignDoc, DriverWayDoc } from '../src/engine/design/document.ts';
+import { activeFilterOf, type DesignDoc, type DriverWayDoc } from '../src/engine/design/document.ts';
 import type { StressEvent } from '../src/engine/render/index.ts';
 
 const valid = (d: DesignDoc) => {
@@ -19,17 +19,17 @@ const valid = (d: DesignDoc) => {
 describe('way edits', () => {
   it('adds a tweeter, a midrange and a flat band that the engine accepts, up to four ways', () => {
     const b = demoPair().b;
-    const fx = (b.ways[0] as DriverWayDoc).filter?.lowpass?.hz;
+    const fx = activeFilterOf(b.ways[0])?.lowpass?.hz;
     const t = addWay(b, 'tweeter');
     expect(t.ways.length).toBe(3);
     const tw = t.ways[2] as DriverWayDoc;
-    expect(tw.filter?.highpass).toEqual({ shape: 'lr4', hz: fx });
+    expect(activeFilterOf(tw)?.highpass).toEqual({ shape: 'lr4', hz: fx });
     expect(tw.box.type).toBe('sealed');
     expect(valid(t).system.ways.map((w) => w.kind)).toEqual(['driver', 'flat', 'driver']);
     const m = addWay(t, 'midrange');
     const mid = m.ways[3] as DriverWayDoc;
     // The midrange band sits below the crossover: its high-pass under its low-pass.
-    expect(mid.filter!.highpass!.hz).toBeLessThan(mid.filter!.lowpass!.hz);
+    expect(activeFilterOf(mid)!.highpass!.hz).toBeLessThan(activeFilterOf(mid)!.lowpass!.hz);
     expect(valid(m).system.ways.length).toBe(4);
     expect(addWay(m, 'flat')).toBe(m);
     // Names stay unique.

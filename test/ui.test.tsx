@@ -34,7 +34,7 @@ import { App } from '../src/ui/App.tsx';
 import { Store } from '../src/ui/store.ts';
 import { Autosave, memoryBackend, type StorageBackend } from '../src/ui/persist.ts';
 import { demoPair } from '../src/ui/demo.ts';
-import type { DesignDoc, DriverWayDoc } from '../src/engine/design/document.ts';
+import { activeFilterOf, type DesignDoc, type DriverWayDoc } from '../src/engine/design/document.ts';
 
 const woofer = (d: DesignDoc) => d.ways[0] as DriverWayDoc;
 
@@ -128,17 +128,17 @@ describe('the app', () => {
     const tw = b1.ways[2] as DriverWayDoc;
     expect(tw.name).toBe('tweeter');
     // The tweeter is crossed where the woofer is (its low-pass), in a small closed box.
-    expect(tw.filter?.highpass).toEqual({ shape: 'lr4', hz: woofer(b0).filter?.lowpass?.hz });
+    expect(activeFilterOf(tw)?.highpass).toEqual({ shape: 'lr4', hz: activeFilterOf(woofer(b0))?.lowpass?.hz });
     expect(tw.box).toEqual({ type: 'sealed', vb_l: 0.12 });
     // The sheet now shows B's tweeter beside A's woofer.
     expect((screen.getByTestId('way-pick-b') as HTMLSelectElement).value).toBe('2');
     expect((screen.getByLabelText('Resonance fs, design B') as HTMLInputElement).value).toBe('950');
     expect((screen.getByLabelText('Resonance fs, design A') as HTMLInputElement).value).toBe(String(woofer(b0).driver.fs_hz));
-    expect((screen.getByLabelText('High-pass corner, design B') as HTMLInputElement).value).toBe(String(tw.filter?.highpass?.hz));
+    expect((screen.getByLabelText('High-pass corner, design B') as HTMLInputElement).value).toBe(String(activeFilterOf(tw)?.highpass?.hz));
     await act(() => {
       fireEvent.input(screen.getByLabelText('Way gain, design B'), { target: { value: '-3' } });
     });
-    expect(store.get().designs.b.ways[2].filter?.gain_db).toBe(-3);
+    expect(activeFilterOf(store.get().designs.b.ways[2])?.gain_db).toBe(-3);
     await act(() => {
       fireEvent.click(screen.getByRole('tab', { name: 'Cabinet' }));
     });

@@ -5,7 +5,7 @@ import type { SpeakerSystem } from '../engine/system.ts';
 import type { RenderMode, StressEvent } from '../engine/render/index.ts';
 import { EVENT_KINDS } from '../engine/render/index.ts';
 import { LANE_IDS, type LaneId } from './lanes.ts';
-import { FILTER_SHAPES, MAX_DRIVERS_PER_WAY, MAX_WAYS } from '../engine/design/schema.ts';
+import { FILTER_SHAPES, LADDER_PARTS, MAX_DRIVERS_PER_WAY, MAX_WAYS } from '../engine/design/schema.ts';
 import { BOX_TYPES } from '../engine/box/index.ts';
 
 export type { LaneId };
@@ -171,6 +171,15 @@ function way(v: unknown, path: string): void {
   }
   num(w, 'count', 1, MAX_DRIVERS_PER_WAY, path, true);
   oneOf(w, 'wiring', ['series', 'parallel'], path);
+  if (w.network !== undefined) {
+    if (!Array.isArray(w.network)) throw new Bad(`${path}.network must be a list of parts, got ${show(w.network)}`);
+    for (const [k, p] of w.network.entries()) {
+      const q = obj(p, `${path}.network[${k}]`);
+      oneOf(q, 'at', ['series', 'shunt'], `${path}.network[${k}]`);
+      oneOf(q, 'part', LADDER_PARTS, `${path}.network[${k}]`);
+      for (const x of ['r', 'l', 'c', 'dcr', 'ratedW']) num(q, x, 0, Number.MAX_VALUE, `${path}.network[${k}]`);
+    }
+  }
   oneOf(obj(w.box, `${path}.box`), 'type', BOX_TYPES, `${path}.box`);
 }
 

@@ -73,6 +73,7 @@ function wayJson(a: Analysis, wa: WayAnalysis) {
     spl_40_db: round(f.spl40Db),
     spl_50_db: round(f.spl50Db),
     group_delay_40_ms: round(f.groupDelay40Ms),
+    ...(wa.curves.network ? { network: networkJson(wa) } : {}),
     warnings: wa.warnings.map((w) => ({ path: w.path, message: w.message })),
     curves: {
       freq_hz: list(wa.curves.freqHz),
@@ -91,6 +92,22 @@ function wayJson(a: Analysis, wa: WayAnalysis) {
   };
 }
 
+/** A passive way's network: each part at the planned level, the transfer and the drivers' own impedance. */
+function networkJson(wa: WayAnalysis) {
+  const n = wa.curves.network!;
+  return {
+    parts: (wa.figures.parts ?? []).map((p) => ({
+      part: p.label,
+      peak_power_w: round(p.peakPowerW),
+      peak_power_hz: round(p.peakPowerHz),
+      peak_current_a: round(p.peakCurrentA),
+      peak_current_hz: round(p.peakCurrentHz),
+      rated_w: p.ratedW,
+    })),
+    curves: { transfer_db: list(n.transferDb), transfer_deg: list(n.transferDeg), driver_impedance_ohm: list(n.driverImpedanceOhm) },
+  };
+}
+
 /** The whole system at the seat: the summed response and its figures. */
 function sumJson(a: Analysis) {
   const f = a.sum.figures;
@@ -103,6 +120,8 @@ function sumJson(a: Analysis) {
     planned_volts_rms: round(f.plannedVoltsRms),
     planned_spl_db: round(f.plannedSplDb),
     group_delay_40_ms: round(f.groupDelay40Ms),
+    passive_load_min_ohm: f.passiveLoadMinOhm === null ? null : round(f.passiveLoadMinOhm),
+    passive_load_min_hz: f.passiveLoadMinHz === null ? null : round(f.passiveLoadMinHz),
     curves: {
       freq_hz: list(a.sum.curves.freqHz),
       spl_db: list(a.sum.curves.splDb),
@@ -187,8 +206,17 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
     ['peak excursion', `${j.peak_excursion_mm} mm at ${j.drive_v} V (Xmax ${j.driver.xmax_mm} mm)`],
   );
   if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${j.peak_port_speed_m_s} m/s at ${j.drive_v} V`]);
-  rows.push(['minimum impedance', `${j.z_min_ohm} ohm`]);
+  rows.push([j.network ? 'minimum impedance (network)' : 'minimum impedance', `${j.z_min_ohm} ohm`]);
   if (bass) rows.push(['group delay at 40 Hz', `${j.group_delay_40_ms} ms`]);
+  for (const p of j.network?.parts ?? []) {
+    const rated = p.rated_w === null ? '' : ` (rated ${p.rated_w} W)`;
+    rows.push([
+      `part ${p.part}`,
+      `${p.peak_current_a} A rms at ${p.peak_current_hz} Hz, ` +
+        (p.peak_power_w ? `${p.peak_power_w} W at ${p.peak_power_hz} Hz${rated}` : 'no heat (an ideal part)') +
+        ' (sine at the planned level)',
+    ]);
+  }
   return rows;
 }
 
@@ -210,6 +238,10 @@ function table(a: Analysis): string {
         ['planned level', `${s.planned_volts_rms} V rms`],
       ],
     });
+    if (s.passive_load_min_ohm !== null)
+      sections
+        .at(-1)!
+        .rows.push(['amplifier load minimum', `${s.passive_load_min_ohm} ohm at ${s.passive_load_min_hz} Hz (the passive ways together)`]);
   }
   if (j.room) {
     const r = j.room;

@@ -102,6 +102,26 @@ export interface ActiveFilter {
   delay: number;
 }
 
+/**
+ * One part of a passive ladder in SI: a two-terminal impedance in the line (`series`) or across it
+ * (`shunt`). Its inductance carries its winding's resistance `dcr` in series; `rc` and `rlc` are
+ * their elements in series; `lc-parallel` is L (with its dcr) parallel C, parallel `r` when r > 0.
+ */
+export interface LadderPart {
+  at: 'series' | 'shunt';
+  part: 'l' | 'c' | 'r' | 'rc' | 'rlc' | 'lc-parallel';
+  /** ohm; 0 when the part has no resistor. */
+  r: number;
+  /** H; 0 when none. */
+  l: number;
+  /** F; 0 when none. */
+  c: number;
+  /** The inductor's winding resistance, ohm. */
+  dcr: number;
+  /** The resistor's rated power, W; 0 when not given. */
+  ratedW: number;
+}
+
 interface WayCommon {
   name: string;
   filter: ActiveFilter;
@@ -122,6 +142,11 @@ export interface DriverWay extends WayCommon {
   count: number;
   wiring: 'series' | 'parallel';
   box: Box;
+  /**
+   * A passive network between the way's amplifier channel and its drivers, amplifier end first;
+   * absent for an active way. A passive way's `filter` is the identity (gain 1, no bands, no delay).
+   */
+  network?: LadderPart[];
 }
 
 /** An ideal flat band at a given passband pressure per volt (the first version's upper path). */

@@ -12,7 +12,7 @@ export const CAUTIONS: { title: string; text: string }[] = [
   },
   {
     title: 'Amplifiers and mains are electrical hazards',
-    text: 'Amplifier outputs and mains wiring can deliver dangerous currents; large cabinets are heavy. Defer to local codes and licensed practice for wiring, installation and rigging.',
+    text: 'Amplifier outputs and mains wiring can deliver dangerous currents; large cabinets are heavy. Defer to local codes and licensed practice for wiring, installation and rigging. A passive crossover at high power gets hot: its resistors and inductors must be rated for the power they take.',
   },
 ];
 

@@ -1,6 +1,8 @@
 // The built-in demo pair, embedded in the bundle so the app opens on it without any request.
 import sealed from '../../public/examples/living-room-sealed.json';
 import vented from '../../public/examples/living-room-vented.json';
+import passive2 from '../../public/examples/bookshelf-two-way-passive.json';
+import passive3 from '../../public/examples/bookshelf-two-way-passive-3rd.json';
 import inRoom from '../../public/examples/living-room-vented-in-room.json';
 import type { DesignDoc, ListeningDoc } from '../engine/design/document.ts';
 import { validate } from './engine.ts';
@@ -15,6 +17,11 @@ function checked(json: unknown, which: string): DesignDoc {
 /** A fresh copy every time, so edits never reach the embedded originals. */
 export function demoPair(): Designs {
   return { a: checked(structuredClone(sealed), 'sealed'), b: checked(structuredClone(vented), 'vented') };
+}
+
+/** A passive two-way pair: the same bookshelf speaker with a second- (A) and a third-order (B) tweeter network. */
+export function passivePair(): Designs {
+  return { a: checked(structuredClone(passive2), 'passive two-way'), b: checked(structuredClone(passive3), 'passive third-order') };
 }
 
 /** The client's invented living room of the examples, a fresh copy. */

@@ -1,6 +1,14 @@
 // The ways of a design document: which one is meant, and the edits that add, remove or copy one.
 // Pure functions on documents; the new document goes to the store as one undoable step.
-import { MAX_WAYS, type DesignDoc, type DriverWayDoc, type FlatWayDoc, type WayDoc } from '../engine/design/document.ts';
+import {
+  activeFilterOf,
+  MAX_WAYS,
+  type DesignDoc,
+  type DriverWayDoc,
+  type FlatWayDoc,
+  type LadderPartDoc,
+  type WayDoc,
+} from '../engine/design/document.ts';
 import type { DriverWay, SpeakerSystem, Way } from '../engine/system.ts';
 
 export { MAX_WAYS };
@@ -59,9 +67,10 @@ export function freeName(doc: DesignDoc, base: string): string {
   for (let k = 2; ; k++) if (!used.has(`${base} ${k}`)) return `${base} ${k}`;
 }
 
-/** Where the design splits bass from treble: the first driver way's low-pass, else 2200 Hz. */
+/** Where the design splits bass from treble: the first driver way's active low-pass, else 2200 Hz. */
 export function crossoverHz(doc: DesignDoc): number {
-  return firstDriverWay(doc)?.filter?.lowpass?.hz ?? 2200;
+  const first = firstDriverWay(doc);
+  return (first && activeFilterOf(first)?.lowpass?.hz) ?? 2200;
 }
 
 /**
@@ -159,4 +168,33 @@ export function copyWayInto(target: DesignDoc, way: WayDoc): { doc: DesignDoc; i
   }
   if (!canAddWay(target)) return null;
   return { doc: { ...target, ways: [...target.ways, copy] }, index: target.ways.length };
+}
+
+/** Two significant digits, as parts are sold. */
+const partValue = (x: number): number => Number(x.toPrecision(2));
+
+/**
+ * A passive network to start from when a way switches to one: second-order Butterworth sections
+ * (series L and shunt C for a low-pass, series C and shunt L for a high-pass) at the active
+ * filter's corners for a load of the driver's Re, L = sqrt2·R/w0, C = 1/(sqrt2·R·w0) (the
+ * textbook LC ladder into a resistor; the real driver's impedance moves the response, as it does).
+ */
+export function starterLadder(way: DriverWayDoc): LadderPartDoc[] {
+  const active = activeFilterOf(way);
+  const r = way.driver.re_ohm;
+  const section = (hz: number, lowpass: boolean): LadderPartDoc[] => {
+    const w0 = 2 * Math.PI * hz;
+    const mh = partValue(((Math.SQRT2 * r) / w0) * 1000);
+    const uf = partValue(1e6 / (Math.SQRT2 * r * w0));
+    return lowpass
+      ? [
+          { at: 'series', part: 'l', mh, dcr_ohm: 0.2 },
+          { at: 'shunt', part: 'c', uf },
+        ]
+      : [
+          { at: 'series', part: 'c', uf },
+          { at: 'shunt', part: 'l', mh, dcr_ohm: 0.2 },
+        ];
+  };
+  return [...(active?.highpass ? section(active.highpass.hz, false) : []), ...(active?.lowpass ? section(active.lowpass.hz, true) : [])];
 }

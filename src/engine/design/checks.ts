@@ -3,6 +3,7 @@ import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { respond } from '../response/frequency.ts';
 import { abs } from '../complex.ts';
+import { ladderPassesBass } from '../response/ladder.ts';
 
 /**
  * Rough volume a driver itself occupies, 0.35·Sd^1.5 (gives about 0.5 l for a 6.5 inch woofer and
@@ -22,7 +23,7 @@ function wayPlausibility(system: SpeakerSystem, way: DriverWay, at: string): Iss
   const out: Issue[] = [];
   const { unit: d, box } = way;
   // A way without a high-pass, or with a low-pass, plays bass: the bass-driver checks apply.
-  const bass = way.filter.lowpass !== null || way.filter.highpass === null;
+  const bass = way.network ? ladderPassesBass(way.network) : way.filter.lowpass !== null || way.filter.highpass === null;
   const xmaxMm = d.xmax * 1000;
   // Home bass drivers have a few mm of travel, large PA bass drivers about 25 mm (common practice, no source).
   if (xmaxMm > 30)

@@ -1,7 +1,7 @@
 // DesignDoc (document units) -> SpeakerSystem (SI). The only place units are converted on the way in.
-import type { DesignDoc, DriverDoc, FilterDoc, FlatWayDoc } from './document.ts';
+import { activeFilterOf, type DesignDoc, type DriverDoc, type FilterDoc, type FlatWayDoc, type PassiveFilterDoc } from './document.ts';
 import { toRoom } from '../room/build.ts';
-import type { ActiveFilter, Air, Driver, FlatWay, Listening, SpeakerSystem, ThermalParams, Way } from '../system.ts';
+import type { ActiveFilter, Air, LadderPart, Driver, DriverWay, FlatWay, Listening, SpeakerSystem, ThermalParams, Way } from '../system.ts';
 import { P_REF, SENSITIVITY_VOLTS } from '../units.ts';
 import { airAt } from '../air.ts';
 import { deriveSmallSignal, totalQ, type SmallSignalInput } from '../driver.ts';
@@ -143,7 +143,9 @@ function toDriver(d: DriverDoc, air: Air, path: string, issues: Issue[]): Driver
   };
 }
 
-function toFilter(doc: FilterDoc | undefined): ActiveFilter {
+function toFilter(doc: FilterDoc | PassiveFilterDoc | undefined): ActiveFilter {
+  // A passive way's network sits after the amplifier; in front of it the signal passes unchanged.
+  if (doc?.type === 'passive') return { type: 'active', highpass: null, lowpass: null, gain: 1, delay: 0 };
   return {
     type: 'active',
     highpass: doc?.highpass ? { shape: doc.highpass.shape, hz: doc.highpass.hz } : null,
@@ -151,6 +153,35 @@ function toFilter(doc: FilterDoc | undefined): ActiveFilter {
     gain: 10 ** ((doc?.gain_db ?? 0) / 20),
     delay: (doc?.delay_ms ?? 0) / 1000,
   };
+}
+
+/** A passive ladder in SI; its problems (a network that cuts the driver off) under `path`. */
+function toNetwork(doc: PassiveFilterDoc, path: string, issues: Issue[]): LadderPart[] {
+  const parts = doc.ladder.map(
+    (p): LadderPart => ({
+      at: p.at,
+      part: p.part,
+      r: 'ohm' in p ? (p.ohm ?? 0) : 0,
+      l: 'mh' in p ? p.mh / 1000 : 0,
+      c: 'uf' in p ? p.uf * 1e-6 : 0,
+      dcr: 'dcr_ohm' in p ? (p.dcr_ohm ?? 0) : 0,
+      ratedW: 'w' in p ? (p.w ?? 0) : 0,
+    }),
+  );
+  parts.forEach((p, k) => {
+    // A plain resistor or an inductor across the line shorts the amplifier at DC: allowed (a pad's
+    // shunt arm, a high-pass), but a series capacitor leaves nothing to refuse either. What cannot
+    // work is a shunt that is a plain wire, which the schema's minimum values already rule out.
+    if (p.at === 'series' && p.part === 'lc-parallel' && p.r === 0 && p.dcr === 0) {
+      issues.push(
+        warning(
+          `${path}[${k}]`,
+          'a trap without a resistor cuts its band off completely at its resonance: give its ohm (the trap depth) or the inductor dcr_ohm',
+        ),
+      );
+    }
+  });
+  return parts;
 }
 
 /** Passband seat pressure per amplifier volt of a driver way: rho·Bl·Sd/((Re + Rs)·Mms·Omega·r). */
@@ -187,8 +218,9 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
   doc.ways.forEach((w, k) => {
     if (names.has(w.name)) issues.push(error(`ways[${k}].name`, `"${w.name}" is the name of an earlier way; each way needs its own name`));
     names.add(w.name);
-    const hp = w.filter?.highpass?.hz;
-    const lp = w.filter?.lowpass?.hz;
+    const active = activeFilterOf(w);
+    const hp = active?.highpass?.hz;
+    const lp = active?.lowpass?.hz;
     if (hp !== undefined && lp !== undefined && hp >= lp) {
       issues.push(error(`ways[${k}].filter.highpass.hz`, `${fmt(hp)} Hz must lie below the low-pass at ${fmt(lp)} Hz`));
     } else if (hp !== undefined && lp !== undefined && hp * 4 > lp) {
@@ -221,7 +253,9 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
     const built = BOX_KINDS[w.box.type].build(w.box as never, { air, driver, rs }, `${path}.box`);
     issues.push(...built.issues);
     if (!built.box) return;
-    ways.push({ kind: 'driver', ...common, driver, unit, count, wiring, box: built.box });
+    const way: DriverWay = { kind: 'driver', ...common, driver, unit, count, wiring, box: built.box };
+    if (w.filter?.type === 'passive') way.network = toNetwork(w.filter, `${path}.filter.ladder`, issues);
+    ways.push(way);
   });
   if (issues.some((i) => i.severity === 'error')) return { system: null, issues };
   const firstDriven = ways.find((w) => w.kind === 'driver');

@@ -1,7 +1,7 @@
 // How deeply a parsed JSON value nests, measured without recursion: a design is four levels deep,
 // and a value nested thousands of levels deep would overflow the stack of any recursive reader.
 
-/** Deepest nesting a design document may have; the real format needs 4 (design.box.ports[0]). */
+/** Deepest nesting a design document may have; the real format needs 6 (design.ways[0].filter.ladder[0]). */
 export const MAX_DESIGN_DEPTH = 16;
 
 /** True when `value` holds objects or arrays nested more than `limit` levels deep. */

@@ -91,9 +91,50 @@ export const activeFilterSchema = v.strictObject({
   delay_ms: v.optional(num(0, 50, 'ms')),
 });
 
+/** Parts in one passive ladder, at most. */
+export const MAX_LADDER_PARTS = 16;
+export const LADDER_PARTS = ['l', 'c', 'r', 'rc', 'rlc', 'lc-parallel'] as const;
+const ladderPlace = v.picklist(['series', 'shunt'], 'must be "series" or "shunt"');
+const partCommon = {
+  at: ladderPlace,
+  /** Tolerance of the part's value, percent (kept for later; not yet used). */
+  tol_pct: v.optional(num(0, 50, '%')),
+};
+const mh = num(0.001, 1000, 'mH');
+const uf = num(0.01, 100000, 'µF');
+const ohm = num(0.001, 10000, 'ohm');
+/** A resistor's rated power, W: a part stress event when it is passed. */
+const ratedW = v.optional(num(0.1, 10000, 'W'));
+const dcr = v.optional(num(0, 100, 'ohm'));
+/**
+ * One part of a passive ladder, from the amplifier towards the driver: across the line (`shunt`)
+ * or in it (`series`). `rc` and `rlc` are their parts in series (a compensation network, a notch);
+ * `lc-parallel` is a tank (a trap), its optional `ohm` across it setting the trap's depth.
+ */
+export const ladderPartSchema = v.variant(
+  'part',
+  [
+    v.strictObject({ ...partCommon, part: v.literal('l'), mh, dcr_ohm: dcr }),
+    v.strictObject({ ...partCommon, part: v.literal('c'), uf }),
+    v.strictObject({ ...partCommon, part: v.literal('r'), ohm, w: ratedW }),
+    v.strictObject({ ...partCommon, part: v.literal('rc'), ohm, uf, w: ratedW }),
+    v.strictObject({ ...partCommon, part: v.literal('rlc'), ohm, mh, uf, dcr_ohm: dcr, w: ratedW }),
+    v.strictObject({ ...partCommon, part: v.literal('lc-parallel'), mh, uf, dcr_ohm: dcr, ohm: v.optional(ohm), w: ratedW }),
+  ],
+  `part must be one of ${LADDER_PARTS.map((p) => `"${p}"`).join(', ')}`,
+);
+
+/** A passive network between the way's amplifier channel and its drivers. */
+export const passiveFilterSchema = v.strictObject({
+  type: v.literal('passive', 'must be "passive"'),
+  ladder: v.pipe(
+    v.array(ladderPartSchema, 'must be a list of parts'),
+    v.maxLength(MAX_LADDER_PARTS, `must have at most ${MAX_LADDER_PARTS} parts`),
+  ),
+});
+
 const wayCommon = {
   name: v.pipe(text(40), v.minLength(1, 'must not be empty')),
-  filter: v.optional(activeFilterSchema),
   polarity: v.optional(v.picklist([1, -1], 'must be 1 or -1')),
   offset_mm: v.optional(num(-500, 500, 'mm')),
 };
@@ -169,6 +210,8 @@ export function makeDesignSchema<const B extends v.ObjectSchema<any, any>[] | v.
   const driverWaySchema = v.strictObject({
     kind: v.literal('driver'),
     ...wayCommon,
+    // A driver way's filter is active (before its amplifier channel) or a passive network (after it).
+    filter: v.optional(v.variant('type', [activeFilterSchema, passiveFilterSchema], 'type must be "active" or "passive"')),
     driver: driverSchema,
     count: v.optional(int(1, MAX_DRIVERS_PER_WAY)),
     wiring: v.optional(v.picklist(['series', 'parallel'], 'must be "series" or "parallel"')),
@@ -179,6 +222,8 @@ export function makeDesignSchema<const B extends v.ObjectSchema<any, any>[] | v.
   const flatWaySchema = v.strictObject({
     kind: v.literal('flat'),
     ...wayCommon,
+    // An ideal band has no impedance for a passive network to work into.
+    filter: v.optional(activeFilterSchema),
     sensitivity_db: v.optional(num(40, 130, 'dB at 2.83 V, 1 m')),
   });
   const waySchema = v.variant('kind', [driverWaySchema, flatWaySchema], 'kind must be "driver" or "flat"');

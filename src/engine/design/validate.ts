@@ -102,7 +102,7 @@ export function parseDesign(input: unknown): ParseResult {
     return { ok: false, errors: [error('', 'a design must be a JSON object')], warnings: [] };
   }
   if (nestedDeeperThan(raw, MAX_DESIGN_DEPTH)) {
-    return { ok: false, errors: [error('', `nests more than ${MAX_DESIGN_DEPTH} levels deep; a design needs 4`)], warnings: [] };
+    return { ok: false, errors: [error('', `nests more than ${MAX_DESIGN_DEPTH} levels deep; a design needs 6`)], warnings: [] };
   }
   const obj = raw as Record<string, unknown>;
   if (obj.format !== DESIGN_FORMAT) {

@@ -3,11 +3,13 @@
 // the way's pressure per volt (polarity and gain included). No stress model and no delays: level
 // calibration adds the ways' energies, which a delay does not change. Also the speed benchmark's
 // subject against a native Web Audio implementation.
-import type { SpeakerSystem, Way } from '../system.ts';
+import type { DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { BiquadCascade, packSections } from '../filters/biquad.ts';
 import { wayFilterBiquads } from '../filters/way-filter.ts';
 import { rationalToBiquads } from '../filters/analog.ts';
-import { wooferParams } from '../sim/params.ts';
+import type { WooferParams } from '../sim/params.ts';
+import { LinearBehindLadder, wayParams } from '../sim/ladder.ts';
+import { LinearRecurrence } from '../sim/linear.ts';
 import { speakerTransfer } from '../sim/transfer.ts';
 import { baffleStepSection, roomGainSection } from '../filters/room.ts';
 
@@ -19,6 +21,11 @@ export interface LinearWayDesign {
   gain: number;
   /** Played from the channels' mean (the bass way of a mono-sum pair). */
   monoSum: boolean;
+  /**
+   * A passive way: the driver's state-space twin behind its network runs before `coef` (which then
+   * holds the room gain and baffle step only) and `gain` is its polarity.
+   */
+  passive?: { way: DriverWay; params: WooferParams; rs: number };
 }
 
 function designWay(sys: SpeakerSystem, way: Way, monoSum: boolean, sampleRate: number): LinearWayDesign {
@@ -29,10 +36,14 @@ function designWay(sys: SpeakerSystem, way: Way, monoSum: boolean, sampleRate: n
     // The first version's flat band: its sign times its Pa/V, then the gain (exact when 1).
     return { name: way.name, coef: parts(filter, baffle), gain: way.polarity * way.paPerV * way.filter.gain, monoSum };
   }
-  const p = wooferParams(sys, way, 1 / sampleRate, { linear: true });
+  const p = wayParams(sys, way, 1 / sampleRate, { linear: true });
+  const room = roomGainSection(sys.listening.roomGainHz, sampleRate);
+  if (way.network) {
+    // A network's response depends on the driver's impedance: run the circuit, not a transfer.
+    return { name: way.name, coef: parts(room, baffle), gain: way.polarity, monoSum, passive: { way, params: p, rs: sys.amplifier.rs } };
+  }
   const tf = speakerTransfer(p);
   const spk = rationalToBiquads(tf.num, tf.den, sampleRate);
-  const room = roomGainSection(sys.listening.roomGainHz, sampleRate);
   return { name: way.name, coef: parts(filter, spk.coef, room, baffle), gain: spk.gain * way.filter.gain * way.polarity, monoSum };
 }
 
@@ -51,15 +62,33 @@ export class LinearChain {
   readonly ways: LinearWayDesign[];
   /** Per way, one cascade per lane (one lane for a shared way). */
   private readonly lanes: BiquadCascade[][];
+  /** Per way, per lane: a passive way's driver behind its network (null for the others). */
+  private readonly circuits: (LinearBehindLadder | null)[][];
 
   constructor(
     sys: SpeakerSystem,
     sampleRate: number,
     readonly channels: number,
-    voltsFs: number,
+    private readonly voltsFs: number,
   ) {
     this.ways = designLinearChain(sys, sampleRate, sys.listening.channels === 'mono-sum' && channels > 1);
-    this.lanes = this.ways.map((w) => Array.from({ length: w.monoSum ? 1 : channels }, () => new BiquadCascade(w.coef, w.gain * voltsFs)));
+    this.lanes = this.ways.map((w) =>
+      Array.from({ length: w.monoSum ? 1 : channels }, () => new BiquadCascade(w.coef, w.passive ? w.gain : w.gain * voltsFs)),
+    );
+    this.circuits = this.ways.map((w, k) =>
+      this.lanes[k].map(() => {
+        const pw = w.passive;
+        return pw ? new LinearBehindLadder(new LinearRecurrence(pw.params), pw.way.network!, pw.rs, pw.params.h) : null;
+      }),
+    );
+  }
+
+  /** A passive way's circuit over one lane's block, in place: full scale to volts to seat pressure. */
+  private circuit(w: number, lane: number, o: Float64Array, frames: number): void {
+    const c = this.circuits[w][lane];
+    if (!c) return;
+    for (let j = 0; j < frames; j++) o[j] *= this.voltsFs;
+    c.processBlock(o, o, frames);
   }
 
   /** Lanes of way w: 1 for a shared way, else one per channel. */
@@ -79,6 +108,7 @@ export class LinearChain {
           for (let c = 0; c < nIn; c++) s += inputs[c][j];
           o[j] = s / nIn;
         }
+        this.circuit(w, 0, o, frames);
         lanes[0].processInPlace(o, 0, frames);
         continue;
       }
@@ -86,6 +116,7 @@ export class LinearChain {
         const o = out[w][c],
           inp = inputs[Math.min(c, nIn - 1)];
         for (let j = 0; j < frames; j++) o[j] = inp[j];
+        this.circuit(w, c, o, frames);
         lanes[c].processInPlace(o, 0, frames);
       }
     }

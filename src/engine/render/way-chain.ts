@@ -9,7 +9,8 @@ import { BiquadCascade, packSections } from '../filters/biquad.ts';
 import { wayFilterBiquads } from '../filters/way-filter.ts';
 import { baffleStepSection, roomGainSection } from '../filters/room.ts';
 import { RENDER_HALFBAND } from '../filters/halfband.ts';
-import { wooferParams, type WooferParams } from '../sim/params.ts';
+import type { WooferParams } from '../sim/params.ts';
+import { LadderSim, LinearBehindLadder, wayParams } from '../sim/ladder.ts';
 import { WooferSim } from '../sim/woofer.ts';
 import { LinearRecurrence } from '../sim/linear.ts';
 import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
@@ -79,6 +80,9 @@ export class DriverLane {
   readonly clip = new OversampledClipper(RENDER_HALFBAND);
   sim: WooferSim;
   lin: LinearRecurrence;
+  /** A passive way's network in front of the driver model, and the linear twin's own copy. */
+  net: LadderSim | null = null;
+  linNet: LinearBehindLadder | null = null;
   /** Sum of i^2 since the last coil update. */
   i2 = 0;
   readonly u = new Float64Array(CHUNK);
@@ -96,6 +100,16 @@ export class DriverLane {
   constructor(p: WooferParams) {
     this.sim = new WooferSim(p);
     this.lin = new LinearRecurrence(p);
+  }
+
+  /** Puts the way's passive network (or none) in front of both models; the network starts at rest. */
+  wire(way: DriverWay, rs: number, p: WooferParams): void {
+    if (!way.network) {
+      this.net = this.linNet = null;
+      return;
+    }
+    this.net = new LadderSim(way.network, rs, p.h);
+    this.linNet = new LinearBehindLadder(this.lin, way.network, rs, p.h);
   }
 }
 
@@ -121,9 +135,10 @@ export class DriverWayChain {
   ) {
     this.way = way;
     this.monoSum = monoSum;
-    this.params = wooferParams(sys, way, 1 / sampleRate);
+    this.params = wayParams(sys, way, 1 / sampleRate);
     const nLanes = monoSum ? 1 : channels;
     for (let k = 0; k < nLanes; k++) this.lanes.push(new DriverLane(this.params));
+    for (const lane of this.lanes) lane.wire(way, sys.amplifier.rs, this.params);
     this.configure(sys, way, offsetS);
   }
 
@@ -134,7 +149,7 @@ export class DriverWayChain {
 
   /** A parameter edit: new constants, while the physical state carries on. */
   update(sys: SpeakerSystem, way: DriverWay, offsetS: number): void {
-    const p = wooferParams(sys, way, 1 / this.sampleRate);
+    const p = wayParams(sys, way, 1 / this.sampleRate);
     this.params = p;
     this.way = way;
     for (const lane of this.lanes) {
@@ -143,6 +158,7 @@ export class DriverWayChain {
       lin.adoptState(lane.lin);
       lin.rebuild(lane.sim.r);
       lane.lin = lin;
+      lane.wire(way, sys.amplifier.rs, p);
     }
     this.configure(sys, way, offsetS);
   }
@@ -186,8 +202,9 @@ export class DriverWayChain {
       for (let k = 0; k < n; k++) u[k] *= drive;
       lane.clip.process(u, n, this.rail, this.soft, lane.uClip, lane.uDel);
       const sim = lane.sim;
-      const i2 = sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet);
-      lane.lin.processBlock(lane.uDel, lane.pL, n);
+      const i2 = sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet, lane.net ?? undefined);
+      if (lane.linNet) lane.linNet.processBlock(lane.uDel, lane.pL, n);
+      else lane.lin.processBlock(lane.uDel, lane.pL, n);
       if (lane.roomN) {
         lane.roomN.processInPlace(lane.pN, 0, n);
         lane.roomL!.processInPlace(lane.pL, 0, n);

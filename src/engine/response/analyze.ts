@@ -1,6 +1,6 @@
 // Small-signal analysis of one design: each driver way's curves and figures, and the summed output
 // of all ways at the seat.
-import type { Box, DriverWay, SpeakerSystem } from '../system.ts';
+import type { Box, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import type { BoxFigure, BoxProbe } from '../box/physics.ts';
 import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
@@ -8,8 +8,9 @@ import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts'
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
 import { offsetDelay, passbandPressure, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
+import { ladderInputImpedance, ladderStates, ladderThevenin, partLabel, partPower } from './ladder.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import type { Analysis, Curves, Figures, MaxSplLimit, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
+import type { Analysis, Curves, Figures, MaxSplLimit, NetworkCurves, PartFigure, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
 import { sealedAlignment } from '../box/sealed.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 import { roomAnalysis } from '../room/analysis.ts';
@@ -50,6 +51,19 @@ export const unfiltered = (way: DriverWay): DriverWay => ({
   ...way,
   filter: { type: 'active', highpass: null, lowpass: null, gain: 1, delay: 0 },
 });
+
+/**
+ * A passive way's network acting on its drivers' passband, per source volt relative to the drivers
+ * wired straight to the amplifier: the drivers taken as their resistance Re (well above resonance,
+ * below the coil's inductance), so this is what the network alone does to the way's level and phase.
+ * 1 for an active way.
+ */
+export function networkFlatAt(system: SpeakerSystem, way: Way, w: number): Complex {
+  if (way.kind !== 'driver' || !way.network) return cx(1);
+  const rs = system.amplifier.rs;
+  const th = ladderThevenin(way.network, w, rs);
+  return scale(div(th.gain, add(th.z, cx(way.driver.re))), way.driver.re + rs);
+}
 
 /** Relative frequency step of the group-delay difference quotient. */
 const GD_EPS = 1e-4;
@@ -95,7 +109,7 @@ export function sumPassbandPerVolt(system: SpeakerSystem, distance = system.list
     const w = 2 * Math.PI * f;
     let sum = cx(0);
     for (const way of system.ways) {
-      const h = mul(wayFilterAt(way.filter, w), delayAt(w, offsetDelay(system, way)));
+      const h = mul(mul(wayFilterAt(way.filter, w), networkFlatAt(system, way, w)), delayAt(w, offsetDelay(system, way)));
       sum = add(sum, scale(h, way.polarity * passbandPressure(system, way, 1, distance)));
     }
     return abs(sum);
@@ -135,8 +149,19 @@ function rolloff(relDb: (f: number) => number, startHz: number, dropDb: number):
   return 0.5;
 }
 
-/** A way's passband level through its filter's gain, Pa per amplifier volt at the seat. */
-const wayPassbandPerVolt = (system: SpeakerSystem, way: DriverWay) => passbandPressure(system, way, 1) * Math.abs(way.filter.gain);
+/**
+ * A way's passband level through its filter's gain, Pa per amplifier volt at the seat; through a
+ * passive network, at the network's most open point from 20 Hz to 20 kHz (its pads and its
+ * inductors' winding resistance count).
+ */
+function wayPassbandPerVolt(system: SpeakerSystem, way: DriverWay): number {
+  let open = 1;
+  if (way.network) {
+    open = 0;
+    for (const f of logGrid(20, 20000, 12)) open = Math.max(open, abs(networkFlatAt(system, way, 2 * Math.PI * f)));
+  }
+  return passbandPressure(system, way, 1) * Math.abs(way.filter.gain) * open;
+}
 
 /** Where the scan for a way's low end starts: well above its resonance and its high-pass corner. */
 const scanStartHz = (system: SpeakerSystem, way: DriverWay) =>
@@ -298,6 +323,50 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
   return best;
 }
 
+/** A passive way's network on the grid: its transfer at the analysis drive, its parts at the planned drive. */
+function networkCurves(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, planned: number): NetworkCurves {
+  const parts = way.network ?? [];
+  const n = freqHz.length;
+  const out: NetworkCurves = {
+    transferDb: new Float64Array(n),
+    transferDeg: new Float64Array(n),
+    driverImpedanceOhm: new Float64Array(n),
+    parts: parts.map((p, j) => ({ label: partLabel(p, j), plannedPowerW: new Float64Array(n), plannedCurrentA: new Float64Array(n) })),
+  };
+  for (let k = 0; k < n; k++) {
+    const w = 2 * Math.PI * freqHz[k];
+    const r = respond(system, way, freqHz[k], planned);
+    const t = scale(r.terminalVoltage, 1 / planned);
+    out.transferDb[k] = 20 * Math.log10(abs(t));
+    out.transferDeg[k] = (arg(t) * 180) / Math.PI;
+    out.driverImpedanceOhm[k] = abs(r.impedance);
+    const states = ladderStates(parts, w, r.terminalVoltage, r.current);
+    states.forEach((st, j) => {
+      out.parts[j].plannedPowerW[k] = partPower(parts[j], w, st);
+      out.parts[j].plannedCurrentA[k] = abs(st.current);
+    });
+  }
+  return out;
+}
+
+/** Each part's worst heat and current over 20 Hz to 20 kHz at the planned level. */
+function partFigures(way: DriverWay, curves: Curves): PartFigure[] | null {
+  if (!way.network || !curves.network) return null;
+  return curves.network.parts.map((p, j) => {
+    const power = peakOver(curves.freqHz, p.plannedPowerW, 20, 20000);
+    const current = peakOver(curves.freqHz, p.plannedCurrentA, 20, 20000);
+    const rated = way.network![j].ratedW;
+    return {
+      label: p.label,
+      peakPowerW: power.value,
+      peakPowerHz: power.hz,
+      peakCurrentA: current.value,
+      peakCurrentHz: current.hz,
+      ratedW: rated > 0 ? rated : null,
+    };
+  });
+}
+
 function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz: Float64Array, driveV: number, planned: number): Curves {
   const n = freqHz.length;
   const { box } = way;
@@ -320,6 +389,7 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
     plannedPortAirSpeed: ported ? new Float64Array(n) : null,
     maxSplDb: new Float64Array(n),
     maxSplLimit: new Array<MaxSplLimit>(n),
+    network: way.network ? networkCurves(system, way, freqHz, planned) : null,
   };
   for (let k = 0; k < n; k++) {
     const f = freqHz[k];
@@ -332,8 +402,10 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
     curves.plannedExcursionMm[k] = (xPeakMm * planned) / driveV;
     const stress = outletStress(box, r.outletFlow, 2 * Math.PI * f);
     if (curves.radiatorExcursionMm && stress) curves.radiatorExcursionMm[k] = stress.value;
-    curves.impedanceOhm[k] = abs(r.impedance);
-    curves.phaseDeg[k] = (arg(r.impedance) * 180) / Math.PI;
+    // What the amplifier sees: the drivers, or their network loaded by them.
+    const load = way.network ? ladderInputImpedance(way.network, 2 * Math.PI * f, r.impedance) : r.impedance;
+    curves.impedanceOhm[k] = abs(load);
+    curves.phaseDeg[k] = (arg(load) * 180) / Math.PI;
     // The way as placed in the sum, less its offset's pure delay (polarity leaves the delay alone).
     curves.groupDelayMs[k] = (groupDelayFrom(placed.below[k], placed.above[k], f) - offsetDelay(system, way)) * 1000;
     if (curves.portAirSpeed && curves.plannedPortAirSpeed && stress) {
@@ -348,11 +420,11 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
 }
 
 /** The largest value of `values` over the grid from `fromHz` up, and where. */
-function peakOver(freqHz: Float64Array, values: Float64Array | null, fromHz: number): { value: number; hz: number } {
+function peakOver(freqHz: Float64Array, values: Float64Array | null, fromHz: number, toHz = Infinity): { value: number; hz: number } {
   let value = 0;
   let hz = freqHz[0];
   for (let k = 0; k < freqHz.length; k++) {
-    if (freqHz[k] < fromHz || !values) continue;
+    if (freqHz[k] < fromHz || freqHz[k] > toHz || !values) continue;
     if (values[k] > value) [value, hz] = [values[k], freqHz[k]];
   }
   return { value, hz };
@@ -401,6 +473,7 @@ function wayFigures(system: SpeakerSystem, way: DriverWay, curves: Curves, drive
     spl40Db: spl(40),
     spl50Db: spl(50),
     groupDelay40Ms: wayGroupDelay(system, way, 40) * 1000,
+    parts: partFigures(way, curves),
   };
 }
 
@@ -419,6 +492,17 @@ function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>)
         `${who}a sine at the planned level's drive (${fmt(figures.plannedVoltsRms)} V rms, the programme stand-in's) moves the cone ${fmt(worstX)} mm at ${fmt(figures.plannedPeakExcursionHz)} Hz, beyond Xmax ${fmt(xmaxMm)} mm`,
       ),
     );
+  }
+  // A resistor's rated power against its heat for a sine at the planned level (a passive network).
+  for (const [j, part] of (figures.parts ?? []).entries()) {
+    if (part.ratedW !== null && part.peakPowerW > part.ratedW) {
+      out.push(
+        warning(
+          `ways[${index}].filter.ladder[${j}].w`,
+          `${who}part ${part.label} takes ${fmt(part.peakPowerW)} W at ${fmt(part.peakPowerHz)} Hz for a sine at the planned level, over its rating of ${fmt(part.ratedW)} W`,
+        ),
+      );
+    }
   }
   const worstPort = figures.plannedPeakPortSpeed ?? 0;
   const worstPortHz = figures.plannedPeakPortSpeedHz ?? 0;
@@ -470,7 +554,16 @@ function analyzeSum(
     phaseDeg: new Float64Array(n),
     groupDelayMs: new Float64Array(n),
     ways: system.ways.map((w) => ({ name: w.name, kind: w.kind, splDb: new Float64Array(n) })),
+    passiveLoadOhm: passiveLoad(system, freqHz),
   };
+  let loadMin: { value: number; hz: number } | null = null;
+  if (curves.passiveLoadOhm) {
+    loadMin = { value: Infinity, hz: Number.NaN };
+    for (let k = 0; k < n; k++) {
+      if (freqHz[k] >= 20 && freqHz[k] <= 20000 && curves.passiveLoadOhm[k] < loadMin.value)
+        loadMin = { value: curves.passiveLoadOhm[k], hz: freqHz[k] };
+    }
+  }
   for (let k = 0; k < n; k++) {
     let [below, at, above] = [cx(0), cx(0), cx(0)];
     placed.forEach((p, j) => {
@@ -494,6 +587,8 @@ function analyzeSum(
       plannedVoltsRms: planned,
       plannedSplDb: splDb(sumPerVolt * planned),
       groupDelay40Ms: sumGroupDelay(system, 40) * 1000,
+      passiveLoadMinOhm: loadMin ? loadMin.value : null,
+      passiveLoadMinHz: loadMin ? loadMin.hz : null,
     },
   };
 }
@@ -511,6 +606,23 @@ function shortfallError(system: SpeakerSystem, s: AmplifierShortfall): Issue {
     'listening.level',
     `the planned level (${level}, with the programme stand-in) needs ${fmt(s.needV)} V peaks from the amplifier${several ? ` on the ${s.way} way` : ''}; it gives ${fmt(s.railV)} V: ${fmt(s.shortDb)} dB (${fmt(s.needV - s.railV)} V) short, so it clips on every loud passage`,
   );
+}
+
+/**
+ * The passive ways together on their one amplifier channel: their input impedances in parallel
+ * (each network loaded by its drivers in their box); null when no way is passive.
+ */
+function passiveLoad(system: SpeakerSystem, freqHz: Float64Array): Float64Array | null {
+  const passive = system.ways.filter((w): w is DriverWay => w.kind === 'driver' && w.network !== undefined);
+  if (passive.length === 0) return null;
+  return freqHz.map((f) => {
+    let y = cx(0);
+    for (const way of passive) {
+      const z = ladderInputImpedance(way.network!, 2 * Math.PI * f, respond(system, way, f, 1).impedance);
+      y = add(y, div(cx(1), z));
+    }
+    return 1 / abs(y);
+  });
 }
 
 export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): Analysis {

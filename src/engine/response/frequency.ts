@@ -7,7 +7,8 @@
 // Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
 import type { Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import { add, cx, div, mul, scale, type Complex } from '../complex.ts';
+import { add, cx, div, mul, scale, sub, type Complex } from '../complex.ts';
+import { ladderThevenin } from './ladder.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { baffleStepCorners } from '../filters/room.ts';
 
@@ -27,6 +28,8 @@ export interface PointResponse {
   current: Complex;
   /** Driver terminal impedance, ohm (series resistance excluded). */
   impedance: Complex;
+  /** Volts at the driver terminals (after the amplifier's resistance and any passive network). */
+  terminalVoltage: Complex;
 }
 
 /**
@@ -63,9 +66,16 @@ export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts:
   const { driver: d, box } = way;
   const w = 2 * Math.PI * f;
   const jw = cx(0, w);
-  const drive = scale(wayFilterAt(way.filter, w), volts);
+  let drive = scale(wayFilterAt(way.filter, w), volts);
   const coil = coilImpedance(d, w);
-  const ze = add(coil, cx(amplifier.rs));
+  let source = cx(amplifier.rs);
+  if (way.network) {
+    // A passive way: the amplifier and its network seen from the driver terminals.
+    const th = ladderThevenin(way.network, w, amplifier.rs);
+    drive = mul(drive, th.gain);
+    source = th.z;
+  }
+  const ze = add(coil, source);
   const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
   const ac = BOX_KINDS[box.type].acoustics(box, air, w);
   const zmTotal = add(zm, scale(ac.zLoad, d.sd * d.sd));
@@ -91,6 +101,7 @@ export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts:
     boxPressure,
     current,
     impedance: add(coil, motional),
+    terminalVoltage: sub(drive, mul(current, source)),
   };
 }
 

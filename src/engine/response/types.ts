@@ -43,6 +43,32 @@ export interface Curves {
    */
   maxSplDb: Float64Array;
   maxSplLimit: MaxSplLimit[];
+  /** A passive way's network (null for an active way). */
+  network: NetworkCurves | null;
+}
+
+/** A passive way's network on the grid. `impedanceOhm` of such a way is what the amplifier sees. */
+export interface NetworkCurves {
+  /** Driver-terminal volts over amplifier volts, dB and degrees (the network loaded by the drivers). */
+  transferDb: Float64Array;
+  transferDeg: Float64Array;
+  /** The drivers' own terminal impedance, ohm. */
+  driverImpedanceOhm: Float64Array;
+  /** Each part, amplifier end first: heat (W) and current (A rms) for a sine at the planned level. */
+  parts: { label: string; plannedPowerW: Float64Array; plannedCurrentA: Float64Array }[];
+}
+
+/** One part of a passive network at the planned level (a sine swept over 20 Hz to 20 kHz). */
+export interface PartFigure {
+  label: string;
+  /** Highest heat in the part, W, and where. */
+  peakPowerW: number;
+  peakPowerHz: number;
+  /** Highest rms current through it, A, and where. */
+  peakCurrentA: number;
+  peakCurrentHz: number;
+  /** The rated power given for its resistor, W; null when none. */
+  ratedW: number | null;
 }
 
 export interface Figures {
@@ -95,6 +121,8 @@ export interface Figures {
   spl40Db: number;
   spl50Db: number;
   groupDelay40Ms: number;
+  /** A passive way's parts at the planned level (null for an active way). */
+  parts: PartFigure[] | null;
 }
 
 /** One driver way's analysis. */
@@ -118,6 +146,8 @@ export interface SumCurves {
   groupDelayMs: Float64Array;
   /** Each way's SPL as it enters the sum, in system.ways order (flat ways included). */
   ways: { name: string; kind: 'driver' | 'flat'; splDb: Float64Array }[];
+  /** The impedance of the passive ways together on their one amplifier channel, ohm; null without one. */
+  passiveLoadOhm: Float64Array | null;
 }
 
 export interface SumFigures {
@@ -133,6 +163,9 @@ export interface SumFigures {
   plannedVoltsRms: number;
   plannedSplDb: number;
   groupDelay40Ms: number;
+  /** The lowest impedance of the passive ways' amplifier channel from 20 Hz to 20 kHz, and where; null without one. */
+  passiveLoadMinOhm: number | null;
+  passiveLoadMinHz: number | null;
 }
 
 export interface SumAnalysis {

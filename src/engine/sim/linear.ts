@@ -315,6 +315,11 @@ export class LinearRecurrence {
     this.u0 = u0;
   }
 
+  /** Coil current of the linear model, A. */
+  get i(): number {
+    return this.n > 6 ? this.yN[0] : this.y6[0];
+  }
+
   /** Cone excursion of the linear model, m. */
   get x(): number {
     return this.n > 6 ? this.yN[1] : this.y6[1];

@@ -21,6 +21,7 @@
 import type { WooferParams } from './params.ts';
 import type { Chamber } from '../box/index.ts';
 import { BL_FLOOR, KMS_FLOOR, LE_FLOOR } from './nonlinear.ts';
+import type { LadderSim } from './ladder.ts';
 
 const blFloor = BL_FLOOR;
 const kmsFloor = KMS_FLOOR;
@@ -107,8 +108,10 @@ export class WooferSim {
   /**
    * n steps. u[k] volts in; pOut[k] seat pressure (Pa); aux[k] the cone excursion (m).
    * Returns the sum of i^2 over the block (for the coil's heating).
+   * With a passive network `net`, u[k] is the amplifier's EMF and the network, seen from the
+   * terminals, is a Thevenin source each step: u = its Vth, and its Rth is in the parameters' rs.
    */
-  processBlock(u: Float64Array, n: number, pOut: Float64Array, aux: Float64Array, portOut?: Float64Array): number {
+  processBlock(u: Float64Array, n: number, pOut: Float64Array, aux: Float64Array, portOut?: Float64Array, net?: LadderSim): number {
     const p = this.p;
     const box = this.chamber;
     const h = p.h,
@@ -159,7 +162,7 @@ export class WooferSim {
     let i2 = 0,
       out = this.out;
     for (let k = 0; k < n; k++) {
-      const u1 = u[k];
+      const u1 = net === undefined ? u[k] : net.thevenin(u[k]);
       // --- the step: (M/h - Theta·J)·Δ = f + Theta·b·Δu, rows eliminated by hand; the box's by its chamber ---
       const r1 = f1 + te * (u1 - u0);
       box.prepare();
@@ -256,6 +259,7 @@ export class WooferSim {
       pOut[k] = out;
       aux[k] = x;
       u0 = u1;
+      if (net !== undefined) net.advance(i);
     }
     this.i = i;
     this.j = j;

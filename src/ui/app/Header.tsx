@@ -3,6 +3,7 @@
 import { useRef } from 'preact/hooks';
 import { SLOTS, SLOT_LABEL, type AppState, type Slot, type Store } from '../store.ts';
 import type { ConfirmQuestion } from './dialogs.tsx';
+import { passivePair } from '../demo.ts';
 
 export interface HeaderActions {
   importInto: (file: File, slot: Slot) => void;
@@ -88,6 +89,12 @@ export function Header(p: { store: Store; state: AppState; actions: HeaderAction
             }}
           >
             Reset to demo pair
+          </button>
+          <button
+            type="button"
+            onClick={() => store.dispatch({ type: 'replace-pair', designs: passivePair(), reason: 'the passive two-way pair' })}
+          >
+            Passive two-way pair
           </button>
         </div>
         <details class="menu tgroup">

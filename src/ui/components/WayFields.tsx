@@ -1,11 +1,12 @@
 // The fields every way has: its active filter (high-pass, low-pass, gain, delay), polarity and
 // acoustic offset; a driver way's count and wiring; a flat band's own level.
-import { FILTER_SHAPES, type FilterDoc, type FilterShape } from '../../engine/design/document.ts';
+import { activeFilterOf, FILTER_SHAPES, type FilterDoc, type FilterShape } from '../../engine/design/document.ts';
 import { useApp } from '../context.ts';
 import { setAt } from '../paths.ts';
 import type { Slot } from '../store.ts';
 import { Choice, Group, Num, Row } from './Sheet.tsx';
 import { anyShown, useShownWays } from './WayPicker.tsx';
+import { FilterKindRow, isPassive, LadderGroup } from './LadderFields.tsx';
 
 const SHAPE_LABEL: Record<FilterShape, string> = {
   lr2: 'Linkwitz-Riley, 12 dB/octave',
@@ -28,7 +29,9 @@ type Band = 'highpass' | 'lowpass';
 export function WayFieldRows() {
   const { dispatch } = useApp();
   const shown = useShownWays();
-  const filterOf = (s: Slot): FilterDoc | undefined => shown[s].way.filter;
+  const filterOf = (s: Slot): FilterDoc | undefined => activeFilterOf(shown[s].way);
+  /** A passive way has no active filter's fields: its network is edited below. */
+  const active = (s: Slot) => !isPassive(shown[s].way);
   /** Writes one filter field; a way without a filter gets one (an active filter is the only kind yet). */
   const setFilter = (s: Slot, sub: string, value: unknown) => {
     const base = filterOf(s);
@@ -45,21 +48,23 @@ export function WayFieldRows() {
     <>
       <Row
         label={title}
-        cell={(s) => (
-          <Choice<BandChoice>
-            slot={s}
-            path={`${shown[s].path}.filter.${band}.shape`}
-            label={`${title} shape`}
-            value={filterOf(s)?.[band]?.shape ?? 'none'}
-            options={BAND_OPTIONS}
-            onChange={(v) => setBand(s, band, v)}
-          />
-        )}
+        cell={(s) =>
+          !active(s) ? null : (
+            <Choice<BandChoice>
+              slot={s}
+              path={`${shown[s].path}.filter.${band}.shape`}
+              label={`${title} shape`}
+              value={filterOf(s)?.[band]?.shape ?? 'none'}
+              options={BAND_OPTIONS}
+              onChange={(v) => setBand(s, band, v)}
+            />
+          )
+        }
       />
       <Row
         label={`${title} corner`}
         cell={(s) =>
-          filterOf(s)?.[band] ? (
+          active(s) && filterOf(s)?.[band] ? (
             <Num slot={s} path={`${shown[s].path}.filter.${band}.hz`} label={`${title} corner`} unit="Hz" step={10} />
           ) : null
         }
@@ -70,38 +75,43 @@ export function WayFieldRows() {
   const anyFlat = anyShown(shown, 'flat');
   return (
     <>
-      <Group title="Filter and level" note="an active filter ahead of this way's amplifier channel">
+      <Group title="Filter and level" note="an active filter ahead of this way's amplifier channel, or a passive network after it">
+        <FilterKindRow />
         {bandRows('highpass', 'High-pass')}
         {bandRows('lowpass', 'Low-pass')}
         <Row
           label="Gain"
           hint="negative pads a louder way down"
-          cell={(s) => (
-            <Num
-              slot={s}
-              path={`${shown[s].path}.filter.gain_db`}
-              label="Way gain"
-              unit="dB"
-              step={0.5}
-              placeholder="0"
-              commit={(v) => setFilter(s, 'gain_db', v)}
-            />
-          )}
+          cell={(s) =>
+            !active(s) ? null : (
+              <Num
+                slot={s}
+                path={`${shown[s].path}.filter.gain_db`}
+                label="Way gain"
+                unit="dB"
+                step={0.5}
+                placeholder="0"
+                commit={(v) => setFilter(s, 'gain_db', v)}
+              />
+            )
+          }
         />
         <Row
           label="Delay"
-          cell={(s) => (
-            <Num
-              slot={s}
-              path={`${shown[s].path}.filter.delay_ms`}
-              label="Way delay"
-              unit="ms"
-              step={0.01}
-              min={0}
-              placeholder="0"
-              commit={(v) => setFilter(s, 'delay_ms', v)}
-            />
-          )}
+          cell={(s) =>
+            !active(s) ? null : (
+              <Num
+                slot={s}
+                path={`${shown[s].path}.filter.delay_ms`}
+                label="Way delay"
+                unit="ms"
+                step={0.01}
+                min={0}
+                placeholder="0"
+                commit={(v) => setFilter(s, 'delay_ms', v)}
+              />
+            )
+          }
         />
         <Row
           label="Polarity"
@@ -136,6 +146,7 @@ export function WayFieldRows() {
           />
         ) : null}
       </Group>
+      <LadderGroup />
       {anyDriver ? (
         <Group title="Drivers in this way">
           <Row

@@ -62,7 +62,12 @@ const driverOnly = (w: Way, f: (w: DriverWay) => string | null) => (w.kind === '
 
 // Few rows per way, so a two-way pair still prints on two pages.
 const WAY_PARAMS: WayParamRow[] = [
-  { label: 'Filter', value: (w) => filterText(w.filter) + (w.polarity < 0 ? ', inverted' : '') },
+  {
+    label: 'Filter',
+    value: (w) =>
+      (w.kind === 'driver' && w.network ? `passive network of ${w.network.length} parts` : filterText(w.filter)) +
+      (w.polarity < 0 ? ', inverted' : ''),
+  },
   {
     label: 'Enclosure',
     value: (w) =>
