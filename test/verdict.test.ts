@@ -38,6 +38,24 @@ describe('plain-language verdict', () => {
     );
   });
 
+  it('names the way that limits first when a design has more than one driver way', () => {
+    const r = parseDesign(twoWayFrom('public/examples/living-room-vented.json'));
+    if (!r.ok) throw new Error('two-way');
+    const two = analyze(r.system);
+    const text = verdict(
+      a,
+      two,
+      ['A', 'B'],
+      [
+        { cleanSplDb: 88, cleanVolts: 9, firstLimit: 'excursion', firstLimitS: 42.3, firstLimitWay: 'woofer' },
+        { cleanSplDb: 86, cleanVolts: 7, firstLimit: 'excursion', firstLimitS: 3.5, firstLimitWay: 'tweeter' },
+      ],
+    ).find((l) => l.id === 'headroom')!.text;
+    // A has one driver way: no way named; B's tweeter is.
+    expect(text).toContain('A first runs out of cone travel (Xmax) at 0:42');
+    expect(text).toContain("B's tweeter first runs out of cone travel (Xmax) at 0:03");
+  });
+
   it('speaks of port noise only for the design with a port', () => {
     const ports = verdict(a, b).filter((l) => l.id === 'port');
     expect(ports).toHaveLength(1);

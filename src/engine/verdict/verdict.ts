@@ -11,6 +11,8 @@ export interface HeadroomFinding {
   /** An event kind, or null when no limit was reached within the search range. */
   firstLimit: string | null;
   firstLimitS: number | null;
+  /** The way whose limit it is (null or absent: the summed output, or a one-way design). */
+  firstLimitWay?: string | null;
 }
 
 export interface VerdictLine {
@@ -98,16 +100,17 @@ export function verdict(
   if (headroom && headroom[0] && headroom[1]) {
     const [ha, hb] = headroom;
     const d = hb.cleanSplDb - ha.cleanSplDb;
-    const first = (name: string, h: HeadroomFinding) =>
+    // The way is named when the design has more than one ("B's tweeter first runs out of ...").
+    const first = (name: string, h: HeadroomFinding, an: Analysis) =>
       h.firstLimit && h.firstLimitS !== null
-        ? `${name} first ${LIMIT_PHRASES[h.firstLimit] ?? `reaches ${h.firstLimit}`} at ${clock(h.firstLimitS)}`
+        ? `${name}${h.firstLimitWay && an.system.ways.filter((w) => w.kind === 'driver').length > 1 ? `'s ${h.firstLimitWay}` : ''} first ${LIMIT_PHRASES[h.firstLimit] ?? `reaches ${h.firstLimit}`} at ${clock(h.firstLimitS)}`
         : `${name} reached no limit in the search range`;
     const lead =
       Math.abs(d) < 0.25
         ? `${na} and ${nb} play this track equally loud cleanly (${one(ha.cleanSplDb)} dB at the seat)`
         : `${d > 0 ? nb : na} plays this track ${one(Math.abs(d))} dB louder cleanly than ${d > 0 ? na : nb} ` +
           `(${one(Math.max(ha.cleanSplDb, hb.cleanSplDb))} against ${one(Math.min(ha.cleanSplDb, hb.cleanSplDb))} dB at the seat)`;
-    out.push({ id: 'headroom', text: `${lead}; ${first(na, ha)}, ${first(nb, hb)}.` });
+    out.push({ id: 'headroom', text: `${lead}; ${first(na, ha, a)}, ${first(nb, hb, b)}.` });
   }
   // Every way with a port speaks for itself; a one-way design is named as before.
   const ported = ([na, nb] as const).flatMap((name, k) => {

@@ -174,7 +174,15 @@ export class HeadroomProbe {
     if (st.status !== 'done' || !st.systems || !st.track || st.track.key !== trackKey) return undefined;
     if (st.systems.a !== systems.a || st.systems.b !== systems.b) return undefined;
     const f = (r: HeadroomResult | null): HeadroomFinding | null =>
-      r ? { cleanSplDb: r.clean_spl_db, cleanVolts: r.clean_volts, firstLimit: r.first_limit, firstLimitS: r.first_limit_s } : null;
+      r
+        ? {
+            cleanSplDb: r.clean_spl_db,
+            cleanVolts: r.clean_volts,
+            firstLimit: r.first_limit,
+            firstLimitS: r.first_limit_s,
+            firstLimitWay: r.first_limit_way ?? null,
+          }
+        : null;
     return [f(st.slots.a.result), f(st.slots.b.result)];
   }
 }
