@@ -122,6 +122,17 @@ function sumJson(a: Analysis) {
     group_delay_40_ms: round(f.groupDelay40Ms),
     passive_load_min_ohm: f.passiveLoadMinOhm === null ? null : round(f.passiveLoadMinOhm),
     passive_load_min_hz: f.passiveLoadMinHz === null ? null : round(f.passiveLoadMinHz),
+    crossover: {
+      ways: f.crossover.ways.map((w) => ({
+        name: w.name,
+        low_6db_hz: w.lowHz === null ? null : round(w.lowHz),
+        high_6db_hz: w.highHz === null ? null : round(w.highHz),
+      })),
+      sum_deviation_db: round(f.crossover.deviationDb),
+      sum_deviation_hz: round(f.crossover.deviationHz),
+      from_hz: round(f.crossover.fromHz),
+      to_hz: round(f.crossover.toHz),
+    },
     curves: {
       freq_hz: list(a.sum.curves.freqHz),
       spl_db: list(a.sum.curves.splDb),
@@ -238,6 +249,14 @@ function table(a: Analysis): string {
         ['planned level', `${s.planned_volts_rms} V rms`],
       ],
     });
+    const xo = s.crossover;
+    for (const w of xo.ways)
+      sections
+        .at(-1)!
+        .rows.push([`${w.name}: -6 dB points`, `${w.low_6db_hz ?? 'below the grid'} Hz to ${w.high_6db_hz ?? 'above the grid'} Hz`]);
+    sections
+      .at(-1)!
+      .rows.push(['sum: largest deviation', `${xo.sum_deviation_db} dB at ${xo.sum_deviation_hz} Hz (${xo.from_hz} Hz to ${xo.to_hz} Hz)`]);
     if (s.passive_load_min_ohm !== null)
       sections
         .at(-1)!

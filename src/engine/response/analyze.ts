@@ -1,5 +1,6 @@
 // Small-signal analysis of one design: each driver way's curves and figures, and the summed output
 // of all ways at the seat.
+import { crossoverFigures } from './crossover-figures.ts';
 import type { Box, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import type { BoxFigure, BoxProbe } from '../box/physics.ts';
@@ -576,19 +577,22 @@ function analyzeSum(
     curves.phaseDeg[k] = (arg(at) * 180) / Math.PI;
     curves.groupDelayMs[k] = groupDelayFrom(below, above, freqHz[k]) * 1000;
   }
+  const f3Hz = sumRolloffHz(system, HALF_POWER_DB, sumPerVolt);
+  const passbandSplDb = splDb(sumPerVolt * driveV);
   return {
     curves,
     figures: {
-      f3Hz: sumRolloffHz(system, HALF_POWER_DB, sumPerVolt),
+      f3Hz,
       f6Hz: sumRolloffHz(system, 6, sumPerVolt),
       f10Hz: sumRolloffHz(system, 10, sumPerVolt),
       sensitivityDb: splDb(sumPassbandPerVolt(system, 1) * SENSITIVITY_VOLTS),
-      passbandSplDb: splDb(sumPerVolt * driveV),
+      passbandSplDb,
       plannedVoltsRms: planned,
       plannedSplDb: splDb(sumPerVolt * planned),
       groupDelay40Ms: sumGroupDelay(system, 40) * 1000,
       passiveLoadMinOhm: loadMin ? loadMin.value : null,
       passiveLoadMinHz: loadMin ? loadMin.hz : null,
+      crossover: crossoverFigures(freqHz, curves.splDb, curves.ways, passbandSplDb, Math.max(f3Hz, freqHz[0])),
     },
   };
 }

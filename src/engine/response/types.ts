@@ -1,3 +1,4 @@
+import type { CrossoverFigures } from './crossover-figures.ts';
 import type { RoomAnalysis } from '../room/analysis.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import type { Issue } from '../issues.ts';
@@ -166,6 +167,8 @@ export interface SumFigures {
   /** The lowest impedance of the passive ways' amplifier channel from 20 Hz to 20 kHz, and where; null without one. */
   passiveLoadMinOhm: number | null;
   passiveLoadMinHz: number | null;
+  /** Each way's acoustic -6 dB points and the sum's deviation from flat, from the sum's f3 up (no room gain in the level). */
+  crossover: CrossoverFigures;
 }
 
 export interface SumAnalysis {
