@@ -120,19 +120,21 @@ export function DriverShelf() {
           ) : null
         }
       />
-      <div class="sheet-fold shelf-actions" role="row">
-        <button type="button" onClick={exportShelf} disabled={own.length === 0}>
-          Export the shelf
-        </button>
-        <label class="file-button">
-          Import a shelf
-          <input type="file" accept=".json,application/json" onChange={(e) => void importShelf(e)} aria-label="Import a shelf file" />
-        </label>
-        {note ? (
-          <span class="group-note" role="status" data-testid="shelf-note">
-            {note}
-          </span>
-        ) : null}
+      <div class="sheet-fold" role="row">
+        <span role="cell" class="shelf-actions">
+          <button type="button" onClick={exportShelf} disabled={own.length === 0}>
+            Export the shelf
+          </button>
+          <label class="file-button">
+            Import a shelf
+            <input type="file" accept=".json,application/json" onChange={(e) => void importShelf(e)} aria-label="Import a shelf file" />
+          </label>
+          {note ? (
+            <span class="group-note" role="status" data-testid="shelf-note">
+              {note}
+            </span>
+          ) : null}
+        </span>
       </div>
     </Group>
   );
