@@ -4,31 +4,9 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, fireEvent, render, screen, within, act } from '@testing-library/preact';
 
-const drawn: { id: string; data: unknown[] }[] = [];
-vi.mock('uplot', () => {
-  class FakePlot {
-    width: number;
-    ctx = { canvas: {} };
-    constructor(opts: { width: number; hooks: { draw: (() => void)[] } }, data: unknown[], el: HTMLElement) {
-      this.width = opts.width;
-      this.hooks = opts.hooks;
-      this.el = el;
-      this.setData(data);
-    }
-    hooks: { draw: (() => void)[] };
-    el: HTMLElement;
-    setData(data: unknown[]) {
-      drawn.push({ id: this.el.dataset.chart ?? '', data });
-      for (const h of this.hooks.draw) h();
-    }
-    setSize() {}
-    destroy() {}
-    static join() {
-      return [];
-    }
-  }
-  return { default: FakePlot };
-});
+import { drawn } from './helpers/recording-uplot.ts';
+
+vi.mock('uplot', () => import('./helpers/recording-uplot.ts'));
 
 import { App } from '../src/ui/App.tsx';
 import { Store } from '../src/ui/store.ts';
