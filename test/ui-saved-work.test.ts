@@ -193,4 +193,25 @@ describe('an edit made just before the page closes', () => {
     expect((await autosave.load())?.designs.a.name).toBe('My own design');
     expect(backend.journaled).toBeUndefined();
   });
+
+  it('a stale journal left by a closed tab does not pass for the latest work when the stored state is damaged', async () => {
+    const backend = memoryBackend({ kind: 'preheard-app-state', version: 1, state: 'scrambled' });
+    backend.lastGood = usersWork();
+    backend.journaled = { ...usersWork(), savedAt: 10 };
+    (backend.journaled as SavedState).state.project.variants[0].design.name = 'stale';
+    const autosave = new Autosave(backend);
+    expect((await autosave.load())?.designs.a.name).toBe('My own design');
+    expect(JSON.stringify(backend.aside)).toContain('scrambled');
+    expect(backend.journaled).toBeUndefined();
+  });
+
+  it('a journal newer than the last good copy is what a damaged store gives way to', async () => {
+    const backend = memoryBackend({ kind: 'preheard-app-state', version: 2, state: 'scrambled' });
+    backend.lastGood = usersWork();
+    backend.journaled = { ...usersWork(), savedAt: 5000 };
+    (backend.journaled as SavedState).state.project.variants[0].design.name = 'caught at close';
+    const autosave = new Autosave(backend);
+    expect((await autosave.load())?.designs.a.name).toBe('caught at close');
+    expect(backend.aside).toBeDefined();
+  });
 });

@@ -341,34 +341,38 @@ export class Autosave {
    */
   async load(): Promise<AppState | undefined> {
     try {
-      let saved = await this.backend.load();
+      const saved = await this.backend.load();
       const journaled = this.backend.journal?.read();
-      // An edit caught by the journal as the page closed, newer than what IndexedDB kept.
       const journal = usableState(journaled);
       const stored = usableState(saved);
-      if (journal && (!isSavedState(saved) || journal.savedAt > saved.savedAt)) saved = journaled;
-      else if (journaled !== undefined) this.backend.journal?.clear();
-      if (saved === undefined) {
-        this.markRead(undefined, { kind: 'saved', at: this.now() });
-        return undefined;
+      if (saved === undefined || stored) {
+        // The store is empty or usable: an edit the journal caught as the page closed wins when newer.
+        if (journal && (!stored || journal.savedAt > stored.savedAt)) {
+          // Restoring the journal's state writes it to IndexedDB, which then clears the journal.
+          this.journaled = journal.state;
+          this.markRead(journal.state, { kind: 'saved', at: journal.savedAt });
+          return journal.state;
+        }
+        if (journaled !== undefined) this.backend.journal?.clear();
+        this.markRead(stored?.state, { kind: 'saved', at: stored ? stored.savedAt : this.now() });
+        return stored?.state;
       }
-      const usable = saved === journaled ? journal : stored;
-      // Restoring the journal's state writes it to IndexedDB, which then clears the journal.
-      if (usable && saved === journaled) this.journaled = usable.state;
-      if (usable) {
-        this.markRead(usable.state, { kind: 'saved', at: usable.savedAt });
-        return usable.state;
-      }
+      // The stored state cannot be used: it is set aside, never overwritten blindly, and the newest
+      // good state restored: the last good copy, or the journal when it is newer (a stale journal
+      // left by a closed tab must not pass for the latest work).
       await this.backend.setAside(saved);
       const good = usableState(await this.backend.loadLastGood());
-      this.markRead(good?.state, {
+      const best = journal && (!good || journal.savedAt > good.savedAt) ? journal : good;
+      if (best && best === journal) this.journaled = journal.state;
+      else if (journaled !== undefined) this.backend.journal?.clear();
+      this.markRead(best?.state, {
         kind: 'recovered',
         at: this.now(),
-        message: good
-          ? `The stored designs could not be used (they are damaged or fail the design checks), so the last good state, saved ${new Date(good.savedAt).toLocaleString()}, was restored. The stored data is kept aside: download it to keep it.`
+        message: best
+          ? `The stored designs could not be used (they are damaged or fail the design checks), so the last good state, saved ${new Date(best.savedAt).toLocaleString()}, was restored. The stored data is kept aside: download it to keep it.`
           : 'The stored designs could not be used (they are damaged or fail the design checks) and no earlier good state exists, so the demo pair is shown. The stored data is kept aside: download it to keep it.',
       });
-      return good?.state;
+      return best?.state;
     } catch (e) {
       this.read = 'failed';
       const detail = e instanceof Error ? e.message : String(e);
