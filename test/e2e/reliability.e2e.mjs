@@ -74,6 +74,8 @@ export const tests = [
   {
     name: 'an unreadable stored state is set aside and the last good state restored',
     fn: async (ctx) => {
+      // Alone in the browser: another open tab would save the state it follows over the damaged one.
+      for (const other of ctx.context.pages()) await other.close();
       const p = await open(ctx);
       await edit(p, 'a', 'ways.0.box.vb_l', 15.25);
       await saved(p);
