@@ -1,7 +1,7 @@
 // The render API: one engine for the AudioWorklet, a Worker, the CLI and the tests.
 //
 //   createRenderer(system, { sampleRate, channels, voltsFs, mode?, paPerFs?, oversampling?,
-//                            traceHz?, extraStreams? }) -> Renderer
+//                            traceHz?, extraStreams?, driverRate? }) -> Renderer
 //     renderer.process(inputs, outputs, frames, extra?)   one block (any size, 128-frame quanta
 //         included); inputs/outputs are per-channel Float32Array or Float64Array in full scale;
 //         state carries across calls; no allocation per block. Output is delayed by
@@ -33,14 +33,14 @@
 // action is reported as limiter_db.
 import { InputProblem } from '../issues.ts';
 import type { SpeakerSystem } from '../system.ts';
-import { createRenderer, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces, type WayStats } from './renderer.ts';
+import { createRenderer, type DriverRate, MAX_VOLTS_FS, Renderer, type RenderMode, type Traces, type WayStats } from './renderer.ts';
 import type { EventKind, StressEvent } from './events.ts';
 import { passbandPaPerV, seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
 import { linearHeadroomGuess } from './headroom-guess.ts';
 
 export { createRenderer, passbandPaPerV, Renderer, voltsForSpl };
 export type { RenderMode, Traces, StressEvent, EventKind };
-export type { RendererOptions, RenderStats, WayStats, WayTraces } from './renderer.ts';
+export type { DriverRate, RendererOptions, RenderStats, WayStats, WayTraces } from './renderer.ts';
 export { EVENT_KINDS } from './events.ts';
 
 /** Peaks of one driver way over a render. */
@@ -84,6 +84,8 @@ export interface RenderBufferOptions extends LevelRequest {
   paPerFs?: number;
   /** Also return the linear and residual streams. */
   extraStreams?: boolean;
+  /** The driver models' rate (renderer.ts RendererOptions.driverRate; default 'reduced'). */
+  driverRate?: DriverRate;
   /** Skip writing audio (headroom search): only the summary. */
   analysisOnly?: boolean;
   /**
@@ -179,6 +181,7 @@ export function renderBuffer(
     mode: opt.mode,
     paPerFs: opt.paPerFs,
     extraStreams: opt.extraStreams,
+    driverRate: opt.driverRate,
   });
   const lat = r.latencyFrames;
   const block = opt.blockFrames ?? 4096;
@@ -285,6 +288,8 @@ export interface HeadroomOptions {
   leqPerVoltDb?: number;
   /** Run every probe to the end of the track (the search as first written; for tests). */
   exact?: boolean;
+  /** The driver models' rate in every probe (default 'reduced'). */
+  driverRate?: DriverRate;
 }
 
 /**
@@ -303,7 +308,13 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
     renders++;
     opt.onRender?.();
     // A probe with an event needs no more of the track: only whether there is one, and the first.
-    const res = renderBuffer(sys, channels, sampleRate, { voltsFs: v, leqPerVoltDb: l1, analysisOnly: true, stopAtFirstEvent: fast });
+    const res = renderBuffer(sys, channels, sampleRate, {
+      voltsFs: v,
+      leqPerVoltDb: l1,
+      analysisOnly: true,
+      stopAtFirstEvent: fast,
+      driverRate: opt.driverRate,
+    });
     if (res.summary.events.length === 0) {
       cleanWays = res.summary.ways;
       cleanResidualDb = -Infinity;

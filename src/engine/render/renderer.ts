@@ -1,9 +1,10 @@
 // The streaming renderer: audio in -> each way's chain (way-chain.ts) per channel lane -> the ways
 // summed at the seat -> one calibration factor and the true-peak guard (output-guard.ts) -> audio
 // out, with stress events (stress-meter.ts) and decimated traces (trace-recorder.ts). State is
-// carried across calls; no allocation per block. The driver models run at the audio rate: their
-// nonlinearities act on the cone and port motion, far below the audio band's top; the amplifier's
-// clipping, whose harmonics reach it, runs oversampled.
+// carried across calls; no allocation per block. A driver way's large-signal model runs below the
+// audio rate where its filter leaves nothing above the low rate's band (low-rate-model.ts,
+// model-rate.ts; `driverRate: 'audio'` keeps every model at the audio rate, the first version's
+// exact path); the amplifier's clipping, whose harmonics reach the top of the band, runs oversampled.
 import { InputProblem } from '../issues.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { passbandPaPerV } from '../level/calibration.ts';
@@ -13,6 +14,7 @@ import { emptyWayStats, OutputDistortion, WayStress, type WayStats } from './str
 import { TraceRecorder, type Traces } from './trace-recorder.ts';
 import { OutputGuard, type RenderMode, type SampleBuffer, type SideStreams } from './output-guard.ts';
 import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
+import { lowRateLatency } from './low-rate-model.ts';
 
 export type { RenderMode, SampleBuffer } from './output-guard.ts';
 export {
@@ -39,7 +41,14 @@ export interface RendererOptions {
   traceHz?: number;
   /** Also guard side outputs for the linear and residual streams (process(..., extra)). */
   extraStreams?: boolean;
+  /**
+   * 'reduced' (default): each driver way's model runs at the lowest rate its filter allows
+   * (model-rate.ts); 'audio': every model at the audio rate, sample for sample the first version.
+   */
+  driverRate?: DriverRate;
 }
+
+export type DriverRate = 'reduced' | 'audio';
 
 /** Peaks so far: the top-level fields are the first driver way's, `ways` has every driver way's. */
 export interface RenderStats {
@@ -89,6 +98,9 @@ export class Renderer {
   private readonly src: LaneSource = { inputs: [], s: 0, n: 0, channels: 1 };
   private frames = 0;
   private limiterDb = 0;
+  /** Models below the audio rate allowed, and the frames every driver way then waits (low-rate-model.ts). */
+  private readonly lowRate: boolean;
+  private readonly wayDelay: number;
   /** The listening room on the summed output (none without a room). */
   private room: { key: string; streams: RoomStreams } | null = null;
 
@@ -105,7 +117,9 @@ export class Renderer {
     this.voltsFs = opt.voltsFs;
     this.mono = sys.listening.channels === 'mono-sum';
     this.guard = new OutputGuard(opt.channels, opt.sampleRate, opt.extraStreams === true);
-    this.latencyFrames = STAGE_DELAY + this.guard.latency;
+    this.lowRate = (opt.driverRate ?? 'reduced') === 'reduced';
+    this.wayDelay = STAGE_DELAY + lowRateLatency(this.lowRate);
+    this.latencyFrames = this.wayDelay + this.guard.latency;
     const bufs = () => Array.from({ length: opt.channels }, () => new Float64Array(CHUNK));
     this.streams = { nonlinear: bufs(), linear: bufs(), residual: bufs() };
     this.traceHz = opt.traceHz ?? 100;
@@ -137,8 +151,8 @@ export class Renderer {
     if (fresh || !this.sameShape(sys)) {
       this.chains = sys.ways.map((way, k) =>
         way.kind === 'driver'
-          ? new DriverWayChain(sys, way, offsets[k], this.channels, this.sharesLane(sys, way), fsr)
-          : new FlatWayChain(sys, way, offsets[k], this.channels, fsr),
+          ? new DriverWayChain(sys, way, offsets[k], this.channels, this.sharesLane(sys, way), fsr, this.lowRate)
+          : new FlatWayChain(sys, way, offsets[k], this.channels, fsr, this.lowRate),
       );
       fresh = true;
     } else {
@@ -262,8 +276,8 @@ export class Renderer {
         firstWay = false;
       }
     }
-    // 3. Stress; times refer to the input (the driver ways run `STAGE_DELAY` frames late).
-    const t0 = (this.frames - STAGE_DELAY) / this.sampleRate,
+    // 3. Stress; times refer to the input (the driver ways run `wayDelay` frames late).
+    const t0 = (this.frames - this.wayDelay) / this.sampleRate,
       dt = 1 / this.sampleRate;
     this.distortion.measure(outN, outL, outR, n, t0, dt, this.events);
     for (let w = 0; w < this.drivers.length; w++) this.stress[w].measure(this.drivers[w].lanes, n, t0, dt, this.events);

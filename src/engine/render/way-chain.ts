@@ -16,6 +16,8 @@ import { LinearRecurrence } from '../sim/linear.ts';
 import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
 import { OversampledClipper } from './amplifier.ts';
 import { FractionalDelay } from './fractional-delay.ts';
+import { LowRateModel, lowRateLatency } from './low-rate-model.ts';
+import { type ModelRate, modelRate } from './model-rate.ts';
 
 /** Frames per internal chunk: every stage runs over a chunk before the next one starts. */
 export const CHUNK = 256;
@@ -85,6 +87,14 @@ export class DriverLane {
   linNet: LinearBehindLadder | null = null;
   /** Sum of i^2 since the last coil update. */
   i2 = 0;
+  /**
+   * The model at a low rate (low-rate-model.ts; `sim` is then its model), the delay that brings the
+   * demand in line with it, and the wait that brings the lane in line with the renderer's common
+   * low-rate delay (null where nothing is needed).
+   */
+  low: LowRateModel | null = null;
+  lowDemand: FractionalDelay | null = null;
+  wait: FractionalDelay | null = null;
   readonly u = new Float64Array(CHUNK);
   /** Clipped drive, V (the model's input). */
   readonly uClip = new Float64Array(CHUNK);
@@ -96,10 +106,37 @@ export class DriverLane {
   /** Cone excursion, m, and the outlet's flow (port, m^3/s) or travel (radiator, m). */
   readonly x = new Float64Array(CHUNK);
   readonly outlet = new Float64Array(CHUNK);
+  /** Where the low-rate model writes: the residual into pN (the linear part is added after). */
+  readonly lowOut = { residual: this.pN, x: this.x, outlet: this.outlet };
 
   constructor(p: WooferParams) {
     this.sim = new WooferSim(p);
     this.lin = new LinearRecurrence(p);
+  }
+
+  /**
+   * Runs the model at 1/factor of the audio rate (1: the audio rate), from rest with the coil's heat
+   * kept when the rate changes; the caller then gives it its constants.
+   */
+  setRate(rate: ModelRate, p: WooferParams, lowP: WooferParams | null, latency: number): void {
+    if (rate.factor > 1 && lowP) {
+      const low = new LowRateModel(lowP, rate.factor, rate.band, CHUNK);
+      if (this.low?.factor === rate.factor) {
+        // Only the drive's band moved: the model carries on (its resamplers start afresh).
+        low.sim = this.low.sim;
+        low.lin = this.low.lin;
+      } else low.sim.setCoilRise(this.sim.riseV, this.sim.riseM);
+      low.lin.rebuild(low.sim.r);
+      this.low = low;
+      this.sim = low.sim;
+      this.lowDemand = new FractionalDelay(low.delay);
+    } else if (this.low) {
+      const sim = new WooferSim(p);
+      sim.setCoilRise(this.sim.riseV, this.sim.riseM);
+      this.sim = sim;
+      this.low = this.lowDemand = null;
+    }
+    this.wait = delayOrNull(this.wait, latency - (this.low?.delay ?? 0));
   }
 
   /** Puts the way's passive network (or none) in front of both models; the network starts at rest. */
@@ -132,6 +169,8 @@ export class DriverWayChain {
     channels: number,
     monoSum: boolean,
     private readonly sampleRate: number,
+    /** Models may run below the audio rate where the way's filter allows (model-rate.ts). */
+    private readonly lowRate = false,
   ) {
     this.way = way;
     this.monoSum = monoSum;
@@ -139,7 +178,31 @@ export class DriverWayChain {
     const nLanes = monoSum ? 1 : channels;
     for (let k = 0; k < nLanes; k++) this.lanes.push(new DriverLane(this.params));
     for (const lane of this.lanes) lane.wire(way, sys.amplifier.rs, this.params);
+    this.applyRate(sys, way);
     this.configure(sys, way, offsetS);
+  }
+
+  /** The factor below the audio rate this way's models run at (1: the audio rate). */
+  get rateFactor(): number {
+    return this.lanes[0].low?.factor ?? 1;
+  }
+
+  /** Each lane's model at the rate the way's filter allows, new constants where the rate stays. */
+  private applyRate(sys: SpeakerSystem, way: DriverWay): void {
+    const rate = this.lowRate ? modelRate(sys, way, this.sampleRate) : { factor: 1, band: 0.5 };
+    const lowP = rate.factor > 1 ? wayParams(sys, way, rate.factor / this.sampleRate) : null;
+    const latency = lowRateLatency(this.lowRate);
+    for (const lane of this.lanes) {
+      const low = lane.low;
+      if ((low?.factor ?? 1) !== rate.factor || (low && low.band !== rate.band)) lane.setRate(rate, this.params, lowP, latency);
+      else if (lane.low && lowP) {
+        lane.low.sim.setParams(lowP);
+        const lin = new LinearRecurrence(lowP);
+        lin.adoptState(lane.low.lin);
+        lin.rebuild(lane.sim.r);
+        lane.low.lin = lin;
+      } else if (!lane.low) lane.setRate(rate, this.params, null, latency);
+    }
   }
 
   /** Same shape of state (box kind), so an edit can keep the cone, the air and the heat moving. */
@@ -153,13 +216,14 @@ export class DriverWayChain {
     this.params = p;
     this.way = way;
     for (const lane of this.lanes) {
-      lane.sim.setParams(p);
+      if (!lane.low) lane.sim.setParams(p);
       const lin = new LinearRecurrence(p);
       lin.adoptState(lane.lin);
       lin.rebuild(lane.sim.r);
       lane.lin = lin;
       lane.wire(way, sys.amplifier.rs, p);
     }
+    this.applyRate(sys, way);
     this.configure(sys, way, offsetS);
   }
 
@@ -197,14 +261,26 @@ export class DriverWayChain {
       const lane = this.lanes[w];
       const u = lane.u;
       fillLane(u, src, w, this.monoSum);
+      if (lane.wait) lane.wait.process(u, n);
       if (lane.filter) lane.filter.processInPlace(u, 0, n);
       if (lane.drive) lane.drive.process(u, n);
       for (let k = 0; k < n; k++) u[k] *= drive;
       lane.clip.process(u, n, this.rail, this.soft, lane.uClip, lane.uDel);
       const sim = lane.sim;
-      const i2 = sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet, lane.net ?? undefined);
-      if (lane.linNet) lane.linNet.processBlock(lane.uDel, lane.pL, n);
-      else lane.lin.processBlock(lane.uDel, lane.pL, n);
+      let i2: number;
+      if (lane.low) {
+        // The residual from the low rate, the linear part at the audio rate on the demand in line with it.
+        i2 = lane.low.process(lane.uClip, lane.uDel, n, lane.lowOut);
+        lane.lowDemand!.process(lane.uDel, n);
+        lane.lin.processBlock(lane.uDel, lane.pL, n);
+        const pN = lane.pN,
+          pL = lane.pL;
+        for (let k = 0; k < n; k++) pN[k] += pL[k];
+      } else {
+        i2 = sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet, lane.net ?? undefined);
+        if (lane.linNet) lane.linNet.processBlock(lane.uDel, lane.pL, n);
+        else lane.lin.processBlock(lane.uDel, lane.pL, n);
+      }
       if (lane.roomN) {
         lane.roomN.processInPlace(lane.pN, 0, n);
         lane.roomL!.processInPlace(lane.pL, 0, n);
@@ -217,7 +293,10 @@ export class DriverWayChain {
         sim.setCoilRise(th.p11 * sim.riseV + th.p12 * sim.riseM + th.g1 * pw, th.p21 * sim.riseV + th.p22 * sim.riseM + th.g2 * pw);
         lane.i2 = 0;
         // The linear part follows the coil's resistance, so heat is not counted as distortion.
-        if ((frameEnd / CHUNK) % 4 === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) lane.lin.rebuild(sim.r);
+        if ((frameEnd / CHUNK) % 4 === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) {
+          lane.lin.rebuild(sim.r);
+          lane.low?.lin.rebuild(sim.r);
+        }
       }
       if (this.polarity !== 1) {
         const pN = lane.pN,
@@ -252,6 +331,7 @@ export class FlatWayChain {
     offsetS: number,
     channels: number,
     private readonly sampleRate: number,
+    private readonly lowRate = false,
   ) {
     this.way = way;
     this.out = Array.from({ length: channels }, () => new Float64Array(CHUNK));
@@ -268,8 +348,9 @@ export class FlatWayChain {
     const baffle = baffleStepSection(sys.listening.baffleWidth ?? 0, fsr);
     const coef = filter && baffle ? packSections([filter, baffle]) : (filter ?? baffle);
     this.filters = this.filters.map((f) => replaceCascade(f, coef));
-    // Aligned with the driver ways, whose clipping stage delays them by STAGE_DELAY frames.
-    const samples = STAGE_DELAY + (way.filter.delay + offsetS) * fsr;
+    // Aligned with the driver ways, whose clipping stage delays them by STAGE_DELAY frames (and the
+    // common low-rate delay).
+    const samples = STAGE_DELAY + lowRateLatency(this.lowRate) + (way.filter.delay + offsetS) * fsr;
     this.delays = this.out.map((_, c) => (this.delays[c]?.samples === samples ? this.delays[c] : new FractionalDelay(samples)));
     this.paPerV = way.paPerV;
   }
