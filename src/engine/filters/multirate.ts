@@ -146,7 +146,7 @@ export class Downsampler {
 
   /** Takes over another's state (same designs): the two then run alike on the same input. */
   copyFrom(o: Downsampler): void {
-    this.stages.forEach((s, j) => s.copyFrom(o.stages[j]));
+    for (let j = 0; j < this.stages.length; j++) this.stages[j].copyFrom(o.stages[j]);
   }
 
   /** x[0..n-1] in; writes the low-rate samples to out from index 0 and returns how many. */
