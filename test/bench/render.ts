@@ -3,9 +3,12 @@
 //  - the linear chain against node-web-audio-api's OfflineAudioContext running the same biquads
 //    (one IIRFilterNode per section): our time / its time;
 //  - the nonlinear render per sample as a multiple of one biquad section per sample;
+//  - driver models below the audio rate (low-rate-model.ts) against the exact path, on ways whose
+//    filter allows 1/8: a woofer crossed at 300 Hz and a bandpass subwoofer (time ratios);
 //  - the woofer model against odex at equal accuracy: its time / ours;
 //  - peak memory of a 10-minute stereo render against the decoded audio (child process).
 import { spawnSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { OfflineAudioContext } from 'node-web-audio-api';
@@ -20,6 +23,8 @@ import { rhs, Solver, stateCount } from '../sim-odex-model.ts';
 import { BiquadCascade } from '../../src/engine/filters/biquad.ts';
 import { wayFilterBiquads } from '../../src/engine/filters/way-filter.ts';
 import type { BenchResult } from './ui-redraw.ts';
+import { parseDesign } from '../../src/engine/design/validate.ts';
+import type { SpeakerSystem } from '../../src/engine/system.ts';
 
 const HERE = dirname(fileURLToPath(import.meta.url));
 const now = () => performance.now();
@@ -223,6 +228,81 @@ function perSampleVsBiquad(): BenchResult[] {
   ];
 }
 
+/**
+ * A render with the driver models at the rate each way's filter allows, against the same render
+ * with every model at the audio rate, interleaved (best of 3 each, after one warm-up), with the
+ * per-frame figures and the biquad yardstick of the same run. Timed in CPU time of this process
+ * (process.cpuUsage), which a machine shared with other work disturbs less than wall time. The
+ * demo designs' woofers (crossed at 2.2 kHz) only allow 1/2, which does not pay
+ * (model-rate.ts MIN_RATE_FACTOR): they run at the audio rate either way.
+ */
+function lowRateModels(): BenchResult[] {
+  const fs = 48000;
+  const track = synthesizeDemoTrack(fs);
+  const frames = track.channels[0].length;
+  const lanes = frames * track.channels.length;
+  const doc = (name: string) => JSON.parse(readFileSync(join(HERE, '..', '..', 'public', 'examples', `${name}.json`), 'utf8'));
+  const woofer = doc('living-room-vented');
+  woofer.crossover = { type: 'lr4', fx_hz: 300 };
+  const sub = doc('garage-subwoofer-bandpass');
+  // Both channels, one lane each (the example plays its subwoofer from their mean).
+  sub.listening.channels = 'pair';
+  const systems: [string, SpeakerSystem][] = [
+    ['woofer crossed at 300 Hz (vented)', parseOrThrow(woofer)],
+    ['subwoofer (bandpass, LR4 at 90 Hz)', parseOrThrow(sub)],
+  ];
+  const rows: BenchResult[] = [];
+  const buf = Float64Array.from(track.channels[0]);
+  const one = new BiquadCascade(Float64Array.of(0.2, 0.4, 0.2, -0.6, 0.2));
+  one.processInPlace(buf);
+  let biquadMs = Infinity;
+  for (let k = 0; k < 5; k++) {
+    const c0 = process.cpuUsage();
+    one.processInPlace(buf);
+    const c = process.cpuUsage(c0);
+    biquadMs = Math.min(biquadMs, (c.user + c.system) / 1000);
+  }
+  const biquadNs = (biquadMs * 1e6) / frames;
+  for (const [name, sys] of systems) {
+    const ms = { audio: Infinity, reduced: Infinity };
+    for (let k = 0; k < 4; k++)
+      for (const rate of ['audio', 'reduced'] as const) {
+        const c0 = process.cpuUsage();
+        renderBuffer(sys, track.channels, fs, { voltsFs: 10, leqPerVoltDb: 0, analysisOnly: true, driverRate: rate });
+        const c = process.cpuUsage(c0);
+        if (k > 0) ms[rate] = Math.min(ms[rate], (c.user + c.system) / 1000);
+      }
+    const ns = (r: 'audio' | 'reduced') => (ms[r] * 1e6) / lanes;
+    rows.push(
+      {
+        name: `${name}: models at 1/8 / at the audio rate`,
+        value: Number((ms.reduced / ms.audio).toFixed(3)),
+        unit: 'time ratio',
+        target: '< 1',
+      },
+      {
+        name: '  per channel and frame, at 1/8 / at the audio rate',
+        value: Number(ns('reduced').toFixed(1)),
+        unit: 'ns',
+        target: `(${ns('audio').toFixed(1)} ns)`,
+      },
+      {
+        name: '  at 1/8, as biquad sections',
+        value: Number((ns('reduced') / biquadNs).toFixed(1)),
+        unit: 'biquads',
+        target: `(${(ns('audio') / biquadNs).toFixed(1)} at the audio rate)`,
+      },
+    );
+  }
+  return rows;
+}
+
+function parseOrThrow(doc: unknown): SpeakerSystem {
+  const r = parseDesign(doc);
+  if (!r.ok) throw new Error(r.errors.map((e) => `${e.path}: ${e.message}`).join('; '));
+  return r.system;
+}
+
 function memory(): BenchResult {
   const r = spawnSync(process.execPath, ['--import', 'tsx', join(HERE, 'render-memory-child.ts')], {
     encoding: 'utf8',
@@ -246,6 +326,7 @@ export async function bench(): Promise<BenchResult[]> {
   return [
     ...(await part('realtime', () => [realtime()])),
     ...(await part('per sample', perSampleVsBiquad)),
+    ...(await part('low-rate models', lowRateModels)),
     ...(await part('linear chain', linearVsWebAudio)),
     ...(await part('odex', versusOdex)),
     ...(await part('memory', () => [memory()])),
