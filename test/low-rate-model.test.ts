@@ -255,9 +255,12 @@ describe('the low-rate path against the audio-rate path', () => {
     }
   });
 
-  it('takes an edit that changes the rate while playing', () => {
+  it('takes an edit that changes the rate while playing, and stays off unless asked for', () => {
+    expect(createRenderer(lowCrossedWoofer(), { sampleRate: FS, channels: 1, voltsFs: 20 }).latencyFrames).toBeLessThan(
+      createRenderer(lowCrossedWoofer(), { sampleRate: FS, channels: 1, voltsFs: 20, driverRate: 'reduced' }).latencyFrames,
+    );
     const sys = lowCrossedWoofer();
-    const r = createRenderer(sys, { sampleRate: FS, channels: 1, voltsFs: 20 });
+    const r = createRenderer(sys, { sampleRate: FS, channels: 1, voltsFs: 20, driverRate: 'reduced' });
     const n = 4800;
     const x = new Float32Array(n);
     for (let k = 0; k < n; k++) x[k] = 0.5 * Math.sin((2 * Math.PI * 50 * k) / FS);

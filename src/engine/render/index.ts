@@ -84,7 +84,7 @@ export interface RenderBufferOptions extends LevelRequest {
   paPerFs?: number;
   /** Also return the linear and residual streams. */
   extraStreams?: boolean;
-  /** The driver models' rate (renderer.ts RendererOptions.driverRate; default 'reduced'). */
+  /** The driver models' rate (renderer.ts RendererOptions.driverRate; default 'audio'). */
   driverRate?: DriverRate;
   /** Skip writing audio (headroom search): only the summary. */
   analysisOnly?: boolean;
@@ -288,7 +288,7 @@ export interface HeadroomOptions {
   leqPerVoltDb?: number;
   /** Run every probe to the end of the track (the search as first written; for tests). */
   exact?: boolean;
-  /** The driver models' rate in every probe (default 'reduced'). */
+  /** The driver models' rate in every probe (default 'audio'). */
   driverRate?: DriverRate;
 }
 

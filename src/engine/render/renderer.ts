@@ -1,10 +1,10 @@
 // The streaming renderer: audio in -> each way's chain (way-chain.ts) per channel lane -> the ways
 // summed at the seat -> one calibration factor and the true-peak guard (output-guard.ts) -> audio
 // out, with stress events (stress-meter.ts) and decimated traces (trace-recorder.ts). State is
-// carried across calls; no allocation per block. A driver way's large-signal model runs below the
-// audio rate where its filter leaves nothing above the low rate's band (low-rate-model.ts,
-// model-rate.ts; `driverRate: 'audio'` keeps every model at the audio rate, the first version's
-// exact path); the amplifier's clipping, whose harmonics reach the top of the band, runs oversampled.
+// carried across calls; no allocation per block. The driver models run at the audio rate (with
+// `driverRate: 'reduced'`, below it where a way's filter leaves nothing above the low rate's band:
+// low-rate-model.ts, model-rate.ts); the amplifier's clipping, whose harmonics reach the top of the
+// band, runs oversampled.
 import { InputProblem } from '../issues.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { passbandPaPerV } from '../level/calibration.ts';
@@ -42,8 +42,10 @@ export interface RendererOptions {
   /** Also guard side outputs for the linear and residual streams (process(..., extra)). */
   extraStreams?: boolean;
   /**
-   * 'reduced' (default): each driver way's model runs at the lowest rate its filter allows
-   * (model-rate.ts); 'audio': every model at the audio rate, sample for sample the first version.
+   * 'audio' (default): every driver model at the audio rate, sample for sample the first version;
+   * 'reduced': each driver way's model at the lowest rate its filter allows (model-rate.ts). Not
+   * the default: measured side by side it is within a few per cent of the audio rate's time
+   * (`npm run bench -- render`), so it buys nothing yet for its latency and its approximation.
    */
   driverRate?: DriverRate;
 }
@@ -117,7 +119,7 @@ export class Renderer {
     this.voltsFs = opt.voltsFs;
     this.mono = sys.listening.channels === 'mono-sum';
     this.guard = new OutputGuard(opt.channels, opt.sampleRate, opt.extraStreams === true);
-    this.lowRate = (opt.driverRate ?? 'reduced') === 'reduced';
+    this.lowRate = opt.driverRate === 'reduced';
     this.wayDelay = STAGE_DELAY + lowRateLatency(this.lowRate);
     this.latencyFrames = this.wayDelay + this.guard.latency;
     const bufs = () => Array.from({ length: opt.channels }, () => new Float64Array(CHUNK));
