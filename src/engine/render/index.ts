@@ -182,6 +182,7 @@ export function renderBuffer(
     paPerFs: opt.paPerFs,
     extraStreams: opt.extraStreams,
     driverRate: opt.driverRate,
+    fixedMode: true,
   });
   const lat = r.latencyFrames;
   const block = opt.blockFrames ?? 4096;

@@ -48,6 +48,11 @@ export interface RendererOptions {
    * (`npm run bench -- render`), so it buys nothing yet for its latency and its approximation.
    */
   driverRate?: DriverRate;
+  /**
+   * The mode is never changed (setMode is not called) and only the heard stream is used (a file
+   * render): the room then runs on that stream alone. The heard stream is the same either way.
+   */
+  fixedMode?: boolean;
 }
 
 export type DriverRate = 'reduced' | 'audio';
@@ -103,6 +108,8 @@ export class Renderer {
   /** Models below the audio rate allowed, and the frames every driver way then waits (low-rate-model.ts). */
   private readonly lowRate: boolean;
   private readonly wayDelay: number;
+  /** The one stream the room has to run on (a fixed mode without side streams), or undefined: all. */
+  private readonly roomOnly: 'nonlinear' | 'linear' | undefined;
   /** The listening room on the summed output (none without a room). */
   private room: { key: string; streams: RoomStreams } | null = null;
 
@@ -122,6 +129,8 @@ export class Renderer {
     this.lowRate = opt.driverRate === 'reduced';
     this.wayDelay = STAGE_DELAY + lowRateLatency(this.lowRate);
     this.latencyFrames = this.wayDelay + this.guard.latency;
+    const heard = opt.fixedMode && !opt.extraStreams ? this.mode : undefined;
+    this.roomOnly = heard === 'nonlinear' || heard === 'linear' ? heard : undefined;
     const bufs = () => Array.from({ length: opt.channels }, () => new Float64Array(CHUNK));
     this.streams = { nonlinear: bufs(), linear: bufs(), residual: bufs() };
     this.traceHz = opt.traceHz ?? 100;
@@ -193,6 +202,7 @@ export class Renderer {
   }
 
   setMode(m: RenderMode): void {
+    if (this.roomOnly !== undefined && m !== this.mode) throw new Error('setMode on a renderer made with fixedMode');
     this.mode = m;
   }
 
@@ -285,7 +295,7 @@ export class Renderer {
     for (let w = 0; w < this.drivers.length; w++) this.stress[w].measure(this.drivers[w].lanes, n, t0, dt, this.events);
     this.recorder.advance(n, this.stress, this.distortion);
     // The room changes what the listener hears, not what the drivers do: after the stress meters.
-    this.room?.streams.process(this.streams, n);
+    this.room?.streams.process(this.streams, n, this.roomOnly);
     // 4. Calibration and the true-peak guard.
     this.guard.write(this.mode, this.streams, n, 1 / this.paPerFs, outputs, s, extra);
     this.frames += n;

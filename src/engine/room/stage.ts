@@ -162,15 +162,23 @@ export class RoomStreams {
     this.linear = make();
   }
 
-  /** The room on the summed streams; the residual stays their difference. */
-  process(streams: { nonlinear: Float64Array[]; linear: Float64Array[]; residual: Float64Array[] }, n: number): void {
+  /**
+   * The room on the summed streams; the residual stays their difference. `only` (a renderer whose
+   * heard stream never changes and has no side streams): the room on that stream alone, the others
+   * left as they are (no one reads them); the heard stream comes out the same sample for sample.
+   */
+  process(
+    streams: { nonlinear: Float64Array[]; linear: Float64Array[]; residual: Float64Array[] },
+    n: number,
+    only?: 'nonlinear' | 'linear',
+  ): void {
     for (let c = 0; c < this.nonlinear.length; c++) {
       const on = streams.nonlinear[c],
         ol = streams.linear[c],
         or = streams.residual[c];
-      this.nonlinear[c].process(on, n);
-      this.linear[c].process(ol, n);
-      for (let k = 0; k < n; k++) or[k] = on[k] - ol[k];
+      if (only !== 'linear') this.nonlinear[c].process(on, n);
+      if (only !== 'nonlinear') this.linear[c].process(ol, n);
+      if (only === undefined) for (let k = 0; k < n; k++) or[k] = on[k] - ol[k];
     }
   }
 }
