@@ -33,7 +33,9 @@ export class ResidualMeter {
    * Feeds n samples of output, linear output and residual. Wherever the output's mean square exceeds
    * floor2: ratio[k] becomes max(ratio[k], incoherent residual energy / output energy) and
    * loss[k] max(loss[k], dB by which the coherent part lowers the linear output's level; negative
-   * when it raises it).
+   * when it raises it). With `asLevel`, loss[k] becomes min(loss[k], that level as a power ratio)
+   * instead (1 where it is not lowered): no logarithm per sample, for a caller that wants the dB of
+   * only a few frames (-10·log10 of the ratio is the dB figure, bit for bit).
    */
   processBlock(
     out: ArrayLike<number>,
@@ -43,6 +45,7 @@ export class ResidualMeter {
     floor2: number,
     ratio: Float64Array,
     loss: Float64Array,
+    asLevel = false,
   ): void {
     const a = this.alpha;
     let eOut = this.eOut,
@@ -83,8 +86,13 @@ export class ResidualMeter {
         if (uu > 0) {
           // Level of u + g·u + h·d against u's.
           const fitted = (1 + g) * (1 + g) * uu + 2 * (1 + g) * h * ud + h * h * dd;
-          const l = fitted > 0 ? -10 * Math.log10(fitted / uu) : 0;
-          if (l > loss[k]) loss[k] = l;
+          if (asLevel) {
+            const x = fitted > 0 ? fitted / uu : 1;
+            if (x < loss[k]) loss[k] = x;
+          } else {
+            const l = fitted > 0 ? -10 * Math.log10(fitted / uu) : 0;
+            if (l > loss[k]) loss[k] = l;
+          }
         }
       }
     }

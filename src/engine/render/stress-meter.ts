@@ -208,8 +208,12 @@ export function emptyWayStats(name: string, outlet: Outlet): WayStats {
 export class OutputDistortion {
   private meters: ResidualMeter[] = [];
   readonly ratio = new Float64Array(CHUNK);
-  /** dB by which the coherent part of the residual lowers the linear output, per frame. */
-  readonly loss = new Float64Array(CHUNK);
+  /**
+   * The linear output's level after the coherent part of the residual, as a power ratio to its own
+   * (the worst channel per frame; 1 where not lowered): its dB are taken only where needed, since
+   * -10·log10 falls as the ratio rises (a logarithm per frame was a fifth of a render).
+   */
+  readonly level = new Float64Array(CHUNK);
   /** Worst ratio since the trace recorder's last point. */
   traceRatio = 0;
   /** Largest output compression so far, dB (the coherent part; the coil's heat is in the linear twin). */
@@ -231,22 +235,27 @@ export class OutputDistortion {
   measure(out: Float64Array[], linear: Float64Array[], residual: Float64Array[], n: number, t0: number, dt: number, ev: EventLog): void {
     const floor2 = DISTORTION_FLOOR_PA * DISTORTION_FLOOR_PA;
     const ratio = this.ratio,
-      loss = this.loss;
+      level = this.level;
     ratio.fill(0, 0, n);
-    loss.fill(0, 0, n);
-    for (let c = 0; c < this.meters.length; c++) this.meters[c].processBlock(out[c], linear[c], residual[c], n, floor2, ratio, loss);
+    level.fill(1, 0, n);
+    for (let c = 0; c < this.meters.length; c++) this.meters[c].processBlock(out[c], linear[c], residual[c], n, floor2, ratio, level, true);
     let peakR = 0,
-      peakL = 0;
+      lowest = 1;
     for (let k = 0; k < n; k++) {
       if (ratio[k] > peakR) peakR = ratio[k];
-      if (loss[k] > peakL) peakL = loss[k];
+      if (level[k] < lowest) lowest = level[k];
     }
+    const peakL = lowest < 1 ? -10 * Math.log10(lowest) : 0;
     const ratioLim = this.ratioLim;
     if (peakR > ratioLim) {
       for (let k = 0; k < n; k++) if (ratio[k] > ratioLim) ev.mark(OUTPUT_SOURCE, EV_DISTORTION, t0 + k * dt, 10 * Math.log10(ratio[k]));
     }
     if (peakL > OUTPUT_COMPRESSION_LIMIT_DB) {
-      for (let k = 0; k < n; k++) if (loss[k] > OUTPUT_COMPRESSION_LIMIT_DB) ev.mark(OUTPUT_SOURCE, EV_COMPRESSION, t0 + k * dt, loss[k]);
+      for (let k = 0; k < n; k++) {
+        if (!(level[k] < 1)) continue;
+        const l = -10 * Math.log10(level[k]);
+        if (l > OUTPUT_COMPRESSION_LIMIT_DB) ev.mark(OUTPUT_SOURCE, EV_COMPRESSION, t0 + k * dt, l);
+      }
     }
     if (peakR > this.traceRatio) this.traceRatio = peakR;
     if (peakL > this.maxCompressionDb) this.maxCompressionDb = peakL;
