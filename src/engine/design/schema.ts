@@ -133,6 +133,22 @@ export const passiveFilterSchema = v.strictObject({
   ),
 });
 
+/**
+ * A driver's measured frequency response (frequency, SPL, optional phase as parallel lists) and the
+ * frequency the way blends from its model to the measurement (fir/correction.ts); the lists' own
+ * consistency (lengths, rising frequencies, the blend covered) is checked in convert.ts.
+ */
+export const measuredResponseSchema = v.strictObject({
+  blend_hz: num(10, 20000, 'Hz'),
+  freq_hz: v.pipe(v.array(num(1, 100000, 'Hz'), 'must be a list of frequencies in Hz'), v.maxLength(20000, 'must have at most 20000 points')),
+  spl_db: v.pipe(v.array(num(-250, 250, 'dB'), 'must be a list of levels in dB'), v.maxLength(20000, 'must have at most 20000 points')),
+  phase_deg: v.optional(
+    v.pipe(v.array(num(-1e6, 1e6, '°'), 'must be a list of phases in degrees'), v.maxLength(20000, 'must have at most 20000 points')),
+  ),
+  /** Where the table came from (a file name), shown to the user. */
+  source: v.optional(text(200)),
+});
+
 const wayCommon = {
   name: v.pipe(text(40), v.minLength(1, 'must not be empty')),
   polarity: v.optional(v.picklist([1, -1], 'must be 1 or -1')),
@@ -216,6 +232,7 @@ export function makeDesignSchema<const B extends v.ObjectSchema<any, any>[] | v.
     count: v.optional(int(1, MAX_DRIVERS_PER_WAY)),
     wiring: v.optional(v.picklist(['series', 'parallel'], 'must be "series" or "parallel"')),
     box: boxSchema,
+    measured_response: v.optional(measuredResponseSchema),
   });
   // An ideal flat band (the first version's upper path): at the passband level of the first
   // driver way unless its own sensitivity is given.
