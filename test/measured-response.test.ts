@@ -64,3 +64,39 @@ describe('measured response as FIR: the closed-form check', () => {
     console.log(`analysis: worst ${worstDb.toFixed(4)} dB, ${worstDeg.toFixed(3)}°`);
   });
 });
+
+describe('measured response with a phase column', () => {
+  const fs = 48000;
+  const peak = peaking(2500, 1.2, 6, fs);
+  const doc = sealedDoc();
+  const model = bareModel(doc);
+  const freqs = logSpaced(20, 20000, 600);
+  // The measurement's time of flight: 0.25 ms on top of the model and the biquad, wrapped to ±180°.
+  const tau = 0.25e-3;
+  const table = [
+    'Hz dB deg',
+    ...freqs.map((f) => {
+      const ph = arg(model(f)) + arg(biquadAt(peak, f, fs)) - 2 * Math.PI * f * tau;
+      return `${f} ${db(model(f)) + db(biquadAt(peak, f, fs)) - 6} ${wrapDeg(ph)}`;
+    }),
+  ].join('\n');
+  const { system, way } = withMeasured(doc, table, 150);
+  const correction = measuredCorrection(system, way)!;
+
+  it('removes the time of flight and keeps the biquad: analysis and FIR within 0.1 dB and 2°', () => {
+    expect(correction.curve.removedDelayS * 1e3).toBeCloseTo(tau * 1e3, 2);
+    const taps = correction.taps(fs);
+    let worstDb = 0;
+    let worstDeg = 0;
+    for (const f of logSpaced(300, 18000, 80)) {
+      const b = biquadAt(peak, f, fs);
+      for (const c of [correction.at(f), firAt(taps, f, fs)]) {
+        worstDb = Math.max(worstDb, Math.abs(db(c) - db(b)));
+        worstDeg = Math.max(worstDeg, Math.abs(wrapDeg(arg(c) - arg(b))));
+      }
+    }
+    expect(worstDb).toBeLessThan(0.1);
+    expect(worstDeg).toBeLessThan(2);
+    console.log(`with phase: ${taps.length} taps, delay ${(correction.curve.removedDelayS * 1e3).toFixed(4)} ms, worst ${worstDb.toFixed(4)} dB, ${worstDeg.toFixed(3)}°`);
+  });
+});

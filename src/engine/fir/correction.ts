@@ -12,8 +12,9 @@
 // Phase: without a phase column, C_blend is the minimum-phase response of |C_blend| (the real
 // cepstrum, min-phase.ts); the model's own response is minimum phase, so the way's response is the
 // minimum-phase form of the blended magnitude. With a phase column, the measured phase less the
-// model's is used, after removing its straight-line trend against frequency (a pure delay: the
-// measurement's time of flight, which the way's offset_mm sets instead) and the nearest whole turn.
+// model's is used, after removing a pure delay (the measurement's time of flight, which the way's
+// offset_mm sets instead: the straight-line trend of the excess phase, the measured phase less the
+// minimum phase of the measured level, above the blend octave) and the nearest whole turn.
 import FFT from 'fft.js';
 import { cx, type Complex } from '../complex.ts';
 import { minimumPhaseSpectrum } from './min-phase.ts';
@@ -127,11 +128,14 @@ export function correctionCurve(m: MeasuredResponse, model: (f: number) => Compl
     const w = blendWeight(f, fb);
     return w === 0 ? 0 : w * (tableDb(hold(f)) + offset - modelDb(hold(f)));
   };
-  if (!m.phaseDeg) return { blendHz: fb, topHz, levelOffsetDb: offset, removedDelayS: 0, hasPhase: false, db, phase: () => 0 };
+  const magnitudeOnly: CorrectionCurve = { blendHz: fb, topHz, levelOffsetDb: offset, removedDelayS: 0, hasPhase: false, db, phase: () => 0 };
+  if (!m.phaseDeg) return magnitudeOnly;
 
   const modelPh = interpolator(mLog, unwrap(mPhRaw));
   const tablePh = interpolator(tLog, unwrap(m.phaseDeg.map((d) => (d * Math.PI) / 180)));
-  // The straight line a + b·f through the phase difference (least squares on the model's log grid).
+  // The measurement's delay: the straight line b·f through its excess phase (its phase less the
+  // minimum phase of its level) above the blend octave, by least squares on the model's log grid.
+  const minimum = correctionResponse(magnitudeOnly);
   let s1 = 0,
     sf = 0,
     sff = 0,
@@ -139,14 +143,16 @@ export function correctionCurve(m: MeasuredResponse, model: (f: number) => Compl
     sfp = 0;
   for (let i = 0; i < nModel; i++) {
     const f = 2 ** mLog[i];
-    const d = tablePh(f) - modelPh(f);
+    if (f < fb * Math.SQRT2) continue;
+    const c = minimum(f);
+    const excess = tablePh(f) - modelPh(f) - Math.atan2(c.im, c.re);
     s1 += 1;
     sf += f;
     sff += f * f;
-    sp += d;
-    sfp += f * d;
+    sp += excess;
+    sfp += f * excess;
   }
-  const slope = (s1 * sfp - sf * sp) / (s1 * sff - sf * sf);
+  const slope = s1 > 2 ? (s1 * sfp - sf * sp) / (s1 * sff - sf * sf) : 0;
   const diff = (f: number) => tablePh(hold(f)) - modelPh(hold(f)) - slope * hold(f);
   // The whole turn nearest the blend octave's mean (a phase table is known only modulo 2π).
   let mean = 0;
