@@ -4,6 +4,7 @@
 // design without the field renders as before (test/render-v1-identity.test.ts pins that).
 import { describe, expect, it } from 'vitest';
 import { renderBuffer } from '../src/engine/render/index.ts';
+import { LinearChain } from '../src/engine/render/linear-chain.ts';
 import { systemPressure } from '../src/engine/response/frequency.ts';
 import { abs } from '../src/engine/complex.ts';
 import type { SpeakerSystem } from '../src/engine/system.ts';
@@ -75,5 +76,27 @@ describe('measured response in the render', () => {
       expect(err, `${f} Hz`).toBeLessThan(0.05);
     }
     console.log(`correction alone: worst ${worst.toFixed(4)} dB`);
+  });
+
+  it('the calibration chain carries the correction: its level on noise equals the linear render within 0.05 dB', () => {
+    const sr = 48000;
+    let seed = 7;
+    const noise = Float32Array.from({ length: sr }, () => {
+      seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0;
+      return seed / 2 ** 32 - 0.5;
+    });
+    const rms = (x: ArrayLike<number>, from: number) => {
+      let s = 0;
+      for (let i = from; i < x.length; i++) s += x[i] * x[i];
+      return Math.sqrt(s / (x.length - from));
+    };
+    const rendered = renderBuffer(system, [noise], sr, { voltsFs: 1, paPerFs: 1, mode: 'linear' }).audio[0];
+    const chain = new LinearChain(system, sr, 1, 1);
+    const out = [[new Float64Array(sr)]];
+    chain.process([noise], out, sr);
+    const from = sr / 4;
+    const err = 20 * Math.log10(rms(out[0][0], from) / rms(rendered, from));
+    console.log(`calibration chain against the render: ${err.toFixed(4)} dB`);
+    expect(Math.abs(err)).toBeLessThan(0.05);
   });
 });

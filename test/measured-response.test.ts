@@ -19,7 +19,9 @@ describe('measured response as FIR: the closed-form check', () => {
   const table = [
     '* synthetic: the model times a peaking biquad',
     'Freq(Hz);SPL(dB)',
-    ...freqs.map((f) => `${f.toFixed(3).replace('.', ',')};${(db(model(f)) + db(biquadAt(peak, f, fs)) + 17).toFixed(5).replace('.', ',')}`),
+    ...freqs.map(
+      (f) => `${f.toFixed(3).replace('.', ',')};${(db(model(f)) + db(biquadAt(peak, f, fs)) + 17).toFixed(5).replace('.', ',')}`,
+    ),
   ].join('\n');
   const { system, way } = withMeasured(doc, table, 150);
   const correction = measuredCorrection(system, way)!;
@@ -97,6 +99,8 @@ describe('measured response with a phase column', () => {
     }
     expect(worstDb).toBeLessThan(0.1);
     expect(worstDeg).toBeLessThan(2);
-    console.log(`with phase: ${taps.length} taps, delay ${(correction.curve.removedDelayS * 1e3).toFixed(4)} ms, worst ${worstDb.toFixed(4)} dB, ${worstDeg.toFixed(3)}°`);
+    console.log(
+      `with phase: ${taps.length} taps, delay ${(correction.curve.removedDelayS * 1e3).toFixed(4)} ms, worst ${worstDb.toFixed(4)} dB, ${worstDeg.toFixed(3)}°`,
+    );
   });
 });

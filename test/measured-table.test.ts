@@ -28,7 +28,12 @@ describe('parseResponseTable', () => {
     ['a word among the numbers', `Hz dB\n20 80\n30 eighty\n`, 3, /"eighty" is not a number/],
     ['a missing column', `Hz dB\n20 80\n30\n`, 3, /at least two columns: frequency and SPL/],
     ['a ragged row', `20 80 10\n30 81\n`, 2, /has 2 columns where the lines before have 3/],
-    ['frequencies out of order', `Hz dB\n${rows((f, i) => (i === 12 ? `${freqs[10]} 80` : `${f} 80`))}`, 14, /does not rise from the point before/],
+    [
+      'frequencies out of order',
+      `Hz dB\n${rows((f, i) => (i === 12 ? `${freqs[10]} 80` : `${f} 80`))}`,
+      14,
+      /does not rise from the point before/,
+    ],
     ['too few points', `Hz dB\n20 80\n40 81\n80 82\n`, 4, /the table has 3 points; a measured response needs at least 10/],
     ['a frequency of zero', `Hz dB\n0 80\n${rows((f) => `${f} 80`)}`, 2, /frequency 0 Hz must be from 1 to 100000 Hz/],
     ['a level far out of range', `Hz dB\n${rows((f, i) => `${f} ${i === 5 ? 1e6 : 80}`)}`, 7, /SPL 1000000 dB must be from -250 to 250 dB/],
@@ -62,10 +67,25 @@ describe('measured_response in a design file', () => {
 
   const cases: [string, unknown, string, RegExp][] = [
     ['lists of different lengths', { ...good, spl_db: [80, 81] }, 'ways[0].measured_response.freq_hz', /30 frequencies but 2 SPL values/],
-    ['a frequency out of order', { ...good, freq_hz: freqs.map((f, i) => (i === 4 ? freqs[2] : f)) }, 'ways[0].measured_response.freq_hz[4]', /does not rise/],
-    ['a blend below the table', { ...good, blend_hz: 20 }, 'ways[0].measured_response.blend_hz', /starts at 20 Hz: .* must start at 14.14 Hz or lower/],
+    [
+      'a frequency out of order',
+      { ...good, freq_hz: freqs.map((f, i) => (i === 4 ? freqs[2] : f)) },
+      'ways[0].measured_response.freq_hz[4]',
+      /does not rise/,
+    ],
+    [
+      'a blend below the table',
+      { ...good, blend_hz: 20 },
+      'ways[0].measured_response.blend_hz',
+      /starts at 20 Hz: .* must start at 14.14 Hz or lower/,
+    ],
     ['a blend too near its top', { ...good, blend_hz: 10000 }, 'ways[0].measured_response.blend_hz', /must reach 28280 Hz/],
-    ['a level that is not a number', { ...good, spl_db: freqs.map(() => 'loud') }, 'ways[0].measured_response.spl_db[0]', /must be a number/],
+    [
+      'a level that is not a number',
+      { ...good, spl_db: freqs.map(() => 'loud') },
+      'ways[0].measured_response.spl_db[0]',
+      /must be a number/,
+    ],
     ['an unknown field', { ...good, gain: 1 }, 'ways[0].measured_response.gain', /is not a field/],
   ];
   for (const [what, field, path, message] of cases)

@@ -81,4 +81,3 @@ export function withMeasured(doc: DesignDoc, text: string, blendHz: number): { s
   if (!parsed.ok) throw new Error(parsed.errors.map((e) => `${e.path}: ${e.message}`).join('; '));
   return { system: parsed.system, way: parsed.system.ways[0] as DriverWay };
 }
-

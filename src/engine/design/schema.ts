@@ -140,7 +140,10 @@ export const passiveFilterSchema = v.strictObject({
  */
 export const measuredResponseSchema = v.strictObject({
   blend_hz: num(10, 20000, 'Hz'),
-  freq_hz: v.pipe(v.array(num(1, 100000, 'Hz'), 'must be a list of frequencies in Hz'), v.maxLength(20000, 'must have at most 20000 points')),
+  freq_hz: v.pipe(
+    v.array(num(1, 100000, 'Hz'), 'must be a list of frequencies in Hz'),
+    v.maxLength(20000, 'must have at most 20000 points'),
+  ),
   spl_db: v.pipe(v.array(num(-250, 250, 'dB'), 'must be a list of levels in dB'), v.maxLength(20000, 'must have at most 20000 points')),
   phase_deg: v.optional(
     v.pipe(v.array(num(-1e6, 1e6, '°'), 'must be a list of phases in degrees'), v.maxLength(20000, 'must have at most 20000 points')),

@@ -128,7 +128,15 @@ export function correctionCurve(m: MeasuredResponse, model: (f: number) => Compl
     const w = blendWeight(f, fb);
     return w === 0 ? 0 : w * (tableDb(hold(f)) + offset - modelDb(hold(f)));
   };
-  const magnitudeOnly: CorrectionCurve = { blendHz: fb, topHz, levelOffsetDb: offset, removedDelayS: 0, hasPhase: false, db, phase: () => 0 };
+  const magnitudeOnly: CorrectionCurve = {
+    blendHz: fb,
+    topHz,
+    levelOffsetDb: offset,
+    removedDelayS: 0,
+    hasPhase: false,
+    db,
+    phase: () => 0,
+  };
   if (!m.phaseDeg) return magnitudeOnly;
 
   const modelPh = interpolator(mLog, unwrap(mPhRaw));
