@@ -76,7 +76,7 @@ const NO_FILTER: ActiveFilter = { type: 'active', highpass: null, lowpass: null,
  */
 export function measuredCorrection(system: SpeakerSystem, way: DriverWay): MeasuredCorrection | null {
   const bare: DriverWay = { ...way, filter: NO_FILTER, network: undefined, measured: undefined };
-  return cachedCorrection(system, way, (f) => modelled(system, bare, f, 1, false).pressure);
+  return cachedCorrection(way, (f) => modelled(system, bare, f, 1, false).pressure);
 }
 
 function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {

@@ -1,8 +1,8 @@
 // A driver way's measured-response correction (fir/correction.ts), built once per way and system
 // and shared by the analysis (its response at any f) and the renderer (its taps per sample rate).
 import type { Complex } from '../complex.ts';
-import type { DriverWay, SpeakerSystem } from '../system.ts';
-import { correctionCurve, correctionResponse, correctionTaps, type CorrectionCurve } from '../fir/correction.ts';
+import type { DriverWay } from '../system.ts';
+import { correctionCurve, correctionResponse, correctionTaps, type CorrectionCurve, type MeasuredResponse } from '../fir/correction.ts';
 
 export interface MeasuredCorrection {
   curve: CorrectionCurve;
@@ -12,20 +12,18 @@ export interface MeasuredCorrection {
   taps(sampleRate: number): Float64Array;
 }
 
-interface Entry {
-  system: SpeakerSystem;
-  correction: MeasuredCorrection;
-}
+// A design's table is read into a new object whenever the design is read (design/convert.ts), and
+// kept by the copies of its way that the analysis makes (a hot coil, a way at its limit), so the
+// table keys the cache: the correction is built once, against the way as first asked for (the
+// design's own way: the analysis and the renderer ask for it before any variant).
+const built = new WeakMap<MeasuredResponse, MeasuredCorrection>();
 
-// Ways and systems are rebuilt, never edited, when a design changes, so they key the cache.
-const built = new WeakMap<DriverWay, Entry>();
-
-/** The way's correction against `model` (its drivers' pressure at f), from the cache when the system is the same. */
-export function cachedCorrection(system: SpeakerSystem, way: DriverWay, model: (f: number) => Complex): MeasuredCorrection | null {
+/** The way's correction against `model` (its drivers' pressure at f), built once per table. */
+export function cachedCorrection(way: DriverWay, model: (f: number) => Complex): MeasuredCorrection | null {
   const m = way.measured;
   if (!m) return null;
-  const hit = built.get(way);
-  if (hit && hit.system === system) return hit.correction;
+  const hit = built.get(m);
+  if (hit) return hit;
   const curve = correctionCurve(m, model);
   let response: ((f: number) => Complex) | null = null;
   const taps = new Map<number, Float64Array>();
@@ -41,6 +39,6 @@ export function cachedCorrection(system: SpeakerSystem, way: DriverWay, model: (
       return t;
     },
   };
-  built.set(way, { system, correction });
+  built.set(m, correction);
   return correction;
 }
