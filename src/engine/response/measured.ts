@@ -35,7 +35,10 @@ export function cachedCorrection(way: DriverWay, model: (f: number) => Complex):
     },
     taps(rate) {
       let t = taps.get(rate);
-      if (!t) taps.set(rate, (t = correctionTaps(curve, rate)));
+      if (!t) {
+        t = correctionTaps(curve, rate);
+        taps.set(rate, t);
+      }
       return t;
     },
   };
