@@ -92,6 +92,8 @@ export interface CorrectionCurve {
   hasPhase: boolean;
   /** The blended correction's level at f, dB. */
   db(f: number): number;
+  /** The level-matched table less the model at f, dB, before the blend (held above the table). */
+  deviationDb(f: number): number;
   /** The blended correction's phase at f from the table, rad (0 without a phase column). */
   phase(f: number): number;
 }
@@ -124,9 +126,10 @@ export function correctionCurve(m: MeasuredResponse, model: (f: number) => Compl
   }
   offset /= matchPoints;
   const hold = (f: number) => Math.min(f, topHz);
+  const deviationDb = (f: number) => tableDb(hold(f)) + offset - modelDb(hold(f));
   const db = (f: number) => {
     const w = blendWeight(f, fb);
-    return w === 0 ? 0 : w * (tableDb(hold(f)) + offset - modelDb(hold(f)));
+    return w === 0 ? 0 : w * deviationDb(f);
   };
   const magnitudeOnly: CorrectionCurve = {
     blendHz: fb,
@@ -135,6 +138,7 @@ export function correctionCurve(m: MeasuredResponse, model: (f: number) => Compl
     removedDelayS: 0,
     hasPhase: false,
     db,
+    deviationDb,
     phase: () => 0,
   };
   if (!m.phaseDeg) return magnitudeOnly;
@@ -170,7 +174,7 @@ export function correctionCurve(m: MeasuredResponse, model: (f: number) => Compl
     const w = blendWeight(f, fb);
     return w === 0 ? 0 : w * (diff(f) - turn);
   };
-  return { blendHz: fb, topHz, levelOffsetDb: offset, removedDelayS: -slope / (2 * Math.PI), hasPhase: true, db, phase };
+  return { ...magnitudeOnly, removedDelayS: -slope / (2 * Math.PI), hasPhase: true, phase };
 }
 
 /** FFT size for a correction at rate fs: bins fine enough for the blend octave (24 per half octave). */
