@@ -22,9 +22,9 @@ export class PartitionedConvolver {
   private pos = 0;
   /** The tail's output for the current block. */
   private readonly tailOut: Float64Array;
-  private readonly spec: number[];
-  private readonly acc: number[];
-  private readonly time: number[];
+  private readonly spec: Float64Array;
+  private readonly acc: Float64Array;
+  private readonly time: Float64Array;
 
   constructor(taps: ArrayLike<number>, partition = 64) {
     if (!(partition >= 2 && (partition & (partition - 1)) === 0)) throw new Error('the partition must be a power of two');
@@ -50,9 +50,10 @@ export class PartitionedConvolver {
     this.fdl = this.parts.map(() => new Float64Array(2 * (p + 1)));
     this.frame = new Float64Array(2 * p);
     this.tailOut = new Float64Array(p);
-    this.spec = this.fft.createComplexArray() as number[];
-    this.acc = this.fft.createComplexArray() as number[];
-    this.time = this.fft.createComplexArray() as number[];
+    // Typed arrays throughout: fft.js only indexes them, and the spectral loop stays on doubles.
+    this.spec = new Float64Array(4 * p);
+    this.acc = new Float64Array(4 * p);
+    this.time = new Float64Array(4 * p);
   }
 
   /** Filters buf[0..n) in place. */
@@ -75,32 +76,40 @@ export class PartitionedConvolver {
     const p = this.p;
     const count = this.parts.length;
     if (count > 0) {
-      this.newest = (this.newest + 1) % count;
-      const x = this.fdl[this.newest];
-      this.fft.realTransform(this.spec, this.frame as unknown as number[]);
-      for (let i = 0; i < 2 * (p + 1); i++) x[i] = this.spec[i];
+      this.newest = this.newest + 1 === count ? 0 : this.newest + 1;
+      const fdl = this.fdl;
+      const parts = this.parts;
+      const x = fdl[this.newest];
+      const spec = this.spec;
+      this.fft.realTransform(spec as unknown as number[], this.frame as unknown as number[]);
+      const bins = 2 * (p + 1);
+      for (let i = 0; i < bins; i++) x[i] = spec[i];
       const acc = this.acc;
       acc.fill(0);
+      let slot = this.newest;
       for (let k = 0; k < count; k++) {
-        const xs = this.fdl[(this.newest - k + count) % count];
-        const h = this.parts[k];
-        for (let b = 0; b <= p; b++) {
-          const xr = xs[2 * b],
-            xi = xs[2 * b + 1],
-            hr = h[2 * b],
-            hi = h[2 * b + 1];
-          acc[2 * b] += xr * hr - xi * hi;
-          acc[2 * b + 1] += xr * hi + xi * hr;
+        const xs = fdl[slot];
+        const h = parts[k];
+        for (let i = 0; i < bins; i += 2) {
+          const xr = xs[i],
+            xi = xs[i + 1],
+            hr = h[i],
+            hi = h[i + 1];
+          acc[i] += xr * hr - xi * hi;
+          acc[i + 1] += xr * hi + xi * hr;
         }
+        slot = slot === 0 ? count - 1 : slot - 1;
       }
       // The upper half of a real signal's spectrum: the conjugate of the lower.
       for (let b = p + 1; b < 2 * p; b++) {
         acc[2 * b] = acc[2 * (2 * p - b)];
         acc[2 * b + 1] = -acc[2 * (2 * p - b) + 1];
       }
-      this.fft.inverseTransform(this.time, acc);
+      this.fft.inverseTransform(this.time as unknown as number[], acc as unknown as number[]);
       // Overlap-save: the last P samples of the circular convolution are the linear one's.
-      for (let i = 0; i < p; i++) this.tailOut[i] = this.time[2 * (p + i)];
+      const time = this.time;
+      const tail = this.tailOut;
+      for (let i = 0; i < p; i++) tail[i] = time[2 * (p + i)];
     }
     this.frame.copyWithin(0, p, 2 * p);
     this.pos = 0;
