@@ -7,6 +7,16 @@
 // length of input handed to `process`.
 import FFT from 'fft.js';
 
+/**
+ * The partition that costs least per sample: the direct part takes P multiply-adds, the FFT part
+ * about L/P complex ones (4 real), so P near √(2L), a power of two from 16 to 512.
+ */
+export function partitionFor(length: number): number {
+  let p = 16;
+  while (p < 512 && p * p < 2 * length) p <<= 1;
+  return p;
+}
+
 export class PartitionedConvolver {
   readonly length: number;
   private readonly p: number;
@@ -26,7 +36,7 @@ export class PartitionedConvolver {
   private readonly acc: Float64Array;
   private readonly time: Float64Array;
 
-  constructor(taps: ArrayLike<number>, partition = 64) {
+  constructor(taps: ArrayLike<number>, partition = partitionFor(taps.length)) {
     if (!(partition >= 2 && (partition & (partition - 1)) === 0)) throw new Error('the partition must be a power of two');
     const p = partition;
     this.p = p;
