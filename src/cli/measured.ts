@@ -7,7 +7,7 @@ import { measuredCorrection } from '../engine/response/frequency.ts';
 import type { DriverWay } from '../engine/system.ts';
 import { fmt } from '../engine/issues.ts';
 import { EXIT_OK, InputError, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
-import { formatIssue, loadDesignFile, readSmallText } from './design-file.ts';
+import { formatIssue, loadDesignFile, MAX_DESIGN_BYTES, readSmallText } from './design-file.ts';
 import { planOutputs } from './output-files.ts';
 import { printable } from './user-text.ts';
 
@@ -96,7 +96,13 @@ export const measuredCommand: Command = {
         throw new InputError(`the response cannot be used on way "${printable(way.name)}":\n${problems}`);
       }
       const correction = measuredCorrection(parsed.system, parsed.system.ways[index] as DriverWay)!;
-      await writeFile(plan.staging(out), `${JSON.stringify(next, null, 2)}\n`);
+      // The lists of numbers one to a line would make a long table's file huge: each list on one line.
+      const text = `${JSON.stringify(next, null, 2).replace(/\[\s+([-+\d.eE,\s]+?)\s+\]/g, (_, inner: string) => `[${inner.replace(/,\s+/g, ', ')}]`)}\n`;
+      if (text.length > MAX_DESIGN_BYTES)
+        throw new InputError(
+          `the design with this table would be ${(text.length / 2 ** 20).toFixed(1)} MiB, over the 1 MiB a design file may have: use a table with fewer points`,
+        );
+      await writeFile(plan.staging(out), text);
       plan.commit();
       const summary = {
         out,

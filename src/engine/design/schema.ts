@@ -2,6 +2,7 @@
 // Ranges here refuse; plausibility (warnings with numbers) lives in checks.ts. The document's
 // TypeScript types are inferred from these schemas (document.ts), so there is one definition.
 import * as v from 'valibot';
+import { MAX_RESPONSE_POINTS } from '../fir/response-table.ts';
 
 export const DESIGN_FORMAT = 'preheard-design';
 export const DESIGN_VERSION = 2;
@@ -138,16 +139,15 @@ export const passiveFilterSchema = v.strictObject({
  * frequency the way blends from its model to the measurement (fir/correction.ts); the lists' own
  * consistency (lengths, rising frequencies, the blend covered) is checked in convert.ts.
  */
+const mostPoints = `must have at most ${MAX_RESPONSE_POINTS} points`;
+/** A list of numbers in [min, max] of at most MAX_RESPONSE_POINTS. */
+const points = (min: number, max: number, unit: string, what: string) =>
+  v.pipe(v.array(num(min, max, unit), `must be a list of ${what}`), v.maxLength(MAX_RESPONSE_POINTS, mostPoints));
 export const measuredResponseSchema = v.strictObject({
   blend_hz: num(10, 20000, 'Hz'),
-  freq_hz: v.pipe(
-    v.array(num(1, 100000, 'Hz'), 'must be a list of frequencies in Hz'),
-    v.maxLength(20000, 'must have at most 20000 points'),
-  ),
-  spl_db: v.pipe(v.array(num(-250, 250, 'dB'), 'must be a list of levels in dB'), v.maxLength(20000, 'must have at most 20000 points')),
-  phase_deg: v.optional(
-    v.pipe(v.array(num(-1e6, 1e6, '°'), 'must be a list of phases in degrees'), v.maxLength(20000, 'must have at most 20000 points')),
-  ),
+  freq_hz: points(1, 100000, 'Hz', 'frequencies in Hz'),
+  spl_db: points(-250, 250, 'dB', 'levels in dB'),
+  phase_deg: v.optional(points(-1e6, 1e6, '°', 'phases in degrees')),
   /** Where the table came from (a file name), shown to the user. */
   source: v.optional(text(200)),
 });

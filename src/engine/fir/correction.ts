@@ -34,8 +34,8 @@ export interface MeasuredResponse {
 const MODEL_POINTS_PER_OCTAVE = 48;
 /** The rate of the grid the analysis reads the minimum phase from, Hz. */
 export const ANALYSIS_RATE = 96_000;
-/** FIR taps are cut where the rest of the impulse holds less than this share of its energy. */
-const TAIL_ENERGY = 1e-10;
+/** FIR taps are cut where the rest of the impulse holds less than this share of its energy (-80 dB: below what a table to 0.001 dB resolves). */
+const TAIL_ENERGY = 1e-8;
 export const MAX_TAPS = 32_768;
 
 /** The crossfade weight: 0 below fb/√2, 1 above fb·√2, a raised cosine of log2 f between. */

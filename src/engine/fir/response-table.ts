@@ -15,8 +15,8 @@ export interface ResponseTable {
 
 /** Fewest points of a measured response (a few per octave over the band it replaces). */
 export const MIN_RESPONSE_POINTS = 10;
-/** Most points kept in a design file (a fine log sweep has a few thousand). */
-export const MAX_RESPONSE_POINTS = 20_000;
+/** Most points kept in a design file (a response needs a few hundred; the file stays small). */
+export const MAX_RESPONSE_POINTS = 5000;
 /** The frequencies a measured response may span, Hz. */
 export const RESPONSE_LOW_HZ = 1;
 export const RESPONSE_HIGH_HZ = 100_000;
@@ -120,10 +120,11 @@ export function parseResponseTable(text: string): ResponseTableResult {
   const fi = roles.indexOf('freq');
   const si = roles.indexOf('spl');
   const pi = roles.indexOf('phase');
+  // Kept to what a measurement resolves (6 significant digits, 0.001 dB, 0.01°), so a design file stays small.
   const table: ResponseTable = {
-    freqHz: rows.map((r) => r[fi]),
-    splDb: rows.map((r) => r[si]),
-    phaseDeg: pi >= 0 ? rows.map((r) => r[pi]) : null,
+    freqHz: rows.map((r) => Number(r[fi].toPrecision(6))),
+    splDb: rows.map((r) => Math.round(r[si] * 1000) / 1000),
+    phaseDeg: pi >= 0 ? rows.map((r) => Math.round(r[pi] * 100) / 100) : null,
   };
   const problem = checkResponse(table);
   if (problem)
