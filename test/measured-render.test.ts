@@ -5,6 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { renderBuffer } from '../src/engine/render/index.ts';
 import { LinearChain } from '../src/engine/render/linear-chain.ts';
+import { distortionCurves } from '../src/engine/distortion/stepped-sine.ts';
 import { systemPressure } from '../src/engine/response/frequency.ts';
 import { abs } from '../src/engine/complex.ts';
 import type { SpeakerSystem } from '../src/engine/system.ts';
@@ -98,5 +99,14 @@ describe('measured response in the render', () => {
     const err = 20 * Math.log10(rms(out[0][0], from) / rms(rendered, from));
     console.log(`calibration chain against the render: ${err.toFixed(4)} dB`);
     expect(Math.abs(err)).toBeLessThan(0.05);
+  });
+
+  it('the distortion curves correct every harmonic: at low drive the sum shows no compression where the measurement departs', () => {
+    const curves = distortionCurves(system, [1800, 3000], 0.5)!;
+    for (const point of curves.sum) {
+      expect(Math.abs(point.compressionDb), `${point.freqHz} Hz`).toBeLessThan(0.05);
+      const analysed = abs(systemPressure(system, point.freqHz, 0.5));
+      expect(Math.abs(20 * Math.log10(point.fundamentalPa / analysed))).toBeLessThan(0.05);
+    }
   });
 });
