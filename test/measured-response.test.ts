@@ -104,3 +104,24 @@ describe('measured response with a phase column', () => {
     );
   });
 });
+
+describe('the correction is built again only when what it depends on changes', () => {
+  const doc = sealedDoc();
+  const model = bareModel(doc);
+  const table = ['Hz dB', ...logSpaced(20, 20000, 200).map((f) => `${f} ${db(model(f)) + (f > 3000 ? 2 : 0)}`)].join('\n');
+  it('an edit of the filter or another way keeps it; an edit of the box builds a new one', () => {
+    const first = withMeasured(doc, table, 300);
+    const c1 = measuredCorrection(first.system, first.way);
+    const filtered = structuredClone(doc);
+    if (filtered.ways[0].kind === 'driver') filtered.ways[0].filter = { type: 'active', gain_db: -3 };
+    filtered.ways.push({ ...structuredClone(filtered.ways[0]), name: 'second woofer' });
+    const second = withMeasured(filtered, table, 300);
+    expect(second.way.measured).not.toBe(first.way.measured);
+    expect(measuredCorrection(second.system, second.way)).toBe(c1);
+    const bigger = structuredClone(doc);
+    const w = bigger.ways[0];
+    if (w.kind === 'driver' && w.box.type === 'sealed') w.box.vb_l = 20;
+    const third = withMeasured(bigger, table, 300);
+    expect(measuredCorrection(third.system, third.way)).not.toBe(c1);
+  });
+});

@@ -25,6 +25,6 @@ export class MeasuredStage {
 export function measuredStage(sys: SpeakerSystem, way: DriverWay, sampleRate: number, old: MeasuredStage | null): MeasuredStage | null {
   const taps = measuredCorrection(sys, way)?.taps(sampleRate);
   if (!taps) return null;
-  if (old && old.taps.length === taps.length && old.taps.every((t, i) => t === taps[i])) return old;
+  if (old && (old.taps === taps || (old.taps.length === taps.length && old.taps.every((t, i) => t === taps[i])))) return old;
   return new MeasuredStage(taps);
 }

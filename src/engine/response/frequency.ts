@@ -76,7 +76,9 @@ const NO_FILTER: ActiveFilter = { type: 'active', highpass: null, lowpass: null,
  */
 export function measuredCorrection(system: SpeakerSystem, way: DriverWay): MeasuredCorrection | null {
   const bare: DriverWay = { ...way, filter: NO_FILTER, network: undefined, measured: undefined };
-  return cachedCorrection(way, (f) => modelled(system, bare, f, 1, false).pressure);
+  const { air, amplifier, listening } = system;
+  const dependsOn = [way.driver, way.box, air, amplifier.rs, listening.distance, listening.omega, listening.baffleWidth ?? 0];
+  return cachedCorrection(way, dependsOn, (f) => modelled(system, bare, f, 1, false).pressure);
 }
 
 function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {

@@ -17,13 +17,26 @@ export interface MeasuredCorrection {
 // table keys the cache: the correction is built once, against the way as first asked for (the
 // design's own way: the analysis and the renderer ask for it before any variant).
 const built = new WeakMap<MeasuredResponse, MeasuredCorrection>();
+// An edit elsewhere in the design (another way, a filter, the level) reads the table again but
+// leaves the correction as it was: the last few are also kept by what they depend on.
+const recent = new Map<string, MeasuredCorrection>();
+const RECENT = 8;
 
-/** The way's correction against `model` (its drivers' pressure at f), built once per table. */
-export function cachedCorrection(way: DriverWay, model: (f: number) => Complex): MeasuredCorrection | null {
+/**
+ * The way's correction against `model` (its drivers' pressure at f), built once per table and
+ * per `dependsOn` (everything the model depends on, as plain data).
+ */
+export function cachedCorrection(way: DriverWay, dependsOn: unknown, model: (f: number) => Complex): MeasuredCorrection | null {
   const m = way.measured;
   if (!m) return null;
   const hit = built.get(m);
   if (hit) return hit;
+  const key = JSON.stringify([m, dependsOn]);
+  const again = recent.get(key);
+  if (again) {
+    built.set(m, again);
+    return again;
+  }
   const curve = correctionCurve(m, model);
   let response: ((f: number) => Complex) | null = null;
   const taps = new Map<number, Float64Array>();
@@ -43,5 +56,7 @@ export function cachedCorrection(way: DriverWay, model: (f: number) => Complex):
     },
   };
   built.set(m, correction);
+  recent.set(key, correction);
+  if (recent.size > RECENT) recent.delete(recent.keys().next().value!);
   return correction;
 }
