@@ -71,13 +71,20 @@ export class PartitionedConvolver {
     const p = this.p;
     const head = this.head;
     const frame = this.frame;
-    for (let k = 0; k < n; k++) {
-      const at = p + this.pos;
-      frame[at] = buf[k];
-      let y = this.tailOut[this.pos];
-      for (let m = 0; m < p; m++) y += head[m] * frame[at - m];
-      buf[k] = y;
-      if (++this.pos === p) this.endBlock();
+    const tail = this.tailOut;
+    let k = 0;
+    while (k < n) {
+      // Up to the end of the current block of P inputs.
+      const run = Math.min(n - k, p - this.pos);
+      let at = p + this.pos;
+      for (let j = 0; j < run; j++, at++, k++) {
+        frame[at] = buf[k];
+        let y = tail[at - p];
+        for (let m = 0; m < p; m++) y += head[m] * frame[at - m];
+        buf[k] = y;
+      }
+      this.pos += run;
+      if (this.pos === p) this.endBlock();
     }
   }
 
