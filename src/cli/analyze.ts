@@ -88,6 +88,7 @@ function wayJson(a: Analysis, wa: WayAnalysis) {
       radiator_excursion_mm: list(wa.curves.radiatorExcursionMm),
       max_spl_db: list(wa.curves.maxSplDb),
       max_spl_limit: wa.curves.maxSplLimit,
+      ...(wa.curves.measuredSplDb ? { measured_spl_db: list(wa.curves.measuredSplDb) } : {}),
     },
   };
 }

@@ -6,9 +6,10 @@ import { renderCommand } from './render.ts';
 import { compareCommand } from './compare.ts';
 import { headroomCommand } from './headroom.ts';
 import { fitCommand } from './fit.ts';
+import { measuredCommand } from './measured.ts';
 import { printable } from './user-text.ts';
 
-const COMMANDS: Command[] = [analyzeCommand, renderCommand, compareCommand, headroomCommand, sweepCommand, fitCommand];
+const COMMANDS: Command[] = [analyzeCommand, renderCommand, compareCommand, headroomCommand, sweepCommand, fitCommand, measuredCommand];
 
 function usage(): string {
   const lines = COMMANDS.map((c) => `  ${c.name.padEnd(10)} ${c.summary}`);

@@ -72,6 +72,7 @@ export interface Driver {
 }
 
 export type { Box, SealedBox, VentedBox, PassiveRadiatorBox } from './box/index.ts';
+import type { MeasuredResponse } from './fir/correction.ts';
 import type { Box } from './box/index.ts';
 
 export interface Amplifier {
@@ -147,6 +148,8 @@ export interface DriverWay extends WayCommon {
    * absent for an active way. A passive way's `filter` is the identity (gain 1, no bands, no delay).
    */
   network?: LadderPart[];
+  /** A measured response replacing the model's above its blend frequency (fir/correction.ts); absent = the model alone. */
+  measured?: MeasuredResponse;
 }
 
 /** An ideal flat band at a given passband pressure per volt (the first version's upper path). */

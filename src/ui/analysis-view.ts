@@ -14,6 +14,8 @@ export interface WayCurvesView {
   plannedExcursionMm?: ArrayLike<number> | null;
   impedanceOhm?: ArrayLike<number> | null;
   plannedPortAirSpeed?: ArrayLike<number> | null;
+  /** A measured response's level where its table has points (NaN elsewhere). */
+  measuredSplDb?: ArrayLike<number> | null;
 }
 
 export interface WayView {
@@ -47,6 +49,7 @@ function curvesOf(raw: unknown): WayCurvesView | null {
     plannedExcursionMm: opt('plannedExcursionMm'),
     impedanceOhm: opt('impedanceOhm'),
     plannedPortAirSpeed: opt('plannedPortAirSpeed'),
+    measuredSplDb: opt('measuredSplDb'),
   };
 }
 

@@ -8,6 +8,7 @@ const BENCHES: { name: string; load: () => Promise<{ bench(): Promise<BenchResul
   { name: 'ui-redraw', load: () => import('./ui-redraw.ts') },
   { name: 'worklet', load: () => import('./worklet.ts') },
   { name: 'room', load: () => import('./room.ts') },
+  { name: 'measured', load: () => import('./measured.ts') },
 ];
 
 const only = process.argv.slice(2);

@@ -1,5 +1,15 @@
 // DesignDoc (document units) -> SpeakerSystem (SI). The only place units are converted on the way in.
-import { activeFilterOf, type DesignDoc, type DriverDoc, type FilterDoc, type FlatWayDoc, type PassiveFilterDoc } from './document.ts';
+import {
+  activeFilterOf,
+  type DesignDoc,
+  type DriverDoc,
+  type FilterDoc,
+  type FlatWayDoc,
+  type MeasuredResponseDoc,
+  type PassiveFilterDoc,
+} from './document.ts';
+import { checkBlendCoverage, checkResponse } from '../fir/response-table.ts';
+import type { MeasuredResponse } from '../fir/correction.ts';
 import { toRoom } from '../room/build.ts';
 import type { ActiveFilter, Air, LadderPart, Driver, DriverWay, FlatWay, Listening, SpeakerSystem, ThermalParams, Way } from '../system.ts';
 import { P_REF, SENSITIVITY_VOLTS } from '../units.ts';
@@ -155,6 +165,22 @@ function toFilter(doc: FilterDoc | PassiveFilterDoc | undefined): ActiveFilter {
   };
 }
 
+/** A measured response as the engine reads it; its problems (a point out of order, the blend not covered) under `path`. */
+function toMeasured(doc: MeasuredResponseDoc, path: string, issues: Issue[]): MeasuredResponse | undefined {
+  const table = { freqHz: doc.freq_hz, splDb: doc.spl_db, phaseDeg: doc.phase_deg ?? null };
+  const problem = checkResponse(table);
+  if (problem) {
+    issues.push(error(problem.index >= 0 ? `${path}.freq_hz[${problem.index}]` : `${path}.freq_hz`, problem.message));
+    return undefined;
+  }
+  const uncovered = checkBlendCoverage(doc.freq_hz, doc.blend_hz);
+  if (uncovered) {
+    issues.push(error(`${path}.blend_hz`, `the measured response ${uncovered}`));
+    return undefined;
+  }
+  return { ...table, blendHz: doc.blend_hz };
+}
+
 /** A passive ladder in SI; its problems (a network that cuts the driver off) under `path`. */
 function toNetwork(doc: PassiveFilterDoc, path: string, issues: Issue[]): LadderPart[] {
   const parts = doc.ladder.map(
@@ -255,6 +281,7 @@ export function toSystem(doc: DesignDoc): { system: SpeakerSystem | null; issues
     if (!built.box) return;
     const way: DriverWay = { kind: 'driver', ...common, driver, unit, count, wiring, box: built.box };
     if (w.filter?.type === 'passive') way.network = toNetwork(w.filter, `${path}.filter.ladder`, issues);
+    if (w.measured_response) way.measured = toMeasured(w.measured_response, `${path}.measured_response`, issues);
     ways.push(way);
   });
   if (issues.some((i) => i.severity === 'error')) return { system: null, issues };

@@ -3,7 +3,14 @@
 // inferred from the schema (the box kinds' own schemas included), never kept by hand.
 import type * as v from 'valibot';
 import type { designSchema } from '../box/index.ts';
-import type { activeFilterSchema, driverSchema, ladderPartSchema, passiveFilterSchema, portSchema } from './schema.ts';
+import type {
+  activeFilterSchema,
+  driverSchema,
+  ladderPartSchema,
+  measuredResponseSchema,
+  passiveFilterSchema,
+  portSchema,
+} from './schema.ts';
 
 export { DESIGN_FORMAT, DESIGN_VERSION, MAX_WAYS, FILTER_SHAPES, LADDER_PARTS, MAX_LADDER_PARTS } from './schema.ts';
 
@@ -18,6 +25,7 @@ export type PortDoc = v.InferOutput<typeof portSchema>;
 export type FilterDoc = v.InferOutput<typeof activeFilterSchema>;
 export type PassiveFilterDoc = v.InferOutput<typeof passiveFilterSchema>;
 export type LadderPartDoc = v.InferOutput<typeof ladderPartSchema>;
+export type MeasuredResponseDoc = v.InferOutput<typeof measuredResponseSchema>;
 export type FilterBandDoc = NonNullable<FilterDoc['highpass']>;
 export type FilterShape = FilterBandDoc['shape'];
 export type AmplifierDoc = DesignDoc['amplifier'];

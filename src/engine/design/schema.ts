@@ -2,6 +2,7 @@
 // Ranges here refuse; plausibility (warnings with numbers) lives in checks.ts. The document's
 // TypeScript types are inferred from these schemas (document.ts), so there is one definition.
 import * as v from 'valibot';
+import { MAX_RESPONSE_POINTS } from '../fir/response-table.ts';
 
 export const DESIGN_FORMAT = 'preheard-design';
 export const DESIGN_VERSION = 2;
@@ -133,6 +134,24 @@ export const passiveFilterSchema = v.strictObject({
   ),
 });
 
+/**
+ * A driver's measured frequency response (frequency, SPL, optional phase as parallel lists) and the
+ * frequency the way blends from its model to the measurement (fir/correction.ts); the lists' own
+ * consistency (lengths, rising frequencies, the blend covered) is checked in convert.ts.
+ */
+const mostPoints = `must have at most ${MAX_RESPONSE_POINTS} points`;
+/** A list of numbers in [min, max] of at most MAX_RESPONSE_POINTS. */
+const points = (min: number, max: number, unit: string, what: string) =>
+  v.pipe(v.array(num(min, max, unit), `must be a list of ${what}`), v.maxLength(MAX_RESPONSE_POINTS, mostPoints));
+export const measuredResponseSchema = v.strictObject({
+  blend_hz: num(10, 20000, 'Hz'),
+  freq_hz: points(1, 100000, 'Hz', 'frequencies in Hz'),
+  spl_db: points(-250, 250, 'dB', 'levels in dB'),
+  phase_deg: v.optional(points(-1e6, 1e6, '°', 'phases in degrees')),
+  /** Where the table came from (a file name), shown to the user. */
+  source: v.optional(text(200)),
+});
+
 const wayCommon = {
   name: v.pipe(text(40), v.minLength(1, 'must not be empty')),
   polarity: v.optional(v.picklist([1, -1], 'must be 1 or -1')),
@@ -216,6 +235,7 @@ export function makeDesignSchema<const B extends v.ObjectSchema<any, any>[] | v.
     count: v.optional(int(1, MAX_DRIVERS_PER_WAY)),
     wiring: v.optional(v.picklist(['series', 'parallel'], 'must be "series" or "parallel"')),
     box: boxSchema,
+    measured_response: v.optional(measuredResponseSchema),
   });
   // An ideal flat band (the first version's upper path): at the passband level of the first
   // driver way unless its own sensitivity is given.

@@ -10,7 +10,7 @@
 // their fundamental. The amplifier is taken as clean (its clipping is the renderer's business).
 import { abs, add, cx, mul, scale, type Complex } from '../complex.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import { baffleGain, offsetDelay, roomGain, wayPressure } from '../response/frequency.ts';
+import { baffleGain, measuredCorrection, offsetDelay, roomGain, wayPressure } from '../response/frequency.ts';
 import { wooferParams } from '../sim/params.ts';
 import { WooferSim } from '../sim/woofer.ts';
 import { LinearRecurrence } from '../sim/linear.ts';
@@ -110,10 +110,16 @@ export function wayHarmonics(system: SpeakerSystem, way: DriverWay, f: number, v
   const hl = harmonicPhasors(yl, 0, m, periods, 1);
   // At the seat: room gain and baffle step at k·f, polarity, offset delay; rms phasors.
   const tau = offsetDelay(system, way);
+  // A measured response corrects every harmonic at its own frequency, as the render's FIR does.
+  const measured = measuredCorrection(system, way);
   const atSeat = hn.map((h, i) => {
     const k = i + 1;
     const g = roomGain(k * f, system.listening.roomGainHz);
-    return scale(mul(mul(h, baffleGain(k * w, system.listening.baffleWidth ?? 0)), delayAt(k * w, tau)), (g * way.polarity) / Math.SQRT2);
+    const placed = scale(
+      mul(mul(h, baffleGain(k * w, system.listening.baffleWidth ?? 0)), delayAt(k * w, tau)),
+      (g * way.polarity) / Math.SQRT2,
+    );
+    return measured ? mul(placed, measured.at(k * f)) : placed;
   });
   // Figures at the seat (room gain and baffle step weigh the harmonics); compression from the
   // model's own output, where the linear twin has the same discretisation.

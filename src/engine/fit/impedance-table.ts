@@ -1,6 +1,7 @@
 // Reading a measured impedance table: frequency, |Z| (ohm) and phase (degrees, optional) in any of
 // the common column orders, with header or comment lines, decimal points or decimal commas.
-// A table that cannot be read is a value naming the line, never an exception.
+// A table that cannot be read is a value naming the line, never an exception (text-table.ts reads the lines).
+import { readNumericRows, type TableError } from './text-table.ts';
 
 export interface ImpedanceTable {
   /** Hz, strictly rising. */
@@ -11,30 +12,12 @@ export interface ImpedanceTable {
   phaseDeg: number[] | null;
 }
 
-export type TableResult = { ok: true; table: ImpedanceTable } | { ok: false; line: number; message: string };
+export type TableResult = { ok: true; table: ImpedanceTable } | TableError;
 
 /** Longest table read; a sweep has a few thousand points at most. */
 export const MAX_TABLE_ROWS = 100_000;
 /** Fewest points a fit can use (seven parameters, with room to judge the residual). */
 export const MIN_TABLE_ROWS = 20;
-
-const COMMENT = /^\s*(#|\*|;|\/\/|%|!)/;
-const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-const DECIMAL_COMMA_NUMBER = /^[+-]?\d+(,\d+)?([eE][+-]?\d+)?$/;
-
-/**
- * The fields of one line. Tabs and semicolons separate fields (a comma inside one is a decimal
- * comma); with neither, fields separated by white space that all read as numbers with a decimal
- * comma are taken so; otherwise commas and white space both separate.
- */
-function splitFields(line: string): string[] {
-  const trimmed = line.trim();
-  if (/[\t;]/.test(trimmed)) return trimmed.split(/\s*[\t;]\s*/).map((f) => f.trim().replace(',', '.'));
-  const bySpace = trimmed.split(/\s+/);
-  if (bySpace.length >= 2 && bySpace.every((f) => DECIMAL_COMMA_NUMBER.test(f)) && bySpace.some((f) => f.includes(',')))
-    return bySpace.map((f) => f.replace(',', '.'));
-  return trimmed.split(/\s*,\s*|\s+/).filter((f) => f !== '');
-}
 
 type Role = 'freq' | 'mag' | 'phase' | 'other';
 
@@ -80,38 +63,11 @@ function rolesFromData(rows: number[][]): Role[] | null {
 
 /** Reads a table of frequency, |Z| and optional phase. */
 export function parseImpedanceTable(text: string): TableResult {
-  const lines = text.split(/\r\n|\r|\n/);
-  let headerRoles: Role[] | null = null;
-  const rows: number[][] = [];
-  const rowLines: number[] = [];
-  let width = 0;
-  for (let i = 0; i < lines.length; i++) {
-    const lineNo = i + 1;
-    const line = lines[i];
-    if (line.trim() === '' || COMMENT.test(line)) continue;
-    const fields = splitFields(line);
-    const numeric = fields.every((f) => NUMBER.test(f));
-    if (!numeric) {
-      if (rows.length === 0) {
-        // Text before the first row of numbers is a header; the last one naming columns counts.
-        const names = /[\t;,]/.test(line) ? line.trim().split(/\s*[\t;,]\s*/) : fields;
-        headerRoles = rolesFromHeader(names) ?? headerRoles;
-        continue;
-      }
-      const bad = fields.find((f) => !NUMBER.test(f)) ?? '';
-      return { ok: false, line: lineNo, message: `"${bad.slice(0, 40)}" is not a number` };
-    }
-    if (fields.length < 2) return { ok: false, line: lineNo, message: 'needs at least two columns: frequency and impedance' };
-    if (width === 0) width = fields.length;
-    else if (fields.length !== width)
-      return { ok: false, line: lineNo, message: `has ${fields.length} columns where the lines before have ${width}` };
-    const values = fields.map(Number);
-    if (!values.every(Number.isFinite)) return { ok: false, line: lineNo, message: 'has a number too large to use' };
-    rows.push(values);
-    rowLines.push(lineNo);
-    if (rows.length > MAX_TABLE_ROWS) return { ok: false, line: lineNo, message: `the table is longer than ${MAX_TABLE_ROWS} rows` };
-  }
-  if (rows.length === 0) return { ok: false, line: lines.length, message: 'the table has no rows of numbers' };
+  const read = readNumericRows(text, MAX_TABLE_ROWS, 'frequency and impedance');
+  if (!read.ok) return read;
+  const { rows, rowLines, headers, width } = read.table;
+  // The last header line naming the columns counts.
+  const headerRoles = headers.reduce<Role[] | null>((found, h) => rolesFromHeader(h) ?? found, null);
   const roles = headerRoles && headerRoles.length === width ? headerRoles : rolesFromData(rows);
   if (!roles)
     return {

@@ -12,6 +12,8 @@ import { LinearBehindLadder, wayParams } from '../sim/ladder.ts';
 import { LinearRecurrence } from '../sim/linear.ts';
 import { speakerTransfer } from '../sim/transfer.ts';
 import { baffleStepSection, roomGainSection } from '../filters/room.ts';
+import { measuredCorrection } from '../response/frequency.ts';
+import { PartitionedConvolver } from '../fir/partitioned-convolver.ts';
 
 export interface LinearWayDesign {
   name: string;
@@ -64,6 +66,8 @@ export class LinearChain {
   private readonly lanes: BiquadCascade[][];
   /** Per way, per lane: a passive way's driver behind its network (null for the others). */
   private readonly circuits: (LinearBehindLadder | null)[][];
+  /** Per way, per lane: a measured response's FIR (null without one). */
+  private readonly measured: (PartitionedConvolver | null)[][];
 
   constructor(
     sys: SpeakerSystem,
@@ -81,6 +85,10 @@ export class LinearChain {
         return pw ? new LinearBehindLadder(new LinearRecurrence(pw.params), pw.way.network!, pw.rs, pw.params.h) : null;
       }),
     );
+    this.measured = sys.ways.map((way, k) => {
+      const taps = way.kind === 'driver' ? measuredCorrection(sys, way)?.taps(sampleRate) : undefined;
+      return this.lanes[k].map(() => (taps ? new PartitionedConvolver(taps) : null));
+    });
   }
 
   /** A passive way's circuit over one lane's block, in place: full scale to volts to seat pressure. */
@@ -110,6 +118,7 @@ export class LinearChain {
         }
         this.circuit(w, 0, o, frames);
         lanes[0].processInPlace(o, 0, frames);
+        this.measured[w][0]?.process(o, frames);
         continue;
       }
       for (let c = 0; c < lanes.length; c++) {
@@ -118,6 +127,7 @@ export class LinearChain {
         for (let j = 0; j < frames; j++) o[j] = inp[j];
         this.circuit(w, c, o, frames);
         lanes[c].processInPlace(o, 0, frames);
+        this.measured[w][c]?.process(o, frames);
       }
     }
   }

@@ -17,6 +17,7 @@ import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
 import { OversampledClipper } from './amplifier.ts';
 import { FractionalDelay } from './fractional-delay.ts';
 import { LowRateModel, lowRateLatency } from './low-rate-model.ts';
+import { measuredStage, type MeasuredStage } from './measured-stage.ts';
 import { type ModelRate, modelRate } from './model-rate.ts';
 
 /** Frames per internal chunk: every stage runs over a chunk before the next one starts. */
@@ -85,6 +86,8 @@ export class DriverLane {
   /** A passive way's network in front of the driver model, and the linear twin's own copy. */
   net: LadderSim | null = null;
   linNet: LinearBehindLadder | null = null;
+  /** A measured response's correction after the driver model (null without one). */
+  measured: MeasuredStage | null = null;
   /** Sum of i^2 since the last coil update. */
   i2 = 0;
   /**
@@ -240,6 +243,7 @@ export class DriverWayChain {
       lane.roomL = replaceCascade(lane.roomL, room);
       lane.offsetN = delayOrNull(lane.offsetN, offsetS * fsr);
       lane.offsetL = delayOrNull(lane.offsetL, offsetS * fsr);
+      lane.measured = measuredStage(sys, way, fsr, lane.measured);
     }
     thermalStep(way.driver.thermal, CHUNK / fsr, this.th);
     this.gain = way.filter.gain;
@@ -285,6 +289,7 @@ export class DriverWayChain {
         lane.roomN.processInPlace(lane.pN, 0, n);
         lane.roomL!.processInPlace(lane.pL, 0, n);
       }
+      lane.measured?.process(lane.pN, lane.pL, n);
       // Coil heating from the mean i^2 of each CHUNK frames in the hot resistance; the exact two-node step.
       lane.i2 += i2;
       if (frameEnd % CHUNK === 0) {

@@ -15,6 +15,7 @@ import type { Analysis, Curves, Figures, MaxSplLimit, NetworkCurves, PartFigure,
 import { sealedAlignment } from '../box/sealed.ts';
 import { qesWithSeries, totalQ } from '../driver.ts';
 import { roomAnalysis } from '../room/analysis.ts';
+import { measuredSplOnGrid } from './measured-points.ts';
 
 /** "-3 dB" is the half-power point, 10·log10(2) = 3.0103 dB down, as in the published F3 tables. */
 export const HALF_POWER_DB = 10 * Math.log10(2);
@@ -391,6 +392,7 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
     maxSplDb: new Float64Array(n),
     maxSplLimit: new Array<MaxSplLimit>(n),
     network: way.network ? networkCurves(system, way, freqHz, planned) : null,
+    measuredSplDb: measuredSplOnGrid(system, way, freqHz, driveV),
   };
   for (let k = 0; k < n; k++) {
     const f = freqHz[k];

@@ -5,7 +5,8 @@
 // The box kind gives zLoad and what radiates per unit cone volume velocity (box/physics.ts): in a
 // one-chamber box the leak radiates with cone and port, which gives Small's s^4/D(s) form (JAES 1973).
 // Phasors are rms when the drive is rms. Signs as in the large-signal model: x, v outward; pb over ambient.
-import type { Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
+import type { ActiveFilter, Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
+import { cachedCorrection, type MeasuredCorrection } from './measured.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import { add, cx, div, mul, scale, sub, type Complex } from '../complex.ts';
 import { ladderThevenin } from './ladder.ts';
@@ -62,6 +63,25 @@ export function baffleGain(w: number, widthM: number): Complex {
  * offset are left to `wayPressure`, which places the way in the sum.
  */
 export function respond(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain = true): PointResponse {
+  const r = modelled(system, way, f, volts, withRoomGain);
+  // A measured response corrects the pressure at the seat; the cone's and outlet's shares stay modelled.
+  return way.measured ? { ...r, pressure: mul(r.pressure, measuredCorrection(system, way)!.at(f)) } : r;
+}
+
+const NO_FILTER: ActiveFilter = { type: 'active', highpass: null, lowpass: null, gain: 1, delay: 0 };
+
+/**
+ * A driver way's measured-response correction, or null without one: against its drivers' own
+ * pressure in their box at constant voltage (no filter, no network, no room gain; the baffle step in).
+ */
+export function measuredCorrection(system: SpeakerSystem, way: DriverWay): MeasuredCorrection | null {
+  const bare: DriverWay = { ...way, filter: NO_FILTER, network: undefined, measured: undefined };
+  const { air, amplifier, listening } = system;
+  const dependsOn = [way.driver, way.box, air, amplifier.rs, listening.distance, listening.omega, listening.baffleWidth ?? 0];
+  return cachedCorrection(way, dependsOn, (f) => modelled(system, bare, f, 1, false).pressure);
+}
+
+function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {
   const { air, amplifier, listening } = system;
   const { driver: d, box } = way;
   const w = 2 * Math.PI * f;

@@ -20,6 +20,11 @@ export interface Curves {
   /** Cone alone and port (or radiator) alone, same drive and seat. */
   coneSplDb: Float64Array;
   portSplDb: Float64Array | null;
+  /**
+   * A measured response's level (response/measured-points.ts) where its table has points, NaN
+   * elsewhere; null for a way without one.
+   */
+  measuredSplDb: Float64Array | null;
   /** The way's flat passband level through its filter's gain (the reference line). */
   referenceSplDb: Float64Array;
   /** Peak one-way cone excursion at the analysis drive, mm. */

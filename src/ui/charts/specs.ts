@@ -182,7 +182,7 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
     unit: 'dB',
     digits: 3,
     freqHz: f,
-    series: [...per((a) => sumOf(a).splDb), ...referenceSeries(pair, f), ...perWay((c) => c.splDb)],
+    series: [...per((a) => sumOf(a).splDb), ...referenceSeries(pair, f), ...perWay((c) => c.splDb), ...measuredSeries(models, f)],
     summary: present.map((s) => {
       const g = { ...fig(s), ...sum(s).figures };
       const ways = sys(s).ways.length;
@@ -340,6 +340,26 @@ function referenceSeries(pair: Record<Slot, Analysis | null>, f: Float64Array): 
   const refs = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: onGrid(f, pair[s]!, pair[s]!.curves.referenceSplDb)! }));
   if (refs.length === 2 && sameValues(refs[0].v, refs[1].v)) return [{ label: 'ideal', role: 'reference', values: refs[0].v }];
   return refs.map((r) => ({ label: `${SLOT_LABEL[r.s]} ideal`, role: 'reference' as Role, values: r.v }));
+}
+
+/** Each way's measured response beside the curves (a way with a measured table only). */
+function measuredSeries(models: Pair, f: Float64Array): SeriesSpec[] {
+  return SLOTS.flatMap((s) => {
+    const an = models[s]?.analysis;
+    if (!an) return [];
+    return waysOf(an).flatMap((w) =>
+      w.curves.measuredSplDb
+        ? [
+            {
+              label: `${SLOT_LABEL[s]} measured ${w.name}`,
+              longLabel: `${SLOT_LABEL[s]}: ${models[s]!.system.name}, ${w.name} as measured`,
+              role: `${s}-aux` as Role,
+              values: onGrid(f, an, w.curves.measuredSplDb),
+            },
+          ]
+        : [],
+    );
+  });
 }
 
 function limitLines(pair: Pair, n: number, pick: (m: Model) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {

@@ -14,6 +14,7 @@ import { systemDriverWay } from '../ways.ts';
 import type { Slot } from '../store.ts';
 import { ImpedanceFitDialog } from '../components/ImpedanceFitDialog.tsx';
 import { DriverShelf } from '../components/DriverShelf.tsx';
+import { MeasuredResponseDialog } from '../components/MeasuredResponseDialog.tsx';
 
 /** A numeric driver field: its document key, how it reads, and the model's value of it in display units. */
 interface DriverField {
@@ -130,6 +131,7 @@ export function DriverSheet() {
   const shown = useShownWays();
   const [folded, setFolded] = useState(true);
   const [fitting, setFitting] = useState<Slot | null>(null);
+  const [measuring, setMeasuring] = useState<Slot | null>(null);
   const isDriver = (s: Slot) => shown[s].way.kind === 'driver';
   const path = (s: Slot, key: string) => `${shown[s].path}.driver.${key}`;
   /** One driver as entered, in the model: for display and per-driver limits. */
@@ -185,6 +187,26 @@ export function DriverSheet() {
           />
           {fitting && isDriver(fitting) ? (
             <ImpedanceFitDialog slot={fitting} wayIndex={shown[fitting].index} onClose={() => setFitting(null)} />
+          ) : null}
+          <Row
+            label="Measured response"
+            hint="the way plays it above a blend frequency"
+            cell={(s) => {
+              const way = shown[s].way;
+              if (way.kind !== 'driver') return null;
+              const m = way.measured_response;
+              return (
+                <>
+                  <button type="button" onClick={() => setMeasuring(s)}>
+                    Import measured response…
+                  </button>
+                  {m ? <span class="group-note"> above {m.blend_hz} Hz</span> : null}
+                </>
+              );
+            }}
+          />
+          {measuring && isDriver(measuring) ? (
+            <MeasuredResponseDialog slot={measuring} wayIndex={shown[measuring].index} onClose={() => setMeasuring(null)} />
           ) : null}
           <DriverShelf />
           <Group title="Small-signal parameters">
