@@ -121,3 +121,35 @@ describe('two tones through the large-signal model against odex (the published e
     expect(() => intermodulation(sys, 40, 400, 1)).toThrow(/whole multiple/);
   });
 });
+
+describe('preheard analyze --distortion --json: the intermodulation figure', () => {
+  it('reports the pair, the method and the figure per way and for the sum; bad pairs are refused with the reason', async () => {
+    const { runCli } = await import('./helpers/cli.ts');
+    const r = await runCli('analyze', 'public/examples/living-room-sealed.json', '--json', '--distortion', '--im-hz', '50,730');
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    const im = out.distortion.intermodulation;
+    expect(im.f1_hz).toBe(50);
+    expect(im.f2_hz).toBe(730);
+    expect(im.method).toMatch(/IEC 60268-5/);
+    expect(im.volts_rms).toBeCloseTo(out.planned_volts_rms, 2);
+    expect(im.ways).toHaveLength(1);
+    const w = im.ways[0];
+    expect(w.products.map((p: { freq_hz: number }) => p.freq_hz)).toEqual([630, 680, 780, 830]);
+    // The figure in percent and in dB say the same thing.
+    expect(w.total_db).toBeCloseTo(20 * Math.log10(w.total_pct / 100), 2);
+    expect(Math.hypot(w.im2_pct, w.im3_pct)).toBeCloseTo(w.total_pct, 2);
+    expect(w.total_pct).toBeGreaterThan(0.01);
+    // The engine's own figure, at the same drive.
+    const { intermodulation } = await import('../src/engine/distortion/two-tone.ts');
+    const { loadDesignFile } = await import('../src/cli/design-file.ts');
+    const { system: s } = await loadDesignFile('public/examples/living-room-sealed.json');
+    const ref = intermodulation(s, 50, 730, im.volts_rms);
+    expect(w.im3_pct / ref.ways[0].figure.im3Pct).toBeCloseTo(1, 2);
+    const bad = await runCli('analyze', 'public/examples/living-room-sealed.json', '--json', '--distortion', '--im-hz', '40,400');
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/whole multiple of the low tone/);
+    const lone = await runCli('analyze', 'public/examples/living-room-sealed.json', '--json', '--im-hz', '40,420');
+    expect(lone.status).toBe(2);
+  }, 60000);
+});
