@@ -6,6 +6,7 @@
 // alternating rounds, so the machine's load falls on both alike.
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, rmSync, symlinkSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildApp, ensureChromium, launchBrowser, ROOT, startPreview } from '../e2e/harness.mjs';
 
@@ -65,9 +66,12 @@ function measure(page: Page, selector: string, n: number, how: 'store' | 'input'
 /** The commit before the redraw work (issue 13's Curves part): the "before" of the side-by-side rows. */
 const BASELINE_REV = '54979479240fa5a2078ceb1b57d461f5edbfc72f';
 
-/** A production build of `rev` into .tmp/redraw-baseline/dist (the tree from git, our node_modules). */
+/**
+ * A production build of `rev` (the tree from git, our node_modules), kept in the system's temporary
+ * folder: inside the project its configuration files would confuse the linter and the test runner.
+ */
 function buildBaseline(rev: string): string {
-  const dir = join(ROOT, '.tmp', 'redraw-baseline');
+  const dir = join(tmpdir(), `preheard-redraw-baseline-${rev.slice(0, 12)}`);
   const out = join(dir, 'dist');
   const stamp = join(dir, `.built-${rev}`);
   if (existsSync(stamp)) return out;
