@@ -1,0 +1,62 @@
+// What a way's drivers and its amplifier channel go through for a sine held at a drive, against
+// frequency, from its small-signal curves: the power the amplifier delivers, the heat in the coils,
+// and how much of each limit (Xmax, port air speed, the coils' rated power) that uses.
+// The coil heat is I²·Re with the cold Re (the model's first estimate; a coil that has heated
+// up draws less current, so this errs on the safe side). With several drivers `way.driver` is
+// their combination (its Re and its Pe are the whole way's), so the share is each driver's too.
+// The drive is the rms volts at the amplifier's input: an active way's filter comes first.
+import { abs } from '../complex.ts';
+import { wayFilterAt } from '../filters/way-filter.ts';
+import { PORT_SPEED_LIMIT } from '../units.ts';
+import type { DriverWay, SpeakerSystem } from '../system.ts';
+import { respond } from './frequency.ts';
+import type { Curves } from './types.ts';
+
+/**
+ * Real power from the amplifier into the way's terminals, W: U²·cos(phase)/|Z| (common practice,
+ * no source), U the amplifier's output (the drive through an active way's filter) and Z what the
+ * amplifier sees (a passive way's network included); the amplifier's own resistance left out.
+ */
+export function amplifierPowerW(
+  way: DriverWay,
+  curves: Pick<Curves, 'freqHz' | 'impedanceOhm' | 'phaseDeg'>,
+  voltsRms: number,
+): Float64Array {
+  const z = curves.impedanceOhm;
+  const out = new Float64Array(z.length);
+  for (let i = 0; i < z.length; i++) {
+    const u = voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * curves.freqHz[i]));
+    out[i] = (u * u * Math.cos((curves.phaseDeg[i] * Math.PI) / 180)) / z[i];
+  }
+  return out;
+}
+
+/** Heat in the way's coils, W: |I|²·Re with I the coil current of the small-signal circuit. */
+export function coilHeatW(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, voltsRms: number): Float64Array {
+  const out = new Float64Array(freqHz.length);
+  for (let i = 0; i < freqHz.length; i++) {
+    const current = abs(respond(system, way, freqHz[i], voltsRms, false).current);
+    out[i] = current * current * way.driver.re;
+  }
+  return out;
+}
+
+export interface LimitUse {
+  /** Peak cone excursion over Xmax, percent. */
+  excursionPct: Float64Array;
+  /** Peak port air speed over the port speed limit, percent; null without a port. */
+  portPct: Float64Array | null;
+  /** Coil heat over the rated power Pe, percent; null when no rating is given. */
+  heatPct: Float64Array | null;
+}
+
+/** Each limit's share used by a sine at `voltsRms` (the drive the curves' planned-level figures use). */
+export function limitUse(system: SpeakerSystem, way: DriverWay, curves: Curves, voltsRms: number): LimitUse {
+  const pct = (v: ArrayLike<number>, limit: number) => Float64Array.from(v, (x) => (100 * x) / limit);
+  const xmaxMm = way.unit.xmax * 1000;
+  return {
+    excursionPct: pct(curves.plannedExcursionMm, xmaxMm),
+    portPct: curves.plannedPortAirSpeed ? pct(curves.plannedPortAirSpeed, PORT_SPEED_LIMIT) : null,
+    heatPct: way.driver.pe > 0 ? pct(coilHeatW(system, way, curves.freqHz, voltsRms), way.driver.pe) : null,
+  };
+}
