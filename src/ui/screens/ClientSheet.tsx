@@ -122,7 +122,7 @@ function today(): string {
 
 export function ClientSheet() {
   const { state, derived, dispatch } = useApp();
-  const charts = useCharts();
+  const charts = useCharts(SHEET_CHARTS);
   const v = useVerdict();
   const title = state.settings.sheetTitle ?? '';
   const notes = state.settings.sheetNotes ?? '';
