@@ -155,7 +155,12 @@ function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | 
   if (!values) return null;
   const f = an.curves.freqHz;
   if (f === target || (f.length === target.length && f[0] === target[0] && f[f.length - 1] === target[target.length - 1])) return values;
+  // The same curve on the same grid again (the other design was edited): the same array, so the
+  // chart sees nothing changed.
+  const hit = regridded.get(values as object);
+  if (hit && hit.target === target) return hit.out;
   const out = new Float64Array(target.length);
+  regridded.set(values as object, { target, out });
   // Half a grid step of slack at each end, so rounding never drops an end point.
   const slack = f.length > 1 ? Math.sqrt(f[1] / f[0]) : 1;
   let j = 0;
@@ -170,13 +175,26 @@ function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | 
   return out;
 }
 
+const regridded = new WeakMap<object, { target: Float64Array; out: Float64Array }>();
+
 /** The first driver way's Xmax and Xlim in mm (where a single driver is meant). */
 function limitsMm(m: Model): { xmax: number; xlim: number; re: number } {
   const w = firstDriverOf(m.system);
   return w ? { xmax: w.unit.xmax * K.mm, xlim: w.unit.xlim * K.mm, re: w.driver.re } : { xmax: NaN, xlim: NaN, re: NaN };
 }
 
-const constant = (n: number, v: number) => new Float64Array(n).fill(v);
+/** A constant line (a limit), the same array for the same length and value, so redraws skip it. */
+const constants = new Map<string, Float64Array>();
+function constant(n: number, v: number): Float64Array {
+  const key = `${n}:${v}`;
+  let c = constants.get(key);
+  if (!c) {
+    if (constants.size > 64) constants.clear();
+    c = new Float64Array(n).fill(v);
+    constants.set(key, c);
+  }
+  return c;
+}
 
 export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec[] {
   const pair: Record<Slot, Analysis | null> = { a: models.a?.analysis ?? null, b: models.b?.analysis ?? null };
