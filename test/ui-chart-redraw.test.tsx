@@ -61,7 +61,7 @@ describe('Curves: one draw per chart per frame', () => {
     store.dispatch({ type: 'settings', patch: { cautionsDismissed: true, screen: 'curves' } });
     render(<App store={store} autosave={new Autosave(memoryBackend())} />);
     // Let the first frame pass, so the edits below start a fresh one.
-    await act(() => new Promise((r) => requestAnimationFrame(() => r(null))));
+    await act(() => new Promise<void>((r) => requestAnimationFrame(() => r())));
     const count = () => drawn.filter((d) => d.id === 'spl').length;
     const before = count();
     // Each edit rendered on its own (as typing does), all before the next frame.
@@ -70,7 +70,7 @@ describe('Curves: one draw per chart per frame', () => {
         store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: vb });
       });
     const now = count() - before;
-    await act(() => new Promise((r) => requestAnimationFrame(() => setTimeout(r, 0))));
+    await act(() => new Promise<void>((r) => requestAnimationFrame(() => setTimeout(r, 0))));
     const later = count() - before;
     expect(now).toBe(1);
     expect(later).toBe(2);
