@@ -224,6 +224,32 @@ function drawInFrame(u: uPlot, d: ChartData) {
   }
 }
 
+/**
+ * Charts scrolled out of view are not drawn in the edit's task: they are marked and drawn when the
+ * browser is idle or when they scroll into view, whichever comes first, so an edit pays only for
+ * the charts on screen. Without IntersectionObserver every chart counts as on screen.
+ */
+const offscreen = new Map<uPlot, ChartData>();
+let idleRequested = false;
+function drawWhenSeen(u: uPlot, d: ChartData, visible: boolean) {
+  if (visible) {
+    offscreen.delete(u);
+    drawInFrame(u, d);
+    return;
+  }
+  offscreen.set(u, d);
+  if (idleRequested) return;
+  idleRequested = true;
+  const later = (run: () => void) =>
+    typeof requestIdleCallback === 'function' ? requestIdleCallback(run, { timeout: 500 }) : setTimeout(run, 50);
+  later(() => {
+    idleRequested = false;
+    const due = [...offscreen];
+    offscreen.clear();
+    for (const [plot, data] of due) drawInFrame(plot, data);
+  });
+}
+
 export interface ChartProps {
   spec: ChartSpec;
   height: number;
@@ -241,6 +267,7 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
   const specRef = useRef(spec);
   specRef.current = spec;
   const data = useRef<ChartData | null>(null);
+  const visible = useRef(true);
 
   // Build or rebuild when the series set or the theme changes; otherwise just set the data.
   const key = `${shapeKey(spec)}#${theme}#${height}`;
@@ -249,7 +276,7 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
     const el = host.current;
     if (!el || spec.series.length === 0) return;
     if (plot.current && built.current === key && data.current) {
-      if (data.current.update(spec)) drawInFrame(plot.current, data.current);
+      if (data.current.update(spec)) drawWhenSeen(plot.current, data.current, visible.current);
       return;
     }
     plot.current?.destroy();
@@ -276,9 +303,24 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
     return () => ro.disconnect();
   }, [height]);
 
+  useEffect(() => {
+    const el = host.current;
+    if (!el || typeof IntersectionObserver === 'undefined') return;
+    const io = new IntersectionObserver((entries) => {
+      const seen = entries.some((e) => e.isIntersecting);
+      visible.current = seen;
+      const u = plot.current;
+      const pending = u ? offscreen.get(u) : undefined;
+      if (seen && u && pending) drawWhenSeen(u, pending, true);
+    });
+    io.observe(el);
+    return () => io.disconnect();
+  }, []);
+
   useEffect(
     () => () => {
       if (plot.current) {
+        offscreen.delete(plot.current);
         waiting.delete(plot.current);
         drewThisFrame.delete(plot.current);
       }
