@@ -4,6 +4,8 @@ import { readFileSync } from 'node:fs';
 import { analyze, parseDesign } from '../src/engine/index.ts';
 import { amplifierPowerW, coilHeatW, limitUse } from '../src/engine/response/limit-use.ts';
 import type { DriverWay, SpeakerSystem } from '../src/engine/system.ts';
+import { respond } from '../src/engine/response/frequency.ts';
+import { abs } from '../src/engine/complex.ts';
 
 function load(file: string): SpeakerSystem {
   const r = parseDesign(JSON.parse(readFileSync(`public/examples/${file}`, 'utf8')));
@@ -19,7 +21,7 @@ describe('amplifier power and coil heat', () => {
     const c = an.curves;
     const v = 4;
     const p = amplifierPowerW(way, c, v);
-    const heat = coilHeatW(sys, way, c.freqHz, v);
+    const heat = coilHeatW(sys, way, c, v);
     let k = 0;
     for (let i = 0; i < c.freqHz.length; i++) if (c.freqHz[i] < 500 && c.impedanceOhm[i] > c.impedanceOhm[k]) k = i;
     // A series circuit (common practice, no source): the current is U/|Z + rs| with U = v·|H|, H the
@@ -36,6 +38,11 @@ describe('amplifier power and coil heat', () => {
       expect(heat[i] / ((u * u * way.driver.re) / (zr * zr + zi * zi))).toBeCloseTo(1, 7);
       expect(p[i] / ((u * u * Math.cos(ph)) / c.impedanceOhm[i])).toBeCloseTo(1, 9);
     }
+    // The small-signal circuit's own coil current (respond) gives the same heat everywhere.
+    for (let i = 0; i < c.freqHz.length; i += 17) {
+      const cur = abs(respond(sys, way, c.freqHz[i], v, false).current);
+      expect(heat[i] / (cur * cur * way.driver.re)).toBeCloseTo(1, 6);
+    }
     // Everywhere: heat never exceeds the power delivered (the rest moves the cone), both positive.
     for (let i = 0; i < c.freqHz.length; i++) {
       expect(heat[i]).toBeGreaterThan(0);
@@ -49,8 +56,13 @@ describe('amplifier power and coil heat', () => {
     for (const w of an.ways) {
       const way = w.way as DriverWay;
       const p = amplifierPowerW(way, w.curves, 2.83);
-      const heat = coilHeatW(sys, way, w.curves.freqHz, 2.83);
+      const heat = coilHeatW(sys, way, w.curves, 2.83);
       for (let i = 0; i < p.length; i++) expect(heat[i]).toBeLessThanOrEqual(p[i] * (1 + 1e-6) + 1e-12);
+      // Through the network: the same heat as the circuit's coil current.
+      for (let i = 0; i < p.length; i += 23) {
+        const cur = abs(respond(sys, way, w.curves.freqHz[i], 2.83, false).current);
+        expect(heat[i] / (cur * cur * way.driver.re)).toBeCloseTo(1, 4);
+      }
     }
   });
 });
@@ -68,7 +80,7 @@ describe('share of each limit', () => {
     expect(use.portPct).not.toBeNull();
     const i40 = an.curves.freqHz.findIndex((f) => f >= 40);
     expect(use.portPct![i40]).toBeCloseTo((100 * an.curves.plannedPortAirSpeed![i40]) / 17, 9);
-    const heat = coilHeatW(sys, way, an.curves.freqHz, an.figures.plannedVoltsRms);
+    const heat = coilHeatW(sys, way, an.curves, an.figures.plannedVoltsRms);
     expect(use.heatPct![i40]).toBeCloseTo((100 * heat[i40]) / way.driver.pe, 9);
   });
 });

@@ -9,7 +9,6 @@ import { abs } from '../complex.ts';
 import { wayFilterAt } from '../filters/way-filter.ts';
 import { PORT_SPEED_LIMIT } from '../units.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
-import { respond } from './frequency.ts';
 import type { Curves } from './types.ts';
 
 /**
@@ -31,11 +30,23 @@ export function amplifierPowerW(
   return out;
 }
 
-/** Heat in the way's coils, W: |I|²·Re with I the coil current of the small-signal circuit. */
-export function coilHeatW(system: SpeakerSystem, way: DriverWay, freqHz: Float64Array, voltsRms: number): Float64Array {
-  const out = new Float64Array(freqHz.length);
-  for (let i = 0; i < freqHz.length; i++) {
-    const current = abs(respond(system, way, freqHz[i], voltsRms, false).current);
+/**
+ * Heat in the way's coils, W: |I|²·Re, the coil current read from the curves: an active way's
+ * U/|Z + rs| (U through its filter, Z the terminal impedance at its phase), a passive way's
+ * terminal volts (the network's transfer) over the drivers' own impedance.
+ */
+export function coilHeatW(system: SpeakerSystem, way: DriverWay, curves: Curves, voltsRms: number): Float64Array {
+  const { freqHz: f, impedanceOhm: z, phaseDeg, network: net } = curves;
+  const rs = system.amplifier.rs;
+  const out = new Float64Array(f.length);
+  for (let i = 0; i < f.length; i++) {
+    let current: number;
+    if (net) current = (voltsRms * 10 ** (net.transferDb[i] / 20)) / net.driverImpedanceOhm[i];
+    else {
+      const ph = (phaseDeg[i] * Math.PI) / 180;
+      const u = voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * f[i]));
+      current = u / Math.hypot(z[i] * Math.cos(ph) + rs, z[i] * Math.sin(ph));
+    }
     out[i] = current * current * way.driver.re;
   }
   return out;
@@ -57,6 +68,6 @@ export function limitUse(system: SpeakerSystem, way: DriverWay, curves: Curves, 
   return {
     excursionPct: pct(curves.plannedExcursionMm, xmaxMm),
     portPct: curves.plannedPortAirSpeed ? pct(curves.plannedPortAirSpeed, PORT_SPEED_LIMIT) : null,
-    heatPct: way.driver.pe > 0 ? pct(coilHeatW(system, way, curves.freqHz, voltsRms), way.driver.pe) : null,
+    heatPct: way.driver.pe > 0 ? pct(coilHeatW(system, way, curves, voltsRms), way.driver.pe) : null,
   };
 }
