@@ -134,6 +134,22 @@ function ImTable({ results, showWays }: { results: Record<Slot, DistortionResult
   );
 }
 
+function ToneField(p: { label: string; testId: string; min: number; max: number; value: string; set: (v: string) => void }) {
+  return (
+    <label class="stack">
+      <span>{p.label}</span>
+      <input
+        type="number"
+        min={p.min}
+        max={p.max}
+        value={p.value}
+        data-testid={p.testId}
+        onInput={(e) => p.set((e.currentTarget as HTMLInputElement).value)}
+      />
+    </label>
+  );
+}
+
 export function DistortionPanel(p: { theme: string }) {
   const { state, derived } = useApp();
   const [run, setRun] = useState<Run>({ kind: 'idle' });
@@ -214,28 +230,8 @@ export function DistortionPanel(p: { theme: string }) {
             onInput={(e) => setLevelsText((e.currentTarget as HTMLInputElement).value)}
           />
         </label>
-        <label class="stack">
-          <span>Low tone f1, Hz</span>
-          <input
-            type="number"
-            min={10}
-            max={2000}
-            value={low}
-            data-testid="im-low"
-            onInput={(e) => setLow((e.currentTarget as HTMLInputElement).value)}
-          />
-        </label>
-        <label class="stack">
-          <span>High tone f2, Hz</span>
-          <input
-            type="number"
-            min={30}
-            max={20000}
-            value={high}
-            data-testid="im-high"
-            onInput={(e) => setHigh((e.currentTarget as HTMLInputElement).value)}
-          />
-        </label>
+        <ToneField label="Low tone f1, Hz" testId="im-low" min={10} max={2000} value={low} set={setLow} />
+        <ToneField label="High tone f2, Hz" testId="im-high" min={30} max={20000} value={high} set={setHigh} />
       </div>
       <div class="distortion-actions">
         {run.kind === 'running' ? (
