@@ -20,22 +20,33 @@ export function amplifierPowerW(
   way: DriverWay,
   curves: Pick<Curves, 'freqHz' | 'impedanceOhm' | 'phaseDeg'>,
   voltsRms: number,
+  drive = amplifierVolts(way, curves.freqHz, voltsRms),
 ): Float64Array {
   const z = curves.impedanceOhm;
   const out = new Float64Array(z.length);
-  for (let i = 0; i < z.length; i++) {
-    const u = voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * curves.freqHz[i]));
-    out[i] = (u * u * Math.cos((curves.phaseDeg[i] * Math.PI) / 180)) / z[i];
-  }
+  for (let i = 0; i < z.length; i++) out[i] = (drive[i] * drive[i] * Math.cos((curves.phaseDeg[i] * Math.PI) / 180)) / z[i];
   return out;
 }
+
+/** The amplifier's output, V rms, for `voltsRms` at its input: through an active way's filter. */
+export function amplifierVolts(way: DriverWay, freqHz: Float64Array, voltsRms: number): Float64Array {
+  return Float64Array.from(freqHz, (f) => voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * f)));
+}
+
+const net = (c: Curves) => c.network !== null;
 
 /**
  * Heat in the way's coils, W: |I|²·Re, the coil current read from the curves: an active way's
  * U/|Z + rs| (U through its filter, Z the terminal impedance at its phase), a passive way's
  * terminal volts (the network's transfer) over the drivers' own impedance.
  */
-export function coilHeatW(system: SpeakerSystem, way: DriverWay, curves: Curves, voltsRms: number): Float64Array {
+export function coilHeatW(
+  system: SpeakerSystem,
+  way: DriverWay,
+  curves: Curves,
+  voltsRms: number,
+  drive = net(curves) ? null : amplifierVolts(way, curves.freqHz, voltsRms),
+): Float64Array {
   const { freqHz: f, impedanceOhm: z, phaseDeg, network: net } = curves;
   const rs = system.amplifier.rs;
   const out = new Float64Array(f.length);
@@ -44,8 +55,7 @@ export function coilHeatW(system: SpeakerSystem, way: DriverWay, curves: Curves,
     if (net) current = (voltsRms * 10 ** (net.transferDb[i] / 20)) / net.driverImpedanceOhm[i];
     else {
       const ph = (phaseDeg[i] * Math.PI) / 180;
-      const u = voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * f[i]));
-      current = u / Math.hypot(z[i] * Math.cos(ph) + rs, z[i] * Math.sin(ph));
+      current = drive![i] / Math.hypot(z[i] * Math.cos(ph) + rs, z[i] * Math.sin(ph));
     }
     out[i] = current * current * way.driver.re;
   }
@@ -62,12 +72,18 @@ export interface LimitUse {
 }
 
 /** Each limit's share used by a sine at `voltsRms` (the drive the curves' planned-level figures use). */
-export function limitUse(system: SpeakerSystem, way: DriverWay, curves: Curves, voltsRms: number): LimitUse {
+export function limitUse(
+  system: SpeakerSystem,
+  way: DriverWay,
+  curves: Curves,
+  voltsRms: number,
+  drive = net(curves) ? null : amplifierVolts(way, curves.freqHz, voltsRms),
+): LimitUse {
   const pct = (v: ArrayLike<number>, limit: number) => Float64Array.from(v, (x) => (100 * x) / limit);
   const xmaxMm = way.unit.xmax * 1000;
   return {
     excursionPct: pct(curves.plannedExcursionMm, xmaxMm),
     portPct: curves.plannedPortAirSpeed ? pct(curves.plannedPortAirSpeed, PORT_SPEED_LIMIT) : null,
-    heatPct: way.driver.pe > 0 ? pct(coilHeatW(system, way, curves, voltsRms), way.driver.pe) : null,
+    heatPct: way.driver.pe > 0 ? pct(coilHeatW(system, way, curves, voltsRms, drive), way.driver.pe) : null,
   };
 }

@@ -8,7 +8,7 @@ import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { hasSum, sumOf, waysOf, type WayCurvesView } from '../analysis-view.ts';
 import { firstDriverOf } from '../ways.ts';
-import { amplifierPowerW, limitUse, type LimitUse } from '../../engine/response/limit-use.ts';
+import { amplifierPowerW, amplifierVolts, limitUse, type LimitUse } from '../../engine/response/limit-use.ts';
 
 export type Role =
   | 'a'
@@ -404,7 +404,12 @@ function plannedLoad(m: Model) {
   if (hit === undefined) {
     const w = firstDriverOf(m.system);
     const volts = m.analysis.figures.plannedVoltsRms;
-    hit = w ? { powerW: amplifierPowerW(w, m.analysis.curves, volts), use: limitUse(m.system, w, m.analysis.curves, volts) } : null;
+    // The amplifier's output through the way's filter, once for both figures.
+    const drive = w ? amplifierVolts(w, m.analysis.curves.freqHz, volts) : null;
+    hit =
+      w && drive
+        ? { powerW: amplifierPowerW(w, m.analysis.curves, volts, drive), use: limitUse(m.system, w, m.analysis.curves, volts, drive) }
+        : null;
     perAnalysis.set(m.analysis, hit);
   }
   return hit;

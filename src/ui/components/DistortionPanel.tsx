@@ -165,7 +165,8 @@ export function DistortionPanel(p: { theme: string }) {
   // A result belongs to the designs it was computed for: an edit makes it stale, so it goes.
   useEffect(() => {
     stop();
-    setRun({ kind: 'idle' });
+    // Already idle: keep the same state, so an edit does not render this section again.
+    setRun((r) => (r.kind === 'idle' ? r : { kind: 'idle' }));
   }, [state.designs]);
 
   const start = () => {
