@@ -6,7 +6,7 @@ import { abs } from '../src/engine/complex.ts';
 import { wayFilterAt } from '../src/engine/filters/way-filter.ts';
 import { wooferParams } from '../src/engine/sim/params.ts';
 import { sealedBox, system, wooferOf } from './sim-fixtures.ts';
-import { rhs, Solver, stateCount } from './sim-odex-model.ts';
+import { odexPressure } from './sim-odex-model.ts';
 
 describe('harmonic analysis', () => {
   it('finds H3 of a memoryless cubic y = x + a·x^3 as the trigonometric identity gives it', () => {
@@ -47,25 +47,7 @@ describe('stepped sines against odex (the published equations at tight tolerance
       const u = (t: number) => (t < fade ? 0.5 - 0.5 * Math.cos((Math.PI * t) / fade) : 1) * amp * Math.cos(2 * Math.PI * f * t + phase);
       const settle = Math.max(40, Math.ceil(0.4 * f));
       const n = (settle + 8) * m;
-      const p = wooferParams(sys, way, 1 / fsamp);
-      const { f: f0, dU } = rhs(sys, way, u);
-      const solver = new Solver(stateCount(way));
-      solver.absoluteTolerance = 1e-11;
-      solver.relativeTolerance = 1e-9;
-      solver.denseOutput = true;
-      solver.maxSteps = 1e7;
-      const pr = new Float64Array(n);
-      let k = 0;
-      solver.solve(
-        f0,
-        0,
-        new Array(stateCount(way)).fill(0),
-        (n - 1) / fsamp,
-        solver.grid(1 / fsamp, (t: number, y: number[]) => {
-          if (k >= n) return;
-          pr[k++] = p.kOut * dU(f0(t, y));
-        }),
-      );
+      const pr = odexPressure(sys, way, u, n, fsamp, wooferParams(sys, way, 1 / fsamp).kOut);
       const h = harmonicPhasors(pr, settle * m, m, 8).map(abs);
       const ref = figuresOf(h, h[0], f, h[0]);
       expect(ours.thdPct).toBeGreaterThan(0.3);

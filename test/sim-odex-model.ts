@@ -109,3 +109,36 @@ export interface OdexSolver {
 }
 const odexName = 'odex';
 export const { Solver } = (await import(odexName)) as { Solver: new (n: number) => OdexSolver };
+
+/**
+ * The radiated pressure (the model's output scale kOut times dU/dt) of `way` driven by u(t),
+ * sampled at fs for n samples from rest, integrated by odex at tight tolerance.
+ */
+export function odexPressure(
+  sys: SpeakerSystem,
+  way: DriverWay,
+  u: (t: number) => number,
+  n: number,
+  fs: number,
+  kOut: number,
+): Float64Array {
+  const { f, dU } = rhs(sys, way, u);
+  const solver = new Solver(stateCount(way));
+  solver.absoluteTolerance = 1e-11;
+  solver.relativeTolerance = 1e-9;
+  solver.denseOutput = true;
+  solver.maxSteps = 1e7;
+  const pr = new Float64Array(n);
+  let k = 0;
+  solver.solve(
+    f,
+    0,
+    new Array(stateCount(way)).fill(0),
+    (n - 1) / fs,
+    solver.grid(1 / fs, (t: number, y: number[]) => {
+      if (k >= n) return;
+      pr[k++] = kOut * dU(f(t, y));
+    }),
+  );
+  return pr;
+}

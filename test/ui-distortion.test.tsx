@@ -4,7 +4,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { act, cleanup, fireEvent, render, screen, waitFor } from '@testing-library/preact';
 
-vi.mock('uplot', () => import('./helpers/fake-uplot.ts'));
+vi.mock('uplot', () => import('./helpers/recording-uplot.ts'));
 
 import { App } from '../src/ui/App.tsx';
 import { Store } from '../src/ui/store.ts';
@@ -12,6 +12,8 @@ import { Autosave, memoryBackend } from '../src/ui/persist.ts';
 import { demoPair } from '../src/ui/demo.ts';
 import { setDistortionWorkerFactory, type DistortionWorkerLike } from '../src/ui/components/DistortionPanel.tsx';
 import { runDistortionJob, type DistortionJob, type DistortionReply } from '../src/audio/distortion.worker.ts';
+import { drawn } from './helpers/recording-uplot.ts';
+import { parseLevelList, parseTonePair } from '../src/ui/distortion-input.ts';
 
 afterEach(() => cleanup());
 
@@ -61,6 +63,56 @@ describe('Curves: distortion', () => {
     expect(screen.getByText(/^A: at most [\d.]+ % THD at [\d.]+ V rms$/)).toBeTruthy();
     expect(made.every((m) => m.terminated)).toBe(true);
   }, 30000);
+
+  it('computes at a list of levels and the two-tone figure: quieter levels distort less', async () => {
+    const made = fakeWorkers();
+    mount();
+    fireEvent.input(screen.getByTestId('distortion-levels'), { target: { value: '0; -12' } });
+    fireEvent.input(screen.getByTestId('im-low'), { target: { value: '50' } });
+    fireEvent.input(screen.getByTestId('im-high'), { target: { value: '730' } });
+    drawn.length = 0;
+    fireEvent.click(screen.getByRole('button', { name: 'Compute distortion' }));
+    expect(made).toHaveLength(2);
+    await waitFor(() => expect(screen.getByRole('button', { name: 'Compute again' })).toBeTruthy(), { timeout: 40000 });
+    // The THD chart: x, then A at the planned level, A at -12 dB, B at the planned level, B at -12 dB.
+    const thd = drawn.filter((d) => d.id === 'thd').at(-1)!.data as (number | null)[][];
+    expect(thd).toHaveLength(5);
+    const [, a0, a12, b0, b12] = thd;
+    // At the lowest step (20 Hz) the cone moves most: 12 dB less drive, several times less distortion.
+    expect(a0[0]! / a12[0]!).toBeGreaterThan(2);
+    expect(b0[0]! / b12[0]!).toBeGreaterThan(2);
+    const table = screen.getByTestId('im-table');
+    expect(table.textContent).toMatch(/50 Hz and 730 Hz/);
+    const rows = table.querySelectorAll('tbody tr');
+    expect(rows).toHaveLength(2);
+    for (const r of rows) expect(r.textContent).toMatch(/^[AB] sum[\d.]+ % \(−?[\d.]+ dB\)/);
+  }, 60000);
+
+  it('refuses a bad list of levels or tone pair with a message, starting nothing', () => {
+    const made = fakeWorkers();
+    mount();
+    fireEvent.input(screen.getByTestId('distortion-levels'), { target: { value: '0, loud' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Compute distortion' }));
+    expect(made).toHaveLength(0);
+    expect(screen.getByRole('alert').textContent).toMatch(/“loud” is not a number of decibels/);
+    fireEvent.input(screen.getByTestId('distortion-levels'), { target: { value: '0' } });
+    fireEvent.input(screen.getByTestId('im-high'), { target: { value: '400' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Compute distortion' }));
+    expect(made).toHaveLength(0);
+    expect(screen.getByRole('alert').textContent).toMatch(/whole multiple/);
+  });
+
+  it('reads levels and tone pairs as a user types them', () => {
+    expect(parseLevelList('0, -6 −12')).toEqual({ ok: true, value: [0, -6, -12] });
+    expect(parseLevelList('')).toMatchObject({ ok: false, message: /at least one level/ });
+    expect(parseLevelList('0,1,2,3,4')).toMatchObject({ ok: false, message: /At most 4/ });
+    expect(parseLevelList('0, 0')).toMatchObject({ ok: false, message: /listed twice/ });
+    expect(parseLevelList('-60')).toMatchObject({ ok: false, message: /from -40 to \+10 dB/ });
+    expect(parseLevelList('1e3')).toMatchObject({ ok: false });
+    expect(parseTonePair('40', '420')).toEqual({ ok: true, value: [40, 420] });
+    expect(parseTonePair('', '420')).toMatchObject({ ok: false, message: /both tones/ });
+    expect(parseTonePair('40', '100')).toMatchObject({ ok: false, message: /three times/ });
+  });
 
   it('cancels: the workers are stopped and nothing is drawn', async () => {
     const made = fakeWorkers(true);

@@ -6,8 +6,9 @@ import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, t
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { printable } from './user-text.ts';
 import { distortionJson } from './distortion-report.ts';
+import { checkTonePair } from '../engine/distortion/two-tone.ts';
 
-const HELP = `usage: preheard analyze <design.json> [--json] [--volts V] [--distortion]
+const HELP = `usage: preheard analyze <design.json> [--json] [--volts V] [--distortion [--im-hz F1,F2]]
 
 Small-signal analysis of a design: for each way with drivers its f3, box figures,
 sensitivity and curves (SPL at the listening seat through the way's filter, excursion,
@@ -17,7 +18,10 @@ response at the seat with its f3 and sensitivity.
   --volts V   drive voltage for the curves, V rms at the amplifier (default 2.83)
   --json      print one JSON object instead of the table
   --distortion  with --json: add "distortion", stepped-sine THD, H2, H3 and compression of the
-              large-signal model per way and for the sum, at the planned level (or --volts)
+              large-signal model per way and for the sum, at the planned level (or --volts),
+              and "intermodulation": two tones (F1 low, F2 high, 4:1) through the same model,
+              the products F2 ± F1 and F2 ± 2·F1 relative to F2
+  --im-hz F1,F2  the two tones in Hz (default 40,420); F2 at least 3·F1, not a whole multiple of it
   --help      this text
 
 exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
@@ -289,6 +293,18 @@ function table(a: Analysis): string {
   return lines.join('\n') + '\n';
 }
 
+/** --im-hz F1,F2: two numbers, a pair the two-tone measurement can take. */
+function tonePair(value: string | undefined): [number, number] | null {
+  if (value === undefined) return null;
+  const parts = value.split(',');
+  if (parts.length !== 2) throw new UsageError(`--im-hz takes two frequencies as F1,F2 (e.g. 40,420), got "${printable(value)}"`);
+  const f1 = parseNumberOption(parts[0].trim(), '--im-hz F1', 10, 2000)!;
+  const f2 = parseNumberOption(parts[1].trim(), '--im-hz F2', 30, 20000)!;
+  const problem = checkTonePair(f1, f2);
+  if (problem) throw new UsageError(`--im-hz: ${problem}`);
+  return [f1, f2];
+}
+
 export const analyzeCommand: Command = {
   name: 'analyze',
   summary: 'small-signal figures and curves of a design',
@@ -298,6 +314,7 @@ export const analyzeCommand: Command = {
         json: { type: 'boolean' },
         volts: { type: 'string' },
         distortion: { type: 'boolean' },
+        'im-hz': { type: 'string' },
         help: { type: 'boolean', short: 'h' },
       });
       if (values.help) {
@@ -306,12 +323,14 @@ export const analyzeCommand: Command = {
       }
       if (positionals.length !== 1) throw new UsageError('expects exactly one design file');
       const driveV = parseNumberOption(values.volts, '--volts', 0.001, 2000);
+      const pair = tonePair(values['im-hz'] as string | undefined);
+      if (pair && !values.distortion) throw new UsageError('--im-hz goes with --distortion');
       const { system, warnings } = await loadDesignFile(positionals[0]);
       const a = analyze(system, { driveV });
       a.warnings.unshift(...warnings);
       if (values.distortion && !values.json) throw new UsageError('--distortion goes with --json');
       const json = values.json
-        ? { ...analysisJson(a), ...(values.distortion ? { distortion: distortionJson(system, driveV) } : {}) }
+        ? { ...analysisJson(a), ...(values.distortion ? { distortion: distortionJson(system, driveV, undefined, pair ?? undefined) } : {}) }
         : null;
       process.stdout.write(json ? JSON.stringify(json) + '\n' : table(a));
       return EXIT_OK;

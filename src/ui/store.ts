@@ -54,6 +54,8 @@ export interface Settings {
   way?: Partial<Record<Slot, number>>;
   /** Curves: draw each way beside the system sum. */
   showWays?: boolean;
+  /** Curves: the charts the user chose not to see (chart ids; unknown ids are ignored). */
+  curvesHidden?: string[];
 }
 
 export interface AppState {

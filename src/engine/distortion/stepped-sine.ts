@@ -108,24 +108,28 @@ export function wayHarmonics(system: SpeakerSystem, way: DriverWay, f: number, v
   }
   const hn = harmonicPhasors(yn, 0, m, periods);
   const hl = harmonicPhasors(yl, 0, m, periods, 1);
-  // At the seat: room gain and baffle step at k·f, polarity, offset delay; rms phasors.
-  const tau = offsetDelay(system, way);
-  // A measured response corrects every harmonic at its own frequency, as the render's FIR does.
-  const measured = measuredCorrection(system, way);
-  const atSeat = hn.map((h, i) => {
-    const k = i + 1;
-    const g = roomGain(k * f, system.listening.roomGainHz);
-    const placed = scale(
-      mul(mul(h, baffleGain(k * w, system.listening.baffleWidth ?? 0)), delayAt(k * w, tau)),
-      (g * way.polarity) / Math.SQRT2,
-    );
-    return measured ? mul(placed, measured.at(k * f)) : placed;
-  });
+  const atSeat = hn.map((h, i) => toSeat(system, way, h, (i + 1) * f));
   // Figures at the seat (room gain and baffle step weigh the harmonics); compression from the
   // model's own output, where the linear twin has the same discretisation.
   const point = { ...figuresOf(atSeat.map(abs), 1, f, abs(atSeat[0])), compressionDb: 20 * Math.log10(abs(hn[0]) / abs(hl[0])) };
   const model = figuresOf(hn.map(abs), abs(hl[0]), f, abs(hn[0]) / Math.SQRT2);
   return { point, model, atSeat };
+}
+
+/**
+ * A peak phasor of the driver model's output at `f` as it arrives at the seat, as an rms phasor:
+ * room gain and baffle step at f, the way's polarity and offset delay, and a measured response's
+ * correction at f (every harmonic and product at its own frequency, as the render's FIR does).
+ */
+export function toSeat(system: SpeakerSystem, way: DriverWay, h: Complex, f: number): Complex {
+  const w = 2 * Math.PI * f;
+  const g = roomGain(f, system.listening.roomGainHz);
+  const placed = scale(
+    mul(mul(h, baffleGain(w, system.listening.baffleWidth ?? 0)), delayAt(w, offsetDelay(system, way))),
+    (g * way.polarity) / Math.SQRT2,
+  );
+  const measured = measuredCorrection(system, way);
+  return measured ? mul(placed, measured.at(f)) : placed;
 }
 
 /** Third-octave steps from 20 Hz to 2 kHz, to 16 kHz when more than one way has drivers. */

@@ -3,8 +3,10 @@ import { FigureTable } from '../FigureTable.tsx';
 import { IssueList } from '../IssueList.tsx';
 import { ChartCard, useCharts } from '../screens/Curves.tsx';
 
+const GLANCE_CHARTS = ['spl', 'excursion'] as const;
+
 export function Glance({ theme }: { theme: string }) {
-  const charts = useCharts();
+  const charts = useCharts(GLANCE_CHARTS);
   const spl = charts.find((c) => c.id === 'spl')!;
   const ex = charts.find((c) => c.id === 'excursion')!;
   return (

@@ -1,5 +1,6 @@
-// One log-frequency chart drawn by uPlot. Data changes are applied with setData (no rebuild);
-// the chart is rebuilt only when its series or the theme change.
+// One log-frequency chart drawn by uPlot. Data changes are applied with setData (no rebuild), into
+// arrays kept from the last draw, at most once per animation frame; the chart is rebuilt only when
+// its series or the theme change.
 import { useEffect, useLayoutEffect, useRef } from 'preact/hooks';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
@@ -81,13 +82,43 @@ function xTickLabels(_u: uPlot, splits: number[]): string[] {
   });
 }
 
-export function toData(spec: ChartSpec): uPlot.AlignedData {
-  const n = spec.freqHz.length;
-  // A point without a value (NaN: outside that design's own grid) is a gap: uPlot wants null there.
-  const ys = spec.series.map((s) =>
-    s.values ? Array.from(s.values, (v) => (Number.isFinite(v) ? v : null)) : (new Array(n).fill(null) as (number | null)[]),
-  );
-  return [spec.freqHz as unknown as number[], ...ys] as uPlot.AlignedData;
+/**
+ * A chart's data for uPlot across redraws (a point without a value, NaN outside that design's own
+ * grid, is a gap: uPlot wants null there): each series' array is kept and refilled in place, and a
+ * series whose values are the very array drawn last time is not touched at all (an edit to A leaves
+ * B's curves as they were), so an edit allocates nothing here.
+ */
+export class ChartData {
+  private drawn: (ArrayLike<number> | null)[] = [];
+  private arrays: (number | null)[][] = [];
+  private freq: Float64Array | null = null;
+  data: uPlot.AlignedData = [[]];
+
+  /** Updates the arrays from the spec; false when nothing changed (no redraw needed). */
+  update(spec: ChartSpec): boolean {
+    const n = spec.freqHz.length;
+    let changed = this.freq !== spec.freqHz || this.arrays.length !== spec.series.length;
+    if (this.arrays.length !== spec.series.length) {
+      this.arrays = spec.series.map(() => []);
+      this.drawn = spec.series.map(() => null);
+    }
+    spec.series.forEach((s, k) => {
+      const out = this.arrays[k];
+      if (s.values === this.drawn[k] && out.length === n && s.values !== null) return;
+      changed = true;
+      out.length = n;
+      const v = s.values;
+      for (let i = 0; i < n; i++) {
+        const x = v ? v[i] : Number.NaN;
+        out[i] = Number.isFinite(x) ? x : null;
+      }
+      this.drawn[k] = v;
+    });
+    this.freq = spec.freqHz;
+    // uPlot compares nothing: a new outer array with the same inner arrays is enough.
+    if (changed) this.data = [spec.freqHz as unknown as number[], ...this.arrays] as uPlot.AlignedData;
+    return changed;
+  }
 }
 
 export function shapeKey(spec: ChartSpec): string {
@@ -164,6 +195,61 @@ function options(spec: ChartSpec, width: number, height: number, p: Palette, onD
   };
 }
 
+/**
+ * At most one draw per chart per animation frame: the first change in a frame draws at once (the
+ * edit's own task, so the next frame shows it), later changes in the same frame wait for the next
+ * frame and draw once with the newest data (typing or dragging faster than the screen refreshes).
+ */
+const drewThisFrame = new Set<uPlot>();
+const waiting = new Map<uPlot, ChartData>();
+let frameRequested = false;
+function drawInFrame(u: uPlot, d: ChartData) {
+  if (typeof requestAnimationFrame === 'undefined') {
+    u.setData(d.data);
+    return;
+  }
+  if (!drewThisFrame.has(u)) {
+    drewThisFrame.add(u);
+    u.setData(d.data);
+  } else waiting.set(u, d);
+  if (!frameRequested) {
+    frameRequested = true;
+    requestAnimationFrame(() => {
+      frameRequested = false;
+      drewThisFrame.clear();
+      const due = [...waiting];
+      waiting.clear();
+      for (const [plot, data] of due) drawInFrame(plot, data);
+    });
+  }
+}
+
+/**
+ * Charts scrolled out of view are not drawn in the edit's task: they are marked and drawn when the
+ * browser is idle or when they scroll into view, whichever comes first, so an edit pays only for
+ * the charts on screen. Without IntersectionObserver every chart counts as on screen.
+ */
+const offscreen = new Map<uPlot, ChartData>();
+let idleRequested = false;
+function drawWhenSeen(u: uPlot, d: ChartData, visible: boolean) {
+  if (visible) {
+    offscreen.delete(u);
+    drawInFrame(u, d);
+    return;
+  }
+  offscreen.set(u, d);
+  if (idleRequested) return;
+  idleRequested = true;
+  const later = (run: () => void) =>
+    typeof requestIdleCallback === 'function' ? requestIdleCallback(run, { timeout: 500 }) : setTimeout(run, 50);
+  later(() => {
+    idleRequested = false;
+    const due = [...offscreen];
+    offscreen.clear();
+    for (const [plot, data] of due) drawInFrame(plot, data);
+  });
+}
+
 export interface ChartProps {
   spec: ChartSpec;
   height: number;
@@ -180,6 +266,8 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
   const draws = useRef(0);
   const specRef = useRef(spec);
   specRef.current = spec;
+  const data = useRef<ChartData | null>(null);
+  const visible = useRef(true);
 
   // Build or rebuild when the series set or the theme changes; otherwise just set the data.
   const key = `${shapeKey(spec)}#${theme}#${height}`;
@@ -187,8 +275,8 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
   useLayoutEffect(() => {
     const el = host.current;
     if (!el || spec.series.length === 0) return;
-    if (plot.current && built.current === key) {
-      plot.current.setData(toData(spec));
+    if (plot.current && built.current === key && data.current) {
+      if (data.current.update(spec)) drawWhenSeen(plot.current, data.current, visible.current);
       return;
     }
     plot.current?.destroy();
@@ -197,7 +285,9 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
       draws.current++;
       el.dataset.draws = String(draws.current);
     };
-    plot.current = new uPlot(options(spec, width, height, readPalette(el), onDraw, syncKey), toData(spec), el);
+    data.current = new ChartData();
+    data.current.update(spec);
+    plot.current = new uPlot(options(spec, width, height, readPalette(el), onDraw, syncKey), data.current.data, el);
     built.current = key;
   }, [spec, key]);
 
@@ -213,8 +303,27 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
     return () => ro.disconnect();
   }, [height]);
 
+  useEffect(() => {
+    const el = host.current;
+    if (!el || typeof IntersectionObserver === 'undefined') return;
+    const io = new IntersectionObserver((entries) => {
+      const seen = entries.some((e) => e.isIntersecting);
+      visible.current = seen;
+      const u = plot.current;
+      const pending = u ? offscreen.get(u) : undefined;
+      if (seen && u && pending) drawWhenSeen(u, pending, true);
+    });
+    io.observe(el);
+    return () => io.disconnect();
+  }, []);
+
   useEffect(
     () => () => {
+      if (plot.current) {
+        offscreen.delete(plot.current);
+        waiting.delete(plot.current);
+        drewThisFrame.delete(plot.current);
+      }
       plot.current?.destroy();
       plot.current = null;
     },

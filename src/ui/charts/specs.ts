@@ -8,6 +8,7 @@ import { num, peakOf, TO_DISPLAY as K } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { hasSum, sumOf, waysOf, type WayCurvesView } from '../analysis-view.ts';
 import { firstDriverOf } from '../ways.ts';
+import { amplifierPowerW, amplifierVolts, limitUse, type LimitUse } from '../../engine/response/limit-use.ts';
 
 export type Role =
   | 'a'
@@ -52,11 +53,65 @@ export interface ChartSpec {
   empty?: string;
 }
 
-export type ChartId = 'spl' | 'excursion' | 'impedance' | 'phase' | 'group-delay' | 'port-speed' | 'max-spl' | DistortionChartId;
+export type ChartId =
+  | 'spl'
+  | 'excursion'
+  | 'impedance'
+  | 'phase'
+  | 'group-delay'
+  | 'port-speed'
+  | 'max-spl'
+  | 'outputs'
+  | 'power'
+  | 'limit-use'
+  | DistortionChartId;
 /** The distortion section's charts (components/DistortionPanel.tsx), drawn on request only. */
 export type DistortionChartId = 'thd' | 'h3' | 'compression';
 
-export const CHART_IDS: ChartId[] = ['spl', 'excursion', 'impedance', 'phase', 'group-delay', 'port-speed', 'max-spl'];
+export const CHART_IDS: ChartId[] = [
+  'spl',
+  'excursion',
+  'impedance',
+  'phase',
+  'group-delay',
+  'port-speed',
+  'max-spl',
+  'outputs',
+  'power',
+  'limit-use',
+];
+
+export type GroupId = 'seat' | 'moves' | 'amplifier' | 'limits';
+
+/** The Curves screen's charts by the question they answer, in the order shown. */
+export const CHART_GROUPS: { id: GroupId; title: string; question: string; charts: ChartId[] }[] = [
+  {
+    id: 'seat',
+    title: 'Bass at the seat',
+    question: 'How loud and how deep each design plays where the listener sits, and how late its bass arrives there.',
+    charts: ['spl', 'group-delay'],
+  },
+  {
+    id: 'moves',
+    title: 'What moves',
+    question:
+      'How far the cone (and any passive radiator) travels and how fast the port air moves at the planned level, and what cone and port each add at the seat.',
+    charts: ['excursion', 'port-speed', 'outputs'],
+  },
+  {
+    id: 'amplifier',
+    title: 'What the amplifier sees',
+    question: 'The load on the amplifier channel of the first driver way, and the power it delivers at the planned level.',
+    charts: ['impedance', 'phase', 'power'],
+  },
+  {
+    id: 'limits',
+    title: 'Limits',
+    question:
+      'How loud each design can play at each frequency before something gives, and how much of each limit the planned level already uses.',
+    charts: ['max-spl', 'limit-use'],
+  },
+];
 
 /** A design's analysis and the system it was made for. */
 export interface Model {
@@ -68,6 +123,8 @@ export type Pair = Record<Slot, Model | null>;
 export interface ChartOptions {
   /** Draw each way beside the system sum. */
   showWays?: boolean;
+  /** Build only these charts (in CHART_IDS order); all when absent. */
+  only?: readonly ChartId[];
 }
 
 const LIMIT_TEXT: Record<MaxSplLimit, string> = {
@@ -98,7 +155,12 @@ function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | 
   if (!values) return null;
   const f = an.curves.freqHz;
   if (f === target || (f.length === target.length && f[0] === target[0] && f[f.length - 1] === target[target.length - 1])) return values;
+  // The same curve on the same grid again (the other design was edited): the same array, so the
+  // chart sees nothing changed.
+  const hit = regridded.get(values as object);
+  if (hit && hit.target === target) return hit.out;
   const out = new Float64Array(target.length);
+  regridded.set(values as object, { target, out });
   // Half a grid step of slack at each end, so rounding never drops an end point.
   const slack = f.length > 1 ? Math.sqrt(f[1] / f[0]) : 1;
   let j = 0;
@@ -113,20 +175,34 @@ function onGrid(target: Float64Array, an: Analysis, values: ArrayLike<number> | 
   return out;
 }
 
+const regridded = new WeakMap<object, { target: Float64Array; out: Float64Array }>();
+
 /** The first driver way's Xmax and Xlim in mm (where a single driver is meant). */
 function limitsMm(m: Model): { xmax: number; xlim: number; re: number } {
   const w = firstDriverOf(m.system);
   return w ? { xmax: w.unit.xmax * K.mm, xlim: w.unit.xlim * K.mm, re: w.driver.re } : { xmax: NaN, xlim: NaN, re: NaN };
 }
 
-const constant = (n: number, v: number) => new Float64Array(n).fill(v);
+/** A constant line (a limit), the same array for the same length and value, so redraws skip it. */
+const constants = new Map<string, Float64Array>();
+function constant(n: number, v: number): Float64Array {
+  const key = `${n}:${v}`;
+  let c = constants.get(key);
+  if (!c) {
+    if (constants.size > 64) constants.clear();
+    c = new Float64Array(n).fill(v);
+    constants.set(key, c);
+  }
+  return c;
+}
 
 export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec[] {
   const pair: Record<Slot, Analysis | null> = { a: models.a?.analysis ?? null, b: models.b?.analysis ?? null };
   const showWays = options.showWays ?? false;
   const f = grid(models);
+  const wanted = (id: ChartId) => !options.only || options.only.includes(id);
   if (!f) {
-    return CHART_IDS.map((id) => ({
+    return CHART_IDS.filter(wanted).map((id) => ({
       id,
       title: TITLES[id],
       unit: '',
@@ -314,7 +390,116 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
     }),
   };
 
-  return [spl, excursion, impedance, phase, groupDelay, portSpeed, maxSpl];
+  const built: ChartSpec[] = [spl, excursion, impedance, phase, groupDelay, portSpeed, maxSpl];
+  if (wanted('outputs')) built.push(outputsChart(models, f));
+  if (wanted('power')) built.push(powerChart(models, f));
+  if (wanted('limit-use')) built.push(limitUseChart(models, f));
+  return built.filter((c) => wanted(c.id));
+}
+
+/** The first driver way's power and limit shares at the planned level, once per analysis. */
+const perAnalysis = new WeakMap<Analysis, { powerW: Float64Array; use: LimitUse } | null>();
+function plannedLoad(m: Model) {
+  let hit = perAnalysis.get(m.analysis);
+  if (hit === undefined) {
+    const w = firstDriverOf(m.system);
+    const volts = m.analysis.figures.plannedVoltsRms;
+    // The amplifier's output through the way's filter, once for both figures.
+    const drive = w ? amplifierVolts(w, m.analysis.curves.freqHz, volts) : null;
+    hit =
+      w && drive
+        ? { powerW: amplifierPowerW(w, m.analysis.curves, volts, drive), use: limitUse(m.system, w, m.analysis.curves, volts, drive) }
+        : null;
+    perAnalysis.set(m.analysis, hit);
+  }
+  return hit;
+}
+
+const present = (models: Pair) => SLOTS.filter((s) => models[s] !== null);
+
+function outputsChart(models: Pair, f: Float64Array): ChartSpec {
+  const series: SeriesSpec[] = [];
+  for (const s of present(models)) {
+    const an = models[s]!.analysis;
+    series.push({ label: `${SLOT_LABEL[s]} cone`, role: s, values: onGrid(f, an, an.curves.coneSplDb) });
+    if (an.curves.portSplDb)
+      series.push({
+        label: `${SLOT_LABEL[s]} ${an.curves.radiatorExcursionMm ? 'radiator' : 'port'}`,
+        role: `${s}-aux` as Role,
+        values: onGrid(f, an, an.curves.portSplDb),
+      });
+  }
+  return {
+    id: 'outputs',
+    title: TITLES.outputs,
+    unit: 'dB',
+    digits: 3,
+    freqHz: f,
+    series,
+    summary: present(models).map((s) => {
+      const c = models[s]!.analysis.curves;
+      const pk = peakOf(c.portSplDb);
+      return pk
+        ? `${SLOT_LABEL[s]}: the ${c.radiatorExcursionMm ? 'radiator' : 'port'} is loudest at ${num(c.freqHz[pk.index], 3)} Hz (${num(pk.value, 3)} dB), where it carries the bass.`
+        : `${SLOT_LABEL[s]}: only the cone radiates (no port or radiator).`;
+    }),
+  };
+}
+
+function powerChart(models: Pair, f: Float64Array): ChartSpec {
+  const series: SeriesSpec[] = present(models).map((s) => ({
+    label: SLOT_LABEL[s],
+    longLabel: `${SLOT_LABEL[s]}: ${models[s]!.system.name}`,
+    role: s,
+    values: onGrid(f, models[s]!.analysis, plannedLoad(models[s]!)?.powerW ?? null),
+  }));
+  return {
+    id: 'power',
+    title: TITLES.power,
+    unit: 'W',
+    digits: 3,
+    yMin: 0,
+    freqHz: f,
+    series,
+    summary: present(models).map((s) => {
+      const pk = peakOf(plannedLoad(models[s]!)?.powerW);
+      const an = models[s]!.analysis;
+      return pk
+        ? `${SLOT_LABEL[s]}: at most ${num(pk.value, 3)} W at ${num(an.curves.freqHz[pk.index], 3)} Hz for a sine at ${num(an.figures.plannedVoltsRms, 3)} V rms; the amplifier gives ${num(models[s]!.system.amplifier.power, 3)} W into ${num(models[s]!.system.amplifier.load, 2)} Ω.`
+        : `${SLOT_LABEL[s]}: no driver way.`;
+    }),
+  };
+}
+
+function limitUseChart(models: Pair, f: Float64Array): ChartSpec {
+  const series: SeriesSpec[] = [];
+  const summary: string[] = [];
+  for (const s of present(models)) {
+    const an = models[s]!.analysis;
+    const use = plannedLoad(models[s]!)?.use;
+    if (!use) continue;
+    series.push({ label: `${SLOT_LABEL[s]} cone travel of Xmax`, role: s, values: onGrid(f, an, use.excursionPct) });
+    if (use.portPct)
+      series.push({
+        label: `${SLOT_LABEL[s]} port air of ${PORT_SPEED_LIMIT} m/s`,
+        role: `${s}-aux` as Role,
+        values: onGrid(f, an, use.portPct),
+      });
+    if (use.heatPct)
+      series.push({ label: `${SLOT_LABEL[s]} coil heat of Pe`, role: `${s}-way` as Role, values: onGrid(f, an, use.heatPct) });
+    const parts = [
+      ['cone travel', peakOf(use.excursionPct)],
+      ['port air speed', peakOf(use.portPct)],
+      ['coil heat', peakOf(use.heatPct)],
+    ] as const;
+    const worst = parts.filter(([, p]) => p).sort((x, y) => y[1]!.value - x[1]!.value)[0];
+    if (worst)
+      summary.push(
+        `${SLOT_LABEL[s]}: ${worst[0]} comes closest, ${num(worst[1]!.value, 3)} % of its limit at ${num(an.curves.freqHz[worst[1]!.index], 3)} Hz${worst[1]!.value > 100 ? ' — over it' : ''}.`,
+      );
+  }
+  if (series.length) series.push({ label: 'the limit, 100 %', role: 'limit', values: constant(f.length, 100) });
+  return { id: 'limit-use', title: TITLES['limit-use'], unit: '%', digits: 3, yMin: 0, freqHz: f, series, summary };
 }
 
 export const TITLES: Record<ChartId, string> = {
@@ -325,6 +510,9 @@ export const TITLES: Record<ChartId, string> = {
   'group-delay': 'Group delay',
   'port-speed': 'Port air speed at the planned level',
   'max-spl': 'Maximum SPL at the seat',
+  outputs: 'Cone and port, each alone at the seat',
+  power: 'Power from the amplifier at the planned level',
+  'limit-use': 'Share of each limit used at the planned level',
   thd: 'Total harmonic distortion',
   h3: 'Third harmonic',
   compression: 'Compression of the fundamental',

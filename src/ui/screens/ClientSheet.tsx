@@ -60,7 +60,7 @@ function filterText(f: ActiveFilter): string {
 
 const driverOnly = (w: Way, f: (w: DriverWay) => string | null) => (w.kind === 'driver' ? f(w) : null);
 
-// Few rows per way, so a two-way pair still prints on two pages.
+// Few rows per way, so a two-way pair still prints on one page.
 const WAY_PARAMS: WayParamRow[] = [
   {
     label: 'Filter',
@@ -122,7 +122,7 @@ function today(): string {
 
 export function ClientSheet() {
   const { state, derived, dispatch } = useApp();
-  const charts = useCharts();
+  const charts = useCharts(SHEET_CHARTS);
   const v = useVerdict();
   const title = state.settings.sheetTitle ?? '';
   const notes = state.settings.sheetNotes ?? '';
@@ -263,61 +263,65 @@ export function ClientSheet() {
           </p>
         </section>
 
-        <section class="paper-section paper-params">
-          <h2>The two designs</h2>
-          <table class="params" data-testid="sheet-params">
-            <thead>
-              <tr>
-                <th scope="col" />
-                {SLOTS.map((s) => (
-                  <th scope="col">
-                    <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {state.designs[s].name}
-                  </th>
-                ))}
-              </tr>
-            </thead>
-            <tbody>
-              {Array.from({ length: wayCount }, (_, k) => wayRows(k))}
-              {PARAMS.filter((r) => SLOTS.some((s) => sys[s] && r.value(sys[s]!, derived[s].analysis) !== null)).map((r) => (
-                <tr>
-                  <th scope="row">{r.label}</th>
-                  {SLOTS.map((s) => (
-                    <td>{(sys[s] && r.value(sys[s]!, derived[s].analysis)) ?? '—'}</td>
+        {/* One page: the parameters and notes beside the curves, the cautions across the foot. */}
+        <div class="paper-body">
+          <div class="paper-main">
+            <section class="paper-section paper-params">
+              <h2>The two designs</h2>
+              <table class="params" data-testid="sheet-params">
+                <thead>
+                  <tr>
+                    <th scope="col" />
+                    {SLOTS.map((s) => (
+                      <th scope="col">
+                        <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {state.designs[s].name}
+                      </th>
+                    ))}
+                  </tr>
+                </thead>
+                <tbody>
+                  {Array.from({ length: wayCount }, (_, k) => wayRows(k))}
+                  {PARAMS.filter((r) => SLOTS.some((s) => sys[s] && r.value(sys[s]!, derived[s].analysis) !== null)).map((r) => (
+                    <tr>
+                      <th scope="row">{r.label}</th>
+                      {SLOTS.map((s) => (
+                        <td>{(sys[s] && r.value(sys[s]!, derived[s].analysis)) ?? '—'}</td>
+                      ))}
+                    </tr>
                   ))}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-          <FigureTable paper />
-        </section>
+                </tbody>
+              </table>
+              <FigureTable paper />
+            </section>
 
-        <section class="paper-section paper-curves">
-          <h2>Curves</h2>
-          <p class="paper-fine">
-            Model estimates. SPL at the seat for 2.83 V; excursion and port air speed for a sine at each design's planned level. A deep
-            teal, B amber, the ideal reference grey dashed, limits red.
-          </p>
-          <div class="paper-charts">
-            {SHEET_CHARTS.map((id) => charts.find((c) => c.id === id)!).map((c) => (
-              <figure class="paper-chart">
-                <figcaption>
-                  {c.title} <span class="unit-tag">({c.unit})</span>
-                </figcaption>
-                <PrintChart spec={c} />
-              </figure>
-            ))}
+            {notes.trim() ? (
+              <section class="paper-section">
+                <h2>Notes from the designer</h2>
+                <p class="paper-notes" data-testid="paper-notes">
+                  {notes}
+                </p>
+              </section>
+            ) : null}
           </div>
-        </section>
-
-        {notes.trim() ? (
-          <section class="paper-section">
-            <h2>Notes from the designer</h2>
-            <p class="paper-notes" data-testid="paper-notes">
-              {notes}
-            </p>
-          </section>
-        ) : null}
-
+          <div class="paper-side">
+            <section class="paper-section paper-curves">
+              <h2>Curves</h2>
+              <p class="paper-fine">
+                Model estimates: SPL for 2.83 V, the rest for a sine at the planned level. A teal, B amber, ideal grey dashed, limits red.
+              </p>
+              <div class="paper-charts">
+                {SHEET_CHARTS.map((id) => charts.find((c) => c.id === id)!).map((c) => (
+                  <figure class="paper-chart">
+                    <figcaption>
+                      {c.title} <span class="unit-tag">({c.unit})</span>
+                    </figcaption>
+                    <PrintChart spec={c} width={260} height={106} />
+                  </figure>
+                ))}
+              </div>
+            </section>
+          </div>
+        </div>
         <section class="paper-section paper-cautions">
           <h2>Please note</h2>
           <ul>

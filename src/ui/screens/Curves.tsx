@@ -1,26 +1,82 @@
-// Curves: every chart with A and B overlaid and the ideal reference, the key numbers as text.
+// Curves: the charts grouped by the question they answer, A and B overlaid with the ideal
+// reference and the limits, the key numbers as text; the user picks which charts appear.
 import { DistortionPanel } from '../components/DistortionPanel.tsx';
 import { useMemo, useState } from 'preact/hooks';
 import { useApp } from '../context.ts';
 import { Chart } from '../charts/Chart.tsx';
-import { buildCharts, type ChartSpec } from '../charts/specs.ts';
+import { buildCharts, CHART_GROUPS, CHART_IDS, TITLES, type ChartId, type ChartSpec } from '../charts/specs.ts';
+import '../charts/curves.css';
 import { FigureTable } from '../FigureTable.tsx';
 import { IssueList } from '../IssueList.tsx';
 import { num, nearestIndex } from '../format.ts';
 
 const TABLE_HZ = [20, 25, 31.5, 40, 50, 63, 80, 100, 125, 160, 200, 315, 500, 1000];
 
-/** The charts of both designs; each way beside the sum when the Curves toggle asks for it. */
-export function useCharts(): ChartSpec[] {
+/**
+ * The charts of both designs (only those asked for, all when `only` is absent); each way beside
+ * the sum when the Curves toggle asks for it.
+ */
+export function useCharts(only?: readonly ChartId[]): ChartSpec[] {
   const { derived, state } = useApp();
   const a = derived.a.analysis;
   const b = derived.b.analysis;
   const sa = derived.a.system;
   const sb = derived.b.system;
   const showWays = state.settings.showWays ?? false;
+  const onlyKey = only?.join(',') ?? '';
   return useMemo(
-    () => buildCharts({ a: a && sa ? { analysis: a, system: sa } : null, b: b && sb ? { analysis: b, system: sb } : null }, { showWays }),
-    [a, b, sa, sb, showWays],
+    () =>
+      buildCharts({ a: a && sa ? { analysis: a, system: sa } : null, b: b && sb ? { analysis: b, system: sb } : null }, { showWays, only }),
+    [a, b, sa, sb, showWays, onlyKey],
+  );
+}
+
+/** The charts the user has hidden, as a set of known ids (a stored preference may hold anything). */
+export function hiddenCharts(stored: unknown): Set<ChartId> {
+  return new Set(Array.isArray(stored) ? (stored.filter((id) => (CHART_IDS as unknown[]).includes(id)) as ChartId[]) : []);
+}
+
+function ChartPicker({ hidden }: { hidden: Set<ChartId> }) {
+  const { dispatch } = useApp();
+  const set = (ids: ChartId[], show: boolean) => {
+    const next = new Set(hidden);
+    for (const id of ids) show ? next.delete(id) : next.add(id);
+    dispatch({ type: 'settings', patch: { curvesHidden: CHART_IDS.filter((id) => next.has(id)) } });
+  };
+  const shown = CHART_IDS.length - hidden.size;
+  return (
+    <details class="chart-picker" data-testid="chart-picker">
+      <summary>
+        Choose charts ({shown} of {CHART_IDS.length} shown)
+      </summary>
+      <div class="chart-picker-groups">
+        {CHART_GROUPS.map((g) => (
+          <fieldset>
+            <legend>
+              <label class="check">
+                <input
+                  type="checkbox"
+                  checked={g.charts.every((id) => !hidden.has(id))}
+                  onChange={(e) => set(g.charts, (e.currentTarget as HTMLInputElement).checked)}
+                />{' '}
+                {g.title}
+              </label>
+            </legend>
+            {g.charts.map((id) => (
+              <label class="check">
+                <input
+                  type="checkbox"
+                  data-testid={`pick-${id}`}
+                  checked={!hidden.has(id)}
+                  onChange={(e) => set([id], (e.currentTarget as HTMLInputElement).checked)}
+                />{' '}
+                {TITLES[id]}
+              </label>
+            ))}
+          </fieldset>
+        ))}
+      </div>
+    </details>
   );
 }
 
@@ -109,22 +165,42 @@ function WaysToggle() {
 }
 
 export function Curves({ theme }: { theme: string }) {
-  const charts = useCharts();
+  const { state } = useApp();
+  const hidden = hiddenCharts(state.settings.curvesHidden);
+  const hiddenKey = [...hidden].join(',');
+  // biome-ignore lint/correctness/useExhaustiveDependencies: the key stands for the set, which is new on every render
+  const shownIds = useMemo(() => CHART_IDS.filter((id) => !hidden.has(id)), [hiddenKey]);
+  const charts = useCharts(shownIds);
+  const byId = new Map(charts.map((c) => [c.id, c]));
   return (
     <section class="curves" aria-labelledby="curves-h">
       <div class="curves-head">
         <h2 id="curves-h">Curves</h2>
         <p class="sheet-intro">
-          Small-signal model. SPL (the sum of all ways at the seat), impedance and group delay at 2.83 V; excursion and port air speed at
-          each design's planned level. Hover a chart for readouts; the charts follow one cursor.
+          Small-signal model. SPL (the sum of all ways at the seat), impedance and group delay at 2.83 V; excursion, port air speed, power
+          and the limits' shares for a sine at each design's planned level. Hover a chart for readouts; the charts follow one cursor.
         </p>
-        <WaysToggle />
+        <div class="curves-tools">
+          <WaysToggle />
+          <ChartPicker hidden={hidden} />
+        </div>
       </div>
       <div class="curves-layout">
-        <div class="chart-grid">
-          {charts.map((c) => (
-            <ChartCard spec={c} theme={theme} />
+        <div class="curves-groups">
+          {CHART_GROUPS.filter((g) => g.charts.some((id) => byId.has(id))).map((g) => (
+            <section class="chart-group" aria-labelledby={`group-${g.id}`} data-group={g.id}>
+              <h3 id={`group-${g.id}`}>{g.title}</h3>
+              <p class="group-question">{g.question}</p>
+              <div class="chart-grid">
+                {g.charts
+                  .filter((id) => byId.has(id))
+                  .map((id) => (
+                    <ChartCard spec={byId.get(id)!} theme={theme} />
+                  ))}
+              </div>
+            </section>
           ))}
+          {charts.length === 0 ? <p class="sheet-intro">Every chart is hidden: choose some under “Choose charts”.</p> : null}
           <DistortionPanel theme={theme} />
         </div>
         <div class="curves-side">

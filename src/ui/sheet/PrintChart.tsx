@@ -49,6 +49,72 @@ const X_TICKS = [10, 20, 50, 100, 200, 500, 1000, 2000, 5000, 10000, 20000];
 const hzLabel = (f: number) => (f >= 1000 ? `${f / 1000}k` : String(f));
 const tickLabel = (v: number) => String(Number(v.toPrecision(6))).replace('-', '−');
 
+const LEGEND_W = 100;
+const LEGEND_ROW = 11;
+
+interface Rect {
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+}
+
+/** Whether the segment from (x0, y0) to (x1, y1) touches the rectangle (Liang–Barsky clipping). */
+function segmentHits(x0: number, y0: number, x1: number, y1: number, r: Rect): boolean {
+  const dx = x1 - x0;
+  const dy = y1 - y0;
+  let t0 = 0;
+  let t1 = 1;
+  const edges: [number, number][] = [
+    [-dx, x0 - r.x],
+    [dx, r.x + r.w - x0],
+    [-dy, y0 - r.y],
+    [dy, r.y + r.h - y0],
+  ];
+  for (const [p, q] of edges) {
+    if (p === 0) {
+      if (q < 0) return false;
+      continue;
+    }
+    const t = q / p;
+    if (p < 0) t0 = Math.max(t0, t);
+    else t1 = Math.min(t1, t);
+    if (t0 > t1) return false;
+  }
+  return true;
+}
+
+/** Whether a polyline (its consecutive points joined) passes through the rectangle. */
+function crosses(pts: [number, number][], r: Rect): boolean {
+  if (pts.length === 1) return segmentHits(pts[0][0], pts[0][1], pts[0][0], pts[0][1], r);
+  for (let i = 1; i < pts.length; i++) if (segmentHits(pts[i - 1][0], pts[i - 1][1], pts[i][0], pts[i][1], r)) return true;
+  return false;
+}
+
+/** The legend's place: a free corner of the plot, else below it. */
+export function placeLegend(
+  lines: [number, number][][],
+  plot: Rect,
+  w: number,
+  h: number,
+  height: number,
+  belowH = h,
+): Rect & { where: 'top-right' | 'top-left' | 'bottom-right' | 'bottom-left' | 'below' } {
+  const pad = 3;
+  const corners = [
+    { where: 'top-right' as const, x: plot.x + plot.w - w - pad, y: plot.y + pad },
+    { where: 'top-left' as const, x: plot.x + pad, y: plot.y + pad },
+    { where: 'bottom-right' as const, x: plot.x + plot.w - w - pad, y: plot.y + plot.h - h - pad },
+    { where: 'bottom-left' as const, x: plot.x + pad, y: plot.y + plot.h - h - pad },
+  ];
+  for (const c of corners) {
+    // Two points of margin around the box, so a line does not graze it.
+    const r = { x: c.x - 2, y: c.y - 2, w: w + 4, h: h + 4 };
+    if (h < plot.h - 2 * pad && !lines.some((l) => crosses(l, r))) return { ...c, w, h };
+  }
+  return { where: 'below', x: plot.x, y: height + 2, w: plot.w, h: belowH };
+}
+
 export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpec; width?: number; height?: number }) {
   const f = spec.freqHz;
   if (!f.length || !spec.series.length) {
@@ -81,12 +147,29 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
     return d;
   };
   const shown = spec.series.filter((s) => s.values);
+  const legendH = shown.length * LEGEND_ROW + 2;
+  // The legend goes in the first corner of the plot that no line crosses (a limit line along the top
+  // must stay visible); when every corner is taken, it goes below the plot and the picture grows.
+  const points = shown.map((s) => {
+    const pts: [number, number][] = [];
+    for (let i = 0; i < f.length; i++) {
+      const v = s.values![i];
+      if (Number.isFinite(v)) pts.push([X(f[i]), Math.min(Math.max(Y(v), m.t), m.t + h)]);
+    }
+    return pts;
+  });
+  // Below the plot the legend runs across in columns, to keep the picture short.
+  const perRow = Math.max(1, Math.floor(w / LEGEND_W));
+  const belowH = Math.ceil(shown.length / perRow) * LEGEND_ROW + 2;
+  const legend = placeLegend(points, { x: m.l, y: m.t, w, h }, LEGEND_W, legendH, height, belowH);
+  const across = legend.where === 'below' ? perRow : 1;
+  const fullH = legend.where === 'below' ? height + belowH + 4 : height;
   return (
     <svg
       class="print-chart"
-      viewBox={`0 0 ${width} ${height}`}
+      viewBox={`0 0 ${width} ${fullH}`}
       width={width}
-      height={height}
+      height={fullH}
       role="img"
       aria-label={`${spec.title}: ${spec.summary.join(' ')}`}
       data-chart={spec.id}
@@ -132,14 +215,14 @@ export function PrintChart({ spec, width = 340, height = 200 }: { spec: ChartSpe
           );
         })}
       </g>
-      <g transform={`translate(${m.l + w - 4}, ${m.t + 6})`}>
-        <rect x={-96} y={-6} width={94} height={shown.length * 11 + 2} fill="#fff" fill-opacity="0.88" />
+      <g transform={`translate(${legend.x}, ${legend.y})`} data-legend={legend.where}>
+        <rect x={0} y={0} width={legend.w} height={legend.h} fill="#fff" fill-opacity="0.88" />
         {shown.map((s, i) => {
           const st = strokeOf(s.role);
           return (
-            <g transform={`translate(0, ${i * 11})`}>
-              <line x1={-92} x2={-76} y1={0} y2={0} stroke={st.color} stroke-width={st.width} stroke-dasharray={st.dash} />
-              <text x={-72} y={3} font-size="8" fill="#1b2225">
+            <g transform={`translate(${(i % across) * LEGEND_W}, ${Math.floor(i / across) * LEGEND_ROW + 6})`}>
+              <line x1={4} x2={20} y1={0} y2={0} stroke={st.color} stroke-width={st.width} stroke-dasharray={st.dash} />
+              <text x={24} y={3} font-size="8" fill="#1b2225">
                 {s.label}
               </text>
             </g>
