@@ -3,6 +3,7 @@
 // stored beside it. `designs` is the compared pair itself (the same objects as in the project),
 // rebuilt by `stateOf` whenever the project changes, so screens read A and B as before.
 import type { DesignDoc } from '../engine/design/document.ts';
+import type { UnitSystem } from './units.ts';
 import { getAt, setAt } from './paths.ts';
 import {
   addVariant,
@@ -54,6 +55,8 @@ export interface Settings {
   way?: Partial<Record<Slot, number>>;
   /** Curves: draw each way beside the system sum. */
   showWays?: boolean;
+  /** Display units (units.ts): metric unless set; design files stay SI-named either way. */
+  units?: UnitSystem;
 }
 
 export interface AppState {

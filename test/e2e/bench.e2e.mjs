@@ -84,7 +84,7 @@ export const tests = [
       const p = await benchPage(ctx);
       const dir = ctx.state.benchDir;
       // The design heard as A, as a file, from the app itself.
-      await p.locator('details.menu > summary').click();
+      await p.locator('[data-testid=files-menu] > summary').click();
       const [dl] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design A' }).click()]);
       writeFileSync(join(dir, 'a.json'), await streamBytes(await dl.createReadStream()));
       await p.getByTestId('render-offline').click();

@@ -8,6 +8,7 @@ import { LISTEN_MODES, LISTEN_MODE_LABEL, type DesignSlot, type ListenMode } fro
 import { fullScaleSineSplDb, gainToDb } from '../../audio/levels.ts';
 import type { ExportFormat } from '../../audio/wav-export.ts';
 import { useApp } from '../context.ts';
+import { distinctNames } from '../pair-names.ts';
 import { SLOTS, SLOT_LABEL } from '../store.ts';
 import { num } from '../format.ts';
 import { useBench } from '../bench/useBench.ts';
@@ -359,7 +360,8 @@ export function BenchNotices(p: { bench: BenchAudio; state: BenchState }) {
 export function ListeningBench(_p: { theme: string }) {
   const { state: app, store } = useApp();
   const { bench, state } = useBench(store);
-  const names = { a: app.designs.a.name, b: app.designs.b.name };
+  const [nameA, nameB] = distinctNames([app.designs.a.name, app.designs.b.name]);
+  const names = { a: nameA, b: nameB };
   return (
     <section class="sheet bench" aria-labelledby="bench-title" data-testid="bench">
       <h2 id="bench-title">Listening bench</h2>
