@@ -73,3 +73,8 @@ export function fileStem(name: string): string {
 export function plural(n: number, one: string, many = `${one}s`): string {
   return `${n} ${n === 1 ? one : many}`;
 }
+
+/** A sample rate as people write it: "44.1 kHz", "22.05 kHz", "48 kHz" (no trailing zeros). */
+export function kHz(hz: number): string {
+  return `${String(Number((hz / 1000).toPrecision(4)))} kHz`;
+}
