@@ -48,8 +48,8 @@ function designPart(parts: string[]): string | null {
 }
 
 /**
- * What differs from a to b, each part named once, in the order met: the way's name goes first
- * when a design has more than one way ("tweeter filter"). Names and notes do not count.
+ * What differs from a to b, each part named once, in the order met: a way after the first is named
+ * ("tweeter filter"); a different box type stands for all of its box. Names and notes do not count.
  */
 export function designDifferences(a: DesignDoc, b: DesignDoc): string[] {
   const words: string[] = [];
@@ -59,8 +59,8 @@ export function designDifferences(a: DesignDoc, b: DesignDoc): string[] {
   const waysA = a.ways ?? [];
   const waysB = b.ways ?? [];
   if (waysA.length !== waysB.length) add('number of ways');
-  const manyWays = Math.max(waysA.length, waysB.length) > 1;
-  for (const path of differingPaths(a, b)) {
+  const paths = differingPaths(a, b);
+  for (const path of paths) {
     const parts = path.split('.');
     if (parts[0] !== 'ways') {
       add(designPart(parts));
@@ -68,8 +68,11 @@ export function designDifferences(a: DesignDoc, b: DesignDoc): string[] {
     }
     const i = Number(parts[1]);
     if (!(i < waysA.length && i < waysB.length)) continue;
-    const part = wayPart(parts.slice(2));
-    if (part) add(manyWays ? `${waysA[i].name} ${part}` : part);
+    // Another box type says it all about the box: its volume, tuning and ports differ with it.
+    const boxTypeDiffers = paths.includes(`ways.${i}.box.type`);
+    const part = parts[2] === 'box' && boxTypeDiffers ? 'box type' : wayPart(parts.slice(2));
+    // The first way is the design's main one (the woofer): the others are named.
+    if (part) add(i === 0 ? part : `${waysA[i].name} ${part}`);
   }
   return words;
 }

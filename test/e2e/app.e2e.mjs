@@ -320,13 +320,17 @@ export const tests = [
       await p.waitForTimeout(150);
       await p.screenshot({ path: join(SHOTS, 'desktop-curves-radiator.png') });
       await p.getByRole('button', { name: 'Undo' }).click();
+      await p.getByTestId('view-menu').locator('summary').click();
       await p.locator('.theme select').selectOption('dark');
+      await p.getByTestId('view-menu').locator('summary').click();
       for (const [id, label] of [SCREENS[0], SCREENS[3]]) {
         await tab(p, label);
         await p.waitForTimeout(150);
         await p.screenshot({ path: join(SHOTS, `desktop-dark-${id}.png`) });
       }
+      await p.getByTestId('view-menu').locator('summary').click();
       await p.locator('.theme select').selectOption('auto');
+      await p.getByTestId('view-menu').locator('summary').click();
     },
   },
   {

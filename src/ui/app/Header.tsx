@@ -146,7 +146,7 @@ export function Header(p: { store: Store; state: AppState; derived: Record<Slot,
         <details class="menu tgroup" data-testid="view-menu">
           <summary>View</summary>
           <div class="menu-body menu-form">
-            <label>
+            <label class="theme">
               Theme
               <select
                 value={state.settings.theme}
