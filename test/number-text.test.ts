@@ -15,6 +15,12 @@ describe('three significant figures', () => {
     expect(significant(2.53707)).toBe('2.54');
     expect(significant(-0.0123456)).toBe('-0.0123');
     expect(fmt(4.98912)).toBe('4.99');
+    // Messages echo typed values as typed: no trailing zeros.
+    expect(fmt(2)).toBe('2');
+    expect(fmt(2.83)).toBe('2.83');
+    expect(fmt(15.6213)).toBe('15.6');
+    expect(fmt(12345)).toBe('12345');
+    expect(fmt(2.5e7)).toBe('2.50e+7');
   });
 
   it('carries a rounding into the next whole digit without a fourth figure', () => {

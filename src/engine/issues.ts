@@ -11,9 +11,13 @@ export interface Issue {
 export const error = (path: string, message: string): Issue => ({ path, message, severity: 'error' });
 export const warning = (path: string, message: string): Issue => ({ path, message, severity: 'warning' });
 
-/** Readable number for messages: three significant figures (number-text.ts), whole numbers kept whole. */
+/**
+ * Readable number for messages: three significant figures (number-text.ts), whole numbers kept whole
+ * and no trailing zeros, so a value the user typed reads as typed ("a 2 l box", "1 W").
+ */
 export function fmt(value: number): string {
-  return significant(value, 3);
+  const text = significant(value, 3);
+  return /e/.test(text) || !/\./.test(text) ? text : text.replace(/\.?0+$/, '');
 }
 
 /**
