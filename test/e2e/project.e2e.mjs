@@ -161,8 +161,15 @@ export const tests = [
         for (const f of await axeFindings(p)) problems.push(`${label}: ${f.impact} ${f.id} at ${f.nodes.join(', ')}`);
         await p.screenshot({ path: join(SHOTS, `project-${width}-${label.replace(/\W+/g, '-').toLowerCase()}.png`) });
       }
+      // Keyboard: the arrow keys cross from one group to the next, and the current screen is marked.
+      await tab(p, 'Curves');
+      await p.getByRole('tab', { name: 'Curves', exact: true }).focus();
+      await p.keyboard.press('ArrowRight');
+      await p.waitForSelector('[role=tab][aria-selected=true]:has-text("Listening bench")');
+      assert.equal(await p.evaluate(() => document.activeElement?.id), 'tab-bench');
+      assert.equal(await p.getByRole('tablist', { name: 'Listen' }).getByRole('tab', { selected: true }).getAttribute('id'), 'tab-bench');
       console.log(
-        `       at ${width} px: header and navigation ${ctx.state.chrome[width].height} px, ${ctx.state.chrome[width].rows} row of tabs`,
+        `       header and navigation at ${width} px: ${ctx.state.chrome[width].height} px, ${ctx.state.chrome[width].rows} row of tabs`,
       );
       assert.deepEqual(problems, []);
     },
