@@ -36,7 +36,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const { notices, notify } = useNotices();
 
   const derived = { a: derive('a', state.designs.a), b: derive('b', state.designs.b) };
-  const view: AppView = useMemo(() => ({ state, derived, dispatch: (i) => store.dispatch(i), store }), [state, derived.a, derived.b]);
+  const view: AppView = useMemo(
+    () => ({ state, derived, dispatch: (i) => store.dispatch(i), store, confirm }),
+    [state, derived.a, derived.b],
+  );
   const sharedView = useMemo(() => new SharedView(store, autosave), [store, autosave]);
   const deps: TransferDeps = {
     store,
