@@ -161,6 +161,21 @@ export const tests = [
         for (const f of await axeFindings(p)) problems.push(`${label}: ${f.impact} ${f.id} at ${f.nodes.join(', ')}`);
         await p.screenshot({ path: join(SHOTS, `project-${width}-${label.replace(/\W+/g, '-').toLowerCase()}.png`) });
       }
+      // Display units: the Cabinet and Drive & seat in inches, cubic feet and °F fit too.
+      await p.getByTestId('view-menu').locator('summary').click();
+      await p.getByTestId('units').selectOption('imperial');
+      await p.getByTestId('view-menu').locator('summary').click();
+      for (const label of ['Cabinet', 'Drive & seat']) {
+        await tab(p, label);
+        await p.waitForTimeout(150);
+        for (const o of await overflowing(p)) problems.push(`${label} (imperial): ${o}`);
+        for (const c of await clippedSelects(p)) problems.push(`${label} (imperial): select text cut, ${c}`);
+      }
+      assert.match(await p.locator('#screen').innerText(), /°F/);
+      await p.screenshot({ path: join(SHOTS, `project-${width}-drive-seat-imperial.png`) });
+      await p.getByTestId('view-menu').locator('summary').click();
+      await p.getByTestId('units').selectOption('metric');
+      await p.getByTestId('view-menu').locator('summary').click();
       // Keyboard: the arrow keys cross from one group to the next, and the current screen is marked.
       await tab(p, 'Curves');
       await p.getByRole('tab', { name: 'Curves', exact: true }).focus();
