@@ -81,7 +81,7 @@ describe('the programme stand-in', () => {
     expect(s.needV).toBeGreaterThan(40);
     const errors = analyze(loud).warnings.filter((w) => w.severity === 'error');
     expect(errors).toHaveLength(1);
-    expect(errors[0].message).toContain(`${Number(s.shortDb.toPrecision(4))} dB`);
+    expect(errors[0].message).toContain(`${Number(s.shortDb.toPrecision(3))} dB`);
     expect(errors[0].message).toContain('40 V');
   });
 

@@ -142,6 +142,11 @@ describe('the app', () => {
     await act(() => {
       fireEvent.click(screen.getByRole('button', { name: 'Remove way dome from design B' }));
     });
+    // Removing asks first.
+    expect(store.get().designs.b.ways.map((w) => w.name)).toEqual(['woofer', 'upper band', 'dome']);
+    await act(() => {
+      fireEvent.click(screen.getByRole('button', { name: 'Remove the way' }));
+    });
     expect(store.get().designs.b.ways.map((w) => w.name)).toEqual(['woofer', 'upper band']);
     await act(() => {
       fireEvent.click(screen.getByRole('button', { name: 'Undo' }));

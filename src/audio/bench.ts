@@ -1,6 +1,7 @@
 // The listening bench's browser glue: one audio context, the worklet node running BenchCore, the
 // render Worker, the loaded track and the bench's observable state. The UI reads `state` and calls
 // the methods; nothing here computes physics (the engine does, in the worklet and the Worker).
+import { fileSampleRate } from './file-rate.ts';
 import { integratedLoudness } from '../engine/level/loudness.ts';
 import { AudioContext, AudioWorkletNode, isSupported, type IAudioContext, type IAudioWorkletNode } from 'standardized-audio-context';
 import processorUrl from './processor.worklet.ts?worker&url';
@@ -45,7 +46,10 @@ export interface TrackInfo {
   name: string;
   source: 'demo' | 'file';
   frames: number;
+  /** The rate the track plays at (the audio context's: the browser resamples a file to it), Hz. */
   sampleRate: number;
+  /** The rate stored in the file's own header, Hz, when it could be read (file-rate.ts). */
+  fileSampleRate?: number;
   channels: number;
   /** The file had more channels than two: only the first two are used. */
   droppedChannels: number;
@@ -359,6 +363,7 @@ export class BenchAudio {
       // Before decoding: decoding takes the bytes over.
       const truncated = wavTruncation(bytes) ?? undefined;
       const keepable = bytes.byteLength <= MAX_KEPT_TRACK_BYTES;
+      const storedRate = await fileSampleRate(file);
       const copy = keepable && !restored ? bytes.slice(0) : null;
       let buf: AudioBuffer;
       try {
@@ -387,6 +392,7 @@ export class BenchAudio {
         name: file.name,
         source: 'file',
         sampleRate: ctx.sampleRate,
+        ...(storedRate ? { fileSampleRate: storedRate } : {}),
         droppedChannels: buf.numberOfChannels - n,
         truncated,
         kept: restored ? 'restored' : keepable ? 'kept' : 'too-large',

@@ -1,4 +1,5 @@
 // Problems found in a design or an input, as values: the UI and the CLI only present them.
+import { significant } from './number-text.ts';
 
 export interface Issue {
   /** Field path in the design document, e.g. "box.vb_l"; "" for the whole document. */
@@ -10,12 +11,13 @@ export interface Issue {
 export const error = (path: string, message: string): Issue => ({ path, message, severity: 'error' });
 export const warning = (path: string, message: string): Issue => ({ path, message, severity: 'warning' });
 
-/** Readable number for messages: 4 significant digits, no exponent for ordinary magnitudes. */
+/**
+ * Readable number for messages: three significant figures (number-text.ts), whole numbers kept whole
+ * and no trailing zeros, so a value the user typed reads as typed ("a 2 l box", "1 W").
+ */
 export function fmt(value: number): string {
-  if (!Number.isFinite(value)) return String(value);
-  const a = Math.abs(value);
-  if (a !== 0 && (a < 1e-3 || a >= 1e6)) return value.toExponential(3);
-  return String(Number(value.toPrecision(4)));
+  const text = significant(value, 3);
+  return /e/.test(text) || !/\./.test(text) ? text : text.replace(/\.?0+$/, '');
 }
 
 /**

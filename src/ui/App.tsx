@@ -36,7 +36,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const { notices, notify } = useNotices();
 
   const derived = { a: derive('a', state.designs.a), b: derive('b', state.designs.b) };
-  const view: AppView = useMemo(() => ({ state, derived, dispatch: (i) => store.dispatch(i), store }), [state, derived.a, derived.b]);
+  const view: AppView = useMemo(
+    () => ({ state, derived, dispatch: (i) => store.dispatch(i), store, confirm }),
+    [state, derived.a, derived.b],
+  );
   const sharedView = useMemo(() => new SharedView(store, autosave), [store, autosave]);
   const deps: TransferDeps = {
     store,
@@ -63,6 +66,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         <Header
           store={store}
           state={state}
+          derived={derived}
           actions={{
             importInto: (file, slot) => void importFile(deps, file, slot),
             exportDesign: (slot) => exportDesign(deps, slot),
@@ -70,8 +74,11 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             share: () => void makeShareUrl(deps).then((url) => url && setShare(url)),
             showCautions: () => setCautionsOpen(true),
             confirm,
+            compare: (slot, id) => store.dispatch({ type: 'compare', slot, id }),
+            openProject: () => setProjectOpen(true),
           }}
         />
+        <Tabs screen={current.id} go={go} />
         <Banners update={update} status={status} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
         <StorageBanners
           status={status}
@@ -79,13 +86,6 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           onExport={(slot) => exportDesign(deps, slot)}
           onKeepShared={() => void sharedView.keep()}
           onLeaveShared={() => void sharedView.leave()}
-        />
-        <Tabs
-          state={state}
-          derived={derived}
-          go={go}
-          compare={(slot, id) => store.dispatch({ type: 'compare', slot, id })}
-          openProject={() => setProjectOpen(true)}
         />
 
         <div class="body">

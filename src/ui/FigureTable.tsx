@@ -7,6 +7,7 @@ import { useApp } from './context.ts';
 import { PORT_SPEED_LIMIT } from './engine.ts';
 import { num, peakOf, TO_DISPLAY as K } from './format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from './store.ts';
+import { displayUnit, unitSystemOf } from './units.ts';
 import { sumOf, wayCurves, wayFigures, type WayCurvesView } from './analysis-view.ts';
 import { boxLabel } from './boxes.ts';
 import { useWayIndex } from './components/WayPicker.tsx';
@@ -98,15 +99,19 @@ export function FigureTable(p: { compact?: boolean; paper?: boolean }) {
   const pick = (rows: FigureRow[]) =>
     rows.filter(has).filter((r) => (!p.compact || COMPACT.includes(r.id)) && (!p.paper || !ON_PAPER_ELSEWHERE.includes(r.id)));
   const way = (s: Slot) => state.designs[s].ways[idx[s]];
+  const units = unitSystemOf(state.settings);
   const cells = (r: FigureRow) =>
     SLOTS.map((s) => {
       const c = ctx[s];
-      const v = c ? r.value(c) : null;
+      const raw = c ? r.value(c) : null;
       const over = c && r.over ? r.over(c) : false;
+      // The user's display units (units.ts): the rows are written in metric.
+      const unit = displayUnit(r.unit, units);
+      const v = raw === null || raw === undefined ? raw : unit.fromFile(raw);
       return (
         <td class={`n${over ? ' over' : ''}${derived[s].stale ? ' stale' : ''}`} data-testid={`fig-${s}-${r.id}`}>
           {num(v, r.digits ?? 3)}
-          {v !== null && v !== undefined && r.unit ? <span class="u"> {r.unit}</span> : null}
+          {v !== null && v !== undefined && unit.label ? <span class="u"> {unit.label}</span> : null}
           {over ? <span class="visually-hidden"> (over the limit)</span> : null}
         </td>
       );

@@ -4,6 +4,7 @@ import { analyze, parseDesign, suggestAlignments } from '../engine/index.ts';
 import type { Analysis } from '../engine/response/types.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import type { AlignmentSuggestion } from '../engine/align/index.ts';
+import { subsonicSuggestion, type SubsonicSuggestion } from '../engine/align/subsonic.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { Issue } from '../engine/issues.ts';
 import type { Slot } from './store.ts';
@@ -54,6 +55,18 @@ export function analysisOf(system: SpeakerSystem): Analysis {
     analysed.set(system, a);
   }
   return a;
+}
+
+const subsonics = new WeakMap<Analysis, SubsonicSuggestion | null>();
+
+/** The subsonic high-pass the design's first limit calls for, if any (engine align/subsonic.ts), once per analysis. */
+export function subsonicFor(system: SpeakerSystem, analysis: Analysis): SubsonicSuggestion | null {
+  let s = subsonics.get(analysis);
+  if (s === undefined) {
+    s = subsonicSuggestion(system, analysis);
+    subsonics.set(analysis, s);
+  }
+  return s;
 }
 
 export function suggestionsFor(system: SpeakerSystem): Suggestion[] {

@@ -1,17 +1,12 @@
 // Display formatting only: numbers to text with a sensible precision, SI values to display units.
 // No physics here; every value shown comes from the engine.
+import { significant } from '../engine/number-text.ts';
 
-/** Significant-digit formatting without exponents for ordinary magnitudes. */
+/** Significant-figure formatting for read-outs (the engine's one rule), with a proper minus sign and a dash for no value. */
 export function num(value: number | null | undefined, digits = 3): string {
   if (value === null || value === undefined || Number.isNaN(value)) return '—';
   if (!Number.isFinite(value)) return value > 0 ? '∞' : '−∞';
-  const a = Math.abs(value);
-  if (a === 0) return '0';
-  if (a >= 1e6 || a < 1e-4) return value.toExponential(digits - 1).replace('-', '−');
-  // Integers of more digits than asked stay whole (1234 Hz, not 1.23e3).
-  const intDigits = Math.floor(Math.log10(a)) + 1;
-  const decimals = Math.max(0, digits - intDigits);
-  return value.toFixed(decimals).replace('-', '−');
+  return significant(value, digits).replace('-', '−');
 }
 
 /** Fixed decimals, with a proper minus sign. */
@@ -77,4 +72,9 @@ export function fileStem(name: string): string {
 /** "1 warning", "3 warnings": a count with its noun in the right number. */
 export function plural(n: number, one: string, many = `${one}s`): string {
   return `${n} ${n === 1 ? one : many}`;
+}
+
+/** A sample rate as people write it: "44.1 kHz", "22.05 kHz", "48 kHz" (no trailing zeros). */
+export function kHz(hz: number): string {
+  return `${String(Number((hz / 1000).toPrecision(4)))} kHz`;
 }

@@ -3,6 +3,7 @@
 // stored beside it. `designs` is the compared pair itself (the same objects as in the project),
 // rebuilt by `stateOf` whenever the project changes, so screens read A and B as before.
 import type { DesignDoc } from '../engine/design/document.ts';
+import type { UnitSystem } from './units.ts';
 import { getAt, setAt } from './paths.ts';
 import {
   addVariant,
@@ -56,6 +57,8 @@ export interface Settings {
   showWays?: boolean;
   /** Curves: the charts the user chose not to see (chart ids; unknown ids are ignored). */
   curvesHidden?: string[];
+  /** Display units (units.ts): metric unless set; design files stay SI-named either way. */
+  units?: UnitSystem;
 }
 
 export interface AppState {

@@ -184,7 +184,7 @@ export const tests = [
     name: 'a share link round-trips the design pair in a fresh browser',
     fn: async (ctx) => {
       const p = await page(ctx);
-      await p.locator('.menu > summary').click();
+      await p.locator('[data-testid=files-menu] > summary').click();
       await p.getByRole('menuitem', { name: 'Share link…' }).click();
       const url = await p.locator('[data-testid=share-url]').inputValue();
       assert.ok(url.startsWith(ctx.server.origin + '/#pair=1.'), url);
@@ -236,7 +236,7 @@ export const tests = [
       assert.ok(bytes.length > 5000, `a real picture, ${bytes.length} bytes`);
       mkdirSync(SHOTS, { recursive: true });
       await png.saveAs(join(SHOTS, 'export-spl.png'));
-      await p.locator('.menu > summary').click();
+      await p.locator('[data-testid=files-menu] > summary').click();
       const [file] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design A' }).click()]);
       assert.match(file.suggestedFilename(), /\.preheard\.json$/);
       const doc = JSON.parse((await streamBytes(await file.createReadStream())).toString('utf8'));
@@ -276,7 +276,7 @@ export const tests = [
       assert.ok(at(100)[col] < at(100)[sumCol] - 40, `tweeter at 100 Hz ${at(100)[col]} dB, sum ${at(100)[sumCol]} dB`);
       assert.ok(Number.isFinite(at(1000)[col]) && at(1000)[col] > at(100)[col] + 40, `tweeter rises toward its band: ${at(1000)[col]} dB`);
       // Exported, the design is a version 2 file with the tweeter, and the engine's parseDesign accepts it.
-      await p.locator('.menu > summary').click();
+      await p.locator('[data-testid=files-menu] > summary').click();
       const [file] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design B' }).click()]);
       const text = (await streamBytes(await file.createReadStream())).toString('utf8');
       const doc = JSON.parse(text);
@@ -320,13 +320,17 @@ export const tests = [
       await p.waitForTimeout(150);
       await p.screenshot({ path: join(SHOTS, 'desktop-curves-radiator.png') });
       await p.getByRole('button', { name: 'Undo' }).click();
+      await p.getByTestId('view-menu').locator('summary').click();
       await p.locator('.theme select').selectOption('dark');
+      await p.getByTestId('view-menu').locator('summary').click();
       for (const [id, label] of [SCREENS[0], SCREENS[3]]) {
         await tab(p, label);
         await p.waitForTimeout(150);
         await p.screenshot({ path: join(SHOTS, `desktop-dark-${id}.png`) });
       }
+      await p.getByTestId('view-menu').locator('summary').click();
       await p.locator('.theme select').selectOption('auto');
+      await p.getByTestId('view-menu').locator('summary').click();
     },
   },
   {

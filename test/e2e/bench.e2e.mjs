@@ -84,7 +84,7 @@ export const tests = [
       const p = await benchPage(ctx);
       const dir = ctx.state.benchDir;
       // The design heard as A, as a file, from the app itself.
-      await p.locator('details.menu > summary').click();
+      await p.locator('[data-testid=files-menu] > summary').click();
       const [dl] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design A' }).click()]);
       writeFileSync(join(dir, 'a.json'), await streamBytes(await dl.createReadStream()));
       await p.getByTestId('render-offline').click();
@@ -240,6 +240,10 @@ export const tests = [
       }
       await p.getByTestId('audio-file').setInputFiles({ name: 'cut.wav', mimeType: 'audio/wav', buffer: b });
       await p.waitForSelector('[data-testid=track-name]:has-text("cut.wav")');
+      // The file's own 48 kHz is shown, with the rate it plays at when the browser resampled it.
+      const line = p.getByTestId('track-name');
+      assert.equal(await line.getAttribute('data-file-rate'), '48000');
+      if (Number(await line.getAttribute('data-rate')) !== 48000) assert.match(await line.innerText(), /48 kHz file, played at \d/);
       const notice = await p.getByTestId('track-truncated').innerText();
       assert.match(notice, /ends early: its header announces 0:02.0 of audio, but only 0:00.5 is in/);
     },

@@ -12,6 +12,8 @@ const AXE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.mi
 const SHOTS = join(ROOT, 'test', 'e2e', 'screenshots');
 const WIDTHS = [1280, 820];
 const WALK = ['Listening bench', 'Stress strip', 'Blind trial', 'Headroom probe', 'Client sheet'];
+/** The header and the navigation together stay under this height (px) at both widths (our target; 185 px before at 820). */
+const CHROME_LIMIT_PX = { 1280: 90, 820: 130 };
 
 async function projectPage(ctx) {
   if (ctx.state.projectPage && !ctx.state.projectPage.isClosed()) return ctx.state.projectPage;
@@ -72,6 +74,20 @@ function clippedSelects(p) {
   });
 }
 
+/** The header's and navigation's height, the rows the tabs take, and whether the navigation scrolls. */
+function chrome(p) {
+  return p.evaluate(() => {
+    const header = document.querySelector('header.top').getBoundingClientRect();
+    const nav = document.querySelector('nav.tabs');
+    const tops = new Set([...nav.querySelectorAll('[role=tab]')].map((t) => Math.round(t.getBoundingClientRect().top)));
+    return {
+      height: Math.round(nav.getBoundingClientRect().bottom - header.top),
+      rows: tops.size,
+      scrolls: nav.scrollWidth > nav.clientWidth + 1,
+    };
+  });
+}
+
 async function axeFindings(p) {
   // The page's Content-Security-Policy refuses inline scripts: the engine goes in through the debugger protocol.
   if (!(await p.evaluate(() => 'axe' in window))) await p.evaluate(AXE);
@@ -89,7 +105,8 @@ export const tests = [
     fn: async (ctx) => {
       const p = await projectPage(ctx);
       await p.setViewportSize({ width: 1280, height: 900 });
-      await p.getByRole('button', { name: 'Reset to demo pair' }).click();
+      await p.getByTestId('pair-menu').locator('summary').click();
+      await p.getByRole('button', { name: 'Reset to demo pair…' }).click();
       await p.getByRole('dialog', { name: 'Reset to the demo pair?' }).getByRole('button', { name: 'Reset to the demo pair' }).click();
       await p.getByTestId('open-project').click();
       const dlg = p.getByRole('dialog', { name: 'Project' });
@@ -131,14 +148,44 @@ export const tests = [
       await p.setViewportSize({ width, height: 900 });
       mkdirSync(SHOTS, { recursive: true });
       const problems = [];
-      for (const label of ['Driver sheet', ...WALK]) {
+      for (const label of ['Driver sheet', 'Cabinet', 'Drive & seat', ...WALK]) {
         await tab(p, label);
         await p.waitForTimeout(150);
+        const c = await chrome(p);
+        if (c.rows !== 1 || c.scrolls) problems.push(`${label}: the navigation takes ${c.rows} rows${c.scrolls ? ' and scrolls' : ''}`);
+        if (c.height > CHROME_LIMIT_PX[width])
+          problems.push(`${label}: header and navigation ${c.height} px, over ${CHROME_LIMIT_PX[width]} px`);
+        ctx.state.chrome = { ...ctx.state.chrome, [width]: c };
         for (const o of await overflowing(p)) problems.push(`${label}: ${o}`);
         for (const c of await clippedSelects(p)) problems.push(`${label}: select text cut, ${c}`);
         for (const f of await axeFindings(p)) problems.push(`${label}: ${f.impact} ${f.id} at ${f.nodes.join(', ')}`);
         await p.screenshot({ path: join(SHOTS, `project-${width}-${label.replace(/\W+/g, '-').toLowerCase()}.png`) });
       }
+      // Display units: the Cabinet and Drive & seat in inches, cubic feet and °F fit too.
+      await p.getByTestId('view-menu').locator('summary').click();
+      await p.getByTestId('units').selectOption('imperial');
+      await p.getByTestId('view-menu').locator('summary').click();
+      for (const label of ['Cabinet', 'Drive & seat']) {
+        await tab(p, label);
+        await p.waitForTimeout(150);
+        for (const o of await overflowing(p)) problems.push(`${label} (imperial): ${o}`);
+        for (const c of await clippedSelects(p)) problems.push(`${label} (imperial): select text cut, ${c}`);
+      }
+      assert.match(await p.locator('#screen').innerText(), /°F/);
+      await p.screenshot({ path: join(SHOTS, `project-${width}-drive-seat-imperial.png`) });
+      await p.getByTestId('view-menu').locator('summary').click();
+      await p.getByTestId('units').selectOption('metric');
+      await p.getByTestId('view-menu').locator('summary').click();
+      // Keyboard: the arrow keys cross from one group to the next, and the current screen is marked.
+      await tab(p, 'Curves');
+      await p.getByRole('tab', { name: 'Curves', exact: true }).focus();
+      await p.keyboard.press('ArrowRight');
+      await p.waitForSelector('[role=tab][aria-selected=true]:has-text("Listening bench")');
+      assert.equal(await p.evaluate(() => document.activeElement?.id), 'tab-bench');
+      assert.equal(await p.getByRole('tablist', { name: 'Listen' }).getByRole('tab', { selected: true }).getAttribute('id'), 'tab-bench');
+      console.log(
+        `       header and navigation at ${width} px: ${ctx.state.chrome[width].height} px, ${ctx.state.chrome[width].rows} row of tabs`,
+      );
       assert.deepEqual(problems, []);
     },
   })),

@@ -21,7 +21,7 @@ async function open(ctx) {
 }
 
 const shareLinkOf = async (p) => {
-  await p.locator('.menu > summary').click();
+  await p.locator('[data-testid=files-menu] > summary').click();
   await p.getByRole('menuitem', { name: 'Share link…' }).click();
   const url = await p.locator('[data-testid=share-url]').inputValue();
   await p.getByRole('dialog', { name: 'Share link' }).getByRole('button', { name: 'Close' }).click();

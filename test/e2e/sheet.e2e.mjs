@@ -26,7 +26,8 @@ async function sheetPage(ctx) {
   const first = p.getByRole('button', { name: 'I understand' });
   if (await first.isVisible().catch(() => false)) await first.click();
   // Earlier tests edit the designs: start these from the demo pair.
-  await p.getByRole('button', { name: 'Reset to demo pair' }).click();
+  await p.getByTestId('pair-menu').locator('summary').click();
+  await p.getByRole('button', { name: 'Reset to demo pair…' }).click();
   await p.getByRole('dialog', { name: 'Reset to the demo pair?' }).getByRole('button', { name: 'Reset to the demo pair' }).click();
   ctx.state.sheetPage = p;
   return p;

@@ -1,5 +1,6 @@
 // Plain-language comparison of two designs, built only from numbers the engine computed.
 // A sentence whose inputs are missing is left out rather than guessed.
+import { significant } from '../number-text.ts';
 import type { Analysis } from '../response/types.ts';
 import { PORT_SPEED_LIMIT } from '../response/analyze.ts';
 import { roomSentence } from '../room/sentence.ts';
@@ -85,7 +86,7 @@ export function verdict(
   out.push({
     id: 'bass',
     text:
-      `With the same ${one(a.driveV)} V: at 30 Hz ${na} gives ${one(fa.spl30Db)} dB and ${nb} ${one(fb.spl30Db)} dB; ` +
+      `With the same ${significant(a.driveV)} V: at 30 Hz ${na} gives ${one(fa.spl30Db)} dB and ${nb} ${one(fb.spl30Db)} dB; ` +
       `at 40 Hz ${one(fa.spl40Db)} and ${one(fb.spl40Db)} dB; at 50 Hz ${one(fa.spl50Db)} and ${one(fb.spl50Db)} dB at the seat. ` +
       louder(na, nb, fa.spl40Db, fb.spl40Db, 'at 40 Hz'),
   });

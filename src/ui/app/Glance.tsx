@@ -1,6 +1,7 @@
 // The side panel beside the narrow screens: key figures, SPL and excursion, the checks.
 import { FigureTable } from '../FigureTable.tsx';
 import { IssueList } from '../IssueList.tsx';
+import { SubsonicOffers } from '../components/SubsonicOffer.tsx';
 import { ChartCard, useCharts } from '../screens/Curves.tsx';
 
 const GLANCE_CHARTS = ['spl', 'excursion'] as const;
@@ -17,6 +18,7 @@ export function Glance({ theme }: { theme: string }) {
       <section class="glance-checks" aria-label="Checks">
         <h3>Checks</h3>
         <IssueList />
+        <SubsonicOffers />
       </section>
     </aside>
   );

@@ -1,19 +1,12 @@
-// The screen tabs (arrow keys, Home and End move between them) and the two compared variants, each
-// chosen from the project's variants, with the project's own dialog one button away.
-import type { Derived } from '../engine.ts';
-import { SLOTS, SLOT_LABEL, type AppState, type ScreenId, type Slot } from '../store.ts';
-import { SCREENS } from './screens.tsx';
-import { plural } from '../format.ts';
+// The screen navigation: ten screens in three groups (Design, Listen, Decide), one row at tablet and
+// desktop widths. Each group is a tab list with one tab stop; arrow keys, Home and End move through
+// all ten screens. Narrow windows show each tab's short label (a word of its name, which stays the
+// tab's accessible name).
+import type { ScreenId } from '../store.ts';
+import { SCREENS, SCREEN_GROUPS } from './screens.tsx';
 
-export function Tabs(p: {
-  state: AppState;
-  derived: Record<Slot, Derived>;
-  go: (screen: ScreenId) => void;
-  compare: (slot: Slot, id: string) => void;
-  openProject: () => void;
-}) {
-  const { project } = p.state;
-  const screen = p.state.settings.screen;
+export function Tabs(p: { screen: ScreenId; go: (screen: ScreenId) => void }) {
+  const { screen } = p;
   const onTabKey = (e: KeyboardEvent) => {
     const i = SCREENS.findIndex((s) => s.id === screen);
     let j = -1;
@@ -27,52 +20,38 @@ export function Tabs(p: {
     document.getElementById(`tab-${SCREENS[j].id}`)?.focus();
   };
   return (
-    <nav class="tabs" aria-label="Screens">
-      <div role="tablist" aria-label="Screens" onKeyDown={onTabKey}>
-        {SCREENS.map((s) => (
-          <button
-            type="button"
-            role="tab"
-            id={`tab-${s.id}`}
-            aria-selected={screen === s.id}
-            aria-controls="screen"
-            tabIndex={screen === s.id ? 0 : -1}
-            class={screen === s.id ? 'active' : ''}
-            onClick={() => p.go(s.id)}
-          >
-            {s.label}
-          </button>
-        ))}
-      </div>
-      <div class="pair" role="group" aria-label="The two variants compared">
-        {SLOTS.map((s) => (
-          <span class={`pair-item pair-${s}`}>
-            <label class="pair-pick">
-              <span class={`chip chip-${s}`} aria-hidden="true">
-                {SLOT_LABEL[s]}
-              </span>
-              <span class="visually-hidden">Variant compared as {SLOT_LABEL[s]}</span>
-              <select
-                class="pair-name"
-                data-testid={`compare-${s}`}
-                value={project.compared[s]}
-                title={p.state.designs[s].name}
-                onChange={(e) => p.compare(s, (e.currentTarget as HTMLSelectElement).value)}
-              >
-                {project.variants.map((v) => (
-                  <option value={v.id}>{v.design.name}</option>
-                ))}
-              </select>
-            </label>
-            {p.derived[s].parse.ok ? null : (
-              <span class="badge-error">{plural(p.derived[s].issues.filter((i) => i.severity === 'error').length, 'error')}</span>
-            )}
-          </span>
-        ))}
-        <button type="button" class="project-button" data-testid="open-project" onClick={p.openProject}>
-          Project ({project.variants.length})
-        </button>
-      </div>
+    <nav class="tabs" aria-label="Screens" onKeyDown={onTabKey}>
+      {SCREEN_GROUPS.map((group) => {
+        const members = SCREENS.filter((s) => s.group === group);
+        // One tab stop per group: its current screen, else its first.
+        const stop = members.some((s) => s.id === screen) ? screen : members[0].id;
+        const current = members.some((s) => s.id === screen);
+        return (
+          <div class={`tab-group${current ? ' current' : ''}`}>
+            <span class="tab-group-name" id={`tabs-${group}`} aria-hidden="true">
+              {group}
+            </span>
+            <div role="tablist" aria-label={group}>
+              {members.map((s) => (
+                <button
+                  type="button"
+                  role="tab"
+                  id={`tab-${s.id}`}
+                  aria-label={s.label}
+                  aria-selected={screen === s.id}
+                  aria-controls="screen"
+                  tabIndex={s.id === stop ? 0 : -1}
+                  class={screen === s.id ? 'active' : ''}
+                  data-short={s.short}
+                  onClick={() => p.go(s.id)}
+                >
+                  <span class="tab-label">{s.label}</span>
+                </button>
+              ))}
+            </div>
+          </div>
+        );
+      })}
     </nav>
   );
 }

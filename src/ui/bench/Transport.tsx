@@ -178,8 +178,7 @@ export function Transport(p: { bench: BenchAudio; state: BenchState; store: Stor
               data-lane={state.lastSwitch.lane}
               title="The worklet checks every switch: it begins on a block boundary and no output step exceeds what the crossfade of the two lanes allows"
             >
-              Switched to {LANE_TEXT[state.lastSwitch.lane]} at sample {state.lastSwitch.blockFrame.toLocaleString('en')} (block{' '}
-              {state.lastSwitch.blockFrame / state.lastSwitch.quantum}),{' '}
+              Switched to {LANE_TEXT[state.lastSwitch.lane]} at {clock(state.lastSwitch.blockFrame / (state.sampleRate || 48000), 1)},{' '}
               {((state.lastSwitch.fadeFrames / (state.sampleRate || 48000)) * 1000).toFixed(0)} ms crossfade
               {state.lastSwitch.worstRatio <= 1 ? ', clean' : ', with a step beyond the crossfade'}
             </span>

@@ -4,6 +4,7 @@
 // the lane has its design, a block or two later.
 import type { BenchAudio, BenchState } from '../../audio/bench.ts';
 import { MAX_BENCH_VARIANTS, type Project, type Variant } from '../project.ts';
+import { distinctNames } from '../pair-names.ts';
 import { SLOTS, SLOT_LABEL, type Slot, type Store } from '../store.ts';
 
 /** The variants on the bench: the compared pair first, then the project's next ones, four at most. */
@@ -25,13 +26,15 @@ export function VariantSwitch(p: { bench: BenchAudio; state: BenchState; store: 
   };
   return (
     <div class="variant-switch" role="radiogroup" aria-label="Variant heard" data-testid="variant-switch">
-      {benchVariants(project).map((v) => {
+      {benchVariants(project).map((v, i, shown) => {
         const slot = slotOf(v.id);
         const on = slot !== null && p.state.lane === slot;
         return (
           <button type="button" role="radio" aria-checked={on} class={`lane${on ? ' on' : ''}`} onClick={() => listen(v)}>
             {slot ? <span class={`chip chip-${slot}`}>{SLOT_LABEL[slot]}</span> : null}
-            <span class="lane-name">{v.design.name}</span>
+            <span class="lane-name" title={v.design.name}>
+              {distinctNames(shown.map((w) => w.design.name))[i]}
+            </span>
           </button>
         );
       })}

@@ -41,8 +41,11 @@ export const colourOf = (kind: EventKind, theme: string) => KIND_COLOUR[kind][th
 
 export function clock(seconds: number, decimals = 1): string {
   if (!Number.isFinite(seconds) || seconds < 0) seconds = 0;
-  const m = Math.floor(seconds / 60);
-  const s = seconds - m * 60;
+  // Round first, so 59.96 s reads 1:00.0 rather than 0:60.0.
+  const scale = 10 ** decimals;
+  const rounded = Math.round(seconds * scale) / scale;
+  const m = Math.floor(rounded / 60);
+  const s = rounded - m * 60;
   return `${m}:${s.toFixed(decimals).padStart(decimals ? 3 + decimals : 2, '0')}`;
 }
 

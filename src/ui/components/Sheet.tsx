@@ -5,11 +5,14 @@ import type { SpeakerSystem } from '../../engine/system.ts';
 import { useApp } from '../context.ts';
 import { getAt, normalizePath, pathMatches } from '../paths.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
-import { num } from '../format.ts';
+import { num, withUnit } from '../format.ts';
+import { distinctNames } from '../pair-names.ts';
+import { displayUnit, fieldValue, unitSystemOf } from '../units.ts';
 import { NumberField } from './NumberField.tsx';
 
 export function Sheet(p: { title: string; id: string; children: ComponentChildren; intro?: ComponentChildren }) {
   const { state } = useApp();
+  const short = distinctNames(SLOTS.map((s) => state.designs[s].name));
   return (
     <section class="sheet" aria-labelledby={`${p.id}-h`}>
       <h2 id={`${p.id}-h`}>{p.title}</h2>
@@ -19,9 +22,9 @@ export function Sheet(p: { title: string; id: string; children: ComponentChildre
           <span role="columnheader" class="qty">
             Quantity
           </span>
-          {SLOTS.map((s) => (
-            <span role="columnheader" class={`slot-head slot-${s}`}>
-              <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {state.designs[s].name}
+          {SLOTS.map((s, i) => (
+            <span role="columnheader" class={`slot-head slot-${s}`} title={state.designs[s].name}>
+              <span class={`chip chip-${s}`}>{SLOT_LABEL[s]}</span> {short[i]}
             </span>
           ))}
         </div>
@@ -117,28 +120,35 @@ function fromSlider(pos: number, s: NonNullable<NumProps['slider']>): number {
 /** A numeric design field bound to the store, with the engine's messages and the model's value. */
 export function Num(p: NumProps) {
   const { state, derived, dispatch } = useApp();
+  // The field shows and takes the user's display unit; the design keeps its file unit.
+  const unit = displayUnit(p.unit, unitSystemOf(state.settings));
   const value = getAt(state.designs[p.slot], p.path);
+  const shownValue = fieldValue(value, unit);
   const also = (p.alsoPaths ?? []).map(normalizePath);
   const issues = derived[p.slot].issues.filter((i) => pathMatches(i.path, p.path) || also.includes(normalizePath(i.path)));
   const m = useModel(p.slot);
-  const modelValue = p.model && m.system ? p.model(m.system, m.analysis) : null;
+  const modelFile = p.model && m.system ? p.model(m.system, m.analysis) : null;
+  const modelValue = modelFile === null ? null : unit.fromFile(modelFile);
   const typed = typeof value === 'number';
   // Beside a typed value the model's own value appears only when it differs: that is the news.
-  const differs = modelValue !== null && typed && Math.abs(modelValue - (value as number)) > 5e-4 * Math.max(Math.abs(modelValue), 1e-9);
+  const differs = modelFile !== null && typed && Math.abs(modelFile - (value as number)) > 5e-4 * Math.max(Math.abs(modelFile), 1e-9);
   const showModel = modelValue !== null && (!typed || differs);
   return (
     <div class="num">
       <NumberField
         id={fieldId(p.slot, p.path)}
         label={`${p.label}, design ${SLOT_LABEL[p.slot]}`}
-        value={value}
-        unit={p.unit}
+        value={shownValue}
+        unit={unit.label}
         step={p.step}
         min={p.min}
         max={p.max}
         issues={issues}
         placeholder={p.placeholder ?? (modelValue !== null && !typed ? num(modelValue, p.modelDigits ?? 3) : undefined)}
-        onCommit={(v) => (p.commit ? p.commit(v) : dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v }))}
+        onCommit={(typedValue) => {
+          const v = typedValue === undefined ? undefined : unit.toFile(typedValue);
+          return p.commit ? p.commit(v) : dispatch({ type: 'edit', slot: p.slot, path: p.path, value: v });
+        }}
       />
       {p.slider ? (
         <input
@@ -149,7 +159,7 @@ export function Num(p: NumProps) {
           step={1}
           value={typeof value === 'number' ? toSlider(value, p.slider) : 0}
           aria-label={`${p.label}, design ${SLOT_LABEL[p.slot]}, slider`}
-          aria-valuetext={typeof value === 'number' ? `${value}${p.unit ? ' ' + p.unit : ''}` : undefined}
+          aria-valuetext={typeof shownValue === 'number' ? withUnit(num(shownValue, 3), unit.label) : undefined}
           onInput={(e) =>
             dispatch({
               type: 'edit',
@@ -167,8 +177,7 @@ export function Num(p: NumProps) {
         >
           {typed ? (
             <>
-              <span class="model-tag">model</span> {num(modelValue, p.modelDigits ?? 3)}
-              {p.unit ? ` ${p.unit}` : ''}
+              <span class="model-tag">model</span> {withUnit(num(modelValue, p.modelDigits ?? 3), unit.label)}
             </>
           ) : (
             <span class="model-tag">{p.emptyTag ?? 'derived'}</span>
@@ -181,10 +190,12 @@ export function Num(p: NumProps) {
 
 /** A derived quantity: engine output only. */
 export function Out(p: { value: number | null | undefined; unit?: string; digits?: number; stale?: boolean; note?: string }) {
+  const { state } = useApp();
+  const unit = displayUnit(p.unit, unitSystemOf(state.settings));
+  const shown = p.value === null || p.value === undefined ? p.value : unit.fromFile(p.value);
   return (
     <output class={`out${p.stale ? ' stale' : ''}`}>
-      {num(p.value, p.digits ?? 3)}
-      {p.unit && p.value !== null && p.value !== undefined ? ` ${p.unit}` : ''}
+      {withUnit(num(shown, p.digits ?? 3), unit.label)}
       {p.note ? <span class="out-note"> {p.note}</span> : null}
     </output>
   );

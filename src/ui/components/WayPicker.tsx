@@ -24,7 +24,7 @@ export function useShownWays(): Record<Slot, { index: number; way: WayDoc; path:
 const other = (s: Slot): Slot => (s === 'a' ? 'b' : 'a');
 
 function WayControls(p: { slot: Slot }) {
-  const { state, dispatch, store } = useApp();
+  const { state, dispatch, store, confirm } = useApp();
   const idx = useWayIndex();
   const doc = state.designs[p.slot];
   const index = idx[p.slot];
@@ -39,9 +39,17 @@ function WayControls(p: { slot: Slot }) {
     dispatch({ type: 'replace', slot: p.slot, design: next, reason: `add a ${kind} way to ${label}` });
     select(p.slot, next.ways.length - 1);
   };
-  const remove = () => {
+  const remove = async () => {
+    const name = store.get().designs[p.slot].ways[index].name;
+    const ok = confirm
+      ? await confirm({
+          title: 'Remove this way?',
+          text: `The way “${name}” of design ${label} goes, with its driver, box and filter. Undo brings it back.`,
+          action: 'Remove the way',
+        })
+      : true;
+    if (!ok) return;
     const cur = store.get().designs[p.slot];
-    const name = cur.ways[index].name;
     dispatch({ type: 'replace', slot: p.slot, design: removeWay(cur, index), reason: `remove way “${name}” from ${label}` });
     select(p.slot, Math.max(0, index - 1));
   };
@@ -92,7 +100,7 @@ function WayControls(p: { slot: Slot }) {
         disabled={!canRemoveWay(doc, index)}
         title={canRemoveWay(doc, index) ? undefined : 'A design keeps at least one way with a driver'}
         aria-label={`Remove way ${doc.ways[index].name} from design ${label}`}
-        onClick={remove}
+        onClick={() => void remove()}
       >
         Remove
       </button>

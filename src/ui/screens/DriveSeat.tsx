@@ -8,9 +8,9 @@ import { RoomPairSwitch, RoomSketch } from '../components/RoomSketch.tsx';
 
 const SPACES: { value: ListeningDoc['space']; label: string }[] = [
   { value: 'full', label: 'Free field (full space)' },
-  { value: 'half', label: 'On a floor or against a wall (half space)' },
+  { value: 'half', label: 'Floor or wall (half space)' },
   { value: 'quarter', label: 'Floor and wall (quarter space)' },
-  { value: 'eighth', label: 'In a corner (eighth space)' },
+  { value: 'eighth', label: 'Corner (eighth space)' },
 ];
 
 type LevelMode = PlannedLevelDoc['mode'];
@@ -181,8 +181,8 @@ export function DriveSeat() {
               label="Planned level stated as"
               value={level(s)?.mode ?? 'spl'}
               options={[
-                { value: 'spl', label: 'SPL at the seat (long-term, C-weighted)' },
-                { value: 'volts', label: 'Amplifier volts at digital full scale' },
+                { value: 'spl', label: 'SPL at the seat, Leq dB(C)' },
+                { value: 'volts', label: 'Volts at digital full scale' },
               ]}
               onChange={(v) => setMode(s, v)}
             />

@@ -8,8 +8,9 @@ import { LISTEN_MODES, LISTEN_MODE_LABEL, type DesignSlot, type ListenMode } fro
 import { fullScaleSineSplDb, gainToDb } from '../../audio/levels.ts';
 import type { ExportFormat } from '../../audio/wav-export.ts';
 import { useApp } from '../context.ts';
+import { distinctNames } from '../pair-names.ts';
 import { SLOTS, SLOT_LABEL } from '../store.ts';
-import { num } from '../format.ts';
+import { kHz, num } from '../format.ts';
 import { useBench } from '../bench/useBench.ts';
 import { Transport } from '../bench/Transport.tsx';
 import { Overview } from '../bench/Overview.tsx';
@@ -25,6 +26,13 @@ function plannedText(d: DesignDoc): string {
   return lv.mode === 'spl'
     ? `${num(lv.spl_db, 3)} dB(C) Leq at ${num(l.distance_m, 3)} m, ${space}`
     : `${num(lv.volts_fs, 3)} V peak at full scale`;
+}
+
+/** The rate the track plays at, and the file's own when the browser resampled it. */
+function rateText(t: { sampleRate: number; fileSampleRate?: number }): string {
+  return t.fileSampleRate && t.fileSampleRate !== t.sampleRate
+    ? `${kHz(t.fileSampleRate)} file, played at ${kHz(t.sampleRate)}`
+    : kHz(t.sampleRate);
 }
 
 function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
@@ -52,10 +60,10 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
       <div class="track-info">
         <h3>Track</h3>
         {t ? (
-          <p class="track-line" data-testid="track-name" data-rate={t.sampleRate} data-frames={t.frames}>
+          <p class="track-line" data-testid="track-name" data-rate={t.sampleRate} data-file-rate={t.fileSampleRate} data-frames={t.frames}>
             <b>{t.name}</b>
             <span class="fine">
-              {clock(t.frames / t.sampleRate)} · {(t.sampleRate / 1000).toFixed(1)} kHz · {t.channels === 1 ? 'mono' : 'stereo'}
+              {clock(t.frames / t.sampleRate)} · {rateText(t)} · {t.channels === 1 ? 'mono' : 'stereo'}
               {t.loudnessLufs !== undefined && Number.isFinite(t.loudnessLufs) ? (
                 <span title="Integrated loudness of the file itself (ITU-R BS.1770)">
                   {' '}
@@ -359,7 +367,8 @@ export function BenchNotices(p: { bench: BenchAudio; state: BenchState }) {
 export function ListeningBench(_p: { theme: string }) {
   const { state: app, store } = useApp();
   const { bench, state } = useBench(store);
-  const names = { a: app.designs.a.name, b: app.designs.b.name };
+  const [nameA, nameB] = distinctNames([app.designs.a.name, app.designs.b.name]);
+  const names = { a: nameA, b: nameB };
   return (
     <section class="sheet bench" aria-labelledby="bench-title" data-testid="bench">
       <h2 id="bench-title">Listening bench</h2>
