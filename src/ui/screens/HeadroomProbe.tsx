@@ -101,7 +101,10 @@ export function HeadroomProbe() {
             )}
           >
             <caption>
-              On “{probe.track?.name}”, searched in {fixed(probe.elapsedMs / 1000, 1)} s
+              On “{probe.track?.name}”,{' '}
+              {probe.restored
+                ? 'kept from your last visit (same designs, same track)'
+                : `searched in ${fixed(probe.elapsedMs / 1000, 1)} s`}
             </caption>
             <thead>
               <tr>
