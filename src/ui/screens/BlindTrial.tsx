@@ -216,7 +216,7 @@ export function BlindTrial() {
           </button>
           <p class="fine">
             Track:{' '}
-            {bench.track ? `${bench.track.name} (${clock(durationS!)})` : 'the demo track, unless you load one on the Listening bench'}.
+            {bench.track ? `${bench.track.name} (${clock(Math.round(durationS!))})` : 'the demo track, unless you load one on the Listening bench'}.
             Heard {LISTEN_MODE_LABEL[bench.mode]}.
           </p>
           {problems.length ? (
