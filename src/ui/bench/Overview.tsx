@@ -412,7 +412,8 @@ export function Overview(p: Props) {
             <span class="tip-row">
               <span>
                 {clock(tip.shares.fromS, 0)}–{clock(tip.shares.toS, 0)}:{' '}
-                {tip.shares.list.map((x) => `${KIND_LABEL[x.kind]} ${x.share < 0.01 ? '<1' : Math.round(100 * x.share)} %`).join(', ')} of the time
+                {tip.shares.list.map((x) => `${KIND_LABEL[x.kind]} ${x.share < 0.01 ? '<1' : Math.round(100 * x.share)} %`).join(', ')} of
+                the time
               </span>
             </span>
           ) : null}
