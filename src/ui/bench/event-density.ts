@@ -29,9 +29,9 @@ export function densityLane(slot: DesignSlot, events: readonly StressEvent[], du
     const start = Math.max(0, e.start_s);
     const end = Math.min(durationS, e.end_s);
     if (!(end > start)) continue;
-    let spans = byKind.get(e.kind);
-    if (!spans) byKind.set(e.kind, (spans = []));
-    spans.push([start, end]);
+    const spans = byKind.get(e.kind);
+    if (spans) spans.push([start, end]);
+    else byKind.set(e.kind, [[start, end]]);
   }
   const share = new Map<EventKind, Float32Array>();
   for (const [kind, spans] of byKind) {
