@@ -27,7 +27,7 @@ function deps(store: Store) {
     derived: {} as TransferDeps['derived'],
     notify: vi.fn(),
     showProblems: (r: ProblemReport) => problems.push(r),
-    openShared: (p: Project) => opened.push(p),
+    openShared: (p: Project) => void opened.push(p),
     confirm: async () => true,
   } satisfies TransferDeps;
   return { d, opened, problems };

@@ -41,7 +41,10 @@ export async function openShareFromLocation(d: TransferDeps): Promise<void> {
   const hash = location.hash;
   history.replaceState(null, '', location.pathname + location.search);
   try {
-    if (shareKind(hash) === 'project') return openSharedProject(d, await decodeProjectShare(hash));
+    if (shareKind(hash) === 'project') {
+      openSharedProject(d, await decodeProjectShare(hash));
+      return;
+    }
     const pair = await decodeShare(hash);
     const ra = validate(pair.a);
     const rb = validate(pair.b);
@@ -69,7 +72,10 @@ export async function openShareFromLocation(d: TransferDeps): Promise<void> {
 /** A shared project: every variant checked, all or nothing, then shown as a look like a shared pair. */
 function openSharedProject(d: TransferDeps, value: unknown): void {
   const r = readProject(value);
-  if (r.ok && r.kind === 'project') return d.openShared(r.project);
+  if (r.ok && r.kind === 'project') {
+    d.openShared(r.project);
+    return;
+  }
   d.showProblems({
     title: 'The shared link has problems',
     intro: 'Nothing was loaded; your designs are unchanged.',
