@@ -131,7 +131,13 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
               exportProject: () => exportProject(deps),
               importFile: (file) => void importFile(deps, file, 'a'),
               confirm,
-              share: () => void makeProjectShareUrl(deps).then((url) => url && setShare({ url, what: 'project' })),
+              // The link's dialog takes the project dialog's place.
+              share: () =>
+                void makeProjectShareUrl(deps).then((url) => {
+                  if (!url) return;
+                  setProjectOpen(false);
+                  setShare({ url, what: 'project' });
+                }),
             }}
             onClose={() => setProjectOpen(false)}
           />
