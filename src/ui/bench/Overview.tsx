@@ -26,7 +26,7 @@ const GUTTER = 74;
 const AXIS_H = 20;
 const LANE_H = 30;
 const LANE_GAP = 6;
-const DENSITY_H = 40;
+const DENSITY_H = 56;
 
 interface Props {
   bench: BenchAudio;
@@ -178,19 +178,14 @@ export function Overview(p: Props) {
         }
       }
     });
-    // Density lanes: per bin, the kinds' shares stacked from the bottom (the most serious lowest),
-    // scaled down together where kinds overlap in time; any share shows at least a hairline.
+    // Density lanes: one thin row per kind present (the most serious on top), each bin's bar as tall
+    // as its share of that second; kinds often overlap in time, so they are not stacked on each other.
     dens.forEach((lane, j) => {
       const y = densityY(j);
-      const h = DENSITY_H - 4;
       g.fillStyle = css(el, '--c-surface-2', '#f8faf9');
       g.fillRect(GUTTER, y, plotW, DENSITY_H);
       g.strokeStyle = grid;
       g.strokeRect(GUTTER + 0.5, y + 0.5, plotW - 1, DENSITY_H - 1);
-      g.beginPath();
-      g.moveTo(GUTTER, y + 2 + h / 2 + 0.5);
-      g.lineTo(GUTTER + plotW, y + 2 + h / 2 + 0.5);
-      g.stroke();
       g.fillStyle = css(el, lane.slot === 'a' ? '--c-a' : '--c-b', lane.slot === 'a' ? '#0b6b70' : '#c27c08');
       g.fillRect(8, y + 4, 16, 16);
       g.fillStyle = lane.slot === 'a' ? '#fff' : '#1b1300';
@@ -200,27 +195,24 @@ export function Overview(p: Props) {
       g.textAlign = 'left';
       g.fillStyle = muted;
       g.font = '10px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
-      g.fillText(lane.binS === 1 ? 'share of' : 'share per', 28, y + 10);
-      g.fillText(lane.binS === 1 ? 'each s' : `${lane.binS} s`, 28, y + 22);
+      g.fillText('share', 28, y + 10);
+      g.fillText(lane.binS === 1 ? 'per s' : `per ${lane.binS} s`, 28, y + 22);
       g.font = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
       const kinds = [...ORDER].reverse().filter((k) => lane.share.has(k));
-      for (let i = 0; i < lane.bins; i++) {
-        let sum = 0;
-        for (const k of kinds) sum += lane.share.get(k)![i];
-        if (sum <= 0) continue;
-        const scale = h / Math.max(1, sum);
-        const x0 = xOf(i * lane.binS);
-        const x1 = Math.max(x0 + 1, xOf(Math.min(duration, (i + 1) * lane.binS)) - (plotW / lane.bins > 4 ? 1 : 0));
-        let top = y + 2 + h;
-        for (const k of kinds) {
-          const v = lane.share.get(k)![i];
-          if (v <= 0) continue;
-          const bh = Math.max(1.5, v * scale);
-          g.fillStyle = colourOf(k, p.theme);
-          g.fillRect(x0, top - bh, x1 - x0, bh);
-          top -= bh;
+      const rowH = (DENSITY_H - 4) / Math.max(1, kinds.length);
+      const gap = plotW / lane.bins > 4 ? 1 : 0;
+      kinds.forEach((k, r) => {
+        const base = y + 2 + (r + 1) * rowH;
+        const share = lane.share.get(k)!;
+        g.fillStyle = colourOf(k, p.theme);
+        for (let i = 0; i < lane.bins; i++) {
+          if (share[i] <= 0) continue;
+          const x0 = xOf(i * lane.binS);
+          const x1 = Math.max(x0 + 1, xOf(Math.min(duration, (i + 1) * lane.binS)) - gap);
+          const bh = Math.max(1, share[i] * (rowH - 1));
+          g.fillRect(x0, base - bh, x1 - x0, bh);
         }
-      }
+      });
     });
     // Loop region.
     const loop = p.state.loop;
