@@ -26,6 +26,7 @@ import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
 import { decodedProblem, fileProblem, loudestBassStart, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
+import { fileSampleRate } from './file-rate.ts';
 import { forgetTrack, keepResults, keepTrack, keptResults, keptTrack, MAX_KEPT_TRACK_BYTES, resultsKey } from './kept-track.ts';
 import { levelFailure, levelProblem } from './level-message.ts';
 import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';
@@ -55,6 +56,8 @@ export interface TrackInfo {
   loudFromS?: number;
   /** Integrated programme loudness of the file itself (ITU-R BS.1770), LUFS; -Infinity when silent. */
   loudnessLufs?: number;
+  /** The rate the file itself stores (the track is decoded to the bench's `sampleRate`), Hz; absent when unknown. */
+  fileRate?: number;
   /** A file kept for the next visit, brought back from the last one, or too large to keep. */
   kept?: 'kept' | 'restored' | 'too-large';
   /** The WAV file ends before its header says: how long it should be and how much was read, s. */
@@ -358,6 +361,7 @@ export class BenchAudio {
       const bytes = await file.arrayBuffer();
       // Before decoding: decoding takes the bytes over.
       const truncated = wavTruncation(bytes) ?? undefined;
+      const fileRate = fileSampleRate(bytes) ?? undefined;
       const keepable = bytes.byteLength <= MAX_KEPT_TRACK_BYTES;
       const copy = keepable && !restored ? bytes.slice(0) : null;
       let buf: AudioBuffer;
@@ -389,6 +393,7 @@ export class BenchAudio {
         sampleRate: ctx.sampleRate,
         droppedChannels: buf.numberOfChannels - n,
         truncated,
+        fileRate,
         kept: restored ? 'restored' : keepable ? 'kept' : 'too-large',
       });
       if (!restored) {

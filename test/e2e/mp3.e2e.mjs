@@ -68,6 +68,9 @@ export const tests = [
         const frames = Number(await line.getAttribute('data-frames'));
         assert.ok(Math.abs(frames / rate - SECONDS) < 0.1, `decoded ${frames / rate} s at ${rate} Hz`);
         assert.match(await line.innerText(), /4:50/);
+        // The file's own rate beside the rate it plays at (the browser resamples to its own).
+        if (rate !== RATE)
+          assert.match(await line.innerText(), new RegExp(`22\\.05 kHz file, played at ${Number((rate / 1000).toPrecision(4))} kHz`));
         await p.waitForSelector('[data-testid=track-kept]:has-text("Kept on this device")', { timeout: 30_000 });
         // The planned levels come from the whole decoded track: finite volts for both designs.
         await p.waitForSelector('[data-testid=volts-a]:not(:has-text("—"))', { timeout: 60_000 });

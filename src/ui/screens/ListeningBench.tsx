@@ -17,6 +17,9 @@ import { clock, KIND_LABEL } from '../bench/palette.ts';
 import type { DesignDoc } from '../../engine/design/document.ts';
 import '../bench/bench.css';
 
+/** A sample rate in kHz as people write it: 22.05, 44.1, 48. */
+const kHz = (hz: number) => String(Number((hz / 1000).toPrecision(4)));
+
 function plannedText(d: DesignDoc): string {
   const l = d.listening;
   const lv = l.level;
@@ -55,7 +58,11 @@ function TrackCard(p: { bench: BenchAudio; state: BenchState }) {
           <p class="track-line" data-testid="track-name" data-rate={t.sampleRate} data-frames={t.frames}>
             <b>{t.name}</b>
             <span class="fine">
-              {clock(t.frames / t.sampleRate)} · {(t.sampleRate / 1000).toFixed(1)} kHz · {t.channels === 1 ? 'mono' : 'stereo'}
+              {clock(t.frames / t.sampleRate)} ·{' '}
+              {t.fileRate && t.fileRate !== t.sampleRate
+                ? `${kHz(t.fileRate)} kHz file, played at ${kHz(t.sampleRate)} kHz`
+                : `${kHz(t.sampleRate)} kHz`}{' '}
+              · {t.channels === 1 ? 'mono' : 'stereo'}
               {t.loudnessLufs !== undefined && Number.isFinite(t.loudnessLufs) ? (
                 <span title="Integrated loudness of the file itself (ITU-R BS.1770)">
                   {' '}
