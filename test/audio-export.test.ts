@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { OfflineAudioContext } from 'node-web-audio-api';
 import { encodeWav } from '../src/audio/wav-export.ts';
-import { exportStream, levelsFor, renderBoth } from '../src/audio/jobs.ts';
+import { exportStream, levelsFor, renderBoth, TrackCalibration } from '../src/audio/jobs.ts';
 import { renderBuffer, resolveVolts } from '../src/engine/render/index.ts';
 import { exampleSystem } from './helpers/audio-bench.ts';
 
@@ -56,7 +56,7 @@ describe('offline jobs', () => {
   const systems = { a: exampleSystem('sealed'), b: exampleSystem('vented') };
 
   it('resolve each design’s planned level for the track as the render does', () => {
-    const lv = levelsFor(track, systems);
+    const lv = levelsFor(new TrackCalibration(track), systems);
     for (const s of ['a', 'b'] as const) {
       const ref = resolveVolts(systems[s], track.channels, SR, {});
       expect(lv[s].voltsFs).toBe(ref.volts);
@@ -67,12 +67,35 @@ describe('offline jobs', () => {
 
   it('render both designs at their planned levels with progress, and export one stream the same length as the track', () => {
     const seen: number[] = [];
-    const r = renderBoth(track, systems, (f) => seen.push(f));
+    const cal = new TrackCalibration(track);
+    const r = renderBoth(cal, systems, (f) => seen.push(f));
     expect(seen.at(-1)).toBe(1);
     expect(r.a.summary.events).toEqual(renderBuffer(systems.a, track.channels, SR, {}).summary.events);
     expect(r.b.traces.excursionMm.length).toBeGreaterThan(90);
-    const ex = exportStream(track, systems.b, 'linear', '16');
+    const ex = exportStream(cal, systems.b, 'linear', '16');
     expect(ex.frames).toBe(SR);
     expect(ex.bytes.length).toBe(44 + SR * 2 * 2);
+  });
+
+  it('calibrate each design once per track: levels, render and export reuse it, with the same results', () => {
+    const cal = new TrackCalibration(track);
+    const lv = levelsFor(cal, systems);
+    expect(cal.passes).toBe(2);
+    const r = renderBoth(cal, structuredClone(systems));
+    exportStream(cal, structuredClone(systems.a), 'nonlinear', '16');
+    // The Worker gets a fresh copy of the designs with every message: the same content, no new pass.
+    expect(cal.passes).toBe(2);
+    for (const s of ['a', 'b'] as const) {
+      expect(r[s].summary.spl_db).toBeCloseTo(lv[s].splDb, 9);
+      // Bit for bit what a render that calibrates by itself gives.
+      const alone = renderBuffer(systems[s], track.channels, SR, { analysisOnly: true });
+      expect({ ...r[s].summary, realtime_factor: 0 }).toEqual({ ...alone.summary, realtime_factor: 0 });
+      expect(r[s].traces).toEqual(alone.traces);
+    }
+    // An edited design is calibrated again.
+    const edited = structuredClone(systems.a);
+    edited.listening.level = { mode: 'spl', splDb: 80 };
+    levelsFor(cal, { a: edited, b: systems.b });
+    expect(cal.passes).toBe(3);
   });
 });

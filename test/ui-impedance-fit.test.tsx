@@ -1,6 +1,6 @@
 // @vitest-environment happy-dom
 // The Driver sheet's "Fit from impedance": pick a sweep, fit, fill the driver fields, undo.
-import { afterEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { act, cleanup, fireEvent, render, screen, waitFor } from '@testing-library/preact';
 
 vi.mock('uplot', () => import('./helpers/fake-uplot.ts'));
@@ -10,8 +10,38 @@ import { Store } from '../src/ui/store.ts';
 import { Autosave, memoryBackend } from '../src/ui/persist.ts';
 import { demoPair } from '../src/ui/demo.ts';
 import { D, sweep, sweepText, truth } from './helpers/impedance-sweep.ts';
+import { setFitWorkerFactory, type FitWorkerLike } from '../src/ui/components/ImpedanceFitDialog.tsx';
+import { runFitJob, type FitJob, type FitReply } from '../src/ui/impedance-fit.worker.ts';
+import { runFit } from '../src/ui/impedance-fit.ts';
 
 afterEach(() => cleanup());
+
+/** Workers started by the dialog, run in this thread a moment later (the job cloned as a Worker would). */
+const started: { job: FitJob | null; terminated: boolean }[] = [];
+let hold = false;
+beforeEach(() => {
+  started.length = 0;
+  hold = false;
+  setFitWorkerFactory(() => {
+    const rec = { job: null as FitJob | null, terminated: false };
+    started.push(rec);
+    const w: FitWorkerLike = {
+      onmessage: null,
+      postMessage(job) {
+        rec.job = job;
+        if (hold) return;
+        setTimeout(() => {
+          const send = (m: FitReply) => !rec.terminated && w.onmessage?.({ data: structuredClone(m) } as MessageEvent<FitReply>);
+          runFitJob(structuredClone(job), send);
+        }, 0);
+      },
+      terminate() {
+        rec.terminated = true;
+      },
+    };
+    return w;
+  });
+});
 
 function mount() {
   const store = new Store(demoPair);
@@ -44,11 +74,20 @@ describe('Driver sheet: fit from impedance', () => {
     fireEvent.input(screen.getByLabelText('Cone area Sd (cm²)'), { target: { value: '133' } });
     const fit = screen.getByRole('button', { name: 'Fit' });
     await waitFor(() => expect(fit.hasAttribute('disabled')).toBe(false));
-    // The second file is read asynchronously too: wait until the fit uses it.
-    await waitFor(() => {
-      fireEvent.click(fit);
-      expect(screen.getByLabelText('Fitted parameters').textContent).toMatch(/Vas[\d.]+ ± [\d.]+ L/);
-    });
+    // The second file is read asynchronously too: fit again until the fit uses it.
+    await waitFor(
+      () => {
+        const table = screen.queryByLabelText('Fitted parameters');
+        if (/Vas[\d.]+ ± [\d.]+ L/.test(table?.textContent ?? '')) return;
+        const again = screen.queryByRole('button', { name: 'Fit' });
+        if (again) fireEvent.click(again);
+        throw new Error('no Vas from the second sweep yet');
+      },
+      { timeout: 15_000 },
+    );
+    // It ran in the worker: every start had a job, and the page's thread fitted nothing itself.
+    expect(started.length).toBeGreaterThan(0);
+    expect(started.every((w) => w.job?.type === 'fit')).toBe(true);
     await act(() => {
       fireEvent.click(screen.getByRole('button', { name: 'Fill the driver fields' }));
     });
@@ -77,6 +116,46 @@ describe('Driver sheet: fit from impedance', () => {
     const fit = screen.getByRole('button', { name: 'Fit' });
     await waitFor(() => expect(fit.hasAttribute('disabled')).toBe(false));
     fireEvent.click(fit);
-    expect(screen.getByRole('alert').textContent).toBe('bad.txt, line 3: "x" is not a number');
+    await waitFor(() => expect(screen.getByRole('alert').textContent).toBe('bad.txt, line 3: "x" is not a number'));
+  });
+
+  it('shows progress while the worker fits, and cancels by ending the worker', async () => {
+    hold = true;
+    mount();
+    fireEvent.click(screen.getAllByRole('button', { name: 'Fit from impedance…' })[0]);
+    const dialog = await screen.findByRole('dialog');
+    choose(dialog.querySelector<HTMLInputElement>('input[type=file]')!, 'free.txt', sweepText(sweep({ seed: 3 })));
+    const fit = screen.getByRole('button', { name: 'Fit' });
+    await waitFor(() => expect(fit.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(fit);
+    expect(screen.getByTestId('fit-progress').textContent).toMatch(/starting/);
+    fireEvent.click(screen.getByRole('button', { name: 'Cancel the fit' }));
+    expect(started).toHaveLength(1);
+    expect(started[0].terminated).toBe(true);
+    expect(screen.queryByTestId('fit-progress')).toBeNull();
+    expect(screen.getByRole('alert').textContent).toBe('fit cancelled');
+    expect(screen.getByRole('button', { name: 'Fit' }).hasAttribute('disabled')).toBe(false);
+  });
+
+  it('the worker job reports each sweep, then exactly what the fit gives', () => {
+    const request = {
+      freeText: sweepText(sweep({ seed: 3 })),
+      freeName: 'free.txt',
+      method: 'added-mass' as const,
+      amount: 10,
+      secondText: sweepText(sweep({ seed: 5, mms: D.mms + 0.01 })),
+      secondName: 'mass.txt',
+      sdCm2: 133,
+    };
+    const replies: FitReply[] = [];
+    runFitJob({ type: 'fit', id: 7, request }, (m) => replies.push(m));
+    expect(replies.slice(0, 2)).toEqual([
+      { type: 'progress', id: 7, done: 0, of: 2, what: 'fitting the free-air sweep' },
+      { type: 'progress', id: 7, done: 1, of: 2, what: 'fitting the second sweep' },
+    ]);
+    expect(replies[2]).toEqual({ type: 'result', id: 7, outcome: runFit(request) });
+    const bad: FitReply[] = [];
+    runFitJob({ type: 'fit', id: 8, request: { ...request, freeText: 'Hz Ohm\n20 6\n30 x\n' } }, (m) => bad.push(m));
+    expect(bad.at(-1)).toEqual({ type: 'result', id: 8, outcome: { ok: false, message: 'free.txt, line 3: "x" is not a number' } });
   });
 });

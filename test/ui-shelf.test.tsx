@@ -1,7 +1,7 @@
 // @vitest-environment happy-dom
 // The driver shelf: its file, merging without loss, and the Driver sheet's save / put / undo.
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { act, cleanup, fireEvent, render, screen, waitFor } from '@testing-library/preact';
+import { act, cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/preact';
 
 vi.mock('uplot', () => import('./helpers/fake-uplot.ts'));
 
@@ -9,7 +9,19 @@ import { App } from '../src/ui/App.tsx';
 import { Store } from '../src/ui/store.ts';
 import { Autosave, memoryBackend } from '../src/ui/persist.ts';
 import { demoPair } from '../src/ui/demo.ts';
-import { freeName, importInto, inventedDrivers, memoryShelf, readShelfFile, shelfFileText, type ShelfEntry } from '../src/ui/shelf.ts';
+import {
+  freeName,
+  importInto,
+  inventedDrivers,
+  memoryShelf,
+  nameProblem,
+  readShelfFile,
+  removeEntry,
+  renameEntry,
+  restoreEntry,
+  shelfFileText,
+  type ShelfEntry,
+} from '../src/ui/shelf.ts';
 
 afterEach(() => cleanup());
 
@@ -68,6 +80,46 @@ describe('shelf file', () => {
   });
 });
 
+describe('rename and delete', () => {
+  it('renames to a free name only, keeping the driver and its date', async () => {
+    const shelf = memoryShelf([
+      { name: 'w', savedAt: 5, driver: woofer() },
+      { name: 'x', savedAt: 6, driver: { ...woofer(), qms: 7 } },
+    ]);
+    expect(await renameEntry(shelf, 'w', '  bench woofer  ')).toEqual({ ok: true, name: 'bench woofer' });
+    expect((await shelf.list()).map((e) => e.name).sort()).toEqual(['bench woofer', 'x']);
+    expect((await shelf.list()).find((e) => e.name === 'bench woofer')).toEqual({ name: 'bench woofer', savedAt: 5, driver: woofer() });
+    // A taken name (the user's or an invented one), an empty one and a very long one are refused; nothing changes.
+    const invented = inventedDrivers()[0].name;
+    for (const [to, msg] of [
+      ['x', /"x" is already on the shelf/],
+      [invented, /already on the shelf/],
+      ['   ', /needs a name/],
+      ['n'.repeat(201), /at most 200 characters.*201/],
+    ] as const) {
+      const r = await renameEntry(shelf, 'bench woofer', to);
+      expect(r.ok).toBe(false);
+      if (!r.ok) expect(r.message).toMatch(msg);
+    }
+    expect((await shelf.list()).find((e) => e.name === 'x')?.driver.qms).toBe(7);
+    expect(await renameEntry(shelf, 'gone', 'y')).toEqual({ ok: false, message: '"gone" is no longer on the shelf' });
+    expect(nameProblem('y', ['x'])).toBeNull();
+  });
+
+  it('deletes and puts back, under a numbered name when the name was taken meanwhile', async () => {
+    const shelf = memoryShelf([{ name: 'w', savedAt: 5, driver: woofer() }]);
+    const gone = await removeEntry(shelf, 'w');
+    expect(gone?.name).toBe('w');
+    expect(await shelf.list()).toEqual([]);
+    expect(await removeEntry(shelf, 'w')).toBeNull();
+    await shelf.put({ name: 'w', savedAt: 9, driver: { ...woofer(), qms: 3 } });
+    expect(await restoreEntry(shelf, gone!)).toBe('w (2)');
+    const back = (await shelf.list()).find((e) => e.name === 'w (2)');
+    expect(back?.driver).toEqual(woofer());
+    expect((await shelf.list()).find((e) => e.name === 'w')?.driver.qms).toBe(3);
+  });
+});
+
 describe('Driver sheet: the shelf', () => {
   it("saves A's driver, puts it into B in one undoable step", async () => {
     const store = new Store(demoPair);
@@ -97,5 +149,42 @@ describe('Driver sheet: the shelf', () => {
     expect(b0.driver.name).toBe('Bench woofer');
     await act(() => store.dispatch({ type: 'undo' }));
     expect(store.get().designs.b).toEqual(bBefore);
+  });
+
+  it('renames a driver of the user, and deletes it only after asking, with an undo', async () => {
+    const store = new Store(demoPair);
+    store.dispatch({ type: 'settings', patch: { cautionsDismissed: true, screen: 'driver' } });
+    const a0 = store.get().designs.a.ways[0];
+    if (a0.kind !== 'driver') throw new Error('driver way');
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.driver', value: { ...a0.driver, name: 'Shelf test woofer' } });
+    const autosave = new Autosave(memoryBackend());
+    autosave.attach(store);
+    render(<App store={store} autosave={autosave} />);
+    fireEvent.click(screen.getByRole('button', { name: "Save A's driver" }));
+    await waitFor(() => expect(screen.getByTestId('shelf-note').textContent).toBe('saved "Shelf test woofer" on the shelf'));
+    fireEvent.click(await screen.findByRole('button', { name: 'Rename Shelf test woofer' }));
+    const field = screen.getByLabelText('New name for Shelf test woofer') as HTMLInputElement;
+    fireEvent.input(field, { target: { value: 'Garage 10-inch' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Save the name' }));
+    await waitFor(() => expect(screen.getByTestId('shelf-note').textContent).toBe('renamed "Shelf test woofer" to "Garage 10-inch"'));
+    const options = () => [...(screen.getByLabelText('Shelf driver for B') as HTMLSelectElement).options].map((o) => o.textContent);
+    expect(options()).toContain('Garage 10-inch');
+    expect(options()).not.toContain('Shelf test woofer');
+
+    // Delete asks first; Cancel keeps it.
+    fireEvent.click(screen.getByRole('button', { name: 'Delete Garage 10-inch' }));
+    fireEvent.click(within(screen.getByRole('dialog')).getByRole('button', { name: 'Cancel' }));
+    expect(screen.queryByRole('dialog')).toBeNull();
+    expect(options()).toContain('Garage 10-inch');
+    fireEvent.click(screen.getByRole('button', { name: 'Delete Garage 10-inch' }));
+    fireEvent.click(screen.getByTestId('confirm-yes'));
+    await waitFor(() => expect(screen.getByTestId('shelf-note').textContent).toBe('deleted "Garage 10-inch" from the shelf'));
+    expect(options()).not.toContain('Garage 10-inch');
+    // The design that used it keeps its own copy.
+    const still = store.get().designs.a.ways[0];
+    expect(still.kind === 'driver' && still.driver.name).toBe('Shelf test woofer');
+    fireEvent.click(screen.getByTestId('shelf-undo'));
+    await waitFor(() => expect(screen.getByTestId('shelf-note').textContent).toBe('"Garage 10-inch" is back on the shelf'));
+    expect(options()).toContain('Garage 10-inch');
   });
 });

@@ -1,7 +1,6 @@
 // The listening bench's browser glue: one audio context, the worklet node running BenchCore, the
 // render Worker, the loaded track and the bench's observable state. The UI reads `state` and calls
 // the methods; nothing here computes physics (the engine does, in the worklet and the Worker).
-import { fileSampleRate } from './file-rate.ts';
 import { integratedLoudness } from '../engine/level/loudness.ts';
 import { AudioContext, AudioWorkletNode, isSupported, type IAudioContext, type IAudioWorkletNode } from 'standardized-audio-context';
 import processorUrl from './processor.worklet.ts?worker&url';
@@ -27,6 +26,7 @@ import type { DesignLevel, DesignRender, ExportStream } from './jobs.ts';
 import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
 import { decodedProblem, fileProblem, loudestBassStart, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
+import { fileSampleRate } from './file-rate.ts';
 import { forgetTrack, keepResults, keepTrack, keptResults, keptTrack, MAX_KEPT_TRACK_BYTES, resultsKey } from './kept-track.ts';
 import { levelFailure, levelProblem } from './level-message.ts';
 import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';

@@ -3,11 +3,13 @@
 // several times smaller); a file larger than MAX_KEPT_TRACK_BYTES is not kept, and the bench says
 // so. The render results are kept with the designs and the track they belong to, and used again
 // only when both are the same (any design change makes them stale, as in the running page).
+// The Headroom probe's findings are kept the same way, keyed alike (the track and both designs).
 // Storage failures never reach the user's work: the track then simply has to be opened again.
 import { openDB, type IDBPDatabase } from 'idb';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { DesignRender } from './jobs.ts';
 import type { DesignSlot } from './protocol.ts';
+import type { HeadroomResult } from './headroom.worker.ts';
 
 /** Largest file kept for the next visit, bytes: a long lossless track fits, browser storage stays modest. */
 export const MAX_KEPT_TRACK_BYTES = 150 * 1024 * 1024;
@@ -16,6 +18,7 @@ const DB_NAME = 'preheard-track';
 const STORE = 'kept';
 const TRACK = 'track';
 const RESULTS = 'results';
+const HEADROOM = 'headroom';
 
 export interface KeptTrack {
   name: string;
@@ -24,11 +27,14 @@ export interface KeptTrack {
   savedAt: number;
 }
 
-interface KeptResults {
+interface KeptResults<T = Record<DesignSlot, DesignRender>> {
   /** Which track and which designs (as JSON) the results were rendered for. */
   key: string;
-  results: Record<DesignSlot, DesignRender>;
+  results: T;
 }
+
+/** Each design's headroom (null where its search failed). */
+export type HeadroomResults = Record<DesignSlot, HeadroomResult | null>;
 
 let db: Promise<IDBPDatabase> | null = null;
 function open(): Promise<IDBPDatabase> {
@@ -99,5 +105,32 @@ export async function keptResults(key: string): Promise<Record<DesignSlot, Desig
     return v && v.key === key && v.results ? v.results : null;
   } catch {
     return null;
+  }
+}
+
+export async function keepHeadroom(key: string, results: HeadroomResults): Promise<void> {
+  try {
+    await (await open()).put(STORE, { key, results } satisfies KeptResults<HeadroomResults>, HEADROOM);
+  } catch {
+    // Full or unavailable: the search is run again next time.
+  }
+}
+
+/** The kept headroom findings when they belong to exactly this track and these designs, else null. */
+export async function keptHeadroom(key: string): Promise<HeadroomResults | null> {
+  try {
+    const v = (await (await open()).get(STORE, HEADROOM)) as Partial<KeptResults<HeadroomResults>> | undefined;
+    return v && v.key === key && v.results && 'a' in v.results && 'b' in v.results ? v.results : null;
+  } catch {
+    return null;
+  }
+}
+
+/** Whether any headroom findings are kept at all (cheap: decides whether the audio side must start to check them). */
+export async function hasKeptHeadroom(): Promise<boolean> {
+  try {
+    return (await (await open()).count(STORE, HEADROOM)) > 0;
+  } catch {
+    return false;
   }
 }

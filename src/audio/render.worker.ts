@@ -1,10 +1,11 @@
 // The listening bench's Worker for offline work (imported with `?worker`): it keeps one copy of the
 // track and runs the jobs of jobs.ts on it. A job runs to the end once started; the page cancels one
 // by terminating this worker and starting a fresh one.
-import { exportStream, levelsFor, renderBoth, type TrackData } from './jobs.ts';
+import { exportStream, levelsFor, renderBoth, TrackCalibration } from './jobs.ts';
 import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 
-let track: TrackData | null = null;
+// The track and its calibrations (one per design, reused by every job on this track).
+let track: TrackCalibration | null = null;
 
 const reply = (m: WorkerReply, transfer: Transferable[] = []) => (self as unknown as Worker).postMessage(m, transfer);
 
@@ -12,7 +13,7 @@ self.onmessage = (e: MessageEvent<WorkerRequest>) => {
   const m = e.data;
   try {
     if (m.type === 'track') {
-      track = { channels: m.channels, sampleRate: m.sampleRate };
+      track = new TrackCalibration({ channels: m.channels, sampleRate: m.sampleRate });
       return;
     }
     if (!track) throw new RangeError('no track has been loaded into the render worker');
@@ -21,7 +22,7 @@ self.onmessage = (e: MessageEvent<WorkerRequest>) => {
     else if (m.type === 'render') reply({ type: 'rendered', id: m.id, results: renderBoth(track, m.systems, progress) });
     else if (m.type === 'export') {
       const { bytes, frames } = exportStream(track, m.system, m.mode, m.format, progress);
-      reply({ type: 'exported', id: m.id, bytes, frames, sampleRate: track.sampleRate }, [bytes.buffer as ArrayBuffer]);
+      reply({ type: 'exported', id: m.id, bytes, frames, sampleRate: track.track.sampleRate }, [bytes.buffer as ArrayBuffer]);
     }
   } catch (err) {
     reply({ type: 'error', id: 'id' in m ? m.id : -1, message: err instanceof Error ? err.message : String(err) });

@@ -4,7 +4,7 @@ import type { Analysis, WayAnalysis } from '../engine/response/types.ts';
 import type { RoomAnalysis } from '../engine/room/analysis.ts';
 import { EXIT_OK, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
-import { printable } from './user-text.ts';
+import { db, printable, sig } from './user-text.ts';
 import { distortionJson } from './distortion-report.ts';
 import { checkTonePair } from '../engine/distortion/two-tone.ts';
 
@@ -196,40 +196,41 @@ function wayRows(j: ReturnType<typeof wayJson>, a: Analysis): [string, string][]
   // The bass figures (30/40/50 Hz, group delay at 40 Hz) only for a way that plays bass.
   const bass = (j.f3_hz ?? Infinity) < 200;
   const rows: [string, string][] = [
-    ['box', `${j.box_type}, ${j.vb_l} l net (${j.vb_effective_l} l acoustic)`],
-    ['fs / Qts / Vas', `${j.driver.fs_hz} Hz / ${j.driver.qts} / ${j.driver.vas_l} l`],
-    ['Bl / Mms / Cms', `${j.driver.bl_tm} T·m / ${j.driver.mms_g} g / ${j.driver.cms_mm_per_n} mm/N`],
+    ['box', `${j.box_type}, ${sig(j.vb_l)} l net (${sig(j.vb_effective_l)} l acoustic)`],
+    ['fs / Qts / Vas', `${sig(j.driver.fs_hz)} Hz / ${sig(j.driver.qts)} / ${sig(j.driver.vas_l)} l`],
+    ['Bl / Mms / Cms', `${sig(j.driver.bl_tm)} T·m / ${sig(j.driver.mms_g)} g / ${sig(j.driver.cms_mm_per_n)} mm/N`],
   ];
   if (j.count > 1) rows.unshift(['drivers', `${j.count} in ${j.wiring} (figures for all of them together)`]);
-  if (j.fc_hz !== undefined) rows.push(['fc / Qtc', `${j.fc_hz} Hz / ${j.qtc}`]);
-  if (j.fb_hz !== undefined) rows.push(['fb', `${j.fb_hz} Hz`]);
-  if (j.fp_hz !== undefined) rows.push(['fp (radiator)', `${j.fp_hz} Hz`]);
+  if (j.fc_hz !== undefined) rows.push(['fc / Qtc', `${sig(j.fc_hz)} Hz / ${sig(j.qtc)}`]);
+  if (j.fb_hz !== undefined) rows.push(['fb', `${sig(j.fb_hz)} Hz`]);
+  if (j.fp_hz !== undefined) rows.push(['fp (radiator)', `${sig(j.fp_hz)} Hz`]);
   if (j.port_length_cm !== undefined)
     rows.push([
       'port length',
-      `${j.port_length_cm} cm each` + (j.port_count === null ? '' : ` (${j.port_count} port${j.port_count === 1 ? '' : 's'})`),
+      `${sig(j.port_length_cm)} cm each` + (j.port_count === null ? '' : ` (${j.port_count} port${j.port_count === 1 ? '' : 's'})`),
     ]);
   // The box kind's other figures (pipe resonance, chamber volumes...), in its own words.
-  for (const b of j.box_figures) if (!['fb', 'fp', 'port-length'].includes(b.id)) rows.push([b.label, `${b.value} ${b.unit}`]);
+  for (const b of j.box_figures) if (!['fb', 'fp', 'port-length'].includes(b.id)) rows.push([b.label, `${sig(b.value)} ${b.unit}`]);
   rows.push(
-    ['f3 / f6 / f10', `${j.f3_hz} / ${j.f6_hz} / ${j.f10_hz} Hz`],
-    ['eta0', `${j.driver.eta0_pct} %`],
-    ['sensitivity', `${j.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space, without the baffle step)`],
+    ['f3 / f6 / f10', `${sig(j.f3_hz)} / ${sig(j.f6_hz)} / ${sig(j.f10_hz)} Hz`],
+    ['eta0', `${sig(j.driver.eta0_pct)} %`],
+    ['sensitivity', `${db(j.sensitivity_db)} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space, without the baffle step)`],
     [
-      `at ${j.drive_v} V, ${a.system.listening.distance} m`,
-      `passband ${j.passband_spl_db} dB` + (bass ? `; 30/40/50 Hz ${j.spl_30_db} / ${j.spl_40_db} / ${j.spl_50_db} dB` : ''),
+      `at ${sig(j.drive_v)} V, ${sig(a.system.listening.distance)} m`,
+      `passband ${db(j.passband_spl_db)} dB` +
+        (bass ? `; 30/40/50 Hz ${db(j.spl_30_db)} / ${db(j.spl_40_db)} / ${db(j.spl_50_db)} dB` : ''),
     ],
-    ['peak excursion', `${j.peak_excursion_mm} mm at ${j.drive_v} V (Xmax ${j.driver.xmax_mm} mm)`],
+    ['peak excursion', `${sig(j.peak_excursion_mm)} mm at ${sig(j.drive_v)} V (Xmax ${sig(j.driver.xmax_mm)} mm)`],
   );
-  if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${j.peak_port_speed_m_s} m/s at ${j.drive_v} V`]);
-  rows.push([j.network ? 'minimum impedance (network)' : 'minimum impedance', `${j.z_min_ohm} ohm`]);
-  if (bass) rows.push(['group delay at 40 Hz', `${j.group_delay_40_ms} ms`]);
+  if (j.peak_port_speed_m_s !== null) rows.push(['peak port air speed', `${sig(j.peak_port_speed_m_s)} m/s at ${sig(j.drive_v)} V`]);
+  rows.push([j.network ? 'minimum impedance (network)' : 'minimum impedance', `${sig(j.z_min_ohm)} ohm`]);
+  if (bass) rows.push(['group delay at 40 Hz', `${sig(j.group_delay_40_ms)} ms`]);
   for (const p of j.network?.parts ?? []) {
-    const rated = p.rated_w === null ? '' : ` (rated ${p.rated_w} W)`;
+    const rated = p.rated_w === null ? '' : ` (rated ${sig(p.rated_w)} W)`;
     rows.push([
       `part ${p.part}`,
-      `${p.peak_current_a} A rms at ${p.peak_current_hz} Hz, ` +
-        (p.peak_power_w ? `${p.peak_power_w} W at ${p.peak_power_hz} Hz${rated}` : 'no heat (an ideal part)') +
+      `${sig(p.peak_current_a)} A rms at ${sig(p.peak_current_hz)} Hz, ` +
+        (p.peak_power_w ? `${sig(p.peak_power_w)} W at ${sig(p.peak_power_hz)} Hz${rated}` : 'no heat (an ideal part)') +
         ' (sine at the planned level)',
     ]);
   }
@@ -240,47 +241,59 @@ function table(a: Analysis): string {
   const j = analysisJson(a);
   const sections: { title: string | null; rows: [string, string][] }[] = [{ title: null, rows: [['design', printable(a.system.name)]] }];
   if (j.ways.length === 1) {
-    sections[0].rows.push(...wayRows(j.ways[0], a), ['planned level', `${j.planned_volts_rms} V rms`]);
+    sections[0].rows.push(...wayRows(j.ways[0], a), ['planned level', `${sig(j.planned_volts_rms)} V rms`]);
   } else {
     for (const w of j.ways) sections.push({ title: `way "${printable(w.name)}"`, rows: wayRows(w, a) });
     const s = j.system;
     sections.push({
       title: 'system (all ways summed at the seat)',
       rows: [
-        ['f3 / f6 / f10', `${s.f3_hz} / ${s.f6_hz} / ${s.f10_hz} Hz`],
-        ['sensitivity', `${s.sensitivity_db} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space, without the baffle step)`],
-        [`at ${j.drive_v} V, ${a.system.listening.distance} m`, `passband ${s.passband_spl_db} dB`],
-        ['group delay at 40 Hz', `${s.group_delay_40_ms} ms`],
-        ['planned level', `${s.planned_volts_rms} V rms`],
+        ['f3 / f6 / f10', `${sig(s.f3_hz)} / ${sig(s.f6_hz)} / ${sig(s.f10_hz)} Hz`],
+        ['sensitivity', `${db(s.sensitivity_db)} dB SPL, 2.83 V at 1 m (${a.system.listening.space} space, without the baffle step)`],
+        [`at ${sig(j.drive_v)} V, ${sig(a.system.listening.distance)} m`, `passband ${db(s.passband_spl_db)} dB`],
+        ['group delay at 40 Hz', `${sig(s.group_delay_40_ms)} ms`],
+        ['planned level', `${sig(s.planned_volts_rms)} V rms`],
       ],
     });
     const xo = s.crossover;
     for (const w of xo.ways)
       sections
         .at(-1)!
-        .rows.push([`${w.name}: -6 dB points`, `${w.low_6db_hz ?? 'below the grid'} Hz to ${w.high_6db_hz ?? 'above the grid'} Hz`]);
+        .rows.push([
+          `${w.name}: -6 dB points`,
+          `${w.low_6db_hz === null ? 'below the grid' : `${sig(w.low_6db_hz)} Hz`} to ${w.high_6db_hz === null ? 'above the grid' : `${sig(w.high_6db_hz)} Hz`}`,
+        ]);
     sections
       .at(-1)!
-      .rows.push(['sum: largest deviation', `${xo.sum_deviation_db} dB at ${xo.sum_deviation_hz} Hz (${xo.from_hz} Hz to ${xo.to_hz} Hz)`]);
+      .rows.push([
+        'sum: largest deviation',
+        `${db(xo.sum_deviation_db)} dB at ${sig(xo.sum_deviation_hz)} Hz (${sig(xo.from_hz)} Hz to ${sig(xo.to_hz)} Hz)`,
+      ]);
     if (s.passive_load_min_ohm !== null)
       sections
         .at(-1)!
-        .rows.push(['amplifier load minimum', `${s.passive_load_min_ohm} ohm at ${s.passive_load_min_hz} Hz (the passive ways together)`]);
+        .rows.push([
+          'amplifier load minimum',
+          `${sig(s.passive_load_min_ohm)} ohm at ${sig(s.passive_load_min_hz)} Hz (the passive ways together)`,
+        ]);
   }
   if (j.room) {
     const r = j.room;
     sections.push({
       title: 'room (modal sum at the seat, first speaker)',
       rows: [
-        ['Schroeder frequency', `${r.schroeder_hz} Hz (reverberation ${r.t60_s} s, Eyring)`],
+        ['Schroeder frequency', `${sig(r.schroeder_hz)} Hz (reverberation ${sig(r.t60_s)} s, Eyring)`],
         [
           'first modes',
           r.modes
             .slice(0, 6)
-            .map((m) => `${m.hz} Hz (${m.nx},${m.ny},${m.nz})`)
+            .map((m) => `${sig(m.hz)} Hz (${m.nx},${m.ny},${m.nz})`)
             .join(', '),
         ],
-        ['room against free, 20-200 Hz', `up to +${r.peak_db} dB at ${r.peak_hz} Hz, down to ${r.dip_db} dB at ${r.dip_hz} Hz`],
+        [
+          'room against free, 20-200 Hz',
+          `up to +${db(r.peak_db)} dB at ${sig(r.peak_hz)} Hz, down to ${db(r.dip_db)} dB at ${sig(r.dip_hz)} Hz`,
+        ],
       ],
     });
   }

@@ -10,7 +10,7 @@ import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
 import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progressCounter, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
-import { printable } from './user-text.ts';
+import { count, db, moment, printable, sig } from './user-text.ts';
 import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
 
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
@@ -117,7 +117,8 @@ export const compareCommand: Command = {
         process.stdout.write(HELP);
         return EXIT_OK;
       }
-      if (positionals.length !== 3) throw new UsageError(`expected <a.json> <b.json> <in.wav>, got ${positionals.length} argument(s)`);
+      if (positionals.length !== 3)
+        throw new UsageError(`expected <a.json> <b.json> <in.wav>, got ${count(positionals.length, 'argument')}`);
       if (!values.output) throw new UsageError('-o <prefix> is required');
       const level = levelOptions(values);
       const [aPath, bPath, inPath] = positionals;
@@ -187,23 +188,28 @@ export const compareCommand: Command = {
         process.stdout.write(`${JSON.stringify({ a: sideJson(a), b: sideJson(b), match_db: matchDb })}\n`);
         return EXIT_OK;
       }
-      const row = (label: string, fa: string, fb: string) => `${label.padEnd(22)}${fa.padEnd(36)}${fb}\n`;
-      const first = (s: Side) => (s.summary.events[0] ? `${s.summary.events[0].kind} at ${s.summary.events[0].start_s} s` : 'none');
+      const first = (s: Side) => (s.summary.events[0] ? `${s.summary.events[0].kind} at ${moment(s.summary.events[0].start_s)}` : 'none');
       const counts = (s: Side) => {
         const m = new Map<string, number>();
         for (const e of s.summary.events) m.set(e.kind, (m.get(e.kind) ?? 0) + 1);
         return m.size === 0 ? 'none' : [...m].map(([k, n]) => `${k} ×${n}`).join(', ');
       };
-      let out = row('', `A: ${printable(a.name)}`, `B: ${printable(b.name)}`);
-      out += row('f3', `${a.f3Hz} Hz`, `${b.f3Hz} Hz`);
-      for (let k = 0; k < 3; k++) out += row(`bass at ${a.bass[k].hz} Hz`, `${a.bass[k].db} dB`, `${b.bass[k].db} dB`);
-      out += row('drive', `${a.summary.volts_fs} V/FS`, `${b.summary.volts_fs} V/FS`);
-      out += row('peak excursion', `${a.summary.peak_excursion_mm} mm`, `${b.summary.peak_excursion_mm} mm`);
-      out += row('first limit', first(a), first(b));
-      out += row('stress events', counts(a), counts(b));
-      out += row('headroom (clean to)', `${a.headroom.clean_spl_db} dB(C)`, `${b.headroom.clean_spl_db} dB(C)`);
-      out += row('limit above that', a.headroom.first_limit ?? 'none', b.headroom.first_limit ?? 'none');
-      out += `\nlevels ${values['no-match'] ? 'not matched' : `matched: B played ${matchDb >= 0 ? '+' : ''}${matchDb} dB against A`}; wrote ${values.output}-a.wav and ${values.output}-b.wav\n`;
+      const rows: [string, string, string][] = [
+        ['', `A: ${printable(a.name)}`, `B: ${printable(b.name)}`],
+        ['f3', `${sig(a.f3Hz)} Hz`, `${sig(b.f3Hz)} Hz`],
+        ...a.bass.map((x, k): [string, string, string] => [`bass at ${x.hz} Hz`, `${db(x.db)} dB`, `${db(b.bass[k].db)} dB`]),
+        ['drive', `${sig(a.summary.volts_fs)} V/FS`, `${sig(b.summary.volts_fs)} V/FS`],
+        ['peak excursion', `${sig(a.summary.peak_excursion_mm)} mm`, `${sig(b.summary.peak_excursion_mm)} mm`],
+        ['first limit', first(a), first(b)],
+        ['stress events', counts(a), counts(b)],
+        ['headroom (clean to)', `${db(a.headroom.clean_spl_db)} dB(C)`, `${db(b.headroom.clean_spl_db)} dB(C)`],
+        ['limit above that', a.headroom.first_limit ?? 'none', b.headroom.first_limit ?? 'none'],
+      ];
+      // Columns as wide as their longest cell (a long design name must not run into B's column).
+      const wl = Math.max(...rows.map((r) => r[0].length)) + 2;
+      const wa = Math.max(...rows.map((r) => r[1].length)) + 2;
+      let out = rows.map(([l, fa, fb]) => `${l.padEnd(wl)}${fa.padEnd(wa)}${fb}\n`).join('');
+      out += `\nlevels ${values['no-match'] ? 'not matched' : `matched: B played ${db(matchDb).startsWith('-') ? '' : '+'}${db(matchDb)} dB against A`}; wrote ${values.output}-a.wav and ${values.output}-b.wav\n`;
       process.stdout.write(out);
       return EXIT_OK;
     }),

@@ -6,6 +6,7 @@ import { InputError } from './command.ts';
 import { checkFloatRange } from './float-range.ts';
 import { checkInputLength, MAX_INPUT_SAMPLES, openInput } from './input-file.ts';
 import { MAX_CHANNELS, type WavAudio } from './wav.ts';
+import { count } from './user-text.ts';
 
 export type Codec = 'mp3' | 'flac' | 'vorbis';
 
@@ -142,7 +143,7 @@ export async function readCompressed(
   parts.length = 0;
   if (codec === 'flac') rescaleFlac(channels, bitDepth);
   const warnings: string[] = [];
-  if (damaged > 0) warnings.push(`${path}: ${damaged} damaged part${damaged === 1 ? '' : 's'} of the ${name} stream skipped (short gaps)`);
+  if (damaged > 0) warnings.push(`${path}: ${count(damaged, 'damaged part')} of the ${name} stream skipped (short gaps)`);
   const scaled = checkFloatRange(channels, path);
   if (scaled) warnings.push(scaled);
   // Lossy streams have no bit depth of their own: 16-bit PCM is what they are usually played from.

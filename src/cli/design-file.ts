@@ -8,7 +8,7 @@ import type { DesignDoc } from '../engine/design/document.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { Issue } from '../engine/issues.ts';
 import { InputError } from './command.ts';
-import { capLines, printable, systemErrorWords } from './user-text.ts';
+import { capLines, count, printable, systemErrorWords } from './user-text.ts';
 
 export const formatIssue = (i: Issue): string => printable(`  ${i.severity}: ${i.path || '(design)'}: ${i.message}`);
 
@@ -72,9 +72,7 @@ export async function loadDesignFile(path: string): Promise<{ design: DesignDoc;
     const issues = [...result.errors, ...result.warnings];
     if (issues.length === 1) throw new InputError(`${printable(path)} is not a valid design: ${formatIssue(issues[0]).trim()}`);
     const lines = capLines(issues.map(formatIssue));
-    throw new InputError(
-      `${printable(path)} is not a valid design (${result.errors.length} problem${result.errors.length === 1 ? '' : 's'}):\n${lines.join('\n')}`,
-    );
+    throw new InputError(`${printable(path)} is not a valid design (${count(result.errors.length, 'problem')}):\n${lines.join('\n')}`);
   }
   return result;
 }

@@ -5,11 +5,11 @@ import { fittedFields } from '../engine/fit/driver-fields.ts';
 import { fitImpedance, type CoilModel, type ImpedanceFit } from '../engine/fit/impedance-fit.ts';
 import { parseImpedanceTable } from '../engine/fit/impedance-table.ts';
 import { mechanicalSet, type MechanicalResult, type SecondSweep } from '../engine/fit/mechanical.ts';
-import { fmt, InputProblem } from '../engine/issues.ts';
+import { InputProblem } from '../engine/issues.ts';
 import { EXIT_OK, InputError, parseCommandArgs, parseNumberOption, runGuarded, UsageError, type Command } from './command.ts';
 import { readSmallText } from './design-file.ts';
 import { planOutputs } from './output-files.ts';
-import { printable } from './user-text.ts';
+import { printable, sig } from './user-text.ts';
 
 const HELP = `usage: preheard fit <sweep.txt> [--added-mass-g M --with-mass <sweep2.txt> |
                      --test-box-l V --in-box <sweep2.txt> | --vas-l V] [--sd-cm2 S]
@@ -53,8 +53,8 @@ async function fitFile(path: string, coil: CoilModel | 'auto'): Promise<Impedanc
   }
 }
 
-const withSigma = (value: number, sigma: number, digits = 4) =>
-  Number.isFinite(sigma) ? `${fmt(value)} ± ${Number(sigma.toPrecision(2))}` : `${Number(value.toPrecision(digits))} (no error estimate)`;
+const withSigma = (value: number, sigma: number) =>
+  Number.isFinite(sigma) ? `${sig(value)} ± ${sig(sigma, 2)}` : `${sig(value)} (no error estimate)`;
 
 function reportJson(fit: ImpedanceFit, mech: MechanicalResult | null, second: SecondSweep | null, sdM2: number | null) {
   const p = fit.params;
@@ -106,22 +106,20 @@ function reportText(path: string, fit: ImpedanceFit, mech: MechanicalResult | nu
     `  fs     ${withSigma(p.fs, s.fs)} Hz`,
     `  Qms    ${withSigma(p.qms, s.qms)}`,
     `  Qes    ${withSigma(p.qes, s.qes)}`,
-    `  Qts    ${fmt((p.qes * p.qms) / (p.qes + p.qms))}`,
+    `  Qts    ${sig((p.qes * p.qms) / (p.qes + p.qms))}`,
     `  Le     ${withSigma(p.le * 1000, s.le * 1000)} mH`,
   ];
   if (fit.coil === 'semi') lines.push(`  L2     ${withSigma(p.l2 * 1000, s.l2 * 1000)} mH`, `  R2     ${withSigma(p.r2, s.r2)} ohm`);
-  lines.push(`  residual ${fit.residualRmsPct.toFixed(2)} % rms`);
+  lines.push(`  residual ${sig(fit.residualRmsPct)} % rms`);
   if (second) {
     const q = second.fit.params;
-    lines.push(
-      `second sweep: fs ${fmt(q.fs)} Hz, Qes ${fmt(q.qes)}, Qms ${fmt(q.qms)}, residual ${second.fit.residualRmsPct.toFixed(2)} % rms`,
-    );
+    lines.push(`second sweep: fs ${sig(q.fs)} Hz, Qes ${sig(q.qes)}, Qms ${sig(q.qms)}, residual ${sig(second.fit.residualRmsPct)} % rms`);
   }
   if (mech) {
     if (mech.vas !== null) lines.push(`  Vas    ${withSigma(mech.vas * 1000, (mech.vasSigma ?? Number.NaN) * 1000)} l (${mech.method})`);
     if (mech.mms !== null) lines.push(`  Mms    ${withSigma(mech.mms * 1000, (mech.mmsSigma ?? Number.NaN) * 1000)} g`);
     if (mech.set) {
-      lines.push(`  Cms    ${fmt(mech.set.cms * 1000)} mm/N`, `  Bl     ${fmt(mech.set.bl)} T·m`, `  Rms    ${fmt(mech.set.rms)} kg/s`);
+      lines.push(`  Cms    ${sig(mech.set.cms * 1000)} mm/N`, `  Bl     ${sig(mech.set.bl)} T·m`, `  Rms    ${sig(mech.set.rms)} kg/s`);
     }
     if (mech.vas === null) lines.push('  Vas needs the cone area: give --sd-cm2');
   } else lines.push('  Vas: give a second sweep (--with-mass or --in-box) or --vas-l');

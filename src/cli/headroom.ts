@@ -4,6 +4,7 @@ import { findHeadroom } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { INPUT_HELP, progressCounter, readInputAudio } from './render-common.ts';
+import { count, db, moment, sig } from './user-text.ts';
 
 const HELP = `usage: preheard headroom <design.json> <in.wav> [--json]
 
@@ -33,7 +34,7 @@ export const headroomCommand: Command = {
         process.stdout.write(HELP);
         return EXIT_OK;
       }
-      if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${positionals.length} argument(s)`);
+      if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${count(positionals.length, 'argument')}`);
       const [designPath, inPath] = positionals;
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
@@ -57,10 +58,10 @@ export const headroomCommand: Command = {
       if (values.json) process.stdout.write(`${JSON.stringify(out)}\n`);
       else {
         process.stdout.write(
-          `clean up to        ${h.clean_volts} V per full scale (${h.clean_spl_db} dB(C) Leq at the seat)\n` +
+          `clean up to        ${sig(h.clean_volts)} V per full scale (${db(h.clean_spl_db)} dB(C) Leq at the seat)\n` +
             (h.first_limit
-              ? `first limit above  ${h.first_limit}${h.first_limit_way ? ` (${h.first_limit_way})` : ''} at ${h.first_limit_s} s\n`
-              : `no limit reached up to ${h.clean_volts} V per full scale, the highest drive tried\n`),
+              ? `first limit above  ${h.first_limit}${h.first_limit_way ? ` (${h.first_limit_way})` : ''} at ${moment(h.first_limit_s ?? 0)}\n`
+              : `no limit reached up to ${sig(h.clean_volts)} V per full scale, the highest drive tried\n`),
         );
       }
       return EXIT_OK;

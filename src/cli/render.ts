@@ -6,6 +6,7 @@ import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
 import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
+import { count, db, duration, sig } from './user-text.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
                       [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
@@ -31,31 +32,31 @@ exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
 
 export function summaryLines(s: RenderSummary): string[] {
   const lines = [
-    `duration           ${s.duration_s} s at ${s.sample_rate} Hz`,
-    `level              ${s.volts_fs} V per full scale, ${s.spl_db} dB(C) Leq at the seat`,
-    `calibration        ${s.pa_per_fs} Pa per full scale`,
-    `peak excursion     ${s.peak_excursion_mm} mm`,
+    `duration           ${duration(s.duration_s)} at ${s.sample_rate} Hz`,
+    `level              ${sig(s.volts_fs)} V per full scale, ${db(s.spl_db)} dB(C) Leq at the seat`,
+    `calibration        ${sig(s.pa_per_fs)} Pa per full scale`,
+    `peak excursion     ${sig(s.peak_excursion_mm)} mm`,
   ];
-  if (s.peak_radiator_mm !== null) lines.push(`peak radiator      ${s.peak_radiator_mm} mm`);
-  if (s.peak_port_speed_m_s !== null) lines.push(`peak port speed    ${s.peak_port_speed_m_s} m/s`);
+  if (s.peak_radiator_mm !== null) lines.push(`peak radiator      ${sig(s.peak_radiator_mm)} mm`);
+  if (s.peak_port_speed_m_s !== null) lines.push(`peak port speed    ${sig(s.peak_port_speed_m_s)} m/s`);
   lines.push(
-    `peak coil temp     ${s.peak_coil_temp_c} °C`,
-    `amplifier clipping ${s.amp_clip_s} s`,
-    `max compression    ${s.max_compression_db} dB (hot coil); ${s.output_compression_db} dB at the output (port, suspension)`,
-    `max distortion     ${s.output_distortion_db === null ? 'not judged (too quiet)' : `${s.output_distortion_db} dB against the output`}`,
-    `true-peak guard    ${s.limiter_db > 0 ? `${s.limiter_db} dB of gain reduction` : 'did not act'}`,
-    `realtime factor    ${s.realtime_factor}x`,
+    `peak coil temp     ${sig(s.peak_coil_temp_c)} °C`,
+    `amplifier clipping ${duration(s.amp_clip_s)}`,
+    `max compression    ${sig(s.max_compression_db)} dB (hot coil); ${sig(s.output_compression_db)} dB at the output (port, suspension)`,
+    `max distortion     ${s.output_distortion_db === null ? 'not judged (too quiet)' : `${db(s.output_distortion_db)} dB against the output`}`,
+    `true-peak guard    ${s.limiter_db > 0 ? `${sig(s.limiter_db)} dB of gain reduction` : 'did not act'}`,
+    `realtime factor    ${sig(s.realtime_factor)}x`,
   );
   if (s.ways.length > 1) {
     for (const w of s.ways) {
       const outlet =
         w.peak_port_speed_m_s !== null
-          ? `, port ${w.peak_port_speed_m_s} m/s`
+          ? `, port ${sig(w.peak_port_speed_m_s)} m/s`
           : w.peak_radiator_mm !== null
-            ? `, radiator ${w.peak_radiator_mm} mm`
+            ? `, radiator ${sig(w.peak_radiator_mm)} mm`
             : '';
       lines.push(
-        `way ${w.name.padEnd(14)} ${w.peak_excursion_mm} mm${outlet}, coil ${w.peak_coil_temp_c} °C, clipping ${w.amp_clip_s} s, compression ${w.max_compression_db} dB`,
+        `way ${w.name.padEnd(14)} ${sig(w.peak_excursion_mm)} mm${outlet}, coil ${sig(w.peak_coil_temp_c)} °C, clipping ${duration(w.amp_clip_s)}, compression ${sig(w.max_compression_db)} dB`,
       );
     }
   }
@@ -65,7 +66,7 @@ export function summaryLines(s: RenderSummary): string[] {
   lines.push(`stress events      ${s.events.length === 0 ? 'none' : [...byKind].map(([k, n]) => `${k} ×${n}`).join(', ')}`);
   for (const e of s.events.slice(0, 12)) {
     lines.push(
-      `  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${named(e).padEnd(18)} peak ${e.peak} ${e.unit} (limit ${e.limit})`,
+      `  ${e.start_s.toFixed(3).padStart(9)}–${e.end_s.toFixed(3).padEnd(9)} ${named(e).padEnd(18)} peak ${sig(e.peak)} ${e.unit} (limit ${sig(e.limit)})`,
     );
   }
   if (s.events.length > 12) lines.push(`  ... ${s.events.length - 12} more (use --events FILE or --json)`);
@@ -93,7 +94,7 @@ export const renderCommand: Command = {
         process.stdout.write(HELP);
         return EXIT_OK;
       }
-      if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${positionals.length} argument(s)`);
+      if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${count(positionals.length, 'argument')}`);
       if (!values.output) throw new UsageError('-o <out.wav> is required');
       if (values.linear && values.residual) throw new UsageError('give --linear or --residual, not both');
       if (values.format !== undefined && !['16', '24', 'f32'].includes(values.format))

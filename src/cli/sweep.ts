@@ -8,8 +8,8 @@ import { INPUT_HELP, progressBar, readInputAudio } from './render-common.ts';
 import type { SweepRow } from './sweep-step.ts';
 import { sweptWayIndex, type SweepPoint } from './sweep-variant.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
-import { LIMIT_WORDS, clock } from '../engine/verdict/verdict.ts';
-import { decimalNumber, printable, wholeNumber } from './user-text.ts';
+import { LIMIT_WORDS } from '../engine/verdict/verdict.ts';
+import { db, decimalNumber, moment, printable, sig, wholeNumber } from './user-text.ts';
 
 /** Most design variants one sweep runs: each is a dozen renders of the whole track. */
 export const MAX_SWEEP_POINTS = 400;
@@ -98,15 +98,16 @@ function runPool(
 function table(rows: SweepRow[], vented: boolean): string {
   const head = ['Vb l', ...(vented ? ['fb Hz'] : []), 'f3 Hz', 'clean dB SPL', 'clean V/FS', 'first limit'];
   const body = rows.map((r) => [
+    // The steps as the user gave them (a 102.5 l step must not read 103).
     String(r.vb_l),
     ...(vented ? [String(r.fb_hz ?? '')] : []),
-    r.f3_hz === null ? '-' : String(r.f3_hz),
-    r.clean_spl_db === null ? '-' : r.clean_spl_db.toFixed(2),
-    r.clean_volts === null ? '-' : String(r.clean_volts),
+    sig(r.f3_hz),
+    db(r.clean_spl_db),
+    sig(r.clean_volts),
     r.error
       ? `(${printable(r.error)})`
       : r.first_limit
-        ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${clock(r.first_limit_s ?? 0)}`
+        ? `${LIMIT_WORDS[r.first_limit] ?? r.first_limit} at ${moment(r.first_limit_s ?? 0)}`
         : 'none in range',
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i].length)));

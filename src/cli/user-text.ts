@@ -66,3 +66,46 @@ export function wholeNumber(text: string, option: string): number {
   if (!/^\+?\d+$/.test(text)) throw new UsageError(`${option} must be a whole decimal number, got "${printable(text)}"`);
   return Number(text);
 }
+
+/**
+ * A figure in a table for a person: three significant figures (4.99 V, Qts 0.376, 2.54 Pa, 650 Hz),
+ * trailing zeros dropped. Tables only: the JSON outputs keep their full numbers.
+ */
+export function sig(x: number | null | undefined, digits = 3): string {
+  if (x === null || x === undefined || Number.isNaN(x)) return '-';
+  if (!Number.isFinite(x)) return x > 0 ? 'unlimited' : '-unlimited';
+  const r = Number(x.toPrecision(digits));
+  // Plain decimals for every size a table shows (String() turns to exponents below 1e-6).
+  return Math.abs(r) >= 1e-6 || r === 0 ? String(r === 0 ? 0 : r) : r.toExponential(digits - 1);
+}
+
+/**
+ * A level or a level difference in dB, to 0.1 dB: significant figures would round 102.4 dB SPL to
+ * 102, coarser than the searches that find it (0.25 dB).
+ */
+export function db(x: number | null | undefined): string {
+  if (x === null || x === undefined || Number.isNaN(x)) return '-';
+  if (!Number.isFinite(x)) return x > 0 ? 'unlimited' : 'silent';
+  const t = x.toFixed(1);
+  return t === '-0.0' ? '0.0' : t;
+}
+
+/** A length of time: seconds to three significant figures under a minute, else m:ss rounded to the second (3:01). */
+export function duration(seconds: number): string {
+  if (!(seconds >= 60)) return `${sig(seconds)} s`;
+  const t = Math.round(seconds);
+  return `${Math.floor(t / 60)}:${String(t % 60).padStart(2, '0')}`;
+}
+
+/** "1 warning", "0 errors", "2 arguments". */
+export function count(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}
+
+/** A moment in a track: seconds to three significant figures under a minute, else m:ss.s, never later than it is (2:05.9). */
+export function moment(seconds: number): string {
+  if (!(seconds >= 60)) return `${sig(seconds)} s`;
+  const tenths = Math.floor(seconds * 10);
+  const m = Math.floor(tenths / 600);
+  return `${m}:${((tenths - m * 600) / 10).toFixed(1).padStart(4, '0')}`;
+}

@@ -15,7 +15,15 @@ import { Header } from './app/Header.tsx';
 import { useNotices, useResolvedTheme, useSaveStatus, useStoreState, useUndoKeys } from './app/hooks.ts';
 import { screenOf } from './app/screens.tsx';
 import { Tabs } from './app/Tabs.tsx';
-import { exportDesign, exportProject, importFile, makeShareUrl, useShareLinks, type TransferDeps } from './app/transfer.ts';
+import {
+  exportDesign,
+  exportProject,
+  importFile,
+  makeProjectShareUrl,
+  makeShareUrl,
+  useShareLinks,
+  type TransferDeps,
+} from './app/transfer.ts';
 import { SharedView } from './shared-view.ts';
 import { StorageBanners } from './StorageBanners.tsx';
 import { retryStorage } from './startup.ts';
@@ -28,7 +36,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const theme = useResolvedTheme(state.settings.theme);
   const [cautionsOpen, setCautionsOpen] = useState(!state.settings.cautionsDismissed);
   const [problems, setProblems] = useState<ProblemReport | null>(null);
-  const [share, setShare] = useState<string | null>(null);
+  const [share, setShare] = useState<{ url: string; what: 'pair' | 'project' } | null>(null);
   const [update, setUpdate] = useState<UpdateHandle | null>(null);
   const [projectOpen, setProjectOpen] = useState(false);
   const [question, setQuestion] = useState<{ q: ConfirmQuestion; answer: (yes: boolean) => void } | null>(null);
@@ -71,7 +79,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             importInto: (file, slot) => void importFile(deps, file, slot),
             exportDesign: (slot) => exportDesign(deps, slot),
             exportProject: () => exportProject(deps),
-            share: () => void makeShareUrl(deps).then((url) => url && setShare(url)),
+            share: () => void makeShareUrl(deps).then((url) => url && setShare({ url, what: 'pair' })),
             showCautions: () => setCautionsOpen(true),
             confirm,
             compare: (slot, id) => store.dispatch({ type: 'compare', slot, id }),
@@ -114,12 +122,23 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
 
         {cautionsOpen ? <CautionsPanel onClose={closeCautions} firstRun={!state.settings.cautionsDismissed} /> : null}
         {problems ? <ProblemsDialog report={problems} onClose={() => setProblems(null)} /> : null}
-        {share ? <ShareDialog url={share} onClose={() => setShare(null)} /> : null}
+        {share ? <ShareDialog url={share.url} what={share.what} onClose={() => setShare(null)} /> : null}
         {projectOpen ? (
           <ProjectDialog
             store={store}
             state={state}
-            actions={{ exportProject: () => exportProject(deps), importFile: (file) => void importFile(deps, file, 'a'), confirm }}
+            actions={{
+              exportProject: () => exportProject(deps),
+              importFile: (file) => void importFile(deps, file, 'a'),
+              confirm,
+              // The link's dialog takes the project dialog's place.
+              share: () =>
+                void makeProjectShareUrl(deps).then((url) => {
+                  if (!url) return;
+                  setProjectOpen(false);
+                  setShare({ url, what: 'project' });
+                }),
+            }}
             onClose={() => setProjectOpen(false)}
           />
         ) : null}

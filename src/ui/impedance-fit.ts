@@ -39,7 +39,12 @@ function fitTable(text: string, name: string): ImpedanceFit | string {
   }
 }
 
-export function runFit(r: FitRequest): FitOutcome {
+/** Progress of a fit: `done` of `of` sweeps fitted, and what runs now. */
+export type FitStep = (done: number, of: number, what: string) => void;
+
+export function runFit(r: FitRequest, onStep?: FitStep): FitOutcome {
+  const sweeps = r.method === 'typed' ? 1 : 2;
+  onStep?.(0, sweeps, 'fitting the free-air sweep');
   const fit = fitTable(r.freeText, r.freeName);
   if (typeof fit === 'string') return { ok: false, message: fit };
   let second: SecondSweep | null = null;
@@ -47,6 +52,7 @@ export function runFit(r: FitRequest): FitOutcome {
     if (r.secondText === null) return { ok: false, message: 'choose the second sweep' };
     if (!(r.amount !== null && r.amount > 0))
       return { ok: false, message: r.method === 'added-mass' ? 'give the added mass in grams' : 'give the box volume in litres' };
+    onStep?.(1, sweeps, 'fitting the second sweep');
     const f2 = fitTable(r.secondText, r.secondName ?? 'second sweep');
     if (typeof f2 === 'string') return { ok: false, message: f2 };
     second =

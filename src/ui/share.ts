@@ -1,8 +1,19 @@
-// Share links: the design pair travels in the URL fragment, which browsers never send to a server.
-// Format: #pair=1.<base64url of deflate-raw(JSON {a, b})>.
+// Share links: the design pair, or a whole project, travels in the URL fragment, which browsers
+// never send to a server. Formats: #pair=1.<base64url of deflate-raw(JSON {a, b})> and
+// #project=1.<base64url of deflate-raw(the project file's JSON)>. Compression is the browser's own
+// CompressionStream (deflate-raw): no library needed, and variants that differ in a few fields
+// compress to little more than one design.
 import type { Designs } from './store.ts';
+import { projectFileText, type Project } from './project.ts';
 
 const PREFIX = 'pair=1.';
+const PROJECT_PREFIX = 'project=1.';
+
+/**
+ * Longest link the app makes, characters of the fragment: mail and chat programs and some browsers'
+ * address bars cut longer links (common practice, no source). A larger project goes as a file.
+ */
+export const MAX_LINK_CHARS = 32_000;
 
 function toBase64Url(bytes: Uint8Array): string {
   let bin = '';
@@ -56,30 +67,52 @@ export function shareUrl(base: string, fragment: string): string {
 }
 
 export function hasShare(hash: string): boolean {
-  return hash.replace(/^#/, '').startsWith(PREFIX);
+  return shareKind(hash) !== null;
+}
+
+/** What a fragment carries: a pair of designs, a project, or nothing of ours. */
+export function shareKind(hash: string): 'pair' | 'project' | null {
+  const frag = hash.replace(/^#/, '');
+  return frag.startsWith(PREFIX) ? 'pair' : frag.startsWith(PROJECT_PREFIX) ? 'project' : null;
+}
+
+/** A project link's fragment: the project file's JSON, compact. */
+export async function encodeProjectShare(project: Project): Promise<string> {
+  const json = new TextEncoder().encode(JSON.stringify(JSON.parse(projectFileText(project))));
+  return PROJECT_PREFIX + toBase64Url(await pipe(json, new CompressionStream('deflate-raw')));
+}
+
+/** The project file of a project link, not yet validated (readProject does that); throws with a readable message. */
+export async function decodeProjectShare(hash: string): Promise<unknown> {
+  const frag = hash.replace(/^#/, '');
+  if (!frag.startsWith(PROJECT_PREFIX)) throw new Error('this link carries no preheard project');
+  return decodeJson(frag, PROJECT_PREFIX, 'a project');
+}
+
+async function decodeJson(frag: string, prefix: string, what: string): Promise<unknown> {
+  if (frag.length > MAX_SHARE_CHARS)
+    throw new Error(`the link is ${frag.length} characters long, more than ${what} needs (${MAX_SHARE_CHARS} at most)`);
+  let text: string;
+  try {
+    text = new TextDecoder().decode(
+      await pipe(fromBase64Url(frag.slice(prefix.length)), new DecompressionStream('deflate-raw'), MAX_SHARE_BYTES),
+    );
+  } catch (e) {
+    if (e instanceof RangeError) throw new Error(`the link is not ${what}: ${e.message}`);
+    throw new Error('the link is damaged or cut short (its design data does not decode)');
+  }
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw new Error('the link is damaged (its design data is not valid JSON)');
+  }
 }
 
 /** The two design documents of a share fragment, not yet validated; throws with a readable message. */
 export async function decodeShare(hash: string): Promise<{ a: unknown; b: unknown }> {
   const frag = hash.replace(/^#/, '');
   if (!frag.startsWith(PREFIX)) throw new Error('this link carries no preheard designs');
-  if (frag.length > MAX_SHARE_CHARS)
-    throw new Error(`the link is ${frag.length} characters long, more than a pair of designs needs (${MAX_SHARE_CHARS} at most)`);
-  let text: string;
-  try {
-    text = new TextDecoder().decode(
-      await pipe(fromBase64Url(frag.slice(PREFIX.length)), new DecompressionStream('deflate-raw'), MAX_SHARE_BYTES),
-    );
-  } catch (e) {
-    if (e instanceof RangeError) throw new Error(`the link is not a pair of designs: ${e.message}`);
-    throw new Error('the link is damaged or cut short (its design data does not decode)');
-  }
-  let value: unknown;
-  try {
-    value = JSON.parse(text);
-  } catch {
-    throw new Error('the link is damaged (its design data is not valid JSON)');
-  }
+  const value = await decodeJson(frag, PREFIX, 'a pair of designs');
   if (value === null || typeof value !== 'object' || !('a' in value) || !('b' in value)) {
     throw new Error('the link does not hold a pair of designs A and B');
   }

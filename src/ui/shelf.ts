@@ -149,3 +149,48 @@ export async function importInto(shelf: ShelfBackend, incoming: ShelfEntry[]): P
   }
   return added;
 }
+
+/** Longest name a shelf driver takes (as the shelf file allows). */
+export const MAX_SHELF_NAME = 200;
+
+/** Why `name` cannot name a shelf driver (empty, too long, or taken), or null when it can. */
+export function nameProblem(name: string, taken: Iterable<string>): string | null {
+  const n = name.trim();
+  if (!n) return 'a driver on the shelf needs a name';
+  if (n.length > MAX_SHELF_NAME) return `a name of at most ${MAX_SHELF_NAME} characters, please (this one has ${n.length})`;
+  for (const t of taken) if (t === n) return `"${n.slice(0, 60)}" is already on the shelf: choose another name`;
+  return null;
+}
+
+export type ShelfChange = { ok: true; name: string } | { ok: false; message: string };
+
+/** Renames a driver of the user's (never an invented one): the new name must be free; nothing is overwritten. */
+export async function renameEntry(shelf: ShelfBackend, from: string, to: string): Promise<ShelfChange> {
+  const have = await shelf.list();
+  const entry = have.find((e) => e.name === from);
+  if (!entry) return { ok: false, message: `"${from.slice(0, 60)}" is no longer on the shelf` };
+  const name = to.trim();
+  if (name === from) return { ok: true, name };
+  const taken = [...have.map((e) => e.name), ...inventedDrivers().map((e) => e.name)];
+  const problem = nameProblem(name, taken);
+  if (problem) return { ok: false, message: problem };
+  // The new entry first: a failure between the two steps leaves the driver twice, never lost.
+  await shelf.put({ ...entry, name });
+  await shelf.remove(from);
+  return { ok: true, name };
+}
+
+/** Takes a driver of the user's off the shelf; returns it (for an undo), or null when it was not there. */
+export async function removeEntry(shelf: ShelfBackend, name: string): Promise<ShelfEntry | null> {
+  const entry = (await shelf.list()).find((e) => e.name === name) ?? null;
+  if (entry) await shelf.remove(name);
+  return entry;
+}
+
+/** Puts a removed driver back, under a numbered name when its own was taken meanwhile. */
+export async function restoreEntry(shelf: ShelfBackend, entry: ShelfEntry): Promise<string> {
+  const taken = [...(await shelf.list()).map((e) => e.name), ...inventedDrivers().map((e) => e.name)];
+  const name = freeName(entry.name, taken);
+  await shelf.put({ ...entry, name });
+  return name;
+}

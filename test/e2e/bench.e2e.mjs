@@ -17,7 +17,7 @@ const SHOTS = join(ROOT, 'test', 'e2e', 'screenshots');
 /** Event times of the browser and the CLI agree within this, s (the issue's tolerance). */
 const TIME_TOL_S = 0.02;
 
-async function benchPage(ctx) {
+export async function benchPage(ctx) {
   if (ctx.state.benchPage && !ctx.state.benchPage.isClosed()) return ctx.state.benchPage;
   const p = await ctx.context.newPage();
   const errors = [];
@@ -34,7 +34,7 @@ async function benchPage(ctx) {
   return p;
 }
 
-async function tab(p, label) {
+export async function tab(p, label) {
   await p.getByRole('tab', { name: label, exact: true }).click();
   await p.waitForSelector(`[role=tab][aria-selected=true]:has-text("${label}")`);
 }

@@ -189,4 +189,42 @@ export const tests = [
       assert.deepEqual(problems, []);
     },
   })),
+  {
+    name: 'project: a link carries every variant; opened in another tab it is a look that saves nothing until kept',
+    fn: async (ctx) => {
+      const p = await projectPage(ctx);
+      // Four variants after the tests before this one (two when run alone).
+      const n = await p.getByTestId('compare-b').locator('option').count();
+      await p.getByTestId('open-project').click();
+      const dlg = p.getByRole('dialog', { name: 'Project' });
+      await dlg.getByTestId('share-project').click();
+      const url = await p.getByTestId('share-url').inputValue();
+      assert.match(url, /#project=1\./);
+      // Four variants of one design compress to about the size of a pair link.
+      assert.ok(url.length < 4000, `project link of ${url.length} characters`);
+      await p.getByRole('dialog', { name: 'Share link' }).getByRole('button', { name: 'Close' }).click();
+
+      const other = await ctx.context.newPage();
+      const errors = [];
+      other.on('pageerror', (e) => errors.push(String(e)));
+      await other.goto(url);
+      await other.waitForSelector('[data-testid=shared-banner]');
+      assert.equal(await other.getByTestId('compare-b').locator('option').count(), n);
+      assert.equal(await other.getByTestId('open-project').innerText(), `Project (${n})`);
+      // The first tab's project is untouched while the link is on view, then gains the shared variants on keep.
+      await other.waitForTimeout(300);
+      assert.equal(await p.getByTestId('compare-b').locator('option').count(), n);
+      await other.getByRole('button', { name: 'Keep these designs' }).click();
+      await other.waitForSelector('[data-testid=shared-banner]', { state: 'detached' });
+      await other.waitForSelector('[data-testid=save-status]:not([data-state=held])');
+      assert.equal(await other.getByTestId('open-project').innerText(), `Project (${2 * n})`);
+      assert.equal(await other.getByTestId('compare-b').locator('option').count(), 2 * n);
+      assert.deepEqual(errors, []);
+      await other.close();
+      // The first tab follows (tabs share edits), and its own four are still there.
+      await p.waitForFunction((m) => document.querySelector('[data-testid=open-project]')?.textContent === `Project (${m})`, 2 * n, {
+        timeout: 30_000,
+      });
+    },
+  },
 ];

@@ -7,6 +7,7 @@ import { tests as sheetTests } from './sheet.e2e.mjs';
 import { tests as benchTests } from './bench.e2e.mjs';
 import { tests as reliabilityTests } from './reliability.e2e.mjs';
 import { tests as projectTests } from './project.e2e.mjs';
+import { tests as mp3Tests } from './mp3.e2e.mjs';
 
 const only = process.argv[2];
 let server;
@@ -22,7 +23,7 @@ try {
   console.log(`[e2e] serving on ${server.origin}`);
   browser = await launchBrowser(server.origin, ['--autoplay-policy=no-user-gesture-required']);
   ctx = { ...browser, server, state: {} };
-  for (const t of [...tests, ...benchTests, ...sheetTests, ...reliabilityTests, ...projectTests]) {
+  for (const t of [...tests, ...benchTests, ...sheetTests, ...reliabilityTests, ...projectTests, ...mp3Tests]) {
     if (only && !t.name.includes(only)) continue;
     const start = Date.now();
     try {

@@ -207,6 +207,25 @@ export const tests = [
     },
   },
   {
+    name: 'headroom probe: a reload keeps the findings for the same designs and track',
+    fn: async (ctx) => {
+      const p = await sheetPage(ctx);
+      await tab(p, 'Headroom probe');
+      const before = await p.getByTestId('probe-results').getAttribute('data-exact');
+      // The findings are written when the search ends: give the write a moment before the reload.
+      await p.waitForTimeout(500);
+      await p.reload();
+      await tab(p, 'Headroom probe');
+      await p.waitForSelector('[data-testid=probe-results] caption:has-text("kept from your last visit")', { timeout: 30_000 });
+      assert.match(await p.getByTestId('probe-track').innerText(), /bass-bursts\.wav/);
+      assert.equal(await p.getByTestId('probe-results').getAttribute('data-exact'), before);
+      // The Client sheet's headroom sentence comes back with them.
+      await tab(p, 'Client sheet');
+      await p.waitForSelector('[data-testid=sheet-verdict] li[data-line=headroom]');
+      assert.deepEqual(ctx.state.sheetErrors, []);
+    },
+  },
+  {
     name: 'presentation mode: large type, A / B / reference, the level and the verdict; Esc leads out',
     fn: async (ctx) => {
       const p = await sheetPage(ctx);

@@ -8,6 +8,8 @@ import type { ConfirmQuestion } from './dialogs.tsx';
 export interface ProjectActions {
   exportProject: () => void;
   importFile: (file: File) => void;
+  /** Makes a link that carries the whole project. */
+  share: () => void;
   confirm: (q: ConfirmQuestion) => Promise<boolean>;
 }
 
@@ -105,6 +107,9 @@ export function ProjectDialog(p: { store: Store; state: AppState; actions: Proje
       <div class="row-actions">
         <button type="button" onClick={actions.exportProject}>
           Save project file
+        </button>
+        <button type="button" onClick={actions.share} data-testid="share-project">
+          Share the project as a link…
         </button>
         <label class="button-like">
           Open a project file, or add a design file as a variant…

@@ -34,7 +34,7 @@ export function ProblemsDialog(p: { report: ProblemReport; onClose: () => void }
   );
 }
 
-export function ShareDialog(p: { url: string; onClose: () => void }) {
+export function ShareDialog(p: { url: string; what?: 'pair' | 'project'; onClose: () => void }) {
   const [copied, setCopied] = useState<string | null>(null);
   const input = useRef<HTMLInputElement>(null);
   return (
@@ -66,8 +66,9 @@ export function ShareDialog(p: { url: string; onClose: () => void }) {
       }
     >
       <p>
-        This link holds both designs, A and B. They travel in the part after “#”, which browsers never send to any server; whoever opens it
-        sees the pair and can undo back to their own.
+        {p.what === 'project' ? 'This link holds the whole project, every variant. ' : 'This link holds both designs, A and B. '}
+        They travel in the part after “#”, which browsers never send to any server; whoever opens it sees them in a tab of their own and
+        keeps them only if they choose to, next to their own work.
       </p>
       <label class="stack">
         <span>Link</span>

@@ -8,7 +8,16 @@ import { validate, type Derived } from '../engine.ts';
 import { designFileName, designFileText, downloadText } from '../files.ts';
 import { fileStem, plural } from '../format.ts';
 import { projectFileText, projectFromPair, readProject, type Project } from '../project.ts';
-import { decodeShare, encodeShare, hasShare, shareUrl } from '../share.ts';
+import {
+  decodeProjectShare,
+  decodeShare,
+  encodeProjectShare,
+  encodeShare,
+  hasShare,
+  MAX_LINK_CHARS,
+  shareKind,
+  shareUrl,
+} from '../share.ts';
 import { SLOTS, SLOT_LABEL, type Slot, type Store } from '../store.ts';
 import type { ProblemReport } from './dialogs.tsx';
 import type { Notice } from './hooks.ts';
@@ -32,6 +41,10 @@ export async function openShareFromLocation(d: TransferDeps): Promise<void> {
   const hash = location.hash;
   history.replaceState(null, '', location.pathname + location.search);
   try {
+    if (shareKind(hash) === 'project') {
+      openSharedProject(d, await decodeProjectShare(hash));
+      return;
+    }
     const pair = await decodeShare(hash);
     const ra = validate(pair.a);
     const rb = validate(pair.b);
@@ -54,6 +67,26 @@ export async function openShareFromLocation(d: TransferDeps): Promise<void> {
       groups: [{ heading: '', errors: [{ path: '', message: (e as Error).message, severity: 'error' }], warnings: [] }],
     });
   }
+}
+
+/** A shared project: every variant checked, all or nothing, then shown as a look like a shared pair. */
+function openSharedProject(d: TransferDeps, value: unknown): void {
+  const r = readProject(value);
+  if (r.ok && r.kind === 'project') {
+    d.openShared(r.project);
+    return;
+  }
+  d.showProblems({
+    title: 'The shared link has problems',
+    intro: 'Nothing was loaded; your designs are unchanged.',
+    groups: [
+      {
+        heading: '',
+        errors: r.ok ? [{ path: '', message: 'the link does not hold a project', severity: 'error' }] : r.errors,
+        warnings: r.warnings,
+      },
+    ],
+  });
 }
 
 /** Opens a shared link on start and whenever the address changes to one. */
@@ -137,4 +170,26 @@ export async function makeShareUrl(d: TransferDeps): Promise<string | null> {
     return null;
   }
   return shareUrl(location.href, await encodeShare(d.store.get().designs));
+}
+
+/**
+ * The share link of the whole project, or null (with a notice) while a variant has errors or the
+ * project is too large for a link (then its file is the way to share it).
+ */
+export async function makeProjectShareUrl(d: TransferDeps): Promise<string | null> {
+  const project = d.store.get().project;
+  const bad = project.variants.filter((v) => !validate(v.design).ok);
+  if (bad.length) {
+    d.notify(`Fix the problems in ${bad.map((v) => `“${v.design.name}”`).join(', ')} before sharing the project.`, 'warn');
+    return null;
+  }
+  const fragment = await encodeProjectShare(project);
+  if (fragment.length > MAX_LINK_CHARS) {
+    d.notify(
+      `The project makes a link of ${fragment.length.toLocaleString('en')} characters, longer than mail and chat programs pass on (${MAX_LINK_CHARS.toLocaleString('en')}): share the project file instead.`,
+      'warn',
+    );
+    return null;
+  }
+  return shareUrl(location.href, fragment);
 }

@@ -1,4 +1,5 @@
-// The waveform overview (and, on the Stress strip, one lane of stress events per way of each design) on a canvas.
+// The waveform overview (and, on the Stress strip, one lane of stress events per way of each design
+// and one density lane per design: the share of each second in each kind of event) on a canvas.
 // Click to jump there, drag to set a loop region, hover an event for its cause, peak and limit.
 // The static picture is drawn once per change into an offscreen canvas; only the playhead moves per frame.
 import { useCallback, useEffect, useLayoutEffect, useRef, useState } from 'preact/hooks';
@@ -8,6 +9,7 @@ import type { DesignSlot } from '../../audio/protocol.ts';
 import { clock, colourOf, describeEvent, KIND_LABEL } from './palette.ts';
 import { useAnimationFrame } from './useBench.ts';
 import type { EventLane } from './event-lanes.ts';
+import { sharesAt, type DensityLane } from './event-density.ts';
 
 /** Drawing order: the most serious kinds last, so they sit on top. */
 const ORDER: EventKind[] = [
@@ -24,6 +26,7 @@ const GUTTER = 74;
 const AXIS_H = 20;
 const LANE_H = 30;
 const LANE_GAP = 6;
+const DENSITY_H = 56;
 
 interface Props {
   bench: BenchAudio;
@@ -32,14 +35,18 @@ interface Props {
   height: number;
   /** Event lanes, one per way of each design (the Stress strip); none on the bench. */
   events?: EventLane[] | null;
+  /** Density lanes, one per design, under the event lanes (the Stress strip). */
+  density?: DensityLane[] | null;
   names?: Record<DesignSlot, string>;
 }
 
 interface Tip {
   x: number;
   y: number;
-  lane: EventLane;
+  lane: { slot: DesignSlot; way: string };
   items: StressEvent[];
+  /** On a density lane: the bin's span and the kinds' shares in it. */
+  shares?: { fromS: number; toS: number; list: { kind: EventKind; share: number }[] };
 }
 
 function css(el: Element, name: string, fallback: string): string {
@@ -64,8 +71,11 @@ export function Overview(p: Props) {
   const lanes: EventLane[] = p.events ?? [];
   /** Way names are written only where a design has more than one lane. */
   const manyWays = (slot: DesignSlot) => lanes.filter((l) => l.slot === slot).length > 1;
+  const dens: DensityLane[] = p.density ?? [];
   const waveH = p.height;
-  const total = waveH + lanes.length * (LANE_H + LANE_GAP) + AXIS_H;
+  const densityTop = waveH + lanes.length * (LANE_H + LANE_GAP);
+  const densityY = (j: number) => densityTop + LANE_GAP + j * (DENSITY_H + LANE_GAP);
+  const total = densityTop + dens.length * (DENSITY_H + LANE_GAP) + AXIS_H;
   const plotW = Math.max(50, width - GUTTER - 8);
   const duration = track ? track.frames / track.sampleRate : 1;
   const xOf = (t: number) => GUTTER + (t / duration) * plotW;
@@ -168,6 +178,42 @@ export function Overview(p: Props) {
         }
       }
     });
+    // Density lanes: one thin row per kind present (the most serious on top), each bin's bar as tall
+    // as its share of that second; kinds often overlap in time, so they are not stacked on each other.
+    dens.forEach((lane, j) => {
+      const y = densityY(j);
+      g.fillStyle = css(el, '--c-surface-2', '#f8faf9');
+      g.fillRect(GUTTER, y, plotW, DENSITY_H);
+      g.strokeStyle = grid;
+      g.strokeRect(GUTTER + 0.5, y + 0.5, plotW - 1, DENSITY_H - 1);
+      g.fillStyle = css(el, lane.slot === 'a' ? '--c-a' : '--c-b', lane.slot === 'a' ? '#0b6b70' : '#c27c08');
+      g.fillRect(8, y + 4, 16, 16);
+      g.fillStyle = lane.slot === 'a' ? '#fff' : '#1b1300';
+      g.font = 'bold 11px system-ui, sans-serif';
+      g.textAlign = 'center';
+      g.fillText(lane.slot.toUpperCase(), 16, y + 12.5);
+      g.textAlign = 'left';
+      g.fillStyle = muted;
+      g.font = '10px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+      g.fillText('share', 28, y + 10);
+      g.fillText(lane.binS === 1 ? 'per s' : `per ${lane.binS} s`, 28, y + 22);
+      g.font = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
+      const kinds = [...ORDER].reverse().filter((k) => lane.share.has(k));
+      const rowH = (DENSITY_H - 4) / Math.max(1, kinds.length);
+      const gap = plotW / lane.bins > 4 ? 1 : 0;
+      kinds.forEach((k, r) => {
+        const base = y + 2 + (r + 1) * rowH;
+        const share = lane.share.get(k)!;
+        g.fillStyle = colourOf(k, p.theme);
+        for (let i = 0; i < lane.bins; i++) {
+          if (share[i] <= 0) continue;
+          const x0 = xOf(i * lane.binS);
+          const x1 = Math.max(x0 + 1, xOf(Math.min(duration, (i + 1) * lane.binS)) - gap);
+          const bh = Math.max(1, share[i] * (rowH - 1));
+          g.fillRect(x0, base - bh, x1 - x0, bh);
+        }
+      });
+    });
     // Loop region.
     const loop = p.state.loop;
     if (track && loop) {
@@ -208,7 +254,7 @@ export function Overview(p: Props) {
     }
     g.textAlign = 'left';
     drawFrame();
-  }, [width, total, track, p.events, p.state.loop, p.theme, lanes.length]);
+  }, [width, total, track, p.events, p.density, p.state.loop, p.theme, lanes.length]);
 
   const drawFrame = useCallback(() => {
     const el = canvas.current,
@@ -252,6 +298,10 @@ export function Overview(p: Props) {
     }
     return null;
   };
+  const densityAt = (y: number): DensityLane | null => {
+    for (let j = 0; j < dens.length; j++) if (y >= densityY(j) && y < densityY(j) + DENSITY_H) return dens[j];
+    return null;
+  };
   const eventsAt = (lane: EventLane, x: number) => {
     const list = lane.events;
     const t = tOf(x),
@@ -292,6 +342,14 @@ export function Overview(p: Props) {
   const onMove = (e: MouseEvent) => {
     if (!p.events || drag.current) return;
     const { x, y } = local(e);
+    const d = x >= GUTTER ? densityAt(y) : null;
+    if (d) {
+      const bin = Math.min(d.bins - 1, Math.floor(tOf(x) / d.binS));
+      const list = sharesAt(d, bin);
+      const span = { fromS: bin * d.binS, toS: Math.min(duration, (bin + 1) * d.binS), list };
+      setTip(list.length ? { x, y, lane: { slot: d.slot, way: '' }, items: [], shares: span } : null);
+      return;
+    }
     const lane = laneAt(y);
     const items = lane && x >= GUTTER ? eventsAt(lane, x) : [];
     setTip(lane && items.length ? { x, y, lane, items: items.slice(0, 4) } : null);
@@ -342,6 +400,15 @@ export function Overview(p: Props) {
             {p.names ? ` · ${p.names[tip.lane.slot]}` : ''}
             {tip.lane.way ? ` · ${tip.lane.way}` : ''}
           </strong>
+          {tip.shares ? (
+            <span class="tip-row">
+              <span>
+                {clock(tip.shares.fromS, 0)}–{clock(tip.shares.toS, 0)}:{' '}
+                {tip.shares.list.map((x) => `${KIND_LABEL[x.kind]} ${x.share < 0.01 ? '<1' : Math.round(100 * x.share)} %`).join(', ')} of
+                the time
+              </span>
+            </span>
+          ) : null}
           {tip.items.map((ev) => (
             <span class="tip-row">
               <i style={{ background: colourOf(ev.kind, p.theme) }} />

@@ -1,5 +1,6 @@
 // The driver shelf on the Driver sheet: save the shown way's driver, put a shelf driver into the
-// shown way of A or B (one undoable step), export and import the whole shelf as one file.
+// shown way of A or B (one undoable step), rename and delete the user's own drivers (a delete asks
+// first and can be undone), export and import the whole shelf as one file.
 import { useEffect, useState } from 'preact/hooks';
 import { useApp } from '../context.ts';
 import { Group, Row } from './Sheet.tsx';
@@ -10,6 +11,10 @@ import {
   freeName,
   importInto,
   inventedDrivers,
+  MAX_SHELF_NAME,
+  removeEntry,
+  renameEntry,
+  restoreEntry,
   readShelfFile,
   SHELF_FILE_NAME,
   shelfFileText,
@@ -17,6 +22,7 @@ import {
   type ShelfEntry,
 } from '../shelf.ts';
 import { SLOT_LABEL, type Slot } from '../store.ts';
+import { ConfirmDialog } from '../app/dialogs.tsx';
 
 let shared: ShelfBackend | null = null;
 /** One shelf for the page. */
@@ -31,6 +37,10 @@ export function DriverShelf() {
   const [own, setOwn] = useState<ShelfEntry[]>([]);
   const [picked, setPicked] = useState<Record<Slot, string>>({ a: '', b: '' });
   const [note, setNote] = useState<string | null>(null);
+  const [renaming, setRenaming] = useState<{ from: string; text: string } | null>(null);
+  const [asking, setAsking] = useState<ShelfEntry | null>(null);
+  /** The driver just deleted, while its undo is offered. */
+  const [deleted, setDeleted] = useState<ShelfEntry | null>(null);
   const refresh = () =>
     shelf()
       .list()
@@ -64,6 +74,35 @@ export function DriverShelf() {
     const ways = design.ways.map((w, i) => (i === index && w.kind === 'driver' ? { ...w, driver: structuredClone(entry.driver) } : w));
     dispatch({ type: 'replace', slot: s, design: { ...design, ways }, reason: `put ${entry.name} from the shelf into ${SLOT_LABEL[s]}` });
     setNote(`put "${entry.name}" into ${SLOT_LABEL[s]}`);
+  };
+  const failed = (what: string) => (e: unknown) => setNote(`${what}: ${e instanceof Error ? e.message : String(e)}`);
+  const rename = async () => {
+    if (!renaming) return;
+    const r = await renameEntry(shelf(), renaming.from, renaming.text).catch(failed('could not rename on the shelf'));
+    if (!r) return;
+    if (!r.ok) return setNote(r.message);
+    setRenaming(null);
+    setNote(r.name === renaming.from ? null : `renamed "${renaming.from}" to "${r.name}"`);
+    // A pick of the old name follows the driver.
+    setPicked({ a: picked.a === renaming.from ? r.name : picked.a, b: picked.b === renaming.from ? r.name : picked.b });
+    await refresh();
+  };
+  const remove = async (entry: ShelfEntry) => {
+    setAsking(null);
+    const gone = await removeEntry(shelf(), entry.name).catch(failed('could not delete from the shelf'));
+    if (gone === undefined) return;
+    setDeleted(gone);
+    setNote(gone ? `deleted "${gone.name}" from the shelf` : `"${entry.name}" was no longer on the shelf`);
+    setPicked({ a: picked.a === entry.name ? '' : picked.a, b: picked.b === entry.name ? '' : picked.b });
+    await refresh();
+  };
+  const undoDelete = async () => {
+    if (!deleted) return;
+    const name = await restoreEntry(shelf(), deleted).catch(failed('could not put the driver back'));
+    if (name === undefined) return;
+    setDeleted(null);
+    setNote(name === deleted.name ? `"${name}" is back on the shelf` : `"${deleted.name}" is back on the shelf as "${name}"`);
+    await refresh();
   };
   const exportShelf = () => downloadText(shelfFileText(own), SHELF_FILE_NAME);
   const importShelf = async (e: Event) => {
@@ -120,6 +159,68 @@ export function DriverShelf() {
           ) : null
         }
       />
+      {own.length ? (
+        <div class="sheet-fold" role="row">
+          <span role="cell">
+            <details class="shelf-own" data-testid="shelf-own">
+              <summary>Your drivers ({own.length}): rename or delete</summary>
+              <ul class="shelf-list">
+                {own.map((e) => (
+                  <li key={e.name} data-name={e.name}>
+                    {renaming?.from === e.name ? (
+                      <form
+                        class="shelf-rename"
+                        onSubmit={(ev) => {
+                          ev.preventDefault();
+                          void rename();
+                        }}
+                      >
+                        <input
+                          type="text"
+                          value={renaming.text}
+                          maxLength={MAX_SHELF_NAME + 1}
+                          aria-label={`New name for ${e.name}`}
+                          onInput={(ev) => setRenaming({ from: e.name, text: ev.currentTarget.value })}
+                          onKeyDown={(ev) => ev.key === 'Escape' && (ev.preventDefault(), setRenaming(null))}
+                        />
+                        <button type="submit">Save the name</button>
+                        <button type="button" onClick={() => setRenaming(null)}>
+                          Cancel
+                        </button>
+                      </form>
+                    ) : (
+                      <>
+                        <span class="shelf-name">{e.name}</span>
+                        <button
+                          type="button"
+                          class="small"
+                          aria-label={`Rename ${e.name}`}
+                          onClick={() => setRenaming({ from: e.name, text: e.name })}
+                        >
+                          Rename
+                        </button>
+                        <button type="button" class="small danger" aria-label={`Delete ${e.name}`} onClick={() => setAsking(e)}>
+                          Delete
+                        </button>
+                      </>
+                    )}
+                  </li>
+                ))}
+              </ul>
+            </details>
+          </span>
+        </div>
+      ) : null}
+      {asking ? (
+        <ConfirmDialog
+          question={{
+            title: 'Delete a driver from the shelf?',
+            text: `"${asking.name}" leaves the shelf of this browser. Designs that use it keep their own copy, and the shelf offers an undo right after.`,
+            action: 'Delete it',
+          }}
+          onAnswer={(yes) => (yes ? void remove(asking) : setAsking(null))}
+        />
+      ) : null}
       <div class="sheet-fold" role="row">
         <span role="cell" class="shelf-actions">
           <button type="button" onClick={exportShelf} disabled={own.length === 0}>
@@ -133,6 +234,11 @@ export function DriverShelf() {
             <span class="group-note" role="status" data-testid="shelf-note">
               {note}
             </span>
+          ) : null}
+          {deleted ? (
+            <button type="button" class="small" onClick={() => void undoDelete()} data-testid="shelf-undo">
+              Undo the delete
+            </button>
           ) : null}
         </span>
       </div>

@@ -1,13 +1,29 @@
 // "Fit from impedance": the user picks a measured sweep (and a second one with an added mass or in
 // a closed box), sees the fitted parameters with their errors and the curves, and fills the
-// driver's fields in one undoable step.
-import { useState } from 'preact/hooks';
+// driver's fields in one undoable step. The fit runs in a Worker (impedance-fit.worker.ts) with
+// progress and cancel.
+import { useEffect, useRef, useState } from 'preact/hooks';
+import FitWorker from '../impedance-fit.worker.ts?worker';
+import type { FitJob, FitReply } from '../impedance-fit.worker.ts';
 import { useApp } from '../context.ts';
 import { Dialog } from './Dialog.tsx';
 import { Chart } from '../charts/Chart.tsx';
 import type { ChartSpec } from '../charts/specs.ts';
-import { designWithFit, MAX_TABLE_FILE_BYTES, runFit, type FitOutcome, type VasMethod } from '../impedance-fit.ts';
+import { designWithFit, MAX_TABLE_FILE_BYTES, type FitOutcome, type VasMethod } from '../impedance-fit.ts';
 import { SLOT_LABEL, type Slot } from '../store.ts';
+
+/** The part of a Worker the dialog uses (so a test can hand in a stand-in). */
+export interface FitWorkerLike {
+  postMessage(job: FitJob): void;
+  onmessage: ((e: MessageEvent<FitReply>) => void) | null;
+  terminate(): void;
+}
+
+let workerFactory = (): FitWorkerLike => new FitWorker() as unknown as FitWorkerLike;
+/** Replaces the Worker the dialog starts (tests hand in a stand-in). */
+export function setFitWorkerFactory(make: () => FitWorkerLike): void {
+  workerFactory = make;
+}
 
 interface Picked {
   name: string;
@@ -63,6 +79,13 @@ export function ImpedanceFitDialog(p: { slot: Slot; wayIndex: number; onClose: (
   const [sd, setSd] = useState(typedSd !== undefined ? String(typedSd) : '');
   const [outcome, setOutcome] = useState<FitOutcome | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
+  const [running, setRunning] = useState<{ done: number; of: number; what: string } | null>(null);
+  const worker = useRef<FitWorkerLike | null>(null);
+  const stop = () => {
+    worker.current?.terminate();
+    worker.current = null;
+  };
+  useEffect(() => stop, []);
 
   const pick = (set: (x: Picked | null) => void) => async (e: Event) => {
     const r = await readPicked(e.currentTarget as HTMLInputElement);
@@ -73,6 +96,8 @@ export function ImpedanceFitDialog(p: { slot: Slot; wayIndex: number; onClose: (
       setProblem(null);
       set(r);
     }
+    stop();
+    setRunning(null);
     setOutcome(null);
   };
   const number = (text: string) => (text.trim() === '' ? null : Number(text.replace(',', '.')));
@@ -82,17 +107,41 @@ export function ImpedanceFitDialog(p: { slot: Slot; wayIndex: number; onClose: (
     const sdv = number(sd);
     if ((amt !== null && !Number.isFinite(amt)) || (sdv !== null && !Number.isFinite(sdv)))
       return setProblem('the numbers must be plain decimals');
-    const r = runFit({
-      freeText: free.text,
-      freeName: free.name,
-      method,
-      amount: amt,
-      secondText: method === 'typed' ? null : (second?.text ?? null),
-      secondName: second?.name ?? null,
-      sdCm2: sdv,
+    stop();
+    const w = workerFactory();
+    worker.current = w;
+    setOutcome(null);
+    setProblem(null);
+    setRunning({ done: 0, of: method === 'typed' ? 1 : 2, what: 'starting' });
+    w.onmessage = (e) => {
+      if (worker.current !== w) return;
+      const m = e.data;
+      if (m.type === 'progress') return setRunning({ done: m.done, of: m.of, what: m.what });
+      stop();
+      setRunning(null);
+      if (m.type === 'result') {
+        setOutcome(m.outcome);
+        setProblem(m.outcome.ok ? null : m.outcome.message);
+      } else setProblem(`the fit failed: ${m.message}`);
+    };
+    w.postMessage({
+      type: 'fit',
+      id: 1,
+      request: {
+        freeText: free.text,
+        freeName: free.name,
+        method,
+        amount: amt,
+        secondText: method === 'typed' ? null : (second?.text ?? null),
+        secondName: second?.name ?? null,
+        sdCm2: sdv,
+      },
     });
-    setOutcome(r);
-    setProblem(r.ok ? null : r.message);
+  };
+  const cancel = () => {
+    stop();
+    setRunning(null);
+    setProblem('fit cancelled');
   };
   const fill = () => {
     if (!outcome?.ok) return;
@@ -110,9 +159,15 @@ export function ImpedanceFitDialog(p: { slot: Slot; wayIndex: number; onClose: (
       onClose={p.onClose}
       actions={
         <>
-          <button type="button" onClick={fit} disabled={!free}>
-            Fit
-          </button>
+          {running ? (
+            <button type="button" onClick={cancel}>
+              Cancel the fit
+            </button>
+          ) : (
+            <button type="button" onClick={fit} disabled={!free}>
+              Fit
+            </button>
+          )}
           <button type="button" onClick={fill} disabled={!ok}>
             Fill the driver fields
           </button>
@@ -159,6 +214,11 @@ export function ImpedanceFitDialog(p: { slot: Slot; wayIndex: number; onClose: (
         Cone area Sd (cm²)
         <input type="text" inputMode="decimal" value={sd} onInput={(e) => setSd(e.currentTarget.value)} />
       </label>
+      {running ? (
+        <p class="group-note" role="status" data-testid="fit-progress">
+          <progress max={running.of} value={running.done} aria-label="Fit progress" /> {running.what}…
+        </p>
+      ) : null}
       {problem ? (
         <p class="dialog-problem" role="alert">
           {problem}

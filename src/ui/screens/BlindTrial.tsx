@@ -216,8 +216,10 @@ export function BlindTrial() {
           </button>
           <p class="fine">
             Track:{' '}
-            {bench.track ? `${bench.track.name} (${clock(durationS!)})` : 'the demo track, unless you load one on the Listening bench'}.
-            Heard {LISTEN_MODE_LABEL[bench.mode]}.
+            {bench.track
+              ? `${bench.track.name} (${clock(Math.round(durationS!))})`
+              : 'the demo track, unless you load one on the Listening bench'}
+            . Heard {LISTEN_MODE_LABEL[bench.mode]}.
           </p>
           {problems.length ? (
             <ul class="problems" role="alert" data-testid="trial-problems">

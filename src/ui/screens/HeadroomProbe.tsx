@@ -45,7 +45,7 @@ export function HeadroomProbe() {
       <div class="probe-bar">
         <span class="probe-track" data-testid="probe-track" data-rate={bench.track?.sampleRate ?? DEMO_RATE}>
           Track: <strong>{trackName}</strong>
-          {` (${clock(trackS ?? DEMO_S)}, ${fixed((bench.track?.sampleRate ?? DEMO_RATE) / 1000, 1)} kHz)`}
+          {` (${clock(Math.round(trackS ?? DEMO_S))}, ${fixed((bench.track?.sampleRate ?? DEMO_RATE) / 1000, 1)} kHz)`}
           {bench.track ? '' : ' — load your own on the Listening bench.'}
         </span>
         {running ? (
@@ -101,7 +101,10 @@ export function HeadroomProbe() {
             )}
           >
             <caption>
-              On “{probe.track?.name}”, searched in {fixed(probe.elapsedMs / 1000, 1)} s
+              On “{probe.track?.name}”,{' '}
+              {probe.restored
+                ? 'kept from your last visit (same designs, same track)'
+                : `searched in ${fixed(probe.elapsedMs / 1000, 1)} s`}
             </caption>
             <thead>
               <tr>

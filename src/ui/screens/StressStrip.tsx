@@ -16,9 +16,12 @@ import { clock, colourOf, KIND_LABEL, KIND_MEANING } from '../bench/palette.ts';
 import { BenchNotices, OfflineProgress } from './ListeningBench.tsx';
 import { eventLanes, wayOfEvent } from '../bench/event-lanes.ts';
 import { summarizeEvents } from '../bench/event-summary.ts';
+import { binWidth, densityLane } from '../bench/event-density.ts';
 import { plural } from '../format.ts';
 import '../bench/bench.css';
 
+/** Most bins a density lane draws (1 s each up to this many seconds of track). */
+const DENSITY_BINS = 600;
 /** Tracks up to this long are rendered offline by themselves when the strip opens, s. */
 const AUTO_RENDER_S = 180;
 const LIST_LIMIT = 60;
@@ -39,6 +42,11 @@ export function StressStrip({ theme }: { theme: string }) {
   const wa = wayNames('a').join('\u0000');
   const wb = wayNames('b').join('\u0000');
   const lanes = useMemo(() => eventLanes(events, { a: wayNames('a'), b: wayNames('b') }), [events, wa, wb]);
+  const density = useMemo(() => {
+    if (!dur || !(events.a.length + events.b.length)) return null;
+    const binS = binWidth(dur, DENSITY_BINS);
+    return SLOTS.map((s) => densityLane(s, events[s], dur, binS));
+  }, [events, dur]);
   const firstWay = (s: DesignSlot) => wayNames(s)[0] ?? '';
   const multiWay = wayNames('a').length > 1 || wayNames('b').length > 1;
 
@@ -71,7 +79,7 @@ export function StressStrip({ theme }: { theme: string }) {
           <h2 id="strip-title">Stress strip</h2>
           <p class="sheet-intro">
             Where each design runs out of travel, heat, port or amplifier on this track, at its planned level. Hover a mark for its cause,
-            click it to hear that moment.
+            click it to hear that moment. The lowest lanes show how much of each second each design spends in each kind of event.
           </p>
         </div>
         <div class="strip-render">
@@ -89,7 +97,7 @@ export function StressStrip({ theme }: { theme: string }) {
       <BenchNotices bench={bench} state={state} />
       <div class="bench-card player">
         <Transport bench={bench} state={state} store={store} names={names} />
-        <Overview bench={bench} state={state} theme={theme} height={76} events={lanes} names={names} />
+        <Overview bench={bench} state={state} theme={theme} height={76} events={lanes} density={density} names={names} />
         <div class="strip-foot">
           <span class="fine" data-testid="strip-source">
             {source ? `Events from the ${source}.` : 'No events yet: play the track or render it offline.'}

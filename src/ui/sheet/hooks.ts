@@ -27,6 +27,9 @@ export function useProbe(): ProbeState {
   const probe = headroomProbe();
   const [s, setS] = useState(probe.state);
   useEffect(() => probe.subscribe(setS), [probe]);
+  // Findings kept from the last visit come back when they belong to these designs and the track.
+  const systems = useSystems();
+  useEffect(() => void probe.restore(systems), [probe, systems]);
   return s;
 }
 

@@ -2,8 +2,9 @@
 // findHeadroom (src/audio/headroom.worker.ts), progress, cancel, and the findings kept for the
 // verdict on the Client sheet and in Presentation mode. Nothing here computes physics.
 import HeadroomWorker from '../../audio/headroom.worker.ts?worker';
-import type { HeadroomJob, HeadroomReply, HeadroomResult } from '../../audio/headroom.worker.ts';
+import { TYPICAL_RENDERS, type HeadroomJob, type HeadroomReply, type HeadroomResult } from '../../audio/headroom.worker.ts';
 import { benchAudio } from '../../audio/bench.ts';
+import { hasKeptHeadroom, keepHeadroom, keptHeadroom, resultsKey } from '../../audio/kept-track.ts';
 import { synthesizeDemoTrack } from '../../engine/demo/track.ts';
 import type { HeadroomFinding } from '../../engine/verdict/verdict.ts';
 import type { SpeakerSystem } from '../../engine/system.ts';
@@ -65,8 +66,10 @@ export interface ProbeState {
   slots: Record<Slot, ProbeSlot>;
   /** The designs and the track the findings belong to. */
   systems: Record<Slot, SpeakerSystem> | null;
-  track: { name: string; durationS: number; key: object } | null;
+  track: { name: string; durationS: number; frames: number; key: object } | null;
   elapsedMs: number;
+  /** The findings were kept from an earlier visit (same track, same designs). */
+  restored?: boolean;
 }
 
 const idleSlot = (): ProbeSlot => ({ status: 'idle', renders: 0, estimate: 0, result: null, message: null });
@@ -115,11 +118,12 @@ export class HeadroomProbe {
     this.stopWorkers();
     const run = ++this.run;
     const t0 = performance.now();
-    this.set({ ...initial(), status: 'running', systems, track: { name: track.name, durationS: track.durationS, key: track.key } });
+    const frames = track.channels[0]?.length ?? 0;
+    this.set({ ...initial(), status: 'running', systems, track: { name: track.name, durationS: track.durationS, frames, key: track.key } });
     for (const slot of SLOTS) {
       const w = this.makeWorker();
       this.workers.push(w);
-      this.setSlot(slot, { status: 'running', estimate: 8 });
+      this.setSlot(slot, { status: 'running', estimate: TYPICAL_RENDERS });
       w.onmessage = (e) => {
         if (run !== this.run) return;
         const r = e.data;
@@ -149,8 +153,38 @@ export class HeadroomProbe {
     const s = this.state.slots;
     if (SLOTS.some((k) => s[k].status === 'running')) return;
     this.stopWorkers();
-    if (run === this.run)
-      this.set({ status: SLOTS.some((k) => s[k].status === 'error') ? 'error' : 'done', elapsedMs: performance.now() - t0 });
+    if (run !== this.run) return;
+    const status = SLOTS.some((k) => s[k].status === 'error') ? 'error' : 'done';
+    this.set({ status, elapsedMs: performance.now() - t0 });
+    const { systems, track } = this.state;
+    if (status === 'done' && systems && track) void keepHeadroom(resultsKey(track, systems), { a: s.a.result, b: s.b.result });
+  }
+
+  /**
+   * Brings back the findings of an earlier visit when they belong to these designs and the track the
+   * bench has now (the bench is started to know its track; it restores the kept file or the demo).
+   */
+  async restore(systems: Record<Slot, SpeakerSystem | null>): Promise<boolean> {
+    const { a, b } = systems;
+    if (this.state.status !== 'idle' || !a || !b || !(await hasKeptHeadroom())) return false;
+    const run = this.run;
+    const bench = benchAudio();
+    await bench.start();
+    const info = bench.state.track;
+    if (!info || this.state.status !== 'idle' || run !== this.run) return false;
+    const found = await keptHeadroom(resultsKey(info, { a, b }));
+    if (!found || this.state.status !== 'idle' || run !== this.run || bench.state.track !== info) return false;
+    if (!found.a || !found.b) return false;
+    const slot = (r: HeadroomResult): ProbeSlot => ({ status: 'done', renders: r.renders, estimate: r.renders, result: r, message: null });
+    this.set({
+      status: 'done',
+      slots: { a: slot(found.a), b: slot(found.b) },
+      systems: { a, b },
+      track: { name: info.name, durationS: info.frames / info.sampleRate, frames: info.frames, key: info },
+      elapsedMs: 0,
+      restored: true,
+    });
+    return true;
   }
 
   cancel(): void {
