@@ -21,7 +21,8 @@ describe('figures for a person', () => {
     expect(sig(180.6089)).toBe('181');
     expect(sig(2.53707)).toBe('2.54');
     expect(sig(649.8)).toBe('650');
-    expect(sig(12345)).toBe('12300');
+    // Whole numbers stay whole (the engine's one rule: 12345 Hz reads as typed).
+    expect(sig(12345)).toBe('12345');
     expect(sig(2.8)).toBe('2.8');
     expect(sig(-0.0004567)).toBe('-0.000457');
     expect(sig(0)).toBe('0');

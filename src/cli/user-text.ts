@@ -1,6 +1,7 @@
 // Text the CLI shows to a person: echoed bytes made harmless for a terminal, operating-system
 // error codes in words, long problem lists cut short with a count, numbers read as decimals only.
 import { UsageError } from './command.ts';
+import { counted, significantTrimmed } from '../engine/number-text.ts';
 
 const HEX = (c: string) => c.charCodeAt(0).toString(16).padStart(2, '0');
 
@@ -74,9 +75,7 @@ export function wholeNumber(text: string, option: string): number {
 export function sig(x: number | null | undefined, digits = 3): string {
   if (x === null || x === undefined || Number.isNaN(x)) return '-';
   if (!Number.isFinite(x)) return x > 0 ? 'unlimited' : '-unlimited';
-  const r = Number(x.toPrecision(digits));
-  // Plain decimals for every size a table shows (String() turns to exponents below 1e-6).
-  return Math.abs(r) >= 1e-6 || r === 0 ? String(r === 0 ? 0 : r) : r.toExponential(digits - 1);
+  return significantTrimmed(x, digits);
 }
 
 /**
@@ -98,9 +97,7 @@ export function duration(seconds: number): string {
 }
 
 /** "1 warning", "0 errors", "2 arguments". */
-export function count(n: number, one: string, many = `${one}s`): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
+export const count = counted;
 
 /** A moment in a track: seconds to three significant figures under a minute, else m:ss.s, never later than it is (2:05.9). */
 export function moment(seconds: number): string {

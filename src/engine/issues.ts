@@ -1,5 +1,5 @@
 // Problems found in a design or an input, as values: the UI and the CLI only present them.
-import { significant } from './number-text.ts';
+import { significantTrimmed } from './number-text.ts';
 
 export interface Issue {
   /** Field path in the design document, e.g. "box.vb_l"; "" for the whole document. */
@@ -16,8 +16,7 @@ export const warning = (path: string, message: string): Issue => ({ path, messag
  * and no trailing zeros, so a value the user typed reads as typed ("a 2 l box", "1 W").
  */
 export function fmt(value: number): string {
-  const text = significant(value, 3);
-  return /e/.test(text) || !/\./.test(text) ? text : text.replace(/\.?0+$/, '');
+  return significantTrimmed(value, 3);
 }
 
 /**

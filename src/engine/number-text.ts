@@ -18,3 +18,14 @@ export function significant(value: number, digits = 3): string {
   const intDigits = Math.floor(Math.log10(Math.abs(rounded))) + 1;
   return rounded.toFixed(Math.max(0, digits - intDigits));
 }
+
+/** `significant` without trailing zeros (4.99 V, 2 l, 2.83 V): figures in messages and tables read as typed. */
+export function significantTrimmed(value: number, digits = 3): string {
+  const text = significant(value, digits);
+  return /e/.test(text) || !/\./.test(text) ? text : text.replace(/\.?0+$/, '');
+}
+
+/** "1 warning", "0 errors", "3 warnings": a count with its noun in the right number. */
+export function counted(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}

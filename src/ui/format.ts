@@ -1,6 +1,6 @@
 // Display formatting only: numbers to text with a sensible precision, SI values to display units.
 // No physics here; every value shown comes from the engine.
-import { significant } from '../engine/number-text.ts';
+import { counted, significant } from '../engine/number-text.ts';
 
 /** Significant-figure formatting for read-outs (the engine's one rule), with a proper minus sign and a dash for no value. */
 export function num(value: number | null | undefined, digits = 3): string {
@@ -70,9 +70,7 @@ export function fileStem(name: string): string {
 }
 
 /** "1 warning", "3 warnings": a count with its noun in the right number. */
-export function plural(n: number, one: string, many = `${one}s`): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
+export const plural = counted;
 
 /** A sample rate as people write it: "44.1 kHz", "22.05 kHz", "48 kHz" (no trailing zeros). */
 export function kHz(hz: number): string {

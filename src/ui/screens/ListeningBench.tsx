@@ -18,7 +18,6 @@ import { clock, KIND_LABEL } from '../bench/palette.ts';
 import type { DesignDoc } from '../../engine/design/document.ts';
 import '../bench/bench.css';
 
-
 function plannedText(d: DesignDoc): string {
   const l = d.listening;
   const lv = l.level;
