@@ -73,3 +73,23 @@ describe('a passive tweeter fed too low', () => {
     expect(quiet.summary.events.filter((e) => e.way === 'tweeter' && e.kind === 'excursion')).toEqual([]);
   });
 });
+
+describe('a passive way at low drive', () => {
+  // The coil's heat is measured against the model's own cold loop (coil plus the network's Thevenin
+  // resistance): against the coil and the amplifier alone, a series resistor read as a hot coil
+  // (1.29 dB for the woofer's inductor, 3.01 dB for the tweeter's pad) and every level overloaded.
+  it('reports no coil compression and no events on a quiet noise burst', () => {
+    for (const name of ['bookshelf-two-way-passive', 'bookshelf-two-way-passive-3rd']) {
+      const sys = example(name);
+      const sr = 48000;
+      let seed = 7;
+      const noise = Float32Array.from({ length: sr }, () => {
+        seed = (seed * 1103515245 + 12345) % 2147483648;
+        return (seed / 2147483648 - 0.5) * 0.5;
+      });
+      const s = renderBuffer(sys, [noise], sr, { voltsFs: 0.05, paPerFs: 1, analysisOnly: true }).summary;
+      for (const w of s.ways) expect(w.max_compression_db, `${name} ${w.name}`).toBeLessThan(0.001);
+      expect(s.events, name).toEqual([]);
+    }
+  });
+});

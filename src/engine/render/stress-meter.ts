@@ -95,7 +95,9 @@ export class WayStress {
     this.rail = sys.amplifier.vPeak;
     this.coilMax = d.thermal.coilMaxC;
     this.ambient = sys.air.temperatureC;
-    this.rCold = d.re + sys.amplifier.rs;
+    // The model's own cold loop resistance: with a passive network its Thevenin resistance stands
+    // where the amplifier's stood (wayParams), so the coil's heat is measured against that.
+    this.rCold = p.re0 + p.rs;
     this.r1dB = this.rCold * Math.pow(10, COMPRESSION_LIMIT_DB / 20);
     const s = this.source;
     events.setLimit(s, EV_EXCURSION, d.xmax * 1000);
