@@ -8,7 +8,8 @@ import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
 import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
-import { offsetDelay, passbandPressure, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
+import { offsetDelay, passbandPressure, placedInSum, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
+import { byContent } from './by-content.ts';
 import { ladderInputImpedance, ladderStates, ladderThevenin, partLabel, partPower } from './ladder.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
 import type { Analysis, Curves, Figures, MaxSplLimit, NetworkCurves, PartFigure, SumAnalysis, SumCurves, WayAnalysis } from './types.ts';
@@ -90,12 +91,41 @@ interface Placed {
   above: Complex[];
 }
 
-function placeWays(system: SpeakerSystem, freqHz: Float64Array, volts: number): Placed[] {
-  return system.ways.map((way) => ({
-    below: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 - GD_EPS), volts)),
-    at: Array.from(freqHz, (f) => wayPressure(system, way, f, volts)),
-    above: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 + GD_EPS), volts)),
-  }));
+/**
+ * What one way gives on the grid whatever the planned level and the other ways: its place in the sum
+ * and, for a driver way, its response at the analysis drive and its largest sine at each frequency
+ * (the costliest figure: the coil heated to equilibrium at every limit).
+ */
+interface WayOnGrid {
+  placed: Placed;
+  responses: PointResponse[] | null;
+  limits: { pa: number; limit: MaxSplLimit }[] | null;
+}
+
+function wayOnGrid(system: SpeakerSystem, way: Way, freqHz: Float64Array, volts: number): WayOnGrid {
+  const responses = way.kind === 'driver' ? Array.from(freqHz, (f) => respond(system, way, f, volts)) : null;
+  return {
+    placed: {
+      below: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 - GD_EPS), volts)),
+      at: responses
+        ? responses.map((r, k) => placedInSum(system, way, r.pressure, freqHz[k]))
+        : Array.from(freqHz, (f) => wayPressure(system, way, f, volts)),
+      above: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 + GD_EPS), volts)),
+    },
+    responses,
+    limits: way.kind === 'driver' ? Array.from(freqHz, (f) => maxSine(system, way, f)) : null,
+  };
+}
+
+/** The last ways on their grids, by everything they depend on: an edit recomputes only the ways it touched. */
+const waysOnGrid = byContent<WayOnGrid>(16);
+
+function waysOnGridOf(system: SpeakerSystem, freqHz: Float64Array, grid: number[], volts: number): WayOnGrid[] {
+  // The planned level and the room shape none of it (the room acts on the sum, room/analysis.ts).
+  const { level: _level, room: _room, ...listening } = system.listening;
+  return system.ways.map((way) =>
+    waysOnGrid([way, system.air, system.amplifier, listening, volts, grid], () => wayOnGrid(system, way, freqHz, volts)),
+  );
 }
 
 /**
@@ -299,7 +329,8 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
   const vAmp = system.amplifier.vPeak / (Math.SQRT2 * abs(wayFilterAt(way.filter, w)));
   // Thermal: the drive that holds the coil at its rating, with the coil's resistance at the rating.
   const atMax = hotWay(way, riseMax);
-  const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, respond(system, atMax, f, 1))));
+  const rAtMax = respond(system, atMax, f, 1);
+  const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, rAtMax)));
   let rise = 0;
   let best = { v: vAmp, pa: 0, limit: 'amplifier' as MaxSplLimit };
   for (let it = 0; it < 12; it++) {
@@ -315,8 +346,7 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
     const riseHere = rth * coilPower(hot, r) * best.v * best.v;
     if (riseHere >= riseMax || vThermal <= best.v) {
       // The coil reaches its rating first: the drive that holds it there, with the hot coil's response.
-      const r2 = respond(system, atMax, f, 1);
-      return { v: vThermal, pa: abs(r2.pressure) * vThermal, limit: 'thermal' };
+      return { v: vThermal, pa: abs(rAtMax.pressure) * vThermal, limit: 'thermal' };
     }
     best.pa = abs(r.pressure) * best.v;
     if (Math.abs(riseHere - rise) < 1e-3) break;
@@ -369,7 +399,15 @@ function partFigures(way: DriverWay, curves: Curves): PartFigure[] | null {
   });
 }
 
-function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz: Float64Array, driveV: number, planned: number): Curves {
+function wayCurves(
+  system: SpeakerSystem,
+  way: DriverWay,
+  onGrid: WayOnGrid,
+  freqHz: Float64Array,
+  driveV: number,
+  planned: number,
+): Curves {
+  const { placed } = onGrid;
   const n = freqHz.length;
   const { box } = way;
   const probe = BOX_KINDS[box.type].probe(box);
@@ -396,7 +434,7 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
   };
   for (let k = 0; k < n; k++) {
     const f = freqHz[k];
-    const r = respond(system, way, f, driveV);
+    const r = onGrid.responses![k];
     curves.splDb[k] = splDb(abs(r.pressure));
     curves.coneSplDb[k] = splDb(abs(r.conePressure));
     if (curves.portSplDb) curves.portSplDb[k] = splDb(abs(r.outletPressure));
@@ -415,7 +453,7 @@ function wayCurves(system: SpeakerSystem, way: DriverWay, placed: Placed, freqHz
       curves.portAirSpeed[k] = stress.value;
       curves.plannedPortAirSpeed[k] = (stress.value * planned) / driveV;
     }
-    const lim = maxSine(system, way, f);
+    const lim = onGrid.limits![k];
     curves.maxSplDb[k] = splDb(lim.pa);
     curves.maxSplLimit[k] = lim.limit;
   }
@@ -532,12 +570,12 @@ function levelWarnings(system: SpeakerSystem, wa: Omit<WayAnalysis, 'warnings'>)
 function analyzeWay(
   system: SpeakerSystem,
   way: DriverWay,
-  placed: Placed,
+  onGrid: WayOnGrid,
   freqHz: Float64Array,
   driveV: number,
   planned: number,
 ): WayAnalysis {
-  const curves = wayCurves(system, way, placed, freqHz, driveV, planned);
+  const curves = wayCurves(system, way, onGrid, freqHz, driveV, planned);
   const wa = { way, index: system.ways.indexOf(way), figures: wayFigures(system, way, curves, driveV, planned), curves };
   return { ...wa, warnings: levelWarnings(system, wa) };
 }
@@ -635,15 +673,17 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const driveV = options.driveV ?? SENSITIVITY_VOLTS;
   const driverWays = system.ways.filter((w): w is DriverWay => w.kind === 'driver');
   const fMax = options.fMaxHz ?? (driverWays.length > 1 ? 20000 : 2000);
-  const freqHz = logGrid(options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48);
+  const grid = [options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48];
+  const freqHz = logGrid(grid[0], grid[1], grid[2]);
   const sumPerVolt = sumPassbandPerVolt(system);
   const planned = plannedVoltsRms(system);
-  const placed = placeWays(system, freqHz, driveV);
+  const onGrid = waysOnGridOf(system, freqHz, grid, driveV);
+  const placed = onGrid.map((g) => g.placed);
   const programme = plannedProgramme(system, planned);
   // The planned level itself, as every figure quotes it: the stand-in's Leq,C at the seat.
   const plannedLevelDb = programme.leqCPerVoltDb + 20 * Math.log10(planned);
   const ways = driverWays.map((way) => {
-    const wa = analyzeWay(system, way, placed[system.ways.indexOf(way)], freqHz, driveV, planned);
+    const wa = analyzeWay(system, way, onGrid[system.ways.indexOf(way)], freqHz, driveV, planned);
     return { ...wa, figures: { ...wa.figures, plannedSplDb: plannedLevelDb } };
   });
   const first = ways[0];

@@ -81,23 +81,47 @@ export function measuredCorrection(system: SpeakerSystem, way: DriverWay): Measu
   return cachedCorrection(way, dependsOn, (f) => modelled(system, bare, f, 1, false).pressure);
 }
 
+/**
+ * The last value of a pure function of an object and a frequency, kept for the next call with the same
+ * object (by identity) and frequency: the figures solve one way at one frequency many times over (a
+ * coil heating up, the limits of a sine), and its filter, network and box do not change between those
+ * calls. The very same numbers come back, so nothing the caller computes changes.
+ */
+function lastAt<K extends object, V>(compute: (key: K, w: number, extra: unknown) => V): (key: K, w: number, extra?: unknown) => V {
+  let lastKey: K | null = null;
+  let lastW = Number.NaN;
+  let lastExtra: unknown;
+  let last: V;
+  return (key, w, extra) => {
+    if (key !== lastKey || w !== lastW || extra !== lastExtra) {
+      last = compute(key, w, extra);
+      [lastKey, lastW, lastExtra] = [key, w, extra];
+    }
+    return last;
+  };
+}
+
+const filterAt = lastAt((filter: ActiveFilter, w) => wayFilterAt(filter, w));
+const theveninAt = lastAt((network: NonNullable<DriverWay['network']>, w, rs) => ladderThevenin(network, w, rs as number));
+const acousticsAt = lastAt((box: DriverWay['box'], w, air) => BOX_KINDS[box.type].acoustics(box, air as SpeakerSystem['air'], w));
+
 function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {
   const { air, amplifier, listening } = system;
   const { driver: d, box } = way;
   const w = 2 * Math.PI * f;
   const jw = cx(0, w);
-  let drive = scale(wayFilterAt(way.filter, w), volts);
+  let drive = scale(filterAt(way.filter, w), volts);
   const coil = coilImpedance(d, w);
   let source = cx(amplifier.rs);
   if (way.network) {
     // A passive way: the amplifier and its network seen from the driver terminals.
-    const th = ladderThevenin(way.network, w, amplifier.rs);
+    const th = theveninAt(way.network, w, amplifier.rs);
     drive = mul(drive, th.gain);
     source = th.z;
   }
   const ze = add(coil, source);
   const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
-  const ac = BOX_KINDS[box.type].acoustics(box, air, w);
+  const ac = acousticsAt(box, w, air);
   const zmTotal = add(zm, scale(ac.zLoad, d.sd * d.sd));
   const motional = div(cx(d.bl * d.bl), zmTotal);
   const current = div(drive, add(ze, motional));
@@ -149,7 +173,12 @@ export function wayPressure(system: SpeakerSystem, way: Way, f: number, volts: n
     way.kind === 'driver'
       ? respond(system, way, f, volts, withRoomGain).pressure
       : mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0));
-  return scale(mul(own, delayAt(w, offsetDelay(system, way))), way.polarity);
+  return placedInSum(system, way, own, f);
+}
+
+/** A way's own pressure at f as it enters the sum: its polarity and its offset's delay applied. */
+export function placedInSum(system: SpeakerSystem, way: Way, own: Complex, f: number): Complex {
+  return scale(mul(own, delayAt(2 * Math.PI * f, offsetDelay(system, way))), way.polarity);
 }
 
 /** The whole system's complex pressure at the seat: the sum of its ways. */
