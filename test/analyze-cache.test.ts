@@ -36,7 +36,6 @@ function random(seed: number): () => number {
 /** Every numeric field of a design, as a path. */
 function numericPaths(x: unknown, path: (string | number)[] = [], out: (string | number)[][] = []): (string | number)[][] {
   if (typeof x === 'number') out.push(path);
-  else if (Array.isArray(x)) x.forEach((v, i) => numericPaths(v, [...path, i], out));
   else if (x && typeof x === 'object') for (const [k, v] of Object.entries(x)) numericPaths(v, [...path, k], out);
   return out;
 }
