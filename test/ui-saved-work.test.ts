@@ -185,6 +185,34 @@ describe('an edit made just before the page closes', () => {
     expect(boxOf((await next.load())?.designs.a).vb_l).toBe(31);
   });
 
+  it('waits for idle time after its frame before it is written, and is journalled if the page closes first', async () => {
+    const backend = memoryBackend(usersWork());
+    const store = new Store(demoPair);
+    let idle = () => {};
+    const autosave = new Autosave(
+      backend,
+      () => Date.now(),
+      () => new Promise<void>((r) => (idle = r)),
+    );
+    store.dispatch({ type: 'restore', state: (await autosave.load())! });
+    autosave.attach(store);
+    const writes = backend.writes;
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 31 });
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 32 });
+    await sleep(20);
+    // Nothing written yet: the edit's redraw goes first.
+    expect(backend.writes).toBe(writes);
+    expect(autosave.status.kind).toBe('saved');
+    autosave.flushNow();
+    expect(boxOf(savedPair(backend.journaled).a).vb_l).toBe(32);
+    idle();
+    await autosave.flush();
+    // Both edits in one write, and the journal dropped once IndexedDB holds them.
+    expect(backend.writes).toBe(writes + 1);
+    expect(boxOf(savedPair(backend.value).a).vb_l).toBe(32);
+    expect(backend.journaled).toBeUndefined();
+  });
+
   it('an older journal does not win over a newer stored state', async () => {
     const backend = memoryBackend(usersWork());
     backend.journaled = { ...usersWork(), savedAt: 10 };

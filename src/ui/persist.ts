@@ -9,6 +9,7 @@
 // shared link, saving is held until the user keeps the shared designs.
 import { openDB, type IDBPDatabase } from 'idb';
 import { parseDesign } from '../engine/design/validate.ts';
+import { validate } from './engine.ts';
 import { checkProject, projectFromPair, type Project } from './project.ts';
 import { DEFAULT_SETTINGS, stateOf, type AppState, type Settings, type Store } from './store.ts';
 
@@ -209,7 +210,20 @@ export function isSavedState(
 
 /** True when every variant passes the design-file validation: only such a state becomes the last good one. */
 export function designsValid(state: AppState): boolean {
-  return state.project.variants.every((v) => parseDesign(v.design).ok);
+  // Through the app's validation, kept per design object: an edit re-checks only the design it changed.
+  return state.project.variants.every((v) => validate(v.design).ok);
+}
+
+/**
+ * When a save starts: after the edit's own frame has been drawn, in idle time (within half a second
+ * at the latest), so writing never delays the redraw of an edit. Until then the edit is not yet
+ * stored, and `flushNow` journals it if the page is hidden or closed meanwhile.
+ */
+export function afterPaint(): Promise<void> {
+  return new Promise((resolve) => {
+    if (typeof requestIdleCallback === 'function') requestIdleCallback(() => resolve(), { timeout: 500 });
+    else setTimeout(resolve, 0);
+  });
 }
 
 /** Settings as stored, with anything of the wrong type replaced by the default. */
@@ -242,7 +256,7 @@ export function usableState(v: unknown): { savedAt: number; state: AppState } | 
   return r.ok ? { savedAt: v.savedAt, state: stateOf(r.project, settings) } : null;
 }
 
-/** Connects a store to a backend: every change is saved (coalesced within one task). */
+/** Connects a store to a backend: every change is saved (coalesced until idle time after the edit's frame). */
 export class Autosave {
   status: SaveStatus = { kind: 'starting' };
   private pending: Promise<void> | null = null;
@@ -262,6 +276,8 @@ export class Autosave {
   constructor(
     private readonly backend: StorageBackend,
     private readonly now: () => number = () => Date.now(),
+    /** Waits before a save begins (a burst of edits then lands in one write). */
+    private readonly settle: () => Promise<void> = afterPaint,
   ) {}
 
   onStatus(fn: (s: SaveStatus) => void): () => void {
@@ -413,10 +429,10 @@ export class Autosave {
   private request(store: Store) {
     this.dirty = true;
     if (this.pending || this.read !== 'yes' || this.holding) return;
-    if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
     this.pending = (async () => {
-      // Let a burst of intents in the same task land first.
-      await Promise.resolve();
+      // Let the edit draw, and a burst of edits land, first.
+      await this.settle();
+      if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
       while (this.dirty) {
         this.dirty = false;
         const state = store.get();
