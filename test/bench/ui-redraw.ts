@@ -38,10 +38,13 @@ const MEASURE = String.raw`async ({ selector, n, how }) => {
   const input = document.querySelector('input[aria-label="Net volume Vb, design A"]');
   const times = [];
   const all = [];
-  const base = store.get().designs.a.ways[0].box.vb_l;
+  window.__benchBase ??= store.get().designs.a.ways[0].box.vb_l;
   for (let i = 0; i < n; i++) {
     const before = draws();
-    const vb = Number((base * (1 + (0.3 * ((i % 7) + 1)) / 7)).toFixed(2));
+    // A volume never used before on this page (a golden-ratio walk over 0.8 to 1.2 times the first):
+    // each edit is new work, not one the analysis has kept.
+    window.__benchEdits = (window.__benchEdits ?? 0) + 1;
+    const vb = Number((window.__benchBase * (0.8 + 0.4 * ((window.__benchEdits * 0.6180339887) % 1))).toFixed(3));
     const t0 = performance.now();
     if (how === 'input' && input) {
       input.value = String(vb);

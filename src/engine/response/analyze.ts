@@ -204,13 +204,20 @@ const scanStartHz = (system: SpeakerSystem, way: DriverWay) =>
  * gain and delay included, its low-pass left out).
  */
 export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number): number {
+  return rolloffsHz(system, way, [dropDb])[0];
+}
+
+/** `rolloffHz` for several drops at once: the way's level at each frequency solved once for all. */
+export function rolloffsHz(system: SpeakerSystem, way: DriverWay, dropsDb: number[]): number[] {
   const low = withoutLowpass(way);
-  const level = (f: number) => splDb(abs(respond(system, low, f, 1, false).pressure));
-  let start = scanStartHz(system, way);
-  let ref = splDb(wayPassbandPerVolt(system, way));
-  if (level(start) - ref < -dropDb) {
+  const level = remembered((f: number) => splDb(abs(respond(system, low, f, 1, false).pressure)));
+  const scanFrom = scanStartHz(system, way);
+  const passband = splDb(wayPassbandPerVolt(system, way));
+  let fromPeak: { start: number; ref: number } | null = null;
+  const bandPeak = () => {
     // The box itself rolls the top off (a bandpass box): measure from the band's own peak, when it
     // stays under the passband level of the drivers, and scan down from there.
+    let start = scanFrom;
     const step = 2 ** (1 / 48);
     let peak = -Infinity;
     for (let f = start; f > start / 64; f /= step) {
@@ -228,9 +235,29 @@ export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number)
       else lo = a;
     }
     start = Math.exp((lo + hi) / 2);
-    ref = Math.min(ref, Math.max(peak, level(start)));
-  }
-  return rolloff((f) => level(f) - ref, start, dropDb);
+    return { start, ref: Math.min(passband, Math.max(peak, level(start))) };
+  };
+  return dropsDb.map((dropDb) => {
+    let [start, ref] = [scanFrom, passband];
+    if (level(start) - ref < -dropDb) {
+      fromPeak ??= bandPeak();
+      [start, ref] = [fromPeak.start, fromPeak.ref];
+    }
+    return rolloff((f) => level(f) - ref, start, dropDb);
+  });
+}
+
+/** `fn` with its results kept by argument: the rolloff scans of several drops step through the same frequencies. */
+function remembered(fn: (f: number) => number): (f: number) => number {
+  const kept = new Map<number, number>();
+  return (f) => {
+    let v = kept.get(f);
+    if (v === undefined) {
+      v = fn(f);
+      kept.set(f, v);
+    }
+    return v;
+  };
 }
 
 /**
@@ -239,8 +266,17 @@ export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number)
  * curve shows, does not hide how deep the system reaches); refined by bisection.
  */
 export function sumRolloffHz(system: SpeakerSystem, dropDb: number, sumPerVolt = sumPassbandPerVolt(system)): number {
+  return sumRolloffsHz(system, [dropDb], sumPerVolt)[0];
+}
+
+/** `sumRolloffHz` for several drops at once: the sum at each frequency solved once for all. */
+function sumRolloffsHz(system: SpeakerSystem, dropsDb: number[], sumPerVolt: number): number[] {
   const ref = splDb(sumPerVolt);
-  const rel = (f: number) => splDb(abs(systemPressure(system, f, 1, false))) - ref;
+  const rel = remembered((f: number) => splDb(abs(systemPressure(system, f, 1, false))) - ref);
+  return dropsDb.map((dropDb) => firstWithin(rel, dropDb));
+}
+
+function firstWithin(rel: (f: number) => number, dropDb: number): number {
   const step = 2 ** (1 / 24);
   let prev = 0.5;
   if (rel(prev) >= -dropDb) return prev;
@@ -490,11 +526,12 @@ function wayFigures(system: SpeakerSystem, way: DriverWay, curves: Curves, drive
     if (curves.impedanceOhm[k] < zMin) [zMin, zMinHz] = [curves.impedanceOhm[k], freqHz[k]];
   }
   const spl = (f: number) => splDb(abs(respond(system, way, f, driveV).pressure));
+  const [f3Hz, f6Hz, f10Hz] = rolloffsHz(system, way, [HALF_POWER_DB, 6, 10]);
   const sensitivitySystem = { ...system, listening: { ...system.listening, roomGainHz: 0 } };
   return {
-    f3Hz: rolloffHz(system, way, HALF_POWER_DB),
-    f6Hz: rolloffHz(system, way, 6),
-    f10Hz: rolloffHz(system, way, 10),
+    f3Hz,
+    f6Hz,
+    f10Hz,
     ...boxFigures(system, way),
     eta0Pct: referenceEfficiency(system, way) * 100,
     sensitivityDb: splDb(passbandPressure(sensitivitySystem, way, SENSITIVITY_VOLTS, 1)),
@@ -617,14 +654,14 @@ function analyzeSum(
     curves.phaseDeg[k] = (arg(at) * 180) / Math.PI;
     curves.groupDelayMs[k] = groupDelayFrom(below, above, freqHz[k]) * 1000;
   }
-  const f3Hz = sumRolloffHz(system, HALF_POWER_DB, sumPerVolt);
+  const [f3Hz, f6Hz, f10Hz] = sumRolloffsHz(system, [HALF_POWER_DB, 6, 10], sumPerVolt);
   const passbandSplDb = splDb(sumPerVolt * driveV);
   return {
     curves,
     figures: {
       f3Hz,
-      f6Hz: sumRolloffHz(system, 6, sumPerVolt),
-      f10Hz: sumRolloffHz(system, 10, sumPerVolt),
+      f6Hz,
+      f10Hz,
       sensitivityDb: splDb(sumPassbandPerVolt(system, 1) * SENSITIVITY_VOLTS),
       passbandSplDb,
       plannedVoltsRms: planned,
