@@ -83,38 +83,91 @@ const sumGroupDelay = (system: SpeakerSystem, f: number) => groupDelayOf((x) => 
 
 /**
  * Every way's pressure as it enters the sum (`wayPressure`) on the grid and just below and above
- * each grid frequency, for the sum and the group delays: each evaluated once.
+ * each grid frequency, for the sum and the group delays: each evaluated once. Kept as numbers
+ * (real and imaginary parts in turn), not objects, since the analysis keeps them across edits.
  */
 interface Placed {
-  below: Complex[];
-  at: Complex[];
-  above: Complex[];
+  below: Float64Array;
+  at: Float64Array;
+  above: Float64Array;
 }
+
+/** The k-th complex value of an array of real and imaginary parts in turn. */
+const complexAt = (parts: Float64Array, k: number): Complex => ({ re: parts[2 * k], im: parts[2 * k + 1] });
+
+function complexParts(n: number, value: (k: number) => Complex): Float64Array {
+  const out = new Float64Array(2 * n);
+  for (let k = 0; k < n; k++) {
+    const z = value(k);
+    out[2 * k] = z.re;
+    out[2 * k + 1] = z.im;
+  }
+  return out;
+}
+
+/** A driver way's curves that do not depend on the planned level. */
+type GridCurves = Omit<Curves, 'freqHz' | 'referenceSplDb' | 'plannedExcursionMm' | 'plannedPortAirSpeed' | 'network' | 'measuredSplDb'>;
 
 /**
  * What one way gives on the grid whatever the planned level and the other ways: its place in the sum
- * and, for a driver way, its response at the analysis drive and its largest sine at each frequency
+ * and, for a driver way, its curves at the analysis drive and its largest sine at each frequency
  * (the costliest figure: the coil heated to equilibrium at every limit).
  */
 interface WayOnGrid {
   placed: Placed;
-  responses: PointResponse[] | null;
-  limits: { pa: number; limit: MaxSplLimit }[] | null;
+  curves: GridCurves | null;
 }
 
 function wayOnGrid(system: SpeakerSystem, way: Way, freqHz: Float64Array, volts: number): WayOnGrid {
-  const responses = way.kind === 'driver' ? Array.from(freqHz, (f) => respond(system, way, f, volts)) : null;
-  return {
-    placed: {
-      below: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 - GD_EPS), volts)),
-      at: responses
-        ? responses.map((r, k) => placedInSum(system, way, r.pressure, freqHz[k]))
-        : Array.from(freqHz, (f) => wayPressure(system, way, f, volts)),
-      above: Array.from(freqHz, (f) => wayPressure(system, way, f * (1 + GD_EPS), volts)),
-    },
-    responses,
-    limits: way.kind === 'driver' ? Array.from(freqHz, (f) => maxSine(system, way, f)) : null,
+  const n = freqHz.length;
+  const placed: Placed = {
+    below: complexParts(n, (k) => wayPressure(system, way, freqHz[k] * (1 - GD_EPS), volts)),
+    at: new Float64Array(2 * n),
+    above: complexParts(n, (k) => wayPressure(system, way, freqHz[k] * (1 + GD_EPS), volts)),
   };
+  if (way.kind !== 'driver') {
+    placed.at = complexParts(n, (k) => wayPressure(system, way, freqHz[k], volts));
+    return { placed, curves: null };
+  }
+  const { box } = way;
+  const probe = BOX_KINDS[box.type].probe(box);
+  const curves: GridCurves = {
+    splDb: new Float64Array(n),
+    coneSplDb: new Float64Array(n),
+    portSplDb: box.type !== 'sealed' ? new Float64Array(n) : null,
+    excursionMm: new Float64Array(n),
+    radiatorExcursionMm: probe?.kind === 'radiator' ? new Float64Array(n) : null,
+    impedanceOhm: new Float64Array(n),
+    phaseDeg: new Float64Array(n),
+    groupDelayMs: new Float64Array(n),
+    portAirSpeed: probe?.kind === 'port-speed' ? new Float64Array(n) : null,
+    maxSplDb: new Float64Array(n),
+    maxSplLimit: new Array<MaxSplLimit>(n),
+  };
+  for (let k = 0; k < n; k++) {
+    const f = freqHz[k];
+    const r = respond(system, way, f, volts);
+    const at = placedInSum(system, way, r.pressure, f);
+    placed.at[2 * k] = at.re;
+    placed.at[2 * k + 1] = at.im;
+    curves.splDb[k] = splDb(abs(r.pressure));
+    curves.coneSplDb[k] = splDb(abs(r.conePressure));
+    if (curves.portSplDb) curves.portSplDb[k] = splDb(abs(r.outletPressure));
+    curves.excursionMm[k] = Math.SQRT2 * abs(r.excursion) * 1000;
+    const stress = outletStress(box, r.outletFlow, 2 * Math.PI * f);
+    if (curves.radiatorExcursionMm && stress) curves.radiatorExcursionMm[k] = stress.value;
+    // What the amplifier sees: the drivers, or their network loaded by them.
+    const load = way.network ? ladderInputImpedance(way.network, 2 * Math.PI * f, r.impedance) : r.impedance;
+    curves.impedanceOhm[k] = abs(load);
+    curves.phaseDeg[k] = (arg(load) * 180) / Math.PI;
+    // The way as placed in the sum, less its offset's pure delay (polarity leaves the delay alone).
+    curves.groupDelayMs[k] = (groupDelayFrom(complexAt(placed.below, k), complexAt(placed.above, k), f) - offsetDelay(system, way)) * 1000;
+    if (curves.portAirSpeed && stress) curves.portAirSpeed[k] = stress.value;
+    const lim = maxSine(system, way, f);
+    curves.maxSplDb[k] = splDb(lim.pa);
+    curves.maxSplLimit[k] = lim.limit;
+  }
+  return { placed, curves };
 }
 
 /** The last ways on their grids, by everything they depend on: an edit recomputes only the ways it touched. */
@@ -443,57 +496,28 @@ function wayCurves(
   driveV: number,
   planned: number,
 ): Curves {
-  const { placed } = onGrid;
-  const n = freqHz.length;
-  const { box } = way;
-  const probe = BOX_KINDS[box.type].probe(box);
-  const ported = probe?.kind === 'port-speed';
-  const hasOutlet = box.type !== 'sealed';
-  const curves: Curves = {
+  // The analysis's own copies: the kept ones serve the next edit.
+  const g = onGrid.curves!;
+  const copy = (x: Float64Array | null) => (x ? x.slice() : null);
+  return {
     freqHz,
-    splDb: new Float64Array(n),
-    coneSplDb: new Float64Array(n),
-    portSplDb: hasOutlet ? new Float64Array(n) : null,
-    referenceSplDb: new Float64Array(n).fill(splDb(wayPassbandPerVolt(system, way) * driveV)),
-    excursionMm: new Float64Array(n),
-    plannedExcursionMm: new Float64Array(n),
-    radiatorExcursionMm: probe?.kind === 'radiator' ? new Float64Array(n) : null,
-    impedanceOhm: new Float64Array(n),
-    phaseDeg: new Float64Array(n),
-    groupDelayMs: new Float64Array(n),
-    portAirSpeed: ported ? new Float64Array(n) : null,
-    plannedPortAirSpeed: ported ? new Float64Array(n) : null,
-    maxSplDb: new Float64Array(n),
-    maxSplLimit: new Array<MaxSplLimit>(n),
+    splDb: g.splDb.slice(),
+    coneSplDb: g.coneSplDb.slice(),
+    portSplDb: copy(g.portSplDb),
+    referenceSplDb: new Float64Array(freqHz.length).fill(splDb(wayPassbandPerVolt(system, way) * driveV)),
+    excursionMm: g.excursionMm.slice(),
+    plannedExcursionMm: g.excursionMm.map((x) => (x * planned) / driveV),
+    radiatorExcursionMm: copy(g.radiatorExcursionMm),
+    impedanceOhm: g.impedanceOhm.slice(),
+    phaseDeg: g.phaseDeg.slice(),
+    groupDelayMs: g.groupDelayMs.slice(),
+    portAirSpeed: copy(g.portAirSpeed),
+    plannedPortAirSpeed: g.portAirSpeed ? g.portAirSpeed.map((x) => (x * planned) / driveV) : null,
+    maxSplDb: g.maxSplDb.slice(),
+    maxSplLimit: [...g.maxSplLimit],
     network: way.network ? networkCurves(system, way, freqHz, planned) : null,
     measuredSplDb: measuredSplOnGrid(system, way, freqHz, driveV),
   };
-  for (let k = 0; k < n; k++) {
-    const f = freqHz[k];
-    const r = onGrid.responses![k];
-    curves.splDb[k] = splDb(abs(r.pressure));
-    curves.coneSplDb[k] = splDb(abs(r.conePressure));
-    if (curves.portSplDb) curves.portSplDb[k] = splDb(abs(r.outletPressure));
-    const xPeakMm = Math.SQRT2 * abs(r.excursion) * 1000;
-    curves.excursionMm[k] = xPeakMm;
-    curves.plannedExcursionMm[k] = (xPeakMm * planned) / driveV;
-    const stress = outletStress(box, r.outletFlow, 2 * Math.PI * f);
-    if (curves.radiatorExcursionMm && stress) curves.radiatorExcursionMm[k] = stress.value;
-    // What the amplifier sees: the drivers, or their network loaded by them.
-    const load = way.network ? ladderInputImpedance(way.network, 2 * Math.PI * f, r.impedance) : r.impedance;
-    curves.impedanceOhm[k] = abs(load);
-    curves.phaseDeg[k] = (arg(load) * 180) / Math.PI;
-    // The way as placed in the sum, less its offset's pure delay (polarity leaves the delay alone).
-    curves.groupDelayMs[k] = (groupDelayFrom(placed.below[k], placed.above[k], f) - offsetDelay(system, way)) * 1000;
-    if (curves.portAirSpeed && curves.plannedPortAirSpeed && stress) {
-      curves.portAirSpeed[k] = stress.value;
-      curves.plannedPortAirSpeed[k] = (stress.value * planned) / driveV;
-    }
-    const lim = onGrid.limits![k];
-    curves.maxSplDb[k] = splDb(lim.pa);
-    curves.maxSplLimit[k] = lim.limit;
-  }
-  return curves;
 }
 
 /** The largest value of `values` over the grid from `fromHz` up, and where. */
@@ -645,10 +669,11 @@ function analyzeSum(
   for (let k = 0; k < n; k++) {
     let [below, at, above] = [cx(0), cx(0), cx(0)];
     placed.forEach((p, j) => {
-      curves.ways[j].splDb[k] = splDb(abs(p.at[k]));
-      below = add(below, p.below[k]);
-      at = add(at, p.at[k]);
-      above = add(above, p.above[k]);
+      const here = complexAt(p.at, k);
+      curves.ways[j].splDb[k] = splDb(abs(here));
+      below = add(below, complexAt(p.below, k));
+      at = add(at, here);
+      above = add(above, complexAt(p.above, k));
     });
     curves.splDb[k] = splDb(abs(at));
     curves.phaseDeg[k] = (arg(at) * 180) / Math.PI;
