@@ -200,9 +200,9 @@ describe('an edit made just before the page closes', () => {
     store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 31 });
     store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 32 });
     await sleep(20);
-    // Nothing written yet: the edit's redraw goes first.
+    // Nothing written yet: the edit's redraw goes first; the status says the save is under way.
     expect(backend.writes).toBe(writes);
-    expect(autosave.status.kind).toBe('saved');
+    expect(autosave.status.kind).toBe('saving');
     autosave.flushNow();
     expect(boxOf(savedPair(backend.journaled).a).vb_l).toBe(32);
     idle();
@@ -211,6 +211,33 @@ describe('an edit made just before the page closes', () => {
     expect(backend.writes).toBe(writes + 1);
     expect(boxOf(savedPair(backend.value).a).vb_l).toBe(32);
     expect(backend.journaled).toBeUndefined();
+  });
+
+  it('made just before a shared link opens in the same tab, is in the saved designs the user goes back to', async () => {
+    const backend = memoryBackend(usersWork());
+    const store = new Store(demoPair);
+    let idle = () => {};
+    const autosave = new Autosave(
+      backend,
+      () => Date.now(),
+      () => new Promise<void>((r) => (idle = r)),
+    );
+    store.dispatch({ type: 'restore', state: (await autosave.load())! });
+    autosave.attach(store);
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 27 });
+    const view = new SharedView(store, autosave);
+    const shared = demoPair();
+    shared.a = { ...shared.a, name: 'From a link' };
+    view.open(projectFromPair(shared));
+    idle();
+    await autosave.flush();
+    // The link's designs are never saved; the edit made before it is kept.
+    expect(savedPair(backend.value).a.name).toBe('My own design');
+    await view.leave();
+    expect(boxOf(store.get().designs.a).vb_l).toBe(27);
+    idle();
+    await autosave.flush();
+    expect(boxOf(savedPair(backend.value).a).vb_l).toBe(27);
   });
 
   it('an older journal does not win over a newer stored state', async () => {

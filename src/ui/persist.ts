@@ -313,6 +313,9 @@ export class Autosave {
 
   /** Stops saving while a shared link is on view (storage and the other tabs stay as they were). */
   hold(): void {
+    // An edit not yet saved (the save waits for idle time) is journalled first: the saved designs
+    // the user goes back to, or keeps the link's beside, include it.
+    if (!this.holding) this.flushNow();
     this.holding = true;
     this.setStatus({
       kind: 'held',
@@ -429,11 +432,13 @@ export class Autosave {
   private request(store: Store) {
     this.dirty = true;
     if (this.pending || this.read !== 'yes' || this.holding) return;
+    // Shown at once (the edit's own render shows it): the edit is not stored until the save below.
+    if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
     this.pending = (async () => {
       // Let the edit draw, and a burst of edits land, first.
       await this.settle();
-      if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
-      while (this.dirty) {
+      // A shared link may have come on view meanwhile: its designs are not the user's to save.
+      while (this.dirty && !this.holding) {
         this.dirty = false;
         const state = store.get();
         const value = savedState(state, this.now());
