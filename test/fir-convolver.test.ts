@@ -32,6 +32,9 @@ describe('PartitionedConvolver', () => {
     // Calls of whole aligned blocks (the renderer's chunks), then one that breaks the alignment.
     [90, 128, [128, 256, 128, 77, 51, 128]],
     [2000, 128, [256, 128, 1, 127, 384]],
+    // Long calls (the level calibration's), two blocks at a time.
+    [300, 128, [1024, 256, 384, 100, 28, 8192]],
+    [90, 64, [8192]],
   ];
   for (const [taps, partition, blocks] of cases) {
     it(`${taps} taps, partition ${partition}, blocks ${blocks.join('/')}: equals the direct sum`, () => {

@@ -50,6 +50,10 @@ export class PartitionedConvolver {
   /** conj(Y) of the block being summed, then the block's output in time as conj(y). */
   private readonly acc: Float64Array;
   private readonly time: Float64Array;
+  /** For two blocks of one stream at once (twoBlocks): the second block's conj(Y), the packed frames, their spectrum. */
+  private readonly acc2: Float64Array;
+  private readonly pairFrame: Float64Array;
+  private readonly pairSpec: Float64Array;
   /** Complex values per spectrum the spectral products run over. */
   private readonly bins: number;
 
@@ -83,6 +87,10 @@ export class PartitionedConvolver {
     this.tail = new Float64Array(p * streams);
     this.acc = new Float64Array(4 * p);
     this.time = new Float64Array(4 * p);
+    const alone = streams === 1 ? 4 * p : 0;
+    this.acc2 = new Float64Array(alone);
+    this.pairFrame = new Float64Array(alone);
+    this.pairSpec = new Float64Array(alone);
   }
 
   /** Filters buf[0..n) in place. */
@@ -101,7 +109,10 @@ export class PartitionedConvolver {
     const p = this.p;
     let k = 0;
     while (k < n) {
-      if (this.pos === 0 && n - k >= p) {
+      if (this.pos === 0 && this.streams === 1 && n - k >= 2 * p) {
+        this.twoBlocks(a, k);
+        k += 2 * p;
+      } else if (this.pos === 0 && n - k >= p) {
         this.wholeBlock(a, b, k);
         k += p;
       } else {
@@ -131,6 +142,79 @@ export class PartitionedConvolver {
         a[k + i] = time[2 * (p + i)];
         b[k + i] = -time[2 * (p + i) + 1];
       }
+    this.shift();
+  }
+
+  /**
+   * Two blocks of one stream, 2P inputs from a[k..], through one complex transform each way: the
+   * two frames (which overlap by a block) as z = f1 + i·f2, split by the symmetry of real signals'
+   * spectra, F1[m] = (Z[m] + conj Z[N−m])/2 and F2[m] = (Z[m] − conj Z[N−m])/(2i); the two outputs
+   * back as the real and imaginary parts of one inverse.
+   */
+  private twoBlocks(a: Float64Array, k: number): void {
+    const p = this.p;
+    const n2 = 2 * p;
+    const frame = this.frame;
+    const z = this.pairFrame;
+    for (let i = 0; i < p; i++) {
+      z[2 * i] = frame[p + i];
+      z[2 * i + 1] = a[k + i];
+      z[2 * (p + i)] = a[k + i];
+      z[2 * (p + i) + 1] = a[k + p + i];
+    }
+    const spec = this.pairSpec;
+    this.fft.transform(spec, z);
+    const count = this.fdl.length;
+    for (let half = 0; half < 2; half++) {
+      this.newest = this.newest + 1 === count ? 0 : this.newest + 1;
+      const x = this.fdl[this.newest];
+      for (let m = 0; m <= p; m++) {
+        const j = m === 0 ? 0 : n2 - m;
+        const zr = spec[2 * m],
+          zi = spec[2 * m + 1],
+          cr = spec[2 * j],
+          ci = -spec[2 * j + 1];
+        if (half === 0) {
+          x[2 * m] = 0.5 * (zr + cr);
+          x[2 * m + 1] = 0.5 * (zi + ci);
+        } else {
+          // (Z − conj Z[N−m]) / (2i) = −i/2 · (Z − conj Z[N−m])
+          x[2 * m] = 0.5 * (zi - ci);
+          x[2 * m + 1] = -0.5 * (zr - cr);
+        }
+      }
+      this.accumulate(0, half === 0 ? this.acc : this.acc2);
+    }
+    // conj(W) with W = Y1 + i·Y2 on every bin (Y1, Y2 Hermitian; acc and acc2 hold conj Y1, conj Y2 on bins 0..P).
+    const w = this.pairSpec;
+    const c1 = this.acc,
+      c2 = this.acc2;
+    for (let m = 0; m < n2; m++) {
+      let y1r: number, y1i: number, y2r: number, y2i: number;
+      if (m <= p) {
+        y1r = c1[2 * m];
+        y1i = -c1[2 * m + 1];
+        y2r = c2[2 * m];
+        y2i = -c2[2 * m + 1];
+      } else {
+        const j = n2 - m;
+        y1r = c1[2 * j];
+        y1i = c1[2 * j + 1];
+        y2r = c2[2 * j];
+        y2i = c2[2 * j + 1];
+      }
+      // W = (y1r − y2i) + i(y1i + y2r); store its conjugate.
+      w[2 * m] = y1r - y2i;
+      w[2 * m + 1] = -(y1i + y2r);
+    }
+    const time = this.time;
+    this.fft.transform(time, w);
+    for (let i = 0; i < p; i++) {
+      const second = a[k + p + i];
+      frame[p + i] = second;
+      a[k + i] = time[2 * (p + i)];
+      a[k + p + i] = -time[2 * (p + i) + 1];
+    }
     this.shift();
   }
 
@@ -199,10 +283,24 @@ export class PartitionedConvolver {
    * about a third more than its forward one (a division per value), measured here.
    */
   private spectralSum(from: number): void {
+    const acc = this.acc;
+    this.accumulate(from, acc);
+    if (this.streams === 1) {
+      // The upper half of a real signal's spectrum (and of its conjugate): the conjugate of the lower.
+      const p = this.p;
+      for (let b = p + 1; b < 2 * p; b++) {
+        acc[2 * b] = acc[2 * (2 * p - b)];
+        acc[2 * b + 1] = -acc[2 * (2 * p - b) + 1];
+      }
+    }
+    this.fft.transform(this.time, acc);
+  }
+
+  /** acc = conj(Σ_{k ≥ from} X[newest − k + from]·H[k]) on the bins the products run over. */
+  private accumulate(from: number, acc: Float64Array): void {
     const count = this.parts.length;
     const fdl = this.fdl;
     const parts = this.parts;
-    const acc = this.acc;
     const n = 2 * this.bins;
     acc.fill(0, 0, n);
     let slot = this.newest;
@@ -219,15 +317,6 @@ export class PartitionedConvolver {
       }
       slot = slot === 0 ? count - 1 : slot - 1;
     }
-    if (this.streams === 1) {
-      // The upper half of a real signal's spectrum (and of its conjugate): the conjugate of the lower.
-      const p = this.p;
-      for (let b = p + 1; b < 2 * p; b++) {
-        acc[2 * b] = acc[2 * (2 * p - b)];
-        acc[2 * b + 1] = -acc[2 * (2 * p - b) + 1];
-      }
-    }
-    this.fft.transform(this.time, this.acc);
   }
 
   /** The block is done: the current inputs become the previous ones. */
