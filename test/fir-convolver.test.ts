@@ -29,6 +29,12 @@ describe('PartitionedConvolver', () => {
     [5, 16, [7, 11]],
     [3001, 128, [255, 1, 97, 300]],
     [129, 32, [31, 33, 100]],
+    // Calls of whole aligned blocks (the renderer's chunks), then one that breaks the alignment.
+    [90, 128, [128, 256, 128, 77, 51, 128]],
+    [2000, 128, [256, 128, 1, 127, 384]],
+    // Long calls (the level calibration's), two blocks at a time.
+    [300, 128, [1024, 256, 384, 100, 28, 8192]],
+    [90, 64, [8192]],
   ];
   for (const [taps, partition, blocks] of cases) {
     it(`${taps} taps, partition ${partition}, blocks ${blocks.join('/')}: equals the direct sum`, () => {
@@ -54,6 +60,43 @@ describe('PartitionedConvolver', () => {
       }
       expect(peak).toBeGreaterThan(0.3);
       expect(worst).toBeLessThan(1e-9 * peak);
+    });
+  }
+
+  for (const [taps, partition, blocks] of cases) {
+    it(`a pair of streams, ${taps} taps, partition ${partition}, blocks ${blocks.join('/')}: each equals its direct sum`, () => {
+      const rnd = seeded(taps * 11 + partition);
+      const h = Float64Array.from({ length: taps }, () => rnd());
+      const xa = Float64Array.from({ length: 6000 }, () => rnd());
+      const xb = Float64Array.from({ length: 6000 }, () => 3 * rnd());
+      const wantA = direct(h, xa);
+      const wantB = direct(h, xb);
+      const conv = new PartitionedConvolver(h, partition, 2);
+      const gotA = new Float64Array(xa.length);
+      const gotB = new Float64Array(xb.length);
+      let at = 0;
+      for (let b = 0; at < xa.length; b++) {
+        const n = Math.min(blocks[b % blocks.length], xa.length - at);
+        const ba = xa.slice(at, at + n);
+        const bb = xb.slice(at, at + n);
+        conv.processPair(ba, bb, n);
+        gotA.set(ba, at);
+        gotB.set(bb, at);
+        at += n;
+      }
+      for (const [got, want] of [
+        [gotA, wantA],
+        [gotB, wantB],
+      ]) {
+        let worst = 0;
+        let peak = 0;
+        for (let i = 0; i < want.length; i++) {
+          worst = Math.max(worst, Math.abs(got[i] - want[i]));
+          peak = Math.max(peak, Math.abs(want[i]));
+        }
+        expect(peak).toBeGreaterThan(0.3);
+        expect(worst).toBeLessThan(1e-9 * peak);
+      }
     });
   }
 

@@ -66,6 +66,15 @@ describe('Driver sheet: measured response', () => {
     expect(k).toBeGreaterThan(0);
     const wayCurve = analysis.curves.splDb[k];
     expect(Math.abs((measured!.values as ArrayLike<number>)[k] - wayCurve)).toBeLessThan(0.05);
+    // The cone and port curves stay the model's, and the chart says so (only with a table).
+    const outputs = (sys: typeof parsed.system) =>
+      buildCharts({ a: { analysis: analyze(sys), system: sys }, b: null })
+        .find((c) => c.id === 'outputs')!
+        .summary.join(' ');
+    expect(outputs(parsed.system)).toMatch(/is the model's\. A measured response corrects the way's total sound/);
+    const plain = parseDesign(before);
+    if (!plain.ok) throw new Error('the demo design does not parse');
+    expect(outputs(plain.system)).not.toMatch(/measured response/);
     await act(() => store.dispatch({ type: 'undo' }));
     expect(store.get().designs.a).toEqual(before);
   });

@@ -7,6 +7,7 @@ import { createRenderer, type Renderer, type StressEvent } from '../engine/rende
 import type { SpeakerSystem } from '../engine/system.ts';
 import { CROSSFADE_S, LANE_IDS, LaneMixer, type BlockRenderer, type LaneId } from './lanes.ts';
 import { commonPaPerFs, dbToGain, laneGains, MONITOR_START_DB, passbandPa } from './levels.ts';
+import { adoptMeasuredTaps } from './measured-taps.ts';
 import type { DesignSlot, FromWorklet, ListenMode, LoopRegion, MeterSample, ToWorklet } from './protocol.ts';
 
 /** Frames per quantum of the Web Audio rendering model. */
@@ -155,6 +156,7 @@ export class BenchCore {
         this.setTrack(m.channels);
         return;
       case 'design':
+        if (m.measuredTaps) adoptMeasuredTaps(m.system, m.measuredTaps, this.sampleRate);
         this.setDesign(m.slot, m.system, m.voltsFs);
         return;
       case 'level': {

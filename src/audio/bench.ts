@@ -27,6 +27,7 @@ import type { ExportFormat } from './wav-export.ts';
 import { MONITOR_START_DB } from './levels.ts';
 import { decodedProblem, fileProblem, loudestBassStart, MAX_TRACK_S, overviewOf, wavTruncation } from './track.ts';
 import { fileSampleRate } from './file-rate.ts';
+import { measuredTapsFor } from './measured-taps.ts';
 import { forgetTrack, keepResults, keepTrack, keptResults, keptTrack, MAX_KEPT_TRACK_BYTES, resultsKey } from './kept-track.ts';
 import { levelFailure, levelProblem } from './level-message.ts';
 import { MAX_VOLTS_FS } from '../engine/render/renderer.ts';
@@ -462,11 +463,16 @@ export class BenchAudio {
       // A drive the model refuses is never sent: resolveLevels sends the design with its new drive.
       const usable = lv[s].voltsFs > 0 && lv[s].voltsFs < MAX_VOLTS_FS;
       if (sys && sys !== this.sentSystems[s] && usable) {
-        this.post({ type: 'design', slot: s, system: sys, voltsFs: lv[s].voltsFs });
+        this.post(this.designMessage(s, sys, lv[s].voltsFs));
         this.sentSystems[s] = sys;
       }
     }
     this.scheduleLevels(LEVEL_DEBOUNCE_MS);
+  }
+
+  /** A design for the worklet with its measured ways' FIRs built here, so the audio thread never builds one. */
+  private designMessage(slot: DesignSlot, system: SpeakerSystem, voltsFs: number): ToWorklet {
+    return { type: 'design', slot, system, voltsFs, measuredTaps: measuredTapsFor(system, this.state.sampleRate) };
   }
 
   private scheduleLevels(ms: number): void {
@@ -507,7 +513,7 @@ export class BenchAudio {
       const v = reply.levels[s].voltsFs;
       if (!(v > 0 && v < MAX_VOLTS_FS)) continue;
       if (this.sentSystems[s] !== systems[s]) {
-        this.post({ type: 'design', slot: s, system: systems[s], voltsFs: v });
+        this.post(this.designMessage(s, systems[s], v));
         this.sentSystems[s] = systems[s];
       } else if (!prev || prev[s].voltsFs !== v) this.post({ type: 'level', slot: s, voltsFs: v });
     }

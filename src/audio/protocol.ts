@@ -7,6 +7,8 @@ import { EVENT_KINDS } from '../engine/render/index.ts';
 import { LANE_IDS, type LaneId } from './lanes.ts';
 import { FILTER_SHAPES, LADDER_PARTS, MAX_DRIVERS_PER_WAY, MAX_WAYS } from '../engine/design/schema.ts';
 import { BOX_TYPES } from '../engine/box/index.ts';
+import { MAX_TAPS } from '../engine/fir/correction.ts';
+import type { WayTaps } from './measured-taps.ts';
 
 export type { LaneId };
 export type DesignSlot = 'a' | 'b';
@@ -34,7 +36,8 @@ export interface LoopRegion {
 
 export type ToWorklet =
   | { type: 'track'; channels: Float32Array[] }
-  | { type: 'design'; slot: DesignSlot; system: SpeakerSystem; voltsFs: number }
+  /** `measuredTaps`: the measured ways' FIRs, built on the page (the worklet must not build them). */
+  | { type: 'design'; slot: DesignSlot; system: SpeakerSystem; voltsFs: number; measuredTaps?: WayTaps[] }
   | { type: 'level'; slot: DesignSlot; voltsFs: number }
   | { type: 'lane'; lane: LaneId }
   | { type: 'mode'; mode: ListenMode }
@@ -183,6 +186,21 @@ function way(v: unknown, path: string): void {
   oneOf(obj(w.box, `${path}.box`), 'type', BOX_TYPES, `${path}.box`);
 }
 
+function wayTaps(v: unknown, path: string): WayTaps[] {
+  if (!Array.isArray(v) || v.length > MAX_WAYS) throw new Bad(`${path} must be a list of at most ${MAX_WAYS} FIRs, got ${show(v)}`);
+  return v.map((item, i) => {
+    const o = obj(item, `${path}[${i}]`);
+    const way = num(o, 'way', 0, MAX_WAYS - 1, `${path}[${i}]`, true);
+    const sampleRate = num(o, 'sampleRate', 1, 1e6, `${path}[${i}]`);
+    const taps = o.taps;
+    if (!(taps instanceof Float64Array) || taps.length < 1 || taps.length > MAX_TAPS)
+      throw new Bad(`${path}[${i}].taps must be a Float64Array of 1 to ${MAX_TAPS} taps, got ${show(taps)}`);
+    for (let k = 0; k < taps.length; k++)
+      if (!Number.isFinite(taps[k])) throw new Bad(`${path}[${i}].taps[${k}] must be a finite number, got ${taps[k]}`);
+    return { way, sampleRate, taps };
+  });
+}
+
 function channels(v: unknown, path: string): Float32Array[] {
   if (!Array.isArray(v) || v.length < 1 || v.length > 2) throw new Bad(`${path} must be an array of 1 or 2 channels, got ${show(v)}`);
   let n = -1;
@@ -220,6 +238,7 @@ export function parseToWorklet(data: unknown): Parsed<ToWorklet> {
           slot: oneOf(m, 'slot', DESIGN_SLOTS, p),
           system: system(m.system, `${p}.system`),
           voltsFs: num(m, 'voltsFs', 1e-6, 1e4, p),
+          ...(m.measuredTaps === undefined ? {} : { measuredTaps: wayTaps(m.measuredTaps, `${p}.measuredTaps`) }),
         };
       case 'level':
         return { type: 'level', slot: oneOf(m, 'slot', DESIGN_SLOTS, p), voltsFs: num(m, 'voltsFs', 1e-6, 1e4, p) };

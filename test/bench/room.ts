@@ -1,14 +1,14 @@
 // The room stage's cost, measured side by side in one run: the resonator bank the renderer uses (at
-// its low rate, with its filters at the audio rate) against the same room as an FIR convolved by uniformly partitioned FFT (overlap-save, fft.js) at the
+// its low rate, with its filters at the audio rate) against the same room as an FIR convolved by the engine's uniformly partitioned convolver (fir/partitioned-convolver.ts) at the
 // audio rate and at a low rate (the low rate's resampling filters not counted), and the whole
 // large-signal render with and without the room.
-import FFT from 'fft.js';
 import { readFileSync } from 'node:fs';
 import { parseDesign } from '../../src/engine/design/validate.ts';
 import { renderBuffer } from '../../src/engine/render/index.ts';
 import { roomModel } from '../../src/engine/room/modes.ts';
 import { RoomStage } from '../../src/engine/room/stage.ts';
 import { synthesizeDemoTrack } from '../../src/engine/demo/track.ts';
+import { PartitionedConvolver } from '../../src/engine/fir/partitioned-convolver.ts';
 import type { SpeakerSystem } from '../../src/engine/system.ts';
 import type { BenchResult } from './ui-redraw.ts';
 
@@ -20,61 +20,6 @@ function vented(withRoom: boolean): SpeakerSystem {
   const r = parseDesign(doc);
   if (!r.ok) throw new Error('the example does not parse');
   return r.system;
-}
-
-/** Uniformly partitioned overlap-save convolution with block b (the renderer's chunk). */
-class PartitionedFir {
-  private readonly fft: FFT;
-  private readonly parts: Float64Array[];
-  private readonly fdl: Float64Array[];
-  private head = 0;
-  private readonly window: Float64Array;
-  private readonly spec: Float64Array;
-  private readonly acc: Float64Array;
-  private readonly time: Float64Array;
-
-  constructor(
-    ir: Float64Array,
-    private readonly b: number,
-  ) {
-    this.fft = new FFT(2 * b);
-    const count = Math.ceil(ir.length / b);
-    this.parts = Array.from({ length: count }, (_, p) => {
-      const x = new Float64Array(2 * b);
-      x.set(ir.subarray(p * b, Math.min(ir.length, (p + 1) * b)));
-      const out = new Float64Array(4 * b);
-      this.fft.realTransform(out, x);
-      return out;
-    });
-    this.fdl = Array.from({ length: count }, () => new Float64Array(4 * b));
-    this.window = new Float64Array(2 * b);
-    this.spec = new Float64Array(4 * b);
-    this.acc = new Float64Array(4 * b);
-    this.time = new Float64Array(4 * b);
-  }
-
-  process(buf: Float64Array): void {
-    const b = this.b;
-    this.window.copyWithin(0, b);
-    this.window.set(buf.subarray(0, b), b);
-    this.head = (this.head + this.fdl.length - 1) % this.fdl.length;
-    const x = this.fdl[this.head];
-    this.fft.realTransform(x, this.window);
-    const acc = this.acc;
-    acc.fill(0);
-    for (let p = 0; p < this.parts.length; p++) {
-      const xs = this.fdl[(this.head + p) % this.fdl.length];
-      const h = this.parts[p];
-      for (let k = 0; k <= 2 * b + 1; k += 2) {
-        acc[k] += xs[k] * h[k] - xs[k + 1] * h[k + 1];
-        acc[k + 1] += xs[k] * h[k + 1] + xs[k + 1] * h[k];
-      }
-    }
-    this.spec.set(acc);
-    this.fft.completeSpectrum(this.spec);
-    this.fft.inverseTransform(this.time, this.spec);
-    for (let j = 0; j < b; j++) buf[j] = this.time[2 * (b + j)];
-  }
 }
 
 function nsPerSample(fs: number, seconds: number, run: (block: Float64Array) => void, b = 256): number {
@@ -107,12 +52,12 @@ export async function bench(): Promise<BenchResult[]> {
   const bank = new RoomStage(path, fs);
   const bankNs = nsPerSample(fs, 5, (x) => bank.process(x, x.length));
   // The FIR holds the response until it is 60 dB down: one T60.
-  const firFull = new PartitionedFir(impulseResponse(new RoomStage(path, fs), Math.ceil(model.reverb.t60 * fs)), 256);
-  const firFullNs = nsPerSample(fs, 5, (x) => firFull.process(x));
+  const firFull = new PartitionedConvolver(impulseResponse(new RoomStage(path, fs), Math.ceil(model.reverb.t60 * fs)), 256);
+  const firFullNs = nsPerSample(fs, 5, (x) => firFull.process(x, x.length));
   const low = 1500;
-  const firLow = new PartitionedFir(impulseResponse(new RoomStage(path, low), Math.ceil(model.reverb.t60 * low)), 32);
+  const firLow = new PartitionedConvolver(impulseResponse(new RoomStage(path, low), Math.ceil(model.reverb.t60 * low)), 32);
   // Per audio-rate sample: the low rate runs fs/low times fewer samples.
-  const firLowNs = (nsPerSample(low, 60, (x) => firLow.process(x), 32) * low) / fs;
+  const firLowNs = (nsPerSample(low, 60, (x) => firLow.process(x, x.length), 32) * low) / fs;
   const track = synthesizeDemoTrack(fs);
   const rt = (s: SpeakerSystem) => {
     renderBuffer(s, track.channels, fs, { splDb: 90 });

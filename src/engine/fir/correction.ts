@@ -211,13 +211,13 @@ export function correctionTaps(c: CorrectionCurve, fs: number): Float64Array {
   const half = n / 2;
   const { re, im } = correctionSpectrum(c, fs, n);
   const fft = new FFT(n);
-  const spec = fft.createComplexArray() as number[];
+  const spec = new Float64Array(2 * n);
   for (let k = 0; k < n; k++) {
     const j = k <= half ? k : n - k;
     spec[2 * k] = re[j];
     spec[2 * k + 1] = k <= half ? im[j] : -im[j];
   }
-  const h = fft.createComplexArray() as number[];
+  const h = new Float64Array(2 * n);
   fft.inverseTransform(h, spec);
   let total = 0;
   for (let i = 0; i < n; i++) total += h[2 * i] ** 2;

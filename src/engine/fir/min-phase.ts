@@ -20,22 +20,22 @@ export function minimumPhaseSpectrum(magnitude: ArrayLike<number>): HalfSpectrum
   const n = 2 * half;
   if (n < 16 || (n & (n - 1)) !== 0) throw new Error('the magnitude grid must have N/2 + 1 bins with N a power of two, at least 16');
   const fft = new FFT(n);
-  const logSpectrum = fft.createComplexArray() as number[];
+  const logSpectrum = new Float64Array(2 * n);
   for (let k = 0; k < n; k++) {
     const m = magnitude[k <= half ? k : n - k];
     logSpectrum[2 * k] = Math.log(Math.max(Number.isFinite(m) ? m : FLOOR, FLOOR));
     logSpectrum[2 * k + 1] = 0;
   }
-  const cepstrum = fft.createComplexArray() as number[];
+  const cepstrum = new Float64Array(2 * n);
   // fft.js's inverse transform includes the 1/N.
   fft.inverseTransform(cepstrum, logSpectrum);
-  const folded = fft.createComplexArray() as number[];
+  const folded = new Float64Array(2 * n);
   for (let i = 0; i < n; i++) {
     const w = i === 0 || i === half ? 1 : i < half ? 2 : 0;
     folded[2 * i] = w * cepstrum[2 * i];
     folded[2 * i + 1] = 0;
   }
-  const logMin = fft.createComplexArray() as number[];
+  const logMin = new Float64Array(2 * n);
   fft.transform(logMin, folded);
   const re = new Float64Array(half + 1);
   const im = new Float64Array(half + 1);

@@ -5,7 +5,8 @@ import type { DriverWay } from '../system.ts';
 import { correctionCurve, correctionResponse, correctionTaps, type CorrectionCurve, type MeasuredResponse } from '../fir/correction.ts';
 
 export interface MeasuredCorrection {
-  curve: CorrectionCurve;
+  /** Built when first read (the renderer, given its taps, never needs it). */
+  readonly curve: CorrectionCurve;
   /** The correction at f (complex), for the small-signal analysis. */
   at(f: number): Complex;
   /** FIR taps at a sample rate, for the renderer. */
@@ -22,6 +23,22 @@ const built = new WeakMap<MeasuredResponse, MeasuredCorrection>();
 const recent = new Map<string, MeasuredCorrection>();
 const RECENT = 8;
 
+// Taps built elsewhere (the listening bench builds them on the page and hands them to its audio
+// thread, which must not spend tens of milliseconds on them), by table and sample rate.
+const given = new WeakMap<MeasuredResponse, Map<number, Float64Array>>();
+
+/** Taps for `table` at `sampleRate`, built elsewhere from the same design: `taps(sampleRate)` returns them. */
+export function provideTaps(table: MeasuredResponse, sampleRate: number, taps: Float64Array): void {
+  let byRate = given.get(table);
+  if (!byRate) {
+    byRate = new Map();
+    given.set(table, byRate);
+  }
+  byRate.set(sampleRate, taps);
+  // A correction already built for this table would not look here again.
+  built.delete(table);
+}
+
 /**
  * The way's correction against `model` (its drivers' pressure at f), built once per table and
  * per `dependsOn` (everything the model depends on, as plain data).
@@ -31,32 +48,45 @@ export function cachedCorrection(way: DriverWay, dependsOn: unknown, model: (f: 
   if (!m) return null;
   const hit = built.get(m);
   if (hit) return hit;
+  const handed = given.get(m);
+  if (handed) {
+    const correction = lazyCorrection(model, m, handed);
+    built.set(m, correction);
+    return correction;
+  }
   const key = JSON.stringify([m, dependsOn]);
   const again = recent.get(key);
   if (again) {
     built.set(m, again);
     return again;
   }
-  const curve = correctionCurve(m, model);
+  const correction = lazyCorrection(model, m, new Map());
+  built.set(m, correction);
+  recent.set(key, correction);
+  if (recent.size > RECENT) recent.delete(recent.keys().next().value!);
+  return correction;
+}
+
+/** A correction whose curve, response and taps are built on first use (taps found in `taps` are used as they are). */
+function lazyCorrection(model: (f: number) => Complex, m: MeasuredResponse, taps: Map<number, Float64Array>): MeasuredCorrection {
+  let curve: CorrectionCurve | null = null;
   let response: ((f: number) => Complex) | null = null;
-  const taps = new Map<number, Float64Array>();
-  const correction: MeasuredCorrection = {
-    curve,
+  return {
+    get curve() {
+      curve ??= correctionCurve(m, model);
+      return curve;
+    },
     at(f) {
-      response ??= correctionResponse(curve);
+      response ??= correctionResponse(this.curve);
       return response(f);
     },
     taps(rate) {
       let t = taps.get(rate);
       if (!t) {
-        t = correctionTaps(curve, rate);
+        t = correctionTaps(this.curve, rate);
         taps.set(rate, t);
       }
       return t;
     },
   };
-  built.set(m, correction);
-  recent.set(key, correction);
-  if (recent.size > RECENT) recent.delete(recent.keys().next().value!);
-  return correction;
 }

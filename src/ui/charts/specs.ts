@@ -436,12 +436,22 @@ function outputsChart(models: Pair, f: Float64Array): ChartSpec {
     digits: 3,
     freqHz: f,
     series,
-    summary: present(models).map((s) => {
+    summary: present(models).flatMap((s) => {
       const c = models[s]!.analysis.curves;
       const pk = peakOf(c.portSplDb);
-      return pk
-        ? `${SLOT_LABEL[s]}: the ${c.radiatorExcursionMm ? 'radiator' : 'port'} is loudest at ${num(c.freqHz[pk.index], 3)} Hz (${num(pk.value, 3)} dB), where it carries the bass.`
-        : `${SLOT_LABEL[s]}: only the cone radiates (no port or radiator).`;
+      const lines = [
+        pk
+          ? `${SLOT_LABEL[s]}: the ${c.radiatorExcursionMm ? 'radiator' : 'port'} is loudest at ${num(c.freqHz[pk.index], 3)} Hz (${num(pk.value, 3)} dB), where it carries the bass.`
+          : `${SLOT_LABEL[s]}: only the cone radiates (no port or radiator).`,
+      ];
+      // A measurement at the seat holds the cone and the port together: it cannot say which of them it corrects.
+      if (models[s]!.system.ways.some((w) => w.kind === 'driver' && w.measured))
+        lines.push(
+          pk
+            ? `${SLOT_LABEL[s]}: these curves are the model's. A measured response corrects only the way's total sound at the seat: a measurement there cannot tell the cone's share from the ${c.radiatorExcursionMm ? 'radiator' : 'port'}'s.`
+            : `${SLOT_LABEL[s]}: this curve is the model's. A measured response corrects the way's total sound at the seat, shown with the responses.`,
+        );
+      return lines;
     }),
   };
 }
