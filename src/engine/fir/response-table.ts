@@ -2,7 +2,7 @@
 // optional), read from a text or CSV table the way impedance sweeps are (fit/text-table.ts), and
 // the checks that every measured response passes, read from a table or from a design file.
 
-import { readNumericRows, type TableError } from '../fit/text-table.ts';
+import { FREQ_WORDS, PHASE_WORDS, readNumericRows, risingColumn, type TableError } from '../fit/text-table.ts';
 
 export interface ResponseTable {
   /** Hz, strictly rising. */
@@ -74,8 +74,8 @@ type Role = 'freq' | 'spl' | 'phase' | 'other';
 function rolesFromHeader(fields: string[]): Role[] | null {
   const roles = fields.map((raw): Role => {
     const f = raw.toLowerCase();
-    if (/freq|^f$|hz/.test(f)) return 'freq';
-    if (/phase|deg|^ph|angle|arg|°/.test(f)) return 'phase';
+    if (FREQ_WORDS.test(f)) return 'freq';
+    if (PHASE_WORDS.test(f)) return 'phase';
     if (/spl|db|level|mag|gain|^l$|resp|pressure/.test(f)) return 'spl';
     return 'other';
   });
@@ -88,12 +88,8 @@ function rolesFromHeader(fields: string[]): Role[] | null {
  */
 function rolesFromData(rows: number[][]): Role[] | null {
   const n = rows[0].length;
-  const col = (j: number) => rows.map((r) => r[j]);
-  const risingSteps = (c: number[]) => c.filter((x, i) => i > 0 && x > c[i - 1]).length;
-  const candidates = Array.from({ length: n }, (_, j) => j).filter((j) => col(j).every((x) => x > 0));
-  if (candidates.length === 0) return null;
-  const freqCol = candidates.reduce((a, b) => (risingSteps(col(b)) > risingSteps(col(a)) ? b : a));
-  if (risingSteps(col(freqCol)) < 0.9 * (rows.length - 1)) return null;
+  const freqCol = risingColumn(rows, 1);
+  if (freqCol === null) return null;
   const roles: Role[] = new Array(n).fill('other');
   roles[freqCol] = 'freq';
   const rest = Array.from({ length: n }, (_, j) => j).filter((j) => j !== freqCol);

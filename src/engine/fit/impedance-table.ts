@@ -1,7 +1,7 @@
 // Reading a measured impedance table: frequency, |Z| (ohm) and phase (degrees, optional) in any of
 // the common column orders, with header or comment lines, decimal points or decimal commas.
 // A table that cannot be read is a value naming the line, never an exception (text-table.ts reads the lines).
-import { readNumericRows, type TableError } from './text-table.ts';
+import { FREQ_WORDS, PHASE_WORDS, readNumericRows, risingColumn, type TableError } from './text-table.ts';
 
 export interface ImpedanceTable {
   /** Hz, strictly rising. */
@@ -25,8 +25,8 @@ type Role = 'freq' | 'mag' | 'phase' | 'other';
 function rolesFromHeader(fields: string[]): Role[] | null {
   const roles = fields.map((raw): Role => {
     const f = raw.toLowerCase();
-    if (/freq|^f$|hz/.test(f)) return 'freq';
-    if (/phase|deg|^ph|angle|arg|°/.test(f)) return 'phase';
+    if (FREQ_WORDS.test(f)) return 'freq';
+    if (PHASE_WORDS.test(f)) return 'phase';
     if (/imp|ohm|mag|^\|?z\|?$|^z\b|ω|Ω/i.test(f)) return 'mag';
     return 'other';
   });
@@ -42,12 +42,8 @@ function rolesFromHeader(fields: string[]): Role[] | null {
 function rolesFromData(rows: number[][]): Role[] | null {
   const n = rows[0].length;
   const col = (j: number) => rows.map((r) => r[j]);
-  // The column rising most often: one step out of order is then reported on its own line.
-  const risingSteps = (c: number[]) => c.filter((x, i) => i > 0 && x > c[i - 1]).length;
-  const candidates = Array.from({ length: n }, (_, j) => j).filter((j) => col(j).every((x) => x > 0));
-  if (candidates.length < 2) return null;
-  const freqCol = candidates.reduce((a, b) => (risingSteps(col(b)) > risingSteps(col(a)) ? b : a));
-  if (risingSteps(col(freqCol)) < 0.9 * (rows.length - 1)) return null;
+  const freqCol = risingColumn(rows, 2);
+  if (freqCol === null) return null;
   const roles: Role[] = new Array(n).fill('other');
   roles[freqCol] = 'freq';
   const rest = Array.from({ length: n }, (_, j) => j).filter((j) => j !== freqCol);

@@ -72,3 +72,22 @@ export function readNumericRows(text: string, maxRows: number, twoColumns: strin
   if (rows.length === 0) return { ok: false, line: lines.length, message: 'the table has no rows of numbers' };
   return { ok: true, table: { rows, rowLines, headers, width, lineCount: lines.length } };
 }
+
+/** Header words naming the frequency and the phase columns (shared by every table kind). */
+export const FREQ_WORDS = /freq|^f$|hz/;
+export const PHASE_WORDS = /phase|deg|^ph|angle|arg|°/;
+
+/**
+ * The frequency column from the numbers alone: of the columns positive throughout (at least
+ * `positiveNeeded` of them), the one rising most often — a single step out of order is then reported
+ * on its own line; null when none rises in nine steps out of ten.
+ */
+export function risingColumn(rows: number[][], positiveNeeded: number): number | null {
+  const n = rows[0].length;
+  const col = (j: number) => rows.map((r) => r[j]);
+  const risingSteps = (c: number[]) => c.filter((x, i) => i > 0 && x > c[i - 1]).length;
+  const candidates = Array.from({ length: n }, (_, j) => j).filter((j) => col(j).every((x) => x > 0));
+  if (candidates.length < positiveNeeded) return null;
+  const freqCol = candidates.reduce((a, b) => (risingSteps(col(b)) > risingSteps(col(a)) ? b : a));
+  return risingSteps(col(freqCol)) < 0.9 * (rows.length - 1) ? null : freqCol;
+}
