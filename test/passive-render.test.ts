@@ -6,6 +6,7 @@ import { readFileSync } from 'node:fs';
 import { renderBuffer } from '../src/engine/render/index.ts';
 import { respond, systemPressure } from '../src/engine/response/frequency.ts';
 import { abs } from '../src/engine/complex.ts';
+import { renderedPeak } from './helpers/tone-render.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import type { DriverWay, SpeakerSystem } from '../src/engine/system.ts';
 
@@ -13,17 +14,6 @@ function example(name: string): SpeakerSystem {
   const r = parseDesign(readFileSync(`public/examples/${name}.json`, 'utf8'));
   if (!r.ok) throw new Error('example does not parse');
   return r.system;
-}
-
-/** A 0.25 V peak tone. Steady-state peak of the render: rms over whole cycles of the second half, times sqrt 2. */
-function renderedPeak(sys: SpeakerSystem, f: number, sr: number, mode: 'linear' | 'nonlinear'): number {
-  const n = Math.round(sr * (f < 100 ? 1.2 : 0.4));
-  const tone = Float32Array.from({ length: n }, (_, k) => 0.5 * Math.sin((2 * Math.PI * f * k) / sr));
-  const out = renderBuffer(sys, [tone], sr, { voltsFs: 0.5, paPerFs: 1, mode }).audio[0];
-  const span = Math.floor(Math.floor(n / 2 / (sr / f)) * (sr / f));
-  let ss = 0;
-  for (let k = n - span; k < n; k++) ss += out[k] * out[k];
-  return Math.sqrt((2 * ss) / span);
 }
 
 describe('passive two-way render', () => {

@@ -2,7 +2,7 @@
 // optional), read from a text or CSV table the way impedance sweeps are (fit/text-table.ts), and
 // the checks that every measured response passes, read from a table or from a design file.
 
-import { FREQ_WORDS, PHASE_WORDS, readNumericRows, risingColumn, type TableError } from '../fit/text-table.ts';
+import { columnRoles, FREQ_WORDS, PHASE_WORDS, readNumericRows, risingColumn, type TableError } from '../fit/text-table.ts';
 
 export interface ResponseTable {
   /** Hz, strictly rising. */
@@ -104,9 +104,8 @@ export type ResponseTableResult = { ok: true; table: ResponseTable } | TableErro
 export function parseResponseTable(text: string): ResponseTableResult {
   const read = readNumericRows(text, MAX_RESPONSE_POINTS, 'frequency and SPL');
   if (!read.ok) return read;
-  const { rows, rowLines, headers, width } = read.table;
-  const headerRoles = headers.reduce<Role[] | null>((found, h) => rolesFromHeader(h) ?? found, null);
-  const roles = headerRoles && headerRoles.length === width ? headerRoles : rolesFromData(rows);
+  const { rows, rowLines } = read.table;
+  const roles = columnRoles(read.table, rolesFromHeader, rolesFromData);
   if (!roles)
     return {
       ok: false,

@@ -1,7 +1,7 @@
 // Reading a measured impedance table: frequency, |Z| (ohm) and phase (degrees, optional) in any of
 // the common column orders, with header or comment lines, decimal points or decimal commas.
 // A table that cannot be read is a value naming the line, never an exception (text-table.ts reads the lines).
-import { FREQ_WORDS, PHASE_WORDS, readNumericRows, risingColumn, type TableError } from './text-table.ts';
+import { columnRoles, FREQ_WORDS, PHASE_WORDS, readNumericRows, risingColumn, type TableError } from './text-table.ts';
 
 export interface ImpedanceTable {
   /** Hz, strictly rising. */
@@ -61,10 +61,8 @@ function rolesFromData(rows: number[][]): Role[] | null {
 export function parseImpedanceTable(text: string): TableResult {
   const read = readNumericRows(text, MAX_TABLE_ROWS, 'frequency and impedance');
   if (!read.ok) return read;
-  const { rows, rowLines, headers, width } = read.table;
-  // The last header line naming the columns counts.
-  const headerRoles = headers.reduce<Role[] | null>((found, h) => rolesFromHeader(h) ?? found, null);
-  const roles = headerRoles && headerRoles.length === width ? headerRoles : rolesFromData(rows);
+  const { rows, rowLines } = read.table;
+  const roles = columnRoles(read.table, rolesFromHeader, rolesFromData);
   if (!roles)
     return {
       ok: false,

@@ -91,3 +91,16 @@ export function risingColumn(rows: number[][], positiveNeeded: number): number |
   const freqCol = candidates.reduce((a, b) => (risingSteps(col(b)) > risingSteps(col(a)) ? b : a));
   return risingSteps(col(freqCol)) < 0.9 * (rows.length - 1) ? null : freqCol;
 }
+
+/**
+ * Each column's role: from the last header line that names the columns (when it names every
+ * column), else from the numbers alone; null when neither tells them apart.
+ */
+export function columnRoles<R>(
+  t: NumericRows,
+  fromHeader: (fields: string[]) => R[] | null,
+  fromData: (rows: number[][]) => R[] | null,
+): R[] | null {
+  const headerRoles = t.headers.reduce<R[] | null>((found, h) => fromHeader(h) ?? found, null);
+  return headerRoles && headerRoles.length === t.width ? headerRoles : fromData(t.rows);
+}
