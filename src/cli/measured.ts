@@ -10,6 +10,17 @@ import { EXIT_OK, InputError, parseCommandArgs, parseNumberOption, runGuarded, U
 import { formatIssue, loadDesignFile, MAX_DESIGN_BYTES, readSmallText } from './design-file.ts';
 import { planOutputs } from './output-files.ts';
 import { printable } from './user-text.ts';
+import { splDb } from '../engine/units.ts';
+
+/**
+ * The level shift in words: the shift is in dB of the model's pressure (re 1 Pa per volt at the
+ * seat) against the table's dB; in SPL it says how far the table sits from the model at 1 V.
+ */
+function tableAgainstModel(offsetDb: number): string {
+  const db = -(offsetDb + splDb(1));
+  if (Math.abs(db) < 0.05) return "the table's level equals the model's at 1 V at the seat";
+  return `the table's level sits ${Math.abs(db).toFixed(1)} dB ${db > 0 ? 'above' : 'below'} the model's at 1 V at the seat`;
+}
 
 const HELP = `usage: preheard measured <design.json> <response.txt> --blend-hz F --out <new.json>
                           [--way NAME] [--json]
@@ -119,7 +130,7 @@ export const measuredCommand: Command = {
           `${printable(out)}: way "${printable(way.name)}" plays the measured response (${summary.points} points, ` +
             `${table.table.phaseDeg ? 'measured phase' : 'minimum phase'}) above ${fmt(blendHz)} Hz, ` +
             `crossfaded from ${fmt(blendHz / Math.SQRT2)} to ${fmt(blendHz * Math.SQRT2)} Hz; ` +
-            `the table was shifted by ${summary.level_offset_db.toFixed(1)} dB to meet the model` +
+            `${tableAgainstModel(summary.level_offset_db)} (matched over the blend octave)` +
             (table.table.phaseDeg ? `, and ${summary.removed_delay_ms.toFixed(3)} ms of time of flight taken out of its phase` : '') +
             '.\n',
         );
