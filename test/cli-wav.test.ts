@@ -10,6 +10,7 @@ import { checkWavHeader, readWav, writeWav, type WavFormat } from '../src/cli/wa
 import { cannotRead } from '../src/cli/input-file.ts';
 import { InputError } from '../src/cli/command.ts';
 import { readAudioInput } from '../src/cli/audio-input.ts';
+import { encodeBlock, encodeWavBytes } from '../src/wav/encode.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'preheard-wav-'));
 
@@ -73,6 +74,112 @@ describe('WAV writer', () => {
     expect(err).toBeInstanceOf(InputError);
     expect(err.message).toMatch(/cannot write .*x\.wav: ENOENT/);
   });
+});
+
+/**
+ * Samples at the edges of the conversion: the rails and just past them, half steps (Math.round
+ * rounds them up), negative zero, a subnormal, the largest floats, infinities; then noise past
+ * full scale. Every length from 1 to 9 frames reaches each tail of the word-packed loops.
+ */
+function edges(channels: number, frames: number, seed: number): Float32Array[] {
+  const at16 = (v: number) => v / 32768;
+  const at24 = (v: number) => v / 8388608;
+  const special = [
+    0,
+    -0,
+    1,
+    -1,
+    Math.fround(1 + 2 ** -23),
+    Math.fround(-1 - 2 ** -23),
+    at16(32767.5),
+    at16(-32768.5),
+    at16(32766.5),
+    at16(-32767.5),
+    at16(0.5),
+    at16(-0.5),
+    at16(1.5),
+    at16(-1.5),
+    at24(8388607.5),
+    at24(-8388608.5),
+    at24(0.5),
+    at24(-0.5),
+    at24(-1.5),
+    1e-40,
+    -1e-40,
+    3.4e38,
+    -3.4e38,
+    Number.POSITIVE_INFINITY,
+    Number.NEGATIVE_INFINITY,
+    0.999999,
+    -0.999999,
+  ];
+  const noise = signal(channels, frames, seed);
+  return noise.map((ch, c) => {
+    for (let k = 0; k < frames; k++) if ((k * 7 + c * 3) % 5 !== 4) ch[k] = special[(k * channels + c) % special.length];
+    return ch;
+  });
+}
+
+/** wavefile's samples per channel (it gives one flat array for a mono file). */
+function samplesOf(bytes: Uint8Array, channels: number): Float64Array[] {
+  const s = new wavefile.WaveFile(bytes).getSamples(false, Float64Array) as unknown as Float64Array | Float64Array[];
+  return channels === 1 ? [s as Float64Array] : (s as Float64Array[]);
+}
+
+describe('WAV fast paths (word-sized views) against wavefile', () => {
+  for (const format of ['16', '24', 'f32'] as const) {
+    for (const nc of [1, 2, 3]) {
+      it(`writes and reads ${format}, ${nc} channel(s), 1 to 9 and 1001 frames, edge values, as wavefile does`, async () => {
+        for (const frames of [1, 2, 3, 4, 5, 6, 7, 8, 9, 1001]) {
+          const ch = edges(nc, frames, frames + nc);
+          const ref = wavefileBytes(ch, 44100, format);
+          // wavefile writes an extensible header for more than two channels: the audio bytes are compared there.
+          const audioBytes = frames * nc * (format === '16' ? 2 : format === '24' ? 3 : 4);
+          const same = (ours: Uint8Array) =>
+            nc <= 2
+              ? Buffer.from(ours).equals(Buffer.from(ref))
+              : Buffer.from(ours.subarray(44)).equals(Buffer.from(ref.subarray(-audioBytes)));
+          expect(same(await written(ch, 44100, format))).toBe(true);
+          expect(same(encodeWavBytes(ch, 44100, format))).toBe(true);
+          // An odd byte offset takes the byte-by-byte path: the same bytes.
+          const odd = new Uint8Array(audioBytes + 1);
+          encodeBlock(ch, format, 0, frames, odd.subarray(1));
+          expect(Buffer.from(odd.subarray(1)).equals(Buffer.from(ref.subarray(-audioBytes)))).toBe(true);
+          const path = join(dir, `edges-${format}-${nc}-${frames}.wav`);
+          writeFileSync(path, ref);
+          const refCh = samplesOf(ref, nc);
+          const scale = format === 'f32' ? 1 : format === '24' ? 1 / 8388608 : 1 / 32768;
+          // Float files hold infinities, which the reader refuses: they are read from the integer files only.
+          if (format === 'f32') continue;
+          const ours = await readWav(path);
+          for (let c = 0; c < nc; c++)
+            for (let k = 0; k < frames; k++)
+              if (!Object.is(ours.channels[c][k], Math.fround(refCh[c][k] * scale)))
+                throw new Error(`${frames} frames: differs at ${c}:${k}: ${ours.channels[c][k]} vs ${refCh[c][k] * scale}`);
+        }
+      });
+    }
+  }
+
+  for (const [format, nc, seconds] of [
+    ['16', 2, 25],
+    ['f32', 2, 12],
+    ['24', 1, 30],
+  ] as const) {
+    it(`writes and reads ${format}, ${nc} channel(s) over several 4 MB blocks (odd frame count) as wavefile does`, async () => {
+      const ch = signal(nc, seconds * 48000 + 3, 11);
+      const ref = wavefileBytes(ch, 48000, format);
+      expect(Buffer.from(await written(ch, 48000, format)).equals(Buffer.from(ref))).toBe(true);
+      const path = join(dir, `blocks-${format}-${nc}.wav`);
+      writeFileSync(path, ref);
+      const ours = await readWav(path);
+      const refCh = samplesOf(ref, nc);
+      const scale = format === 'f32' ? 1 : format === '24' ? 1 / 8388608 : 1 / 32768;
+      for (let c = 0; c < nc; c++)
+        for (let k = 0; k < ch[c].length; k++)
+          if (ours.channels[c][k] !== Math.fround(refCh[c][k] * scale)) throw new Error(`differs at ${c}:${k}`);
+    });
+  }
 });
 
 describe('WAV reader', () => {

@@ -144,33 +144,108 @@ export function checkWavHeader(bytes: Uint8Array, name: string): WavHeader {
   return walkWavHeader({ size: bytes.length, read: (o, n) => bytes.subarray(o, o + n) }, name);
 }
 
-/** Deinterleaves `n` frames of `block` into `out` from frame `at`, as floats with full scale at 1. */
+/**
+ * Deinterleaves `n` frames of `block` into `out` from frame `at`, as floats with full scale at 1.
+ * `block` starts a whole frame at a 4-byte boundary (the reader's own buffer). As in the encoder,
+ * each layout has its own small loop; stereo and mono, little-endian, read whole 16- or 32-bit
+ * words (three 32-bit words hold two stereo frames of 24 bits).
+ */
 function decodeBlock(block: Uint8Array, n: number, h: WavHeader, out: Float32Array[], at: number): void {
   const nc = h.channels;
-  const stride = h.blockAlign;
+  const aligned = LITTLE_ENDIAN && block.byteOffset % 4 === 0;
   if (h.bits === 16) {
-    for (let c = 0; c < nc; c++) {
-      const dst = out[c];
-      for (let k = 0, j = 2 * c; k < n; k++, j += stride) dst[at + k] = (((block[j] | (block[j + 1] << 8)) << 16) >> 16) * (1 / 32768);
-    }
+    if (!aligned) decodeIntBytes(block, 2, n, nc, out, at);
+    else if (nc === 2) decode16Stereo(new Int16Array(block.buffer, block.byteOffset, 2 * n), n, out[0], out[1], at);
+    else decode16(new Int16Array(block.buffer, block.byteOffset, nc * n), n, out, at);
   } else if (h.bits === 24) {
-    for (let c = 0; c < nc; c++) {
-      const dst = out[c];
-      for (let k = 0, j = 3 * c; k < n; k++, j += stride)
-        dst[at + k] = (((block[j] | (block[j + 1] << 8) | (block[j + 2] << 16)) << 8) >> 8) * (1 / 8388608);
-    }
-  } else if (LITTLE_ENDIAN) {
+    if (aligned && nc <= 2) {
+      const samples = nc * n;
+      const whole = samples - (samples % 4);
+      const words = new Int32Array(block.buffer, block.byteOffset, (3 * whole) / 4);
+      if (nc === 2) decode24Stereo(words, whole / 4, out[0], out[1], at);
+      else decode24Mono(words, whole, out[0], at);
+      const done = whole / nc;
+      if (done < n) decodeIntBytes(block.subarray(3 * whole), 3, n - done, nc, out, at + done);
+    } else decodeIntBytes(block, 3, n, nc, out, at);
+  } else if (aligned) {
     const src = new Float32Array(block.buffer, block.byteOffset, n * nc);
-    for (let c = 0; c < nc; c++) {
-      const dst = out[c];
-      for (let k = 0, j = c; k < n; k++, j += nc) dst[at + k] = src[j];
-    }
+    if (nc === 2) decodeFloatStereo(src, n, out[0], out[1], at);
+    else decodeFloat(src, n, out, at);
   } else {
     const view = new DataView(block.buffer, block.byteOffset);
     for (let c = 0; c < nc; c++) {
       const dst = out[c];
-      for (let k = 0, j = 4 * c; k < n; k++, j += stride) dst[at + k] = view.getFloat32(j, true);
+      for (let k = 0, j = 4 * c; k < n; k++, j += 4 * nc) dst[at + k] = view.getFloat32(j, true);
     }
+  }
+}
+
+function decode16Stereo(src: Int16Array, n: number, a: Float32Array, b: Float32Array, at: number): void {
+  for (let k = 0, j = 0; k < n; k++, j += 2) {
+    a[at + k] = src[j] * (1 / 32768);
+    b[at + k] = src[j + 1] * (1 / 32768);
+  }
+}
+
+function decode16(src: Int16Array, n: number, out: Float32Array[], at: number): void {
+  const nc = out.length;
+  for (let c = 0; c < nc; c++) {
+    const dst = out[c];
+    for (let k = 0, j = c; k < n; k++, j += nc) dst[at + k] = src[j] * (1 / 32768);
+  }
+}
+
+/** `pairs` pairs of stereo frames, three little-endian words each (the encoder's packing undone). */
+function decode24Stereo(words: Int32Array, pairs: number, a: Float32Array, b: Float32Array, at: number): void {
+  for (let p = 0, w = 0, k = at; p < pairs; p++, w += 3, k += 2) {
+    const w0 = words[w];
+    const w1 = words[w + 1];
+    const w2 = words[w + 2];
+    a[k] = ((w0 << 8) >> 8) * (1 / 8388608);
+    b[k] = ((((w0 >>> 24) | (w1 << 8)) << 8) >> 8) * (1 / 8388608);
+    a[k + 1] = ((((w1 >>> 16) | (w2 << 16)) << 8) >> 8) * (1 / 8388608);
+    b[k + 1] = (w2 >> 8) * (1 / 8388608);
+  }
+}
+
+/** `n` mono frames, a multiple of four, three words per four samples. */
+function decode24Mono(words: Int32Array, n: number, a: Float32Array, at: number): void {
+  for (let w = 0, k = at, end = at + n; k < end; w += 3, k += 4) {
+    const w0 = words[w];
+    const w1 = words[w + 1];
+    const w2 = words[w + 2];
+    a[k] = ((w0 << 8) >> 8) * (1 / 8388608);
+    a[k + 1] = ((((w0 >>> 24) | (w1 << 8)) << 8) >> 8) * (1 / 8388608);
+    a[k + 2] = ((((w1 >>> 16) | (w2 << 16)) << 8) >> 8) * (1 / 8388608);
+    a[k + 3] = (w2 >> 8) * (1 / 8388608);
+  }
+}
+
+function decodeFloatStereo(src: Float32Array, n: number, a: Float32Array, b: Float32Array, at: number): void {
+  for (let k = 0, j = 0; k < n; k++, j += 2) {
+    a[at + k] = src[j];
+    b[at + k] = src[j + 1];
+  }
+}
+
+function decodeFloat(src: Float32Array, n: number, out: Float32Array[], at: number): void {
+  const nc = out.length;
+  for (let c = 0; c < nc; c++) {
+    const dst = out[c];
+    for (let k = 0, j = c; k < n; k++, j += nc) dst[at + k] = src[j];
+  }
+}
+
+/** Byte by byte, for any layout (big-endian machines, more than two channels of 24 bits). */
+function decodeIntBytes(block: Uint8Array, bytes: 2 | 3, n: number, nc: number, out: Float32Array[], at: number): void {
+  const stride = bytes * nc;
+  for (let c = 0; c < nc; c++) {
+    const dst = out[c];
+    if (bytes === 2)
+      for (let k = 0, j = 2 * c; k < n; k++, j += stride) dst[at + k] = (((block[j] | (block[j + 1] << 8)) << 16) >> 16) * (1 / 32768);
+    else
+      for (let k = 0, j = 3 * c; k < n; k++, j += stride)
+        dst[at + k] = (((block[j] | (block[j + 1] << 8) | (block[j + 2] << 16)) << 8) >> 8) * (1 / 8388608);
   }
 }
 
