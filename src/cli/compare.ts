@@ -12,6 +12,7 @@ import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progress
 import { planOutputs } from './output-files.ts';
 import { count, db, moment, printable, sig } from './user-text.ts';
 import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
+import { sharedBuffers } from './shared-audio.ts';
 
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
 
@@ -62,11 +63,7 @@ function sideInWorker(
   sampleRate: number,
   level: SideLevel,
 ): { result: Promise<SideResult>; cancel: () => void } {
-  const shared = channels.map((ch) => {
-    const sab = new SharedArrayBuffer(ch.byteLength);
-    new Float32Array(sab).set(ch);
-    return sab;
-  });
+  const shared = sharedBuffers(channels);
   const w = new Worker(new URL('./compare-worker.mjs', import.meta.url), {
     workerData: { designPath, channels: shared, sampleRate, level },
   });

@@ -5,7 +5,8 @@
 import { InputError } from './command.ts';
 import { checkFloatRange } from './float-range.ts';
 import { checkInputLength, MAX_INPUT_SAMPLES, openInput } from './input-file.ts';
-import { MAX_CHANNELS, type WavAudio } from './wav.ts';
+import { MAX_CHANNELS, type ReadOptions, type WavAudio } from './wav.ts';
+import { newChannels } from './shared-audio.ts';
 import { count } from './user-text.ts';
 
 export type Codec = 'mp3' | 'flac' | 'vorbis';
@@ -89,6 +90,7 @@ export async function readCompressed(
   codec: Codec,
   onProgress?: (fraction: number) => void,
   maxSamples = MAX_INPUT_SAMPLES,
+  options: ReadOptions = {},
 ): Promise<WavAudio> {
   const name = CODEC_NAMES[codec];
   const file = openInput(path);
@@ -134,7 +136,7 @@ export async function readCompressed(
     file.close();
   }
   if (frames === 0) throw new InputError(`${path}: no audio could be decoded: not a valid ${name} file`);
-  const channels = Array.from({ length: channelCount }, () => new Float32Array(frames));
+  const channels = newChannels(channelCount, frames, options.shared);
   let at = 0;
   for (const p of parts) {
     for (let c = 0; c < channelCount; c++) channels[c].set(p[c], at);

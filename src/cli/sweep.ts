@@ -10,6 +10,7 @@ import { sweptWayIndex, type SweepPoint } from './sweep-variant.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import { LIMIT_WORDS } from '../engine/verdict/verdict.ts';
 import { db, decimalNumber, moment, printable, sig, wholeNumber } from './user-text.ts';
+import { sharedBuffers } from './shared-audio.ts';
 
 /** Most design variants one sweep runs: each is a dozen renders of the whole track. */
 export const MAX_SWEEP_POINTS = 400;
@@ -56,11 +57,7 @@ function runPool(
   onProgress?: (fraction: number) => void,
 ): Promise<SweepRow[]> {
   // The audio is shared, not copied, with every worker.
-  const shared = channels.map((ch) => {
-    const sab = new SharedArrayBuffer(ch.byteLength);
-    new Float32Array(sab).set(ch);
-    return sab;
-  });
+  const shared = sharedBuffers(channels);
   const rows: SweepRow[] = new Array(points.length);
   let next = 0;
   let done = 0;

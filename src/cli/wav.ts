@@ -10,9 +10,16 @@ import { dirname, basename, join } from 'node:path';
 import { InputError } from './command.ts';
 import { checkFloatRange } from './float-range.ts';
 import { checkInputLength, openInput } from './input-file.ts';
+import { newChannels } from './shared-audio.ts';
 
 export type { WavFormat } from '../wav/encode.ts';
 import { encodeBlock, FORMAT_FLOAT, FORMAT_PCM, LITTLE_ENDIAN, wavHeader, type WavFormat } from '../wav/encode.ts';
+
+/** How the reader hands the audio over. */
+export interface ReadOptions {
+  /** Channels over SharedArrayBuffers (shared-audio.ts), for worker threads to read without a copy. */
+  shared?: boolean;
+}
 
 export interface WavAudio {
   sampleRate: number;
@@ -253,7 +260,7 @@ function decodeIntBytes(block: Uint8Array, bytes: 2 | 3, n: number, nc: number, 
  * Reads a 16/24-bit PCM or 32-bit float WAV file. `onProgress` hears the fraction read.
  * Refuses, before reading any audio, a file longer than the input limit.
  */
-export async function readWav(path: string, onProgress?: (fraction: number) => void): Promise<WavAudio> {
+export async function readWav(path: string, onProgress?: (fraction: number) => void, options: ReadOptions = {}): Promise<WavAudio> {
   const file = openInput(path);
   try {
     const h = walkWavHeader(
@@ -267,7 +274,7 @@ export async function readWav(path: string, onProgress?: (fraction: number) => v
       path,
     );
     checkInputLength(path, h.frames, h.channels, h.sampleRate);
-    const channels = Array.from({ length: h.channels }, () => new Float32Array(h.frames));
+    const channels = newChannels(h.channels, h.frames, options.shared);
     const framesPerBlock = Math.max(1, Math.floor(BLOCK_BYTES / h.blockAlign));
     const block = new Uint8Array(Math.min(framesPerBlock, h.frames) * h.blockAlign);
     for (let at = 0; at < h.frames; at += framesPerBlock) {

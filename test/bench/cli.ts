@@ -182,12 +182,16 @@ export async function bench(): Promise<BenchResult[]> {
       );
     }
 
-    const mem = spawnSync(process.execPath, ['--import', 'tsx', join(ROOT, 'test/bench/wav-memory-child.ts'), input], {
-      cwd: ROOT,
-      encoding: 'utf8',
-    });
-    if (mem.status !== 0) throw new Error(`memory child failed: ${mem.stderr}`);
-    const memRatio = JSON.parse(mem.stdout.trim().split('\n').at(-1)!).ratio as number;
+    const memoryRatio = (...how: string[]) => {
+      const mem = spawnSync(process.execPath, ['--import', 'tsx', join(ROOT, 'test/bench/wav-memory-child.ts'), input, ...how], {
+        cwd: ROOT,
+        encoding: 'utf8',
+      });
+      if (mem.status !== 0) throw new Error(`memory child failed: ${mem.stderr}`);
+      return JSON.parse(mem.stdout.trim().split('\n').at(-1)!).ratio as number;
+    };
+    const memRatio = memoryRatio();
+    const sharedMemRatio = memoryRatio('shared');
 
     return [
       {
@@ -218,6 +222,7 @@ export async function bench(): Promise<BenchResult[]> {
       { name: '  tsx / bundle', value: Number((helpTsx / helpBundle).toFixed(1)), unit: 'time ratio', target: '>= 5' },
       ...io,
       { name: 'reading a 5-minute WAV: peak memory / decoded audio', value: Number(memRatio.toFixed(2)), unit: 'ratio', target: '<= 2' },
+      { name: '  the same into SharedArrayBuffers', value: Number(sharedMemRatio.toFixed(2)), unit: 'ratio', target: '<= 2' },
     ];
   } finally {
     rmSync(dir, { recursive: true, force: true });
