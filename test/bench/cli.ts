@@ -3,8 +3,11 @@
 //    Debian's sox running five biquads over the same file, WAV in and out: a native yardstick;
 //  - `preheard headroom` and `preheard compare` against one `render` of the same minute of the track;
 //  - `preheard --help` start-up: the bundle against the TypeScript source run through tsx;
-//  - WAV read and write in MB/s of file: src/cli/wav.ts against wavefile 11.0.0 (the CLI's old way);
-//  - peak memory of reading that WAV against the decoded audio (child process).
+//  - the garbage of one render of a minute (freed by V8's young-generation collections, --trace-gc);
+//  - WAV read and write in MB/s of file (16/24-bit, float): src/cli/wav.ts against wavefile 11.0.0
+//    (the CLI's old way);
+//  - peak memory of reading that WAV against the decoded audio, into ordinary and shared memory
+//    (child process).
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -142,10 +145,20 @@ export async function bench(): Promise<BenchResult[]> {
     const helpBundle = medianMs(5, () => mustRun(process.execPath, [BUNDLE, '--help']));
     const helpTsx = medianMs(5, () => mustRun(process.execPath, [join(ROOT, 'src/cli/preheard.mjs'), '--help']));
 
-    // WAV in and out, 60 s of the same track at 16 and 24 bits.
+    // Garbage from one render of the minute: what V8's young-generation collections free, summed
+    // from its --trace-gc lines ("Scavenge 8.1 (10.7) -> 6.2 (10.7) MB": 1.9 MB freed). Their count
+    // varies from run to run with the young generation's size; the megabytes hold steadier.
+    const gc = spawnSync(process.execPath, ['--trace-gc', BUNDLE, 'render', design, minuteIn, '-o', join(dir, 'gc.wav')], {
+      encoding: 'utf8',
+    });
+    if (gc.status !== 0) throw new Error(`preheard render --trace-gc failed: ${gc.stderr}`);
+    let garbageMb = 0;
+    for (const m of gc.stdout.matchAll(/Scavenge ([\d.]+) \([\d.]+\) -> ([\d.]+)/g)) garbageMb += Number(m[1]) - Number(m[2]);
+
+    // WAV in and out, 60 s of the same track at 16 and 24 bits and as 32-bit float.
     const minute = five.map((c) => c.subarray(0, 60 * 48000));
     const io: BenchResult[] = [];
-    for (const format of ['16', '24'] as const) {
+    for (const format of ['16', '24', 'f32'] as const) {
       const path = join(dir, `io-${format}.wav`);
       await writeWav(path, minute, 48000, format);
       const size = statSync(path).size / 1e6;
@@ -153,6 +166,7 @@ export async function bench(): Promise<BenchResult[]> {
       const theirsReadMs = bestMs(3, () => {
         const w = new wavefile.WaveFile(new Uint8Array(readFileSync(path)));
         const ch = w.getSamples(false, Float32Array) as unknown as Float32Array[];
+        if (format === 'f32') return;
         const scale = 1 / 2 ** (Number(format) - 1);
         for (const c of ch) for (let j = 0; j < c.length; j++) c[j] *= scale;
       });
@@ -160,6 +174,7 @@ export async function bench(): Promise<BenchResult[]> {
       const theirsWriteMs = bestMs(3, () => {
         const full = 2 ** (Number(format) - 1) - 1;
         const data = minute.map((c) => {
+          if (format === 'f32') return c;
           const out = format === '24' ? new Int32Array(c.length) : new Int16Array(c.length);
           for (let j = 0; j < c.length; j++) {
             const v = Math.round(c[j] * (full + 1));
@@ -168,15 +183,16 @@ export async function bench(): Promise<BenchResult[]> {
           return out;
         });
         const w = new wavefile.WaveFile();
-        w.fromScratch(2, 48000, format, data as unknown as number[][]);
+        w.fromScratch(2, 48000, format === 'f32' ? '32f' : format, data as unknown as number[][]);
         writeFileSync(join(dir, 'wf.wav'), w.toBuffer());
       });
       const rate = (ms: number) => Number((size / (ms / 1000)).toFixed(0));
+      const kind = format === 'f32' ? '32-bit float' : `${format}-bit`;
       io.push(
-        { name: `WAV read ${format}-bit, 60 s stereo: ours`, value: rate(oursReadMs), unit: 'MB/s', target: '' },
+        { name: `WAV read ${kind}, 60 s stereo: ours`, value: rate(oursReadMs), unit: 'MB/s', target: '' },
         { name: `  wavefile`, value: rate(theirsReadMs), unit: 'MB/s', target: '' },
         { name: `  ours / wavefile`, value: Number((theirsReadMs / oursReadMs).toFixed(1)), unit: 'speed ratio', target: '>= 10' },
-        { name: `WAV write ${format}-bit, 60 s stereo: ours`, value: rate(oursWriteMs), unit: 'MB/s', target: '' },
+        { name: `WAV write ${kind}, 60 s stereo: ours`, value: rate(oursWriteMs), unit: 'MB/s', target: '' },
         { name: `  wavefile`, value: rate(theirsWriteMs), unit: 'MB/s', target: '' },
         { name: `  ours / wavefile`, value: Number((theirsWriteMs / oursWriteMs).toFixed(1)), unit: 'speed ratio', target: '>= 10' },
       );
@@ -217,6 +233,7 @@ export async function bench(): Promise<BenchResult[]> {
         unit: 'time ratio',
         target: '<= 3',
       },
+      { name: '  one render: garbage freed by young-generation GC', value: Number(garbageMb.toFixed(0)), unit: 'MB', target: '<= 120' },
       { name: 'preheard --help start-up, bundle (median of 5)', value: Number(helpBundle.toFixed(0)), unit: 'ms', target: '' },
       { name: '  through tsx from source', value: Number(helpTsx.toFixed(0)), unit: 'ms', target: '' },
       { name: '  tsx / bundle', value: Number((helpTsx / helpBundle).toFixed(1)), unit: 'time ratio', target: '>= 5' },
