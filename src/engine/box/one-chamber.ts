@@ -287,14 +287,16 @@ export class RadiatorChamber extends OneChamber {
       sp = this.sp,
       pb = this.pb;
     const kmpC = this.kmpC;
+    // A local number, not the module's constant: see the floors in sim/woofer.ts.
+    const kmsFloor = +KMS_FLOOR;
     let kpr = 0,
       kpr1 = 0;
     for (let c = kmpC.length - 1; c >= 0; c--) {
       kpr1 = kpr1 * xp + kpr;
       kpr = kpr * xp + kmpC[c];
     }
-    if (kpr < KMS_FLOOR) {
-      kpr = KMS_FLOOR;
+    if (kpr < kmsFloor) {
+      kpr = kmsFloor;
       kpr1 = 0;
     }
     this.f4 = -this.sd * v - sp * vp - this.g * pb;
