@@ -12,8 +12,11 @@ const READ = 1;
 const STOPPED = 2;
 const FAILED = 3;
 const FINISHED = 4;
+/** Set while a side sleeps, so the other wakes it only then (a wake-up per slot cost more than the copy). */
+const WRITER_ASLEEP = 5;
+const READER_ASLEEP = 6;
 /** Int32 words of control before the failure message's bytes. */
-const WORDS = 5;
+const WORDS = 7;
 const MESSAGE_BYTES = 1024;
 
 /** How long a reader waits on a writer that makes no progress before it gives up, ms. */
@@ -54,45 +57,60 @@ export class SlotRing {
     return Atomics.load(this.control, STOPPED) !== 0;
   }
 
-  /** Writer: the next slot to fill, after waiting for room; null once the reader has stopped the ring. */
+  /**
+   * Writer: the next slot to fill; null once the reader has stopped the ring. On a full ring it
+   * sleeps until the reader has emptied half of it, so the two threads do not wake each other for
+   * every slot.
+   */
   nextFree(): Float64Array | null {
     const c = this.control;
     const slots = this.buffers.slots;
+    if (Atomics.load(c, STOPPED) !== 0) return null;
+    if (this.written - Atomics.load(c, READ) < slots) return this.views[this.written % slots];
     for (;;) {
-      if (Atomics.load(c, STOPPED) !== 0) return null;
+      Atomics.store(c, WRITER_ASLEEP, 1);
       const read = Atomics.load(c, READ);
-      if (this.written - read < slots) return this.views[this.written % slots];
+      if (Atomics.load(c, STOPPED) !== 0 || this.written - read <= slots / 2) break;
       Atomics.wait(c, READ, read, 1000);
     }
+    Atomics.store(c, WRITER_ASLEEP, 0);
+    return Atomics.load(c, STOPPED) !== 0 ? null : this.views[this.written % slots];
   }
 
   /** Writer: the slot from nextFree is filled. */
   publish(): void {
     this.written++;
     Atomics.store(this.control, WRITTEN, this.written);
-    Atomics.notify(this.control, WRITTEN);
+    if (Atomics.load(this.control, READER_ASLEEP) !== 0) Atomics.notify(this.control, WRITTEN);
   }
 
   /** Reader: the next filled slot, after waiting for it. Throws when the writer failed or stalled. */
   nextFull(): Float64Array {
     const c = this.control;
     let waited = 0;
-    for (;;) {
-      const written = Atomics.load(c, WRITTEN);
-      if (written > this.read) return this.views[this.read % this.buffers.slots];
-      if (Atomics.load(c, FAILED) !== 0) throw new Error(`the second render thread failed: ${this.failure()}`);
-      if (Atomics.load(c, FINISHED) !== 0 && Atomics.load(c, WRITTEN) === written)
-        throw new Error('the second render thread ended before the input did');
-      if (waited >= STALL_MS) throw new Error(`the second render thread made no progress for ${STALL_MS / 1000} s`);
-      if (Atomics.wait(c, WRITTEN, written, 250) === 'timed-out') waited += 250;
+    if (Atomics.load(c, WRITTEN) > this.read) return this.views[this.read % this.buffers.slots];
+    try {
+      for (;;) {
+        Atomics.store(c, READER_ASLEEP, 1);
+        const written = Atomics.load(c, WRITTEN);
+        if (written > this.read) return this.views[this.read % this.buffers.slots];
+        if (Atomics.load(c, FAILED) !== 0) throw new Error(`the second render thread failed: ${this.failure()}`);
+        if (Atomics.load(c, FINISHED) !== 0 && Atomics.load(c, WRITTEN) === written)
+          throw new Error('the second render thread ended before the input did');
+        if (waited >= STALL_MS) throw new Error(`the second render thread made no progress for ${STALL_MS / 1000} s`);
+        if (Atomics.wait(c, WRITTEN, written, 250) === 'timed-out') waited += 250;
+      }
+    } finally {
+      Atomics.store(c, READER_ASLEEP, 0);
     }
   }
 
   /** Reader: done with the slot from nextFull. */
   release(): void {
     this.read++;
-    Atomics.store(this.control, READ, this.read);
-    Atomics.notify(this.control, READ);
+    const c = this.control;
+    Atomics.store(c, READ, this.read);
+    if (Atomics.load(c, WRITER_ASLEEP) !== 0 && Atomics.load(c, WRITTEN) - this.read <= this.buffers.slots / 2) Atomics.notify(c, READ);
   }
 
   /** Reader: no more slots are needed (the writer's nextFree returns null). */
