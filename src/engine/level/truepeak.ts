@@ -5,6 +5,7 @@
 // at the peak and never steps.
 
 import { besselI0 } from '../filters/kaiser.ts';
+import { keepShape } from '../keep-shape.ts';
 
 const PHASES = 4;
 const TAPS = 12; // per phase
@@ -71,6 +72,7 @@ export class TruePeakGuard {
     this.avg = new Float64Array(this.lookahead).fill(1);
     this.avgSum = this.lookahead;
     this.loudRing = new Uint8Array(TAPS);
+    keepShape(this);
   }
 
   reset(): void {

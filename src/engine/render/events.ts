@@ -2,6 +2,8 @@
 // source (a way, or the whole output for the distortion of the sum). Stored in preallocated typed
 // arrays (grown only when full), turned into objects on request.
 
+import { keepShape } from '../keep-shape.ts';
+
 export const EVENT_KINDS = [
   'excursion',
   'xlim',
@@ -78,6 +80,10 @@ export class EventLog {
   private last = new Map<number, number>();
   /** Current limits per source and kind. */
   private limits = new Map<number, number>();
+
+  constructor() {
+    keepShape(this);
+  }
 
   reset(): void {
     this.count = 0;

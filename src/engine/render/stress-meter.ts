@@ -18,6 +18,7 @@ import {
   OUTPUT_SOURCE,
 } from './events.ts';
 import { CHUNK } from './way-chain.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** The residual within this many dB of the output counts as audible distortion. */
 export const DISTORTION_WITHIN_DB = 20;
@@ -80,6 +81,7 @@ export class WayStress {
 
   constructor(name: string) {
     this.stats = emptyWayStats(name, null);
+    keepShape(this);
   }
 
   configure(sys: SpeakerSystem, way: DriverWay, p: WooferParams, events: EventLog): void {
@@ -224,7 +226,9 @@ export class OutputDistortion {
   maxRatio = 0;
   private readonly ratioLim = Math.pow(10, -DISTORTION_WITHIN_DB / 10);
 
-  constructor(private readonly sampleRate: number) {}
+  constructor(private readonly sampleRate: number) {
+    keepShape(this);
+  }
 
   /** Fresh meters for `count` channels. */
   setChannels(count: number, events: EventLog): void {
