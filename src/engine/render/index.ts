@@ -37,7 +37,7 @@ import { createRenderer, type DriverRate, MAX_VOLTS_FS, Renderer, type RenderMod
 import type { EventKind, StressEvent } from './events.ts';
 import { passbandPaPerV, seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
 import { linearHeadroomGuess } from './headroom-guess.ts';
-import { forEachBlock, type LaneHelper, laneSplit, shareChannels } from './lane-share.ts';
+import { forEachBlock, type LaneHelper, shareChannels } from './lane-share.ts';
 import { SlotRing } from './slot-ring.ts';
 
 export { createRenderer, passbandPaPerV, Renderer, voltsForSpl };
@@ -207,18 +207,20 @@ export function renderBuffer(
   const extra = opt.extraStreams ? { linear: linB, residual: resB } : undefined;
   const total = frames + lat;
   let lastReport = 0;
-  const laneDoubles = opt.helper && nCh > 1 ? r.helperLaneDoubles() : 0;
-  const ring = laneDoubles > 0 ? new SlotRing(laneDoubles, HELPER_CHUNKS_AHEAD) : null;
-  if (ring) {
-    r.shareLanes('main', ring);
+  const plan = opt.helper ? r.helperPlan() : null;
+  const ring = plan && plan.doubles > 0 ? new SlotRing(plan.doubles, HELPER_CHUNKS_AHEAD) : null;
+  if (ring && plan) {
+    const lanes = plan.lanes;
+    r.shareLanes('main', ring, lanes);
     opt.helper!({
       kind: 'render',
       system: sys,
       sampleRate,
-      channels: shareChannels(channels, laneSplit(nCh)),
+      channels: shareChannels(channels, plan.reads),
       frames,
       ring: ring.buffers,
       renderer: rendererOptions,
+      lanes,
       total,
       block,
     });
