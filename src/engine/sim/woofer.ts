@@ -22,6 +22,7 @@ import type { WooferParams } from './params.ts';
 import type { Chamber } from '../box/index.ts';
 import { BL_FLOOR, KMS_FLOOR, LE_FLOOR } from './nonlinear.ts';
 import type { LadderSim } from './ladder.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export class WooferSim {
   p: WooferParams;
@@ -58,6 +59,7 @@ export class WooferSim {
     this.p = p;
     this.chamber = p.newChamber();
     this.reset();
+    keepShape(this);
   }
 
   /** New constants (a parameter edit); the physical state carries on (the box's, if it is of the same kind). */
