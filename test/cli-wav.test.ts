@@ -161,6 +161,25 @@ describe('WAV fast paths (word-sized views) against wavefile', () => {
     }
   }
 
+  it('rounds as Math.round for any float32: random bit patterns of every exponent, 16 and 24 bits', async () => {
+    // Random sign, exponent and mantissa: tiny magnitudes (where x + 0.5 is inexact), half steps and
+    // values past the rails alike; non-finite patterns are left out (the rails and NaN are tested above).
+    let x = 99;
+    const bits = new Uint32Array(200_001);
+    for (let k = 0; k < bits.length; k++) {
+      x = (x * 1103515245 + 12345) % 2147483648;
+      const exponent = 80 + (x % 80); // 2^-47 .. 2^32
+      // Every third with its low mantissa bits cleared: exact half steps, where rounding is decided.
+      const mantissa = (x >>> 7) & (k % 3 === 0 ? 0x7ff000 : 0x7fffff);
+      bits[k] = ((x & 1) << 31) | (exponent << 23) | mantissa;
+    }
+    const ch = [new Float32Array(bits.buffer)];
+    for (const format of ['16', '24'] as const) {
+      const ref = wavefileBytes(ch, 48000, format);
+      expect(Buffer.from(encodeWavBytes(ch, 48000, format)).equals(Buffer.from(ref))).toBe(true);
+    }
+  });
+
   for (const [format, nc, seconds] of [
     ['16', 2, 25],
     ['f32', 2, 12],

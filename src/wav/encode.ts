@@ -16,7 +16,10 @@ export const sampleBytes = (format: WavFormat): number => (format === '16' ? 2 :
  * Interleaves `n` frames from frame `at` into `block`, quantised to the format (round to nearest,
  * half up as Math.round, saturate; NaN becomes 0, as an integer typed array would store it).
  * Clamping before rounding gives the same integers as rounding before clamping (the rails are
- * whole numbers and rounding is monotone). Each layout has its own small loop, so the engine
+ * whole numbers and rounding is monotone). Rounding is Math.floor(x + 0.5): V8's Math.round was
+ * measured up to five times slower (about 10 ns a sample in the CLI after a render). It equals
+ * Math.round(x) here: x is a float32 times 2^15 or 2^23, at most 24 significant bits below 2^24,
+ * so x + 0.5 is exact unless |x| < 2^-30, and then both give 0. Each layout has its own small loop, so the engine
  * optimises each one on its first block; stereo and mono, little-endian, write whole 16- or 32-bit
  * words through typed-array views (a 24-bit pair of stereo frames is three 32-bit words).
  */
@@ -72,10 +75,10 @@ function encode16Stereo(a: Float32Array, b: Float32Array, at: number, n: number,
   for (let k = 0, j = 0; k < n; k++, j += 2) {
     let x = a[at + k] * 32768;
     x = x > 32767 ? 32767 : x < -32768 ? -32768 : x;
-    dst[j] = Math.round(x);
+    dst[j] = Math.floor(x + 0.5);
     let y = b[at + k] * 32768;
     y = y > 32767 ? 32767 : y < -32768 ? -32768 : y;
-    dst[j + 1] = Math.round(y);
+    dst[j + 1] = Math.floor(y + 0.5);
   }
 }
 
@@ -86,7 +89,7 @@ function encode16(channels: Float32Array[], at: number, n: number, dst: Int16Arr
     for (let k = 0, j = c; k < n; k++, j += nc) {
       let x = src[at + k] * 32768;
       x = x > 32767 ? 32767 : x < -32768 ? -32768 : x;
-      dst[j] = Math.round(x);
+      dst[j] = Math.floor(x + 0.5);
     }
   }
 }
@@ -94,7 +97,7 @@ function encode16(channels: Float32Array[], at: number, n: number, dst: Int16Arr
 /** One sample as a 24-bit integer in an int32 (NaN to 0 by `| 0`). */
 function q24(s: number): number {
   const x = s * 8388608;
-  return Math.round(x > 8388607 ? 8388607 : x < -8388608 ? -8388608 : x) | 0;
+  return Math.floor((x > 8388607 ? 8388607 : x < -8388608 ? -8388608 : x) + 0.5) | 0;
 }
 
 /** Pairs of frames from `at`, `pairs` of them: L0 R0 L1 R1 as three little-endian words. */
@@ -132,7 +135,7 @@ function encodeIntBytes(channels: Float32Array[], bytes: 2 | 3, at: number, n: n
     const src = channels[c];
     for (let k = 0, j = bytes * c; k < n; k++, j += stride) {
       const x = src[at + k] * (full + 1);
-      const v = Math.round(x > full ? full : x < -full - 1 ? -full - 1 : x) | 0;
+      const v = Math.floor((x > full ? full : x < -full - 1 ? -full - 1 : x) + 0.5) | 0;
       block[j] = v;
       block[j + 1] = v >> 8;
       if (bytes === 3) block[j + 2] = v >> 16;
