@@ -1,5 +1,5 @@
 // Bundles the CLI into plain JavaScript for Node 20: build/cli/preheard.mjs (the package's bin) and
-// build/cli/sweep-worker.mjs and compare-worker.mjs (worker threads, found beside it). Run by `npm ci` through
+// build/cli/sweep-worker.mjs, compare-worker.mjs and lane-worker.mjs (worker threads, found beside it). Run by `npm ci` through
 // the `prepare` script, by the unit tests' global setup, and by `npm run build:cli`.
 import { build } from 'esbuild';
 import { chmodSync } from 'node:fs';
@@ -16,6 +16,7 @@ export async function buildCli() {
       { in: 'src/cli/bin.ts', out: 'preheard' },
       { in: 'src/cli/sweep-thread.ts', out: 'sweep-worker' },
       { in: 'src/cli/compare-thread.ts', out: 'compare-worker' },
+      { in: 'src/cli/lane-thread.ts', out: 'lane-worker' },
     ],
     outdir: 'build/cli',
     outExtension: { '.js': '.mjs' },

@@ -71,7 +71,23 @@ describe('preheard render', () => {
     expect(b.peak_excursion_mm).toBeGreaterThan(a.peak_excursion_mm * 1.8);
     expect((await runCli('render', SEALED, input, '-o', join(dir, 'c.wav'), '--linear')).status).toBe(0);
   });
+  it('--threads 2 (the bundle and its worker) writes the same file and figures as --threads 1', () => {
+    const one = join(dir, 'threads-1.wav'),
+      two = join(dir, 'threads-2.wav');
+    const a = spawnCli('render', VENTED, input, '-o', one, '--spl', '100', '--json', '--threads', '1');
+    const b = spawnCli('render', VENTED, input, '-o', two, '--spl', '100', '--json', '--threads', '2');
+    expect([a.status, b.status]).toEqual([0, 0]);
+    const { realtime_factor: _a, ...sa } = JSON.parse(a.stdout);
+    const { realtime_factor: _b, ...sb } = JSON.parse(b.stdout);
+    expect(sb).toEqual(sa);
+    expect(Buffer.compare(readFileSync(one), readFileSync(two))).toBe(0);
+    const h1 = spawnCli('headroom', SEALED, input, '--json', '--threads', '1');
+    const h2 = spawnCli('headroom', SEALED, input, '--json', '--threads', '2');
+    expect(h2.stdout).toBe(h1.stdout);
+  });
   it('exits 2 on usage errors', async () => {
+    expect((await runCli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--threads', '3')).status).toBe(2);
+    expect((await runCli('headroom', VENTED, input, '--threads', 'two')).status).toBe(2);
     expect((await runCli('render', VENTED, input)).status).toBe(2);
     expect((await runCli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--volts', '1', '--spl', '80')).status).toBe(2);
     expect((await runCli('render', VENTED, input, '-o', join(dir, 'x.wav'), '--linear', '--residual')).status).toBe(2);

@@ -3,10 +3,10 @@ import { InputProblem } from '../engine/issues.ts';
 import { findHeadroom } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
-import { INPUT_HELP, progressCounter, readInputAudio } from './render-common.ts';
+import { INPUT_HELP, progressCounter, readInputAudio, THREADS_HELP, threadsOption } from './render-common.ts';
 import { count, db, moment, sig } from './user-text.ts';
 
-const HELP = `usage: preheard headroom <design.json> <in.wav> [--json]
+const HELP = `usage: preheard headroom <design.json> <in.wav> [--threads N] [--json]
 
 Finds the highest drive at which the design plays this track without any stress event in any
 way (excursion, end stop, coil temperature, port speed, amplifier clipping, the hot coil's
@@ -15,8 +15,9 @@ bisection to 0.25 dB, and names the limit that arrives first above it
 and the way it belongs to.
 ${INPUT_HELP}
 
-  --json   print {clean_volts, clean_spl_db, first_limit, first_limit_way, first_limit_s}
-  --help   this text
+${THREADS_HELP}
+  --json        print {clean_volts, clean_spl_db, first_limit, first_limit_way, first_limit_s}
+  --help        this text
 
 clean_volts is in the sense of render --volts: peak amplifier volts per full-scale sample.
 Caution: a simulation is an estimate; real drivers can fail earlier than modelled.
@@ -29,12 +30,17 @@ export const headroomCommand: Command = {
   summary: 'the loudest clean level of a design on a track, and its first limit',
   run: (argv) =>
     runGuarded('headroom', HELP, async () => {
-      const { values, positionals } = parseCommandArgs(argv, { json: { type: 'boolean' }, help: { type: 'boolean', short: 'h' } });
+      const { values, positionals } = parseCommandArgs(argv, {
+        threads: { type: 'string' },
+        json: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+      });
       if (values.help) {
         process.stdout.write(HELP);
         return EXIT_OK;
       }
       if (positionals.length !== 2) throw new UsageError(`expected <design.json> <in.wav>, got ${count(positionals.length, 'argument')}`);
+      const helper = threadsOption(values.threads);
       const [designPath, inPath] = positionals;
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
@@ -42,7 +48,7 @@ export const headroomCommand: Command = {
       let h: ReturnType<typeof findHeadroom>;
       try {
         const progress = progressCounter('finding headroom', 'render');
-        h = findHeadroom(system, audio.channels, audio.sampleRate, { onRender: progress?.tick });
+        h = findHeadroom(system, audio.channels, audio.sampleRate, { onRender: progress?.tick, helper });
         progress?.done();
       } catch (e) {
         if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);

@@ -6,6 +6,8 @@ import { checkReadable } from './output-files.ts';
 import { INPUT_FORMATS, readAudioInput } from './audio-input.ts';
 import { progressBar } from './progress.ts';
 import type { WavAudio } from './wav.ts';
+import type { LaneHelper } from '../engine/render/index.ts';
+import { laneHelper, laneThread } from './lane-helper.ts';
 
 export { progressBar, progressCounter } from './progress.ts';
 
@@ -21,6 +23,17 @@ export function levelOptions(values: { volts?: string; spl?: string }): { voltsF
     voltsFs: parseNumberOption(values.volts, '--volts', 0.01, 5000),
     splDb: parseNumberOption(values.spl, '--spl', 40, 140),
   };
+}
+
+export const THREADS_HELP = `  --threads N   threads for a multichannel track: 2 (the default where the machine has two or
+                more cores) runs the upper half of the channels on a second thread; 1 keeps to one.
+                The output is the same either way`;
+
+/** The lane helper the --threads option asks for (none for 1). */
+export function threadsOption(value: string | undefined): LaneHelper | undefined {
+  if (value === undefined) return laneHelper();
+  if (value !== '1' && value !== '2') throw new UsageError(`--threads must be 1 or 2, got "${printable(value)}"`);
+  return value === '2' ? laneThread() : undefined;
 }
 
 /** Reads any supported audio file; its warnings go to stderr. */

@@ -4,12 +4,21 @@ import { renderBuffer, renderWarnings, resolveVolts, type RenderSummary } from '
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
-import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, readInputAudio } from './render-common.ts';
+import {
+  checkVolts,
+  INPUT_HELP,
+  LEVEL_HELP,
+  levelOptions,
+  progressBar,
+  readInputAudio,
+  THREADS_HELP,
+  threadsOption,
+} from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 import { count, db, duration, sig } from './user-text.ts';
 
 const HELP = `usage: preheard render <design.json> <in.wav> -o <out.wav> [--volts V | --spl DB]
-                      [--linear | --residual] [--events FILE] [--format 16|24|f32] [--json]
+                      [--linear | --residual] [--events FILE] [--format 16|24|f32] [--threads N] [--json]
 
 Plays an audio file through every way of the design (its filter, its own amplifier channel, its
 driver in its box; a flat way as an ideal band), sums the ways at the listening seat and writes
@@ -22,6 +31,7 @@ ${LEVEL_HELP}
   --residual    write only the difference: what the nonlinear model adds (distortion)
   --events FILE also write the stress events as a JSON array
   --format F    output sample format (default: the input's)
+${THREADS_HELP}
   --json        print the summary as one JSON object
   --help        this text
 
@@ -87,6 +97,7 @@ export const renderCommand: Command = {
         residual: { type: 'boolean' },
         events: { type: 'string' },
         format: { type: 'string' },
+        threads: { type: 'string' },
         json: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
       });
@@ -100,6 +111,7 @@ export const renderCommand: Command = {
       if (values.format !== undefined && !['16', '24', 'f32'].includes(values.format))
         throw new UsageError(`--format must be 16, 24 or f32, got "${values.format}"`);
       const level = levelOptions(values);
+      const helper = threadsOption(values.threads);
       const [designPath, inPath] = positionals;
       const outputs = await planOutputs([designPath, inPath], [values.output, values.events]);
       const { system, warnings } = await loadDesignFile(designPath);
@@ -107,11 +119,12 @@ export const renderCommand: Command = {
       const audio = await readInputAudio(inPath);
       let result: ReturnType<typeof renderBuffer>;
       try {
-        const { volts, leqPerVoltDb } = resolveVolts(system, audio.channels, audio.sampleRate, level);
+        const { volts, leqPerVoltDb } = resolveVolts(system, audio.channels, audio.sampleRate, { ...level, helper });
         checkVolts(volts, system);
         result = renderBuffer(system, audio.channels, audio.sampleRate, {
           voltsFs: volts,
           leqPerVoltDb,
+          helper,
           mode: values.linear ? 'linear' : values.residual ? 'residual' : 'nonlinear',
           onProgress: audio.channels[0].length > audio.sampleRate * 30 ? progressBar('rendering') : undefined,
         });

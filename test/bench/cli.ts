@@ -1,6 +1,7 @@
 // CLI benchmarks, each a ratio measured side by side in one run:
 //  - `preheard render` (the bundle, as users run it) of a 5-minute stereo 48 kHz 16-bit WAV, against
-//    Debian's sox running five biquads over the same file, WAV in and out: a native yardstick;
+//    Debian's sox running five biquads over the same file, WAV in and out: a native yardstick; and
+//    the same render kept to one thread (--threads 1);
 //  - `preheard headroom` and `preheard compare` against one `render` of the same minute of the track;
 //  - `preheard --help` start-up: the bundle against the TypeScript source run through tsx;
 //  - WAV read and write in MB/s of file: src/cli/wav.ts against wavefile 11.0.0 (the CLI's old way);
@@ -122,6 +123,9 @@ export async function bench(): Promise<BenchResult[]> {
       engineS = Math.min(engineS, 300 / JSON.parse(r.stdout).realtime_factor);
     });
 
+    // The same render on one thread (--threads 1): what the second thread buys.
+    const oneThreadMs = bestMs(2, () => mustRun(process.execPath, [BUNDLE, 'render', design, input, '-o', join(dir, 'cli1.wav'), '--threads', '1']));
+
     // headroom and compare against one render, each of the bundle on the first minute of the track.
     const minuteIn = join(dir, 'minute.wav');
     await writeWav(
@@ -205,6 +209,8 @@ export async function bench(): Promise<BenchResult[]> {
         target: '',
       },
       { name: '  preheard render / sox', value: Number((cliMs / soxMs).toFixed(2)), unit: 'time ratio', target: '<= 4 (goal 2)' },
+      { name: '  the same with --threads 1', value: Number((oneThreadMs / 1000).toFixed(2)), unit: 's', target: '' },
+      { name: '  --threads 1 / the default (2 threads here)', value: Number((oneThreadMs / cliMs).toFixed(2)), unit: 'speed ratio', target: '' },
       { name: 'preheard render, 60 s of the track, wall time', value: Number((renderMinMs / 1000).toFixed(2)), unit: 's', target: '' },
       { name: '  preheard headroom / render', value: Number((headroomMs / renderMinMs).toFixed(2)), unit: 'time ratio', target: '<= 2.5' },
       {

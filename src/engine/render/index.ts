@@ -37,8 +37,11 @@ import { createRenderer, type DriverRate, MAX_VOLTS_FS, Renderer, type RenderMod
 import type { EventKind, StressEvent } from './events.ts';
 import { passbandPaPerV, seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
 import { linearHeadroomGuess } from './headroom-guess.ts';
+import { forEachBlock, type LaneHelper, laneSplit, shareChannels } from './lane-share.ts';
+import { SlotRing } from './slot-ring.ts';
 
 export { createRenderer, passbandPaPerV, Renderer, voltsForSpl };
+export type { LaneHelper, LaneJob } from './lane-share.ts';
 export type { RenderMode, Traces, StressEvent, EventKind };
 export type { DriverRate, RendererOptions, RenderStats, WayStats, WayTraces } from './renderer.ts';
 export { EVENT_KINDS } from './events.ts';
@@ -133,6 +136,8 @@ export interface LevelRequest {
   splDb?: number;
   /** The track's Leq,C at the seat per volt (seatLeqCPerVolt), dB: given, the calibration pass is not run again. */
   leqPerVoltDb?: number;
+  /** A second thread for the upper channels' lanes of the calibration and the render (lane-share.ts); same output. */
+  helper?: LaneHelper;
 }
 
 export function resolveVolts(
@@ -148,19 +153,22 @@ export function resolveVolts(
     let l1 = opt.leqPerVoltDb ?? -Infinity;
     if (opt.leqPerVoltDb === undefined) {
       try {
-        l1 = seatLeqCPerVolt(sys, channels, sampleRate);
+        l1 = seatLeqCPerVolt(sys, channels, sampleRate, opt.helper);
       } catch (e) {
         if (!(e instanceof InputProblem)) throw e;
       }
     }
     return { volts: explicit, spl: l1 + 20 * Math.log10(explicit), leqPerVoltDb: l1 };
   }
-  const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate);
+  const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate, opt.helper);
   if (!Number.isFinite(l1)) throw new InputProblem('the audio is silent in the band the design plays: a level cannot be set from it');
   const target = opt.splDb ?? (level.mode === 'spl' ? level.splDb : 0);
   const volts = Math.pow(10, (target - l1) / 20);
   return { volts, spl: l1 + 20 * Math.log10(volts), leqPerVoltDb: l1 };
 }
+
+/** Chunks the helper thread may run ahead of the calling one (64 x 256 frames). */
+const HELPER_CHUNKS_AHEAD = 64;
 
 export function renderBuffer(
   sys: SpeakerSystem,
@@ -174,16 +182,16 @@ export function renderBuffer(
   const { volts, spl } = resolveVolts(sys, channels, sampleRate, opt);
   const clock = opt.clock ?? defaultClock();
   const t0 = clock();
-  const r = createRenderer(sys, {
+  const rendererOptions = {
     sampleRate,
     channels: nCh,
     voltsFs: volts,
     mode: opt.mode,
-    paPerFs: opt.paPerFs,
     extraStreams: opt.extraStreams,
     driverRate: opt.driverRate,
     fixedMode: true,
-  });
+  };
+  const r = createRenderer(sys, { ...rendererOptions, paPerFs: opt.paPerFs });
   const lat = r.latencyFrames;
   const block = opt.blockFrames ?? 4096;
   const keep = !opt.analysisOnly;
@@ -197,37 +205,46 @@ export function renderBuffer(
   const extra = opt.extraStreams ? { linear: linB, residual: resB } : undefined;
   const total = frames + lat;
   let lastReport = 0;
-  const views: ArrayLike<number>[] = new Array(nCh);
-  for (let s = 0; s < total; s += block) {
-    const n = Math.min(block, total - s);
-    for (let c = 0; c < nCh; c++) {
-      const src = channels[c];
-      if (s + n <= frames && ArrayBuffer.isView(src)) {
-        views[c] = (src as unknown as Float32Array).subarray(s, s + n);
-      } else {
-        const dst = inB[c];
-        for (let j = 0; j < n; j++) dst[j] = s + j < frames ? src[s + j] : 0;
-        views[c] = dst;
-      }
-    }
-    r.process(views, outB, n, extra);
-    if (opt.stopAtFirstEvent && r.events.count > 0) break;
-    if (keep) {
-      // Drop the first `lat` output frames: the result is aligned with the input.
-      const j0 = Math.max(0, lat - s),
-        j1 = Math.min(n, frames + lat - s);
-      if (j1 > j0) {
-        for (let c = 0; c < nCh; c++) {
-          audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
-          if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
-          if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
+  const laneDoubles = opt.helper && nCh > 1 ? r.helperLaneDoubles() : 0;
+  const ring = laneDoubles > 0 ? new SlotRing(laneDoubles, HELPER_CHUNKS_AHEAD) : null;
+  if (ring) {
+    r.shareLanes('main', ring);
+    opt.helper!({
+      kind: 'render',
+      system: sys,
+      sampleRate,
+      channels: shareChannels(channels, laneSplit(nCh)),
+      frames,
+      ring: ring.buffers,
+      renderer: rendererOptions,
+      total,
+      block,
+    });
+  }
+  try {
+    forEachBlock(channels, frames, total, block, inB, (views, s, n) => {
+      r.process(views, outB, n, extra);
+      if (opt.stopAtFirstEvent && r.events.count > 0) return false;
+      if (keep) {
+        // Drop the first `lat` output frames: the result is aligned with the input.
+        const j0 = Math.max(0, lat - s),
+          j1 = Math.min(n, frames + lat - s);
+        if (j1 > j0) {
+          for (let c = 0; c < nCh; c++) {
+            audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
+            if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
+            if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
+          }
         }
       }
-    }
-    if (opt.onProgress && s - lastReport > sampleRate * 5) {
-      lastReport = s;
-      opt.onProgress(s / total);
-    }
+      if (opt.onProgress && s - lastReport > sampleRate * 5) {
+        lastReport = s;
+        opt.onProgress(s / total);
+      }
+      return true;
+    });
+  } finally {
+    ring?.stop();
   }
   opt.onProgress?.(1);
   const seconds = (clock() - t0) / 1000;
@@ -291,6 +308,8 @@ export interface HeadroomOptions {
   exact?: boolean;
   /** The driver models' rate in every probe (default 'audio'). */
   driverRate?: DriverRate;
+  /** A second thread for every probe (lane-share.ts); same answer. */
+  helper?: LaneHelper;
 }
 
 /**
@@ -299,7 +318,7 @@ export interface HeadroomOptions {
  */
 export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: HeadroomOptions = {}): Headroom {
   const tol = opt.tolDb ?? 0.25;
-  const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate);
+  const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate, opt.helper);
   let renders = 0;
   const fast = opt.exact !== true;
   // The last clean probe's way summaries: the linear guess scales them.
@@ -315,6 +334,7 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
       analysisOnly: true,
       stopAtFirstEvent: fast,
       driverRate: opt.driverRate,
+      helper: opt.helper,
     });
     if (res.summary.events.length === 0) {
       cleanWays = res.summary.ways;

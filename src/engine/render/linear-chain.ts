@@ -104,12 +104,16 @@ export class LinearChain {
     return this.lanes[w].length;
   }
 
-  /** Whole-buffer processing: out[w][lane][0..frames-1] receives way w's pressure in that lane. */
-  process(inputs: ArrayLike<number>[], out: Float64Array[][], frames: number): void {
+  /**
+   * Whole-buffer processing: out[w][lane][0..frames-1] receives way w's pressure in that lane, for
+   * lanes `from` to `to` - 1 (default: all; a shared lane counts as lane 0).
+   */
+  process(inputs: ArrayLike<number>[], out: Float64Array[][], frames: number, from = 0, to = Infinity): void {
     const nIn = inputs.length;
     for (let w = 0; w < this.lanes.length; w++) {
       const lanes = this.lanes[w];
       if (this.ways[w].monoSum) {
+        if (from > 0) continue;
         const o = out[w][0];
         for (let j = 0; j < frames; j++) {
           let s = 0;
@@ -121,7 +125,8 @@ export class LinearChain {
         this.measured[w][0]?.process(o, frames);
         continue;
       }
-      for (let c = 0; c < lanes.length; c++) {
+      const end = Math.min(to, lanes.length);
+      for (let c = from; c < end; c++) {
         const o = out[w][c],
           inp = inputs[Math.min(c, nIn - 1)];
         for (let j = 0; j < frames; j++) o[j] = inp[j];

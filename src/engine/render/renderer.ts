@@ -15,6 +15,8 @@ import { TraceRecorder, type Traces } from './trace-recorder.ts';
 import { OutputGuard, type RenderMode, type SampleBuffer, type SideStreams } from './output-guard.ts';
 import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
 import { lowRateLatency } from './low-rate-model.ts';
+import { exportLanes, helperLaneDoubles, importLanes, laneSplit } from './lane-share.ts';
+import type { SlotRing } from './slot-ring.ts';
 
 export type { RenderMode, SampleBuffer } from './output-guard.ts';
 export {
@@ -112,6 +114,8 @@ export class Renderer {
   private readonly roomOnly: 'nonlinear' | 'linear' | undefined;
   /** The listening room on the summed output (none without a room). */
   private room: { key: string; streams: RoomStreams } | null = null;
+  /** Lanes shared with a second thread (lane-share.ts): this renderer's part and the ring between them. */
+  private share: { role: 'main' | 'helper'; split: number; ring: SlotRing } | null = null;
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
@@ -138,6 +142,21 @@ export class Renderer {
     this.distortion = new OutputDistortion(opt.sampleRate);
     this.build(sys, true);
     this.paPerFs = opt.paPerFs ?? 2 * passbandPaPerV(sys) * opt.voltsFs;
+  }
+
+  /** Doubles per chunk of the lanes a helper thread would run (0: there are none to share). */
+  helperLaneDoubles(): number {
+    return helperLaneDoubles(this.chains, laneSplit(this.channels));
+  }
+
+  /**
+   * Splits the lanes with a second thread through `ring` (lane-share.ts): as 'main' this renderer
+   * runs the lower lanes and takes the upper ones from the ring, as 'helper' it runs only the upper
+   * ones into the ring (its outputs are not written). For fixed renders of whole buffers: the other
+   * side must be fed the same blocks, and neither is edited on the way.
+   */
+  shareLanes(role: 'main' | 'helper', ring: SlotRing): void {
+    this.share = { role, split: laneSplit(this.channels), ring };
   }
 
   /** Can the running ways take this design's constants while keeping their state? */
@@ -251,9 +270,25 @@ export class Renderer {
     // 1. Every way's chain over the chunk.
     const volts = this.voltsFs;
     const frameEnd = this.frames + n;
+    const share = this.share;
+    const from = share?.role === 'helper' ? share.split : 0;
+    const to = share?.role === 'main' ? share.split : Infinity;
     for (const chain of this.chains) {
-      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd);
-      else chain.process(src, volts);
+      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, from, to);
+      else chain.process(src, volts, from, to);
+    }
+    if (share) {
+      if (share.role === 'helper') {
+        const slot = share.ring.nextFree();
+        if (slot) {
+          exportLanes(this.chains, share.split, n, slot);
+          share.ring.publish();
+        }
+        this.frames += n;
+        return;
+      }
+      importLanes(this.chains, share.split, n, share.ring.nextFull());
+      share.ring.release();
     }
     // 2. The ways summed per channel: the full model, its linear part, and their difference (which
     // only driver ways have). The first way is copied, so one way passes through unchanged.

@@ -1,0 +1,107 @@
+// A render or a calibration that runs the upper channels' lanes on a second thread (the CLI's
+// worker, engine/render/lane-share.ts) gives bit for bit what one thread gives: every stream,
+// trace, event and figure, for every example design, a mono-sum pair on three channels, a render
+// stopped at its first event, side streams and the driver models below the audio rate. A helper
+// that fails is reported, not waited on.
+import { createHash } from 'node:crypto';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { parseDesign } from '../src/engine/design/validate.ts';
+import { synthesizeDemoTrack } from '../src/engine/demo/track.ts';
+import { findHeadroom, renderBuffer, type LaneJob, type RenderBufferOptions } from '../src/engine/render/index.ts';
+import { seatLeqCPerVolt } from '../src/engine/level/calibration.ts';
+import type { SpeakerSystem } from '../src/engine/system.ts';
+import { laneThread } from '../src/cli/lane-helper.ts';
+import { sealedBox, system } from './sim-fixtures.ts';
+
+const fs = 48000;
+const track = synthesizeDemoTrack(fs);
+const excerpt = (seconds: number, channels = 2) =>
+  Array.from({ length: channels }, (_, c) => track.channels[c % 2].slice(10 * fs, (10 + seconds) * fs));
+const stereo = excerpt(3);
+
+const examples = join(import.meta.dirname, '..', 'public', 'examples');
+const load = (file: string): SpeakerSystem => {
+  const parsed = parseDesign(JSON.parse(readFileSync(join(examples, file), 'utf8')));
+  if (!parsed.ok) throw new Error(`${file} does not parse`);
+  return parsed.system;
+};
+
+const helper = laneThread();
+const sha = (arrays: Float32Array[] | null) => {
+  const h = createHash('sha256');
+  for (const a of arrays ?? []) h.update(new Uint8Array(a.buffer, a.byteOffset, a.byteLength));
+  return h.digest('hex');
+};
+/** Everything a render returns but its clock. */
+const fingerprint = (r: ReturnType<typeof renderBuffer>) => {
+  const { realtime_factor: _rt, ...summary } = r.summary;
+  const t = r.traces;
+  return {
+    audio: sha(r.audio),
+    linear: sha(r.linear),
+    residual: sha(r.residual),
+    traces: JSON.stringify(t),
+    summary,
+  };
+};
+const both = (sys: SpeakerSystem, channels: Float32Array[], opt: RenderBufferOptions) => {
+  const one = fingerprint(renderBuffer(sys, channels, fs, opt));
+  const two = fingerprint(renderBuffer(sys, channels, fs, { ...opt, helper }));
+  return { one, two };
+};
+
+describe('two threads render bit for bit as one', () => {
+  for (const file of readdirSync(examples).filter((f) => f.endsWith('.json'))) {
+    it(`${file}: loud enough for events, with side streams`, () => {
+      const sys = load(file);
+      const { one, two } = both(sys, stereo, { splDb: 108, extraStreams: true });
+      expect(one.summary.events.length).toBeGreaterThan(0);
+      expect(two).toEqual(one);
+    });
+  }
+
+  it('the calibration pass: the same Leq,C per volt to the last bit, on two and three channels', () => {
+    for (const file of ['living-room-vented-in-room.json', 'bookshelf-two-way-passive.json']) {
+      const sys = load(file);
+      expect(seatLeqCPerVolt(sys, stereo, fs, helper)).toBe(seatLeqCPerVolt(sys, stereo, fs));
+      const three = excerpt(2, 3);
+      expect(seatLeqCPerVolt(sys, three, fs, helper)).toBe(seatLeqCPerVolt(sys, three, fs));
+    }
+  });
+
+  it('a mono-sum pair on three channels (the shared bass lane stays on the calling thread)', () => {
+    const sys = system(sealedBox(), { channels: 'mono-sum', xo: 'lr4', fx: 150 });
+    const three = excerpt(2, 3);
+    const { one, two } = both(sys, three, { splDb: 100 });
+    expect(two).toEqual(one);
+    expect(seatLeqCPerVolt(sys, three, fs, helper)).toBe(seatLeqCPerVolt(sys, three, fs));
+  });
+
+  it('a render stopped at its first event, odd block sizes, and the driver models below the audio rate', () => {
+    const sys = load('garage-subwoofer-bandpass.json');
+    const stop = both(sys, stereo, { splDb: 110, analysisOnly: true, stopAtFirstEvent: true });
+    expect(stop.one.summary.events.length).toBeGreaterThan(0);
+    expect(stop.two).toEqual(stop.one);
+    const odd = both(load('living-room-vented.json'), stereo, { splDb: 100, blockFrames: 1000 });
+    expect(odd.two).toEqual(odd.one);
+    const low = both(sys, stereo, { splDb: 100, driverRate: 'reduced' });
+    expect(low.two).toEqual(low.one);
+  });
+
+  it('a headroom search finds the same level with a helper', () => {
+    const sys = load('living-room-sealed.json');
+    const a = findHeadroom(sys, stereo, fs);
+    const b = findHeadroom(sys, stereo, fs, { helper });
+    expect(b).toEqual(a);
+  });
+
+  it('a helper that fails, or ends early, makes the render throw with its reason instead of waiting', () => {
+    const sys = load('living-room-vented.json');
+    const failing = (job: LaneJob) => helper({ ...job, system: null } as unknown as LaneJob);
+    expect(() => renderBuffer(sys, stereo, fs, { splDb: 90, helper: failing })).toThrow(/second render thread failed: .*null/);
+    const short = (job: LaneJob) => helper({ ...job, frames: 1000, total: 1000 } as LaneJob);
+    expect(() => renderBuffer(sys, stereo, fs, { splDb: 90, helper: short })).toThrow(/ended before the input did/);
+  });
+});
