@@ -105,14 +105,32 @@ const filterAt = lastAt((filter: ActiveFilter, w) => wayFilterAt(filter, w));
 const theveninAt = lastAt((network: NonNullable<DriverWay['network']>, w, rs) => ladderThevenin(network, w, rs as number));
 const acousticsAt = lastAt((box: DriverWay['box'], w, air) => BOX_KINDS[box.type].acoustics(box, air as SpeakerSystem['air'], w));
 
+/** Where `solve` leaves each phasor in `SOLVED`: its real part, its imaginary part next. */
+const enum At {
+  pressure = 0,
+  conePressure = 2,
+  outletPressure = 4,
+  coneVelocity = 6,
+  excursion = 8,
+  outletFlow = 10,
+  boxPressure = 12,
+  current = 14,
+  impedance = 16,
+  terminalVoltage = 18,
+}
+/** The last solution, overwritten by the next `solve` (read it before solving again). */
+const SOLVED = new Float64Array(20);
+
 /*
  * The circuit is solved in real and imaginary parts rather than through complex.ts's objects: the
  * analysis solves it some ten times per grid point (the coil heating up, the limits of a sine), and
  * the objects were most of what it allocated. Each line does exactly the operations of the helper it
  * stands for, in the same order (`div(a, b)`: (a.re·b.re + a.im·b.im)/d, (a.im·b.re − a.re·b.im)/d
  * with d = b.re² + b.im²), so the numbers are the same to the last bit (test/analysis-identity.test.ts).
+ * The solution lands in `SOLVED`: `modelled` makes the response's phasors of it, `wayPressure` reads
+ * only the pressure.
  */
-function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {
+function solve(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): Float64Array {
   const { air, amplifier, listening } = system;
   const { driver: d, box } = way;
   const w = 2 * Math.PI * f;
@@ -175,20 +193,45 @@ function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: numbe
   const leakIm = radiationRe * leakFlowIm + radiationIm * leakFlowRe;
   // excursion = coneVelocity/jw
   const w2 = 0 * 0 + w * w;
+  const out = SOLVED;
+  out[At.pressure] = coneRe + outletRe + leakRe;
+  out[At.pressure + 1] = coneIm + outletIm + leakIm;
+  out[At.conePressure] = coneRe;
+  out[At.conePressure + 1] = coneIm;
+  out[At.outletPressure] = outletRe;
+  out[At.outletPressure + 1] = outletIm;
+  out[At.coneVelocity] = velocityRe;
+  out[At.coneVelocity + 1] = velocityIm;
+  out[At.excursion] = (velocityRe * 0 + velocityIm * w) / w2;
+  out[At.excursion + 1] = (velocityIm * 0 - velocityRe * w) / w2;
+  out[At.outletFlow] = outletFlowRe;
+  out[At.outletFlow + 1] = outletFlowIm;
+  out[At.boxPressure] = chamber.re * flowRe - chamber.im * flowIm;
+  out[At.boxPressure + 1] = chamber.re * flowIm + chamber.im * flowRe;
+  out[At.current] = currentRe;
+  out[At.current + 1] = currentIm;
+  out[At.impedance] = coil.re + motionalRe;
+  out[At.impedance + 1] = coil.im + motionalIm;
+  out[At.terminalVoltage] = driveRe - (currentRe * sourceRe - currentIm * sourceIm);
+  out[At.terminalVoltage + 1] = driveIm - (currentRe * sourceIm + currentIm * sourceRe);
+  return out;
+}
+
+const phasor = (s: Float64Array, at: At): Complex => ({ re: s[at], im: s[at + 1] });
+
+function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {
+  const s = solve(system, way, f, volts, withRoomGain);
   return {
-    pressure: { re: coneRe + outletRe + leakRe, im: coneIm + outletIm + leakIm },
-    conePressure: { re: coneRe, im: coneIm },
-    outletPressure: { re: outletRe, im: outletIm },
-    coneVelocity: { re: velocityRe, im: velocityIm },
-    excursion: { re: (velocityRe * 0 + velocityIm * w) / w2, im: (velocityIm * 0 - velocityRe * w) / w2 },
-    outletFlow: { re: outletFlowRe, im: outletFlowIm },
-    boxPressure: { re: chamber.re * flowRe - chamber.im * flowIm, im: chamber.re * flowIm + chamber.im * flowRe },
-    current: { re: currentRe, im: currentIm },
-    impedance: { re: coil.re + motionalRe, im: coil.im + motionalIm },
-    terminalVoltage: {
-      re: driveRe - (currentRe * sourceRe - currentIm * sourceIm),
-      im: driveIm - (currentRe * sourceIm + currentIm * sourceRe),
-    },
+    pressure: phasor(s, At.pressure),
+    conePressure: phasor(s, At.conePressure),
+    outletPressure: phasor(s, At.outletPressure),
+    coneVelocity: phasor(s, At.coneVelocity),
+    excursion: phasor(s, At.excursion),
+    outletFlow: phasor(s, At.outletFlow),
+    boxPressure: phasor(s, At.boxPressure),
+    current: phasor(s, At.current),
+    impedance: phasor(s, At.impedance),
+    terminalVoltage: phasor(s, At.terminalVoltage),
   };
 }
 
@@ -212,10 +255,14 @@ export const offsetDelay = (system: SpeakerSystem, way: Way): number => way.offs
  */
 export function wayPressure(system: SpeakerSystem, way: Way, f: number, volts: number, withRoomGain = true): Complex {
   const w = 2 * Math.PI * f;
+  // A driver way without a measured response needs only the pressure of the solution (no objects
+  // for the rest of it: the sum and its group delay solve every way twice per grid point).
   const own =
-    way.kind === 'driver'
-      ? respond(system, way, f, volts, withRoomGain).pressure
-      : mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0));
+    way.kind !== 'driver'
+      ? mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0))
+      : way.measured
+        ? respond(system, way, f, volts, withRoomGain).pressure
+        : phasor(solve(system, way, f, volts, withRoomGain), At.pressure);
   return placedInSum(system, way, own, f);
 }
 
