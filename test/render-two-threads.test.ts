@@ -1,15 +1,15 @@
-// A render or a calibration that runs the upper channels' lanes on a second thread (the CLI's
-// worker, engine/render/lane-share.ts) gives bit for bit what one thread gives: every stream,
-// trace, event and figure, for every example design, a mono-sum pair on three channels, a render
-// stopped at its first event, side streams and the driver models below the audio rate. A helper
-// that fails is reported, not waited on.
+// A render that runs a share of the ways' lanes on a second thread (the CLI's worker,
+// engine/render/lane-share.ts), or a calibration that runs its upper channels there, gives bit for
+// bit what one thread gives: every stream, trace, event and figure, for every example design, a
+// mono-sum pair on three channels, a mono track, a render stopped at its first event, side streams
+// and the driver models below the audio rate. A helper that fails is reported, not waited on.
 import { createHash } from 'node:crypto';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { synthesizeDemoTrack } from '../src/engine/demo/track.ts';
-import { findHeadroom, renderBuffer, type LaneJob, type RenderBufferOptions } from '../src/engine/render/index.ts';
+import { createRenderer, findHeadroom, renderBuffer, type LaneJob, type RenderBufferOptions } from '../src/engine/render/index.ts';
 import { seatLeqCPerVolt } from '../src/engine/level/calibration.ts';
 import type { SpeakerSystem } from '../src/engine/system.ts';
 import { laneThread } from '../src/cli/lane-helper.ts';
@@ -71,12 +71,28 @@ describe('two threads render bit for bit as one', () => {
     }
   });
 
-  it('a mono-sum pair on three channels (the shared bass lane stays on the calling thread)', () => {
+  it('a mono-sum pair on three channels (its shared bass lane reads them all) and a mono track', () => {
     const sys = system(sealedBox(), { channels: 'mono-sum', xo: 'lr4', fx: 150 });
     const three = excerpt(2, 3);
     const { one, two } = both(sys, three, { splDb: 100 });
     expect(two).toEqual(one);
     expect(seatLeqCPerVolt(sys, three, fs, helper)).toBe(seatLeqCPerVolt(sys, three, fs));
+    const mono = both(load('living-room-vented.json'), excerpt(2, 1), { splDb: 100 });
+    expect(mono.two).toEqual(mono.one);
+  });
+
+  it('shares the work by lane cost: the cone models to the helper, the light lanes and the joining here', () => {
+    const plan = (file: string, channels: number) =>
+      createRenderer(load(file), { sampleRate: fs, channels, voltsFs: 10 }).helperPlan().lanes;
+    // Woofer and flat upper band, stereo: both woofer lanes are the helper's, the flat band stays.
+    expect(plan('living-room-vented.json', 2)).toEqual([
+      [true, true],
+      [false, false],
+    ]);
+    // Mono: the woofer there, the flat band and everything else here.
+    expect(plan('living-room-vented.json', 1)).toEqual([[true], [false]]);
+    // Two passive ways in stereo: two of the four driver lanes each.
+    expect(plan('bookshelf-two-way-passive.json', 2).flat().filter(Boolean)).toHaveLength(2);
   });
 
   it('a render stopped at its first event, odd block sizes, and the driver models below the audio rate', () => {

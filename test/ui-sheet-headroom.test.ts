@@ -9,7 +9,7 @@ import { writeWav } from '../src/cli/wav.ts';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { renderBuffer } from '../src/engine/render/index.ts';
 import type { SpeakerSystem } from '../src/engine/system.ts';
-import { probeHeadroom, renderEstimate, TYPICAL_RENDERS, type HeadroomResult } from '../src/audio/headroom.worker.ts';
+import { passEstimate, probeHeadroom, TYPICAL_PASSES, type HeadroomResult } from '../src/audio/headroom.worker.ts';
 
 const SR = 48000;
 const dir = mkdtempSync(join(tmpdir(), 'preheard-probe-'));
@@ -52,7 +52,7 @@ beforeAll(async () => {
 });
 
 describe('Headroom probe worker code = preheard headroom', () => {
-  it('gives the CLI numbers for both demo designs on the same file, with one progress call per render', async () => {
+  it('gives the CLI numbers for both demo designs on the same file, with a progress call after each render', async () => {
     const cli = Promise.all(DESIGNS.map(cliJson));
     const mine = DESIGNS.map((d) => {
       const calls: [number, number][] = [];
@@ -69,8 +69,10 @@ describe('Headroom probe worker code = preheard headroom', () => {
         first_limit_way: res.first_limit_way,
         first_limit_s: res.first_limit_s,
       }).toEqual(ref[i]);
+      // One progress call after each probe: the runs through the track so far, rising to the result's.
       expect(calls.length).toBe(res.renders);
-      expect(calls.map((c) => c[0])).toEqual(Array.from({ length: res.renders }, (_, k) => k));
+      for (let k = 1; k < calls.length; k++) expect(calls[k][0]).toBeGreaterThan(calls[k - 1][0]);
+      expect(calls.at(-1)![0]).toBeCloseTo(res.passes!, 2);
       for (const [done, est] of calls) expect(est).toBeGreaterThan(done);
       // The loud 38 Hz burst starts at 1.5 s; the first limit is found there, not in the quiet part.
       expect(res.first_limit).not.toBeNull();
@@ -90,11 +92,16 @@ describe('Headroom probe worker code = preheard headroom', () => {
     expect(at.spl_db).toBeCloseTo(h.clean_spl_db, 1);
   });
 
-  it('estimates renders from the searches it actually runs, one more while a search runs long', () => {
-    // The estimate is honest on this track too: both demo designs finish within one render of it.
-    for (const d of DESIGNS) expect(Math.abs(probeHeadroom(system(d), track, SR).renders - TYPICAL_RENDERS)).toBeLessThanOrEqual(1);
-    expect(renderEstimate(1)).toBe(TYPICAL_RENDERS);
-    expect(renderEstimate(TYPICAL_RENDERS)).toBe(TYPICAL_RENDERS + 1);
-    expect(renderEstimate(9)).toBe(10);
+  it('estimates the runs through the track from the searches it actually runs, one more while a search runs long', () => {
+    // The estimate is honest on this track too: both demo designs finish within one run of it.
+    for (const d of DESIGNS) {
+      const h = probeHeadroom(system(d), track, SR);
+      expect(Math.abs(h.passes! - TYPICAL_PASSES)).toBeLessThanOrEqual(1);
+      // Most probes stop at their first event: the runs are far fewer than the renders.
+      expect(h.passes!).toBeLessThan(h.renders);
+    }
+    expect(passEstimate(0.3)).toBe(TYPICAL_PASSES);
+    expect(passEstimate(TYPICAL_PASSES)).toBe(TYPICAL_PASSES + 1);
+    expect(passEstimate(8.2)).toBe(10);
   });
 });

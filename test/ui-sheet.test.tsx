@@ -177,8 +177,8 @@ describe('Headroom probe, page side', () => {
         postMessage: (m: HeadroomJob) => {
           setTimeout(() => {
             const send = (r: HeadroomReply) => !rec.terminated && rec.w.onmessage?.({ data: r } as MessageEvent<HeadroomReply>);
-            const result = probeHeadroom(m.system, m.channels, m.sampleRate, (renders, estimate) =>
-              send({ type: 'progress', id: m.id, renders, estimate }),
+            const result = probeHeadroom(m.system, m.channels, m.sampleRate, (passes, estimate) =>
+              send({ type: 'progress', id: m.id, passes, estimate }),
             );
             send({ type: 'result', id: m.id, result });
           }, 0);

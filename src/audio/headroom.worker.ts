@@ -1,5 +1,5 @@
 // The Headroom probe's Worker (imported with `?worker`): the engine's findHeadroom on one design and
-// one track, with a progress report per render. It runs the very call `preheard headroom` makes, so
+// one track, with a progress report after each probe (runs through the track so far). It runs the very call `preheard headroom` makes, so
 // the numbers are the CLI's. The page cancels by terminating the worker.
 // `probeHeadroom` and the message types are exported for the page and for the Node test; the
 // message handler is installed only inside a worker.
@@ -14,7 +14,7 @@ export interface HeadroomJob {
   sampleRate: number;
 }
 
-/** The same fields as `preheard headroom --json`, plus the number of renders it took. */
+/** The same fields as `preheard headroom --json`, plus the renders it took and how far they ran. */
 export interface HeadroomResult {
   clean_volts: number;
   clean_spl_db: number;
@@ -23,39 +23,35 @@ export interface HeadroomResult {
   first_limit_way?: string | null;
   first_limit_s: number | null;
   renders: number;
+  /** Runs through the track those renders made together (absent in findings kept by older versions). */
+  passes?: number;
 }
 
 export type HeadroomReply =
-  | { type: 'progress'; id: number; renders: number; estimate: number }
+  | { type: 'progress'; id: number; passes: number; estimate: number }
   | { type: 'result'; id: number; result: HeadroomResult }
   | { type: 'error'; id: number; message: string };
 
 /**
- * Renders a search usually takes, for the progress bar only: the first probe, one bracketing step,
- * then the linear model's guess and a step or two from it. Measured on the built-in demo track: 3
- * (sealed example), 4 (vented, vented in a room, bandpass). The calibration pass before them is
- * counted as part of the first.
+ * Runs through the track a search usually takes, for the progress bar only: probes just under a
+ * dirty one stop at their first event, so the work is mostly the clean probes, which run the whole
+ * track. Measured on the built-in demo track: 2.0 (sealed example) and 3.0 (vented, vented in a
+ * room, bandpass, passive two-way); the calibration pass before them is not counted.
  */
-export const TYPICAL_RENDERS = 4;
+export const TYPICAL_PASSES = 3;
 
-/** Progress estimate after `renders` renders: the typical count, then one more while a search runs on. */
-export function renderEstimate(renders: number): number {
-  return Math.max(TYPICAL_RENDERS, renders + 1);
+/** Progress estimate after `passes` runs through the track: the typical count, then one more while a search runs on. */
+export function passEstimate(passes: number): number {
+  return Math.max(TYPICAL_PASSES, Math.ceil(passes) + 1);
 }
 
 export function probeHeadroom(
   system: SpeakerSystem,
   channels: Float32Array[],
   sampleRate: number,
-  onRender?: (renders: number, estimate: number) => void,
+  onPasses?: (passes: number, estimate: number) => void,
 ): HeadroomResult {
-  let n = 0;
-  const h = findHeadroom(system, channels, sampleRate, {
-    onRender: () => {
-      n++;
-      onRender?.(n - 1, renderEstimate(n));
-    },
-  });
+  const h = findHeadroom(system, channels, sampleRate, { onPasses: (passes) => onPasses?.(passes, passEstimate(passes)) });
   return {
     clean_volts: h.clean_volts,
     clean_spl_db: h.clean_spl_db,
@@ -63,6 +59,7 @@ export function probeHeadroom(
     first_limit_way: h.first_limit_way,
     first_limit_s: h.first_limit_s,
     renders: h.renders,
+    passes: h.passes,
   };
 }
 
@@ -78,8 +75,8 @@ if (scope.WorkerGlobalScope !== undefined && scope.document === undefined) {
     const m = e.data;
     try {
       if (m?.type !== 'headroom') throw new RangeError(`unknown job type ${JSON.stringify(m?.type)}: expected "headroom"`);
-      const result = probeHeadroom(m.system, m.channels, m.sampleRate, (renders, estimate) =>
-        post({ type: 'progress', id: m.id, renders, estimate }),
+      const result = probeHeadroom(m.system, m.channels, m.sampleRate, (passes, estimate) =>
+        post({ type: 'progress', id: m.id, passes, estimate }),
       );
       post({ type: 'result', id: m.id, result });
     } catch (err) {

@@ -12,6 +12,7 @@ import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progress
 import { planOutputs } from './output-files.ts';
 import { count, db, moment, printable, sig } from './user-text.ts';
 import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
+import { laneHelper } from './lane-helper.ts';
 
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
 
@@ -133,8 +134,10 @@ export const compareCommand: Command = {
       const rendered: Float32Array[][] = [];
       let matchDb = 0;
       try {
-        const la = resolveVolts(A.system, channels, sampleRate, level);
-        const lb = resolveVolts(B.system, channels, sampleRate, level);
+        // The two calibration passes use both cores (lane-helper.ts); the sides below do too.
+        const helper = laneHelper();
+        const la = resolveVolts(A.system, channels, sampleRate, { ...level, helper });
+        const lb = resolveVolts(B.system, channels, sampleRate, { ...level, helper });
         const va = la.volts,
           vb = lb.volts;
         checkVolts(va, A.system);

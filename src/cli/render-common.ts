@@ -25,9 +25,8 @@ export function levelOptions(values: { volts?: string; spl?: string }): { voltsF
   };
 }
 
-export const THREADS_HELP = `  --threads N   threads for a multichannel track: 2 (the default where the machine has two or
-                more cores) runs the upper half of the channels on a second thread; 1 keeps to one.
-                The output is the same either way`;
+export const THREADS_HELP = `  --threads N   2 (the default where the machine has two or more cores) runs part of the work
+                on a second thread, 1 keeps to one. The output is the same either way`;
 
 /** The lane helper the --threads option asks for (none for 1). */
 export function threadsOption(value: string | undefined): LaneHelper | undefined {

@@ -124,7 +124,9 @@ export async function bench(): Promise<BenchResult[]> {
     });
 
     // The same render on one thread (--threads 1): what the second thread buys.
-    const oneThreadMs = bestMs(2, () => mustRun(process.execPath, [BUNDLE, 'render', design, input, '-o', join(dir, 'cli1.wav'), '--threads', '1']));
+    const oneThreadMs = bestMs(2, () =>
+      mustRun(process.execPath, [BUNDLE, 'render', design, input, '-o', join(dir, 'cli1.wav'), '--threads', '1']),
+    );
 
     // headroom and compare against one render, each of the bundle on the first minute of the track.
     const minuteIn = join(dir, 'minute.wav');
@@ -210,7 +212,12 @@ export async function bench(): Promise<BenchResult[]> {
       },
       { name: '  preheard render / sox', value: Number((cliMs / soxMs).toFixed(2)), unit: 'time ratio', target: '<= 4 (goal 2)' },
       { name: '  the same with --threads 1', value: Number((oneThreadMs / 1000).toFixed(2)), unit: 's', target: '' },
-      { name: '  --threads 1 / the default (2 threads here)', value: Number((oneThreadMs / cliMs).toFixed(2)), unit: 'speed ratio', target: '' },
+      {
+        name: '  --threads 1 / the default (2 threads here)',
+        value: Number((oneThreadMs / cliMs).toFixed(2)),
+        unit: 'speed ratio',
+        target: '',
+      },
       { name: 'preheard render, 60 s of the track, wall time', value: Number((renderMinMs / 1000).toFixed(2)), unit: 's', target: '' },
       { name: '  preheard headroom / render', value: Number((headroomMs / renderMinMs).toFixed(2)), unit: 'time ratio', target: '<= 2.5' },
       {

@@ -190,7 +190,8 @@ export const tests = [
       }
       const progress = await p.evaluate(() => window.__probeProgress);
       assert.ok(
-        progress.length > 0 && /A: render \d+ of about \d+ · B: render \d+ of about \d+/.test(progress[0]),
+        progress.length > 0 &&
+          /A: [\d.]+ of about \d+ runs through the track · B: [\d.]+ of about \d+ runs through the track/.test(progress[0]),
         `progress shown: ${progress[0]}`,
       );
       const exact = await p.evaluate(() => document.querySelector('[data-testid=probe-results]')?.getAttribute('data-exact'));

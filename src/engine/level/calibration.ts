@@ -84,7 +84,10 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
   const split = helper && nCh > 1 ? laneSplit(nCh) : nCh;
   const remote = seat.upperLanes(split);
   const ring = remote.length > 0 ? new SlotRing(remote.length * LEVEL_BLOCK, LEVEL_BLOCKS_AHEAD) : null;
-  if (ring) helper!({ kind: 'level', system: sys, sampleRate, channels: shareChannels(channels, split), frames, ring: ring.buffers });
+  if (ring) {
+    const reads = channels.map((_, c) => c >= split);
+    helper!({ kind: 'level', system: sys, sampleRate, channels: shareChannels(channels, reads), frames, ring: ring.buffers });
+  }
   let energy = 0;
   try {
     const scratch = channels.map(() => new Float32Array(LEVEL_BLOCK));
@@ -132,7 +135,7 @@ export function runLevelLanes(job: LevelLaneJob, ring: SlotRing): void {
       ring.publish();
       return true;
     },
-    split,
+    job.channels.map((_, c) => c >= split),
   );
 }
 

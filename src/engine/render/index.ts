@@ -37,7 +37,7 @@ import { createRenderer, type DriverRate, MAX_VOLTS_FS, Renderer, type RenderMod
 import type { EventKind, StressEvent } from './events.ts';
 import { passbandPaPerV, seatLeqCPerVolt, voltsForSpl } from '../level/calibration.ts';
 import { linearHeadroomGuess } from './headroom-guess.ts';
-import { forEachBlock, type LaneHelper, laneSplit, shareChannels } from './lane-share.ts';
+import { forEachBlock, type LaneHelper, shareChannels } from './lane-share.ts';
 import { SlotRing } from './slot-ring.ts';
 
 export { createRenderer, passbandPaPerV, Renderer, voltsForSpl };
@@ -104,6 +104,8 @@ export interface RenderBufferOptions extends LevelRequest {
 }
 
 export interface RenderResult {
+  /** Input frames the render ran through (less than the input's when it stopped at its first event). */
+  framesRun: number;
   audio: Float32Array[];
   linear: Float32Array[] | null;
   residual: Float32Array[] | null;
@@ -205,25 +207,29 @@ export function renderBuffer(
   const extra = opt.extraStreams ? { linear: linB, residual: resB } : undefined;
   const total = frames + lat;
   let lastReport = 0;
-  const laneDoubles = opt.helper && nCh > 1 ? r.helperLaneDoubles() : 0;
-  const ring = laneDoubles > 0 ? new SlotRing(laneDoubles, HELPER_CHUNKS_AHEAD) : null;
-  if (ring) {
-    r.shareLanes('main', ring);
+  const plan = opt.helper ? r.helperPlan() : null;
+  const ring = plan && plan.doubles > 0 ? new SlotRing(plan.doubles, HELPER_CHUNKS_AHEAD) : null;
+  if (ring && plan) {
+    const lanes = plan.lanes;
+    r.shareLanes('main', ring, lanes);
     opt.helper!({
       kind: 'render',
       system: sys,
       sampleRate,
-      channels: shareChannels(channels, laneSplit(nCh)),
+      channels: shareChannels(channels, plan.reads),
       frames,
       ring: ring.buffers,
       renderer: rendererOptions,
+      lanes,
       total,
       block,
     });
   }
+  let ran = 0;
   try {
     forEachBlock(channels, frames, total, block, inB, (views, s, n) => {
       r.process(views, outB, n, extra);
+      ran = Math.min(frames, s + n);
       if (opt.stopAtFirstEvent && r.events.count > 0) return false;
       if (keep) {
         // Drop the first `lat` output frames: the result is aligned with the input.
@@ -266,7 +272,7 @@ export function renderBuffer(
     realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
     ways,
   };
-  return { audio, linear, residual, summary, traces: r.traces() };
+  return { framesRun: ran, audio, linear, residual, summary, traces: r.traces() };
 }
 
 /** A render that clips its amplifier for more than this fraction of the track is warned about. */
@@ -294,6 +300,8 @@ export interface Headroom {
   first_limit_s: number | null;
   /** Renders it took. */
   renders: number;
+  /** How many times over the track those renders ran, together (most stop at their first event). */
+  passes: number;
 }
 
 export interface HeadroomOptions {
@@ -302,6 +310,8 @@ export interface HeadroomOptions {
   startVolts?: number;
   /** Called before each probe render. */
   onRender?: () => void;
+  /** Called after each probe with the passes over the track so far (Headroom.passes). */
+  onPasses?: (passes: number) => void;
   /** The track's Leq,C per volt if already measured (resolveVolts), dB. */
   leqPerVoltDb?: number;
   /** Run every probe to the end of the track (the search as first written; for tests). */
@@ -319,7 +329,8 @@ export interface HeadroomOptions {
 export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], sampleRate: number, opt: HeadroomOptions = {}): Headroom {
   const tol = opt.tolDb ?? 0.25;
   const l1 = opt.leqPerVoltDb ?? seatLeqCPerVolt(sys, channels, sampleRate, opt.helper);
-  let renders = 0;
+  let renders = 0,
+    passes = 0;
   const fast = opt.exact !== true;
   // The last clean probe's way summaries: the linear guess scales them.
   let cleanWays: WaySummary[] = [];
@@ -336,6 +347,8 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
       driverRate: opt.driverRate,
       helper: opt.helper,
     });
+    passes += res.framesRun / Math.max(1, channels[0]?.length ?? 1);
+    opt.onPasses?.(passes);
     if (res.summary.events.length === 0) {
       cleanWays = res.summary.ways;
       cleanResidualDb = -Infinity;
@@ -354,10 +367,18 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   let lo = 0,
     hi = 0,
     hiEvents = ev;
+  const stepUp = Math.pow(10, tol / 20);
+  // A probe just under a dirty one runs about as far into the track as that one's first event, and
+  // a clean probe runs all of it: where walking a gap of `steps` search steps down one step at a
+  // time costs less than half a clean probe, the fast search walks down (for a track that overloads
+  // in its first seconds, the whole search then costs about one clean probe).
+  const seconds = (channels[0]?.length ?? 0) / sampleRate;
+  const cheapWalk = (events: StressEvent[], steps: number) =>
+    fast && seconds > 0 && (Math.min(...events.map((e) => e.start_s)) / seconds) * steps < 0.5;
   if (ev.length > 0) {
     hi = v;
-    for (let k = 0; k < 40; k++) {
-      v /= step;
+    for (let k = 0; k < 40 * 24; k++) {
+      v = cheapWalk(hiEvents, 6 / tol) ? v / stepUp : v / step;
       ev = probe(v);
       if (ev.length === 0) {
         lo = v;
@@ -387,6 +408,7 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
       first_limit_way: null,
       first_limit_s: null,
       renders,
+      passes: Number(passes.toFixed(2)),
     };
   if (lo === 0) throw new InputProblem('no clean level found down to -240 dB: the design overloads at any level');
   // Clean probes run the whole track and probes with an event stop early, so the fast search first
@@ -395,19 +417,21 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
   const wide = (a: number, b: number) => 20 * Math.log10(b / a) > tol * (1 + 1e-9);
   let guess = fast ? linearHeadroomGuess(sys, cleanWays, cleanResidualDb, lo) : null;
   // A guess outside the bracket starts one step inside it (from above, the probes are cheap).
-  const stepUp = Math.pow(10, tol / 20);
   if (guess !== null) guess = Math.min(Math.max(guess, lo * stepUp), hi / stepUp);
   if (guess !== null && !(guess > lo && guess < hi)) guess = null;
   let walkDb = tol;
   let lastDirty: boolean | null = null;
   while (wide(lo, hi)) {
-    const at = guess ?? Math.sqrt(lo * hi);
+    const walkDown = cheapWalk(hiEvents, (20 * Math.log10(hi / lo)) / tol);
+    if (guess !== null && !(guess > lo && guess < hi)) guess = null;
+    const at = walkDown ? hi / stepUp : (guess ?? Math.sqrt(lo * hi));
     ev = probe(at);
     const dirty = ev.length > 0;
     if (dirty) {
       hi = at;
       hiEvents = ev;
     } else lo = at;
+    if (walkDown) continue;
     if (guess !== null && (lastDirty === null || lastDirty === dirty)) {
       const next = at * Math.pow(10, ((dirty ? -1 : 1) * walkDb) / 20);
       walkDb *= 2;
@@ -423,5 +447,6 @@ export function findHeadroom(sys: SpeakerSystem, channels: ArrayLike<number>[], 
     first_limit_way: first.way ?? null,
     first_limit_s: first.start_s,
     renders,
+    passes: Number(passes.toFixed(2)),
   };
 }

@@ -1,7 +1,7 @@
 // The helper thread's side of a shared render (lane-share.ts): the shell's thread calls
 // runLaneJob(job) with the job the engine handed to its LaneHelper.
 import { runLevelLanes } from '../level/calibration.ts';
-import { forEachBlock, type LaneJob, laneSplit, type RenderLaneJob } from './lane-share.ts';
+import { forEachBlock, type LaneJob, type RenderLaneJob } from './lane-share.ts';
 import { createRenderer } from './renderer.ts';
 import { SlotRing } from './slot-ring.ts';
 
@@ -20,8 +20,8 @@ export function runLaneJob(job: LaneJob): void {
 
 function runRenderLanes(job: RenderLaneJob, ring: SlotRing): void {
   const r = createRenderer(job.system, job.renderer);
-  r.shareLanes('helper', ring);
-  const split = laneSplit(job.channels.length);
+  r.shareLanes('helper', ring, job.lanes);
+  const reads = r.helperPlan(job.lanes).reads;
   const scratch = job.channels.map(() => new Float32Array(job.block));
   forEachBlock(
     job.channels,
@@ -33,6 +33,6 @@ function runRenderLanes(job: RenderLaneJob, ring: SlotRing): void {
       r.process(views, [], n);
       return !ring.stopped;
     },
-    split,
+    reads,
   );
 }

@@ -15,7 +15,7 @@ import { TraceRecorder, type Traces } from './trace-recorder.ts';
 import { OutputGuard, type RenderMode, type SampleBuffer, type SideStreams } from './output-guard.ts';
 import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
 import { lowRateLatency } from './low-rate-model.ts';
-import { exportLanes, helperLaneDoubles, importLanes, laneSplit } from './lane-share.ts';
+import { assignLanes, channelsRead, exportLanes, helperLaneDoubles, importLanes } from './lane-share.ts';
 import type { SlotRing } from './slot-ring.ts';
 
 export type { RenderMode, SampleBuffer } from './output-guard.ts';
@@ -114,8 +114,11 @@ export class Renderer {
   private readonly roomOnly: 'nonlinear' | 'linear' | undefined;
   /** The listening room on the summed output (none without a room). */
   private room: { key: string; streams: RoomStreams } | null = null;
-  /** Lanes shared with a second thread (lane-share.ts): this renderer's part and the ring between them. */
-  private share: { role: 'main' | 'helper'; split: number; ring: SlotRing } | null = null;
+  /**
+   * Lanes shared with a second thread (lane-share.ts): the helper's lanes[k][w], the ones this
+   * renderer runs, and the ring between them.
+   */
+  private share: { role: 'main' | 'helper'; lanes: boolean[][]; runs: boolean[][]; ring: SlotRing } | null = null;
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
@@ -144,19 +147,23 @@ export class Renderer {
     this.paPerFs = opt.paPerFs ?? 2 * passbandPaPerV(sys) * opt.voltsFs;
   }
 
-  /** Doubles per chunk of the lanes a helper thread would run (0: there are none to share). */
-  helperLaneDoubles(): number {
-    return helperLaneDoubles(this.chains, laneSplit(this.channels));
+  /**
+   * What a helper thread would best run (lane-share.ts), or runs given `lanes`: lanes[k][w] for
+   * lane w of way k, the doubles per chunk they hand over (0: none) and the input channels they read.
+   */
+  helperPlan(lanes = assignLanes(this.chains, this.channels)): { lanes: boolean[][]; doubles: number; reads: boolean[] } {
+    return { lanes, doubles: helperLaneDoubles(this.chains, lanes), reads: channelsRead(this.chains, lanes, this.channels) };
   }
 
   /**
-   * Splits the lanes with a second thread through `ring` (lane-share.ts): as 'main' this renderer
-   * runs the lower lanes and takes the upper ones from the ring, as 'helper' it runs only the upper
-   * ones into the ring (its outputs are not written). For fixed renders of whole buffers: the other
-   * side must be fed the same blocks, and neither is edited on the way.
+   * Splits the lanes with a second thread through `ring` (lane-share.ts): `lanes` are the helper's.
+   * As 'main' this renderer runs the others and takes the helper's from the ring; as 'helper' it
+   * runs only those into the ring (its outputs are not written). For fixed renders of whole
+   * buffers: the other side must be fed the same blocks, and neither is edited on the way.
    */
-  shareLanes(role: 'main' | 'helper', ring: SlotRing): void {
-    this.share = { role, split: laneSplit(this.channels), ring };
+  shareLanes(role: 'main' | 'helper', ring: SlotRing, lanes: boolean[][]): void {
+    const runs = role === 'helper' ? lanes : lanes.map((l) => l.map((h) => !h));
+    this.share = { role, lanes, runs, ring };
   }
 
   /** Can the running ways take this design's constants while keeping their state? */
@@ -271,23 +278,22 @@ export class Renderer {
     const volts = this.voltsFs;
     const frameEnd = this.frames + n;
     const share = this.share;
-    const from = share?.role === 'helper' ? share.split : 0;
-    const to = share?.role === 'main' ? share.split : Infinity;
-    for (const chain of this.chains) {
-      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, from, to);
-      else chain.process(src, volts, from, to);
+    for (let k = 0; k < this.chains.length; k++) {
+      const chain = this.chains[k];
+      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, share?.runs[k]);
+      else chain.process(src, volts, share?.runs[k]);
     }
     if (share) {
       if (share.role === 'helper') {
         const slot = share.ring.nextFree();
         if (slot) {
-          exportLanes(this.chains, share.split, n, slot);
+          exportLanes(this.chains, share.lanes, n, slot);
           share.ring.publish();
         }
         this.frames += n;
         return;
       }
-      importLanes(this.chains, share.split, n, share.ring.nextFull());
+      importLanes(this.chains, share.lanes, n, share.ring.nextFull());
       share.ring.release();
     }
     // 2. The ways summed per channel: the full model, its linear part, and their difference (which

@@ -77,14 +77,19 @@ export class SlotRing {
     return Atomics.load(c, STOPPED) !== 0 ? null : this.views[this.written % slots];
   }
 
-  /** Writer: the slot from nextFree is filled. */
+  /** Writer: the slot from nextFree is filled. A sleeping reader is woken once a quarter of the ring is filled. */
   publish(): void {
     this.written++;
-    Atomics.store(this.control, WRITTEN, this.written);
-    if (Atomics.load(this.control, READER_ASLEEP) !== 0) Atomics.notify(this.control, WRITTEN);
+    const c = this.control;
+    Atomics.store(c, WRITTEN, this.written);
+    if (Atomics.load(c, READER_ASLEEP) !== 0 && this.written - Atomics.load(c, READ) >= this.buffers.slots / 4) Atomics.notify(c, WRITTEN);
   }
 
-  /** Reader: the next filled slot, after waiting for it. Throws when the writer failed or stalled. */
+  /**
+   * Reader: the next filled slot, after waiting for it (the writer wakes it when a quarter of the
+   * ring is filled or it has finished, else it looks again every 250 ms). Throws when the writer
+   * failed or stalled.
+   */
   nextFull(): Float64Array {
     const c = this.control;
     let waited = 0;

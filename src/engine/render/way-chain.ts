@@ -253,17 +253,17 @@ export class DriverWayChain {
   }
 
   /**
-   * One chunk of lanes `from` to `to` - 1 (default: every lane; lane-share.ts runs the upper lanes
-   * on a second thread). `frameEnd` is the renderer's frame count at the end of the chunk: the
-   * coil heats from the mean i^2 of each CHUNK frames of the renderer's own clock.
+   * One chunk of every lane, or of the lanes `runs` marks (lane-share.ts runs the others on a
+   * second thread). `frameEnd` is the renderer's frame count at the end of the chunk: the coil heats
+   * from the mean i^2 of each CHUNK frames of the renderer's own clock.
    */
-  process(src: LaneSource, volts: number, frameEnd: number, from = 0, to = Infinity): void {
+  process(src: LaneSource, volts: number, frameEnd: number, runs?: readonly boolean[]): void {
     const n = src.n;
     const p = this.params;
     // Gain 1 leaves the drive exactly as the first version computed it.
     const drive = volts * this.gain;
-    const end = Math.min(to, this.lanes.length);
-    for (let w = from; w < end; w++) {
+    for (let w = 0; w < this.lanes.length; w++) {
+      if (runs && !runs[w]) continue;
       const lane = this.lanes[w];
       const u = lane.u;
       fillLane(u, src, w, this.monoSum);
@@ -362,13 +362,13 @@ export class FlatWayChain {
     this.paPerV = way.paPerV;
   }
 
-  /** One chunk of channels `from` to `to` - 1 (default: every channel). */
-  process(src: LaneSource, volts: number, from = 0, to = Infinity): void {
+  /** One chunk of every channel, or of the channels `runs` marks. */
+  process(src: LaneSource, volts: number, runs?: readonly boolean[]): void {
     const n = src.n;
     // The first version's order of operations: polarity·Pa/V·volts, then the way's gain (exact when 1).
     const g = this.way.polarity * this.paPerV * volts * this.way.filter.gain;
-    const end = Math.min(to, this.out.length);
-    for (let c = from; c < end; c++) {
+    for (let c = 0; c < this.out.length; c++) {
+      if (runs && !runs[c]) continue;
       const b = this.out[c];
       fillLane(b, src, c, false);
       this.filters[c]?.processInPlace(b, 0, n);

@@ -3,7 +3,7 @@
 import { benchAudio } from '../../audio/bench.ts';
 import { LIMIT_WORDS, clock } from '../../engine/verdict/verdict.ts';
 import { useApp } from '../context.ts';
-import { fixed } from '../format.ts';
+import { fixed, num } from '../format.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
 import { useBench, useProbe, useSystems, useVerdict } from '../sheet/hooks.ts';
 import { currentTrack, currentTrackKey, DEMO_RATE, headroomProbe } from '../sheet/probe.ts';
@@ -63,8 +63,7 @@ export function HeadroomProbe() {
           <progress max={100} value={pct} data-testid="probe-progress" />
           <span>
             {SLOTS.map(
-              (s) =>
-                `${SLOT_LABEL[s]}: render ${Math.min(probe.slots[s].renders + 1, probe.slots[s].estimate)} of about ${probe.slots[s].estimate}`,
+              (s) => `${SLOT_LABEL[s]}: ${num(probe.slots[s].passes, 2)} of about ${probe.slots[s].estimate} runs through the track`,
             ).join(' · ')}
           </span>
         </div>

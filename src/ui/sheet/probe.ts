@@ -2,7 +2,7 @@
 // findHeadroom (src/audio/headroom.worker.ts), progress, cancel, and the findings kept for the
 // verdict on the Client sheet and in Presentation mode. Nothing here computes physics.
 import HeadroomWorker from '../../audio/headroom.worker.ts?worker';
-import { TYPICAL_RENDERS, type HeadroomJob, type HeadroomReply, type HeadroomResult } from '../../audio/headroom.worker.ts';
+import { TYPICAL_PASSES, type HeadroomJob, type HeadroomReply, type HeadroomResult } from '../../audio/headroom.worker.ts';
 import { benchAudio } from '../../audio/bench.ts';
 import { hasKeptHeadroom, keepHeadroom, keptHeadroom, resultsKey } from '../../audio/kept-track.ts';
 import { synthesizeDemoTrack } from '../../engine/demo/track.ts';
@@ -55,7 +55,8 @@ export function currentTrackKey(): object | null {
 
 export interface ProbeSlot {
   status: 'idle' | 'running' | 'done' | 'error';
-  renders: number;
+  /** Runs through the track so far, and about how many the search will take. */
+  passes: number;
   estimate: number;
   result: HeadroomResult | null;
   message: string | null;
@@ -72,7 +73,7 @@ export interface ProbeState {
   restored?: boolean;
 }
 
-const idleSlot = (): ProbeSlot => ({ status: 'idle', renders: 0, estimate: 0, result: null, message: null });
+const idleSlot = (): ProbeSlot => ({ status: 'idle', passes: 0, estimate: 0, result: null, message: null });
 const initial = (): ProbeState => ({ status: 'idle', slots: { a: idleSlot(), b: idleSlot() }, systems: null, track: null, elapsedMs: 0 });
 
 /** The part of a Worker the probe uses (so a test can hand in a stand-in). */
@@ -105,12 +106,12 @@ export class HeadroomProbe {
     this.set({ slots: { ...this.state.slots, [slot]: { ...this.state.slots[slot], ...patch } } });
   }
 
-  /** Overall progress 0..1 from the renders done against their estimates. */
+  /** Overall progress 0..1 from the runs through the track done against their estimates. */
   progress(): number {
     const s = this.state.slots;
     const est = s.a.estimate + s.b.estimate;
     if (this.state.status === 'done') return 1;
-    return est > 0 ? Math.min(0.99, (s.a.renders + s.b.renders) / est) : 0;
+    return est > 0 ? Math.min(0.99, (s.a.passes + s.b.passes) / est) : 0;
   }
 
   /** Searches both designs at once, one Worker each (the machine's cores work side by side). */
@@ -123,13 +124,13 @@ export class HeadroomProbe {
     for (const slot of SLOTS) {
       const w = this.makeWorker();
       this.workers.push(w);
-      this.setSlot(slot, { status: 'running', estimate: TYPICAL_RENDERS });
+      this.setSlot(slot, { status: 'running', estimate: TYPICAL_PASSES });
       w.onmessage = (e) => {
         if (run !== this.run) return;
         const r = e.data;
-        if (r.type === 'progress') this.setSlot(slot, { renders: r.renders, estimate: r.estimate });
+        if (r.type === 'progress') this.setSlot(slot, { passes: r.passes, estimate: r.estimate });
         else if (r.type === 'result')
-          this.setSlot(slot, { status: 'done', renders: r.result.renders, estimate: r.result.renders, result: r.result });
+          this.setSlot(slot, { status: 'done', passes: r.result.passes ?? 0, estimate: r.result.passes ?? 0, result: r.result });
         else this.setSlot(slot, { status: 'error', message: r.message });
         this.settle(run, t0);
       };
@@ -175,7 +176,13 @@ export class HeadroomProbe {
     const found = await keptHeadroom(resultsKey(info, { a, b }));
     if (!found || this.state.status !== 'idle' || run !== this.run || bench.state.track !== info) return false;
     if (!found.a || !found.b) return false;
-    const slot = (r: HeadroomResult): ProbeSlot => ({ status: 'done', renders: r.renders, estimate: r.renders, result: r, message: null });
+    const slot = (r: HeadroomResult): ProbeSlot => ({
+      status: 'done',
+      passes: r.passes ?? 0,
+      estimate: r.passes ?? 0,
+      result: r,
+      message: null,
+    });
     this.set({
       status: 'done',
       slots: { a: slot(found.a), b: slot(found.b) },
