@@ -8,13 +8,23 @@ import { commonPaPerFs, laneGains } from '../engine/level/matching.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
 import { writeWav } from './wav.ts';
-import { checkVolts, INPUT_HELP, LEVEL_HELP, levelOptions, progressBar, progressCounter, readInputAudio } from './render-common.ts';
+import {
+  checkVolts,
+  INPUT_HELP,
+  LEVEL_HELP,
+  levelOptions,
+  progressBar,
+  progressCounter,
+  readInputAudio,
+  THREADS_HELP,
+  threadsOption,
+} from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 import { count, db, moment, printable, sig } from './user-text.ts';
 import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
-import { laneHelper } from './lane-helper.ts';
 
-const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match] [--json]
+const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match]
+                       [--threads N] [--json]
 
 Renders the track through both designs with one calibration and writes <prefix>-a.wav and
 <prefix>-b.wav. Levels follow the listening bench's policy: the louder design's full-scale
@@ -25,6 +35,8 @@ ${INPUT_HELP}
 
 ${LEVEL_HELP}
   --no-match  keep each design at its own level (one calibration factor for both)
+${THREADS_HELP}
+              (compare renders the two designs on two threads in any case)
   --json      one object: {a, b, match_db}, a and b in the form of render --json plus figures
   --help      this text
 
@@ -111,6 +123,7 @@ export const compareCommand: Command = {
         volts: { type: 'string' },
         spl: { type: 'string' },
         'no-match': { type: 'boolean' },
+        threads: { type: 'string' },
         json: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
       });
@@ -122,6 +135,7 @@ export const compareCommand: Command = {
         throw new UsageError(`expected <a.json> <b.json> <in.wav>, got ${count(positionals.length, 'argument')}`);
       if (!values.output) throw new UsageError('-o <prefix> is required');
       const level = levelOptions(values);
+      const helper = threadsOption(values.threads);
       const [aPath, bPath, inPath] = positionals;
       const [outA, outB] = [`${values.output}-a.wav`, `${values.output}-b.wav`];
       const outputs = await planOutputs([aPath, bPath, inPath], [outA, outB]);
@@ -135,7 +149,6 @@ export const compareCommand: Command = {
       let matchDb = 0;
       try {
         // The two calibration passes use both cores (lane-helper.ts); the sides below do too.
-        const helper = laneHelper();
         const la = resolveVolts(A.system, channels, sampleRate, { ...level, helper });
         const lb = resolveVolts(B.system, channels, sampleRate, { ...level, helper });
         const va = la.volts,

@@ -8,6 +8,8 @@
 //  - the woofer model against odex at equal accuracy: its time / ours;
 //  - peak memory of a 10-minute stereo render against the decoded audio (child process).
 import { spawnSync } from 'node:child_process';
+import { setFlagsFromString } from 'node:v8';
+import { runInNewContext } from 'node:vm';
 import { readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -322,6 +324,54 @@ function lowRateModels(): BenchResult[] {
   return rows;
 }
 
+/**
+ * A render after the previous render's objects were collected (four full collections between
+ * renders) against renders back to back, CPU time, best of 3 each after two warm-ups. V8 gives a
+ * class's objects a shape that compiled code is specialised to and drops the shape with the last
+ * object: without engine/keep-shape.ts every compiled loop was thrown away between such renders and
+ * compiled again (this ratio read 1.13-1.38 before it, 0.99-1.15 with it; four runs each, 3 December
+ * 2026). Classes of the renderer and the way chains do not keep their objects yet.
+ */
+function afterCollection(): BenchResult[] {
+  setFlagsFromString('--expose-gc');
+  const gc = runInNewContext('gc') as () => void;
+  const sys = exampleSystem('vented');
+  const fs = 48000;
+  const track = synthesizeDemoTrack(fs);
+  const lanes = track.channels[0].length * track.channels.length;
+  const opt = { voltsFs: 10, leqPerVoltDb: 0, analysisOnly: true };
+  const render = () => renderBuffer(sys, track.channels, fs, opt);
+  const cpu = (collect: boolean) => {
+    if (collect) for (let k = 0; k < 4; k++) gc();
+    const c0 = process.cpuUsage();
+    render();
+    const c = process.cpuUsage(c0);
+    return (c.user + c.system) / 1000;
+  };
+  render();
+  render();
+  let together = Infinity,
+    apart = Infinity;
+  for (let k = 0; k < 3; k++) {
+    together = Math.min(together, cpu(false));
+    apart = Math.min(apart, cpu(true));
+  }
+  return [
+    {
+      name: 'render after the last one was collected / back to back (vented, demo track), CPU time',
+      value: Number((apart / together).toFixed(2)),
+      unit: 'time ratio',
+      target: '<= 1.1',
+    },
+    {
+      name: '  after collection, per channel and frame',
+      value: Number(((apart * 1e6) / lanes).toFixed(1)),
+      unit: 'ns',
+      target: `(${((together * 1e6) / lanes).toFixed(1)} ns back to back)`,
+    },
+  ];
+}
+
 function parseOrThrow(doc: unknown): SpeakerSystem {
   const r = parseDesign(doc);
   if (!r.ok) throw new Error(r.errors.map((e) => `${e.path}: ${e.message}`).join('; '));
@@ -351,6 +401,7 @@ export async function bench(): Promise<BenchResult[]> {
   return [
     ...(await part('realtime', () => [realtime()])),
     ...(await part('per sample', perSampleVsBiquad)),
+    ...(await part('after collection', afterCollection)),
     ...(await part('low-rate models', lowRateModels)),
     ...(await part('linear chain', linearVsWebAudio)),
     ...(await part('odex', versusOdex)),

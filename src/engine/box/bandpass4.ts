@@ -16,6 +16,7 @@ import { boxCompliance, DEFAULT_QL, leakageResistance } from './common.ts';
 import type { BoxAcoustics, Chamber, ChamberContext, LinearRowsTarget } from './physics.ts';
 import type { BoxKind } from './types.ts';
 import { pipeResonanceHz, portGeometry, portLengthFor, portsLossK } from './vented.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export interface Bandpass4Box {
   type: 'bandpass4';
@@ -86,6 +87,7 @@ class BandpassChambers implements Chamber {
     this.sd = ctx.sd;
     this.h = ctx.h;
     this.portLoss = ctx.linear ? 0 : (0.5 * ctx.rho * (ctx.portLossK ?? box.portLossK)) / (box.sv * box.sv);
+    keepShape(this);
   }
 
   reset(): void {

@@ -8,6 +8,7 @@ import { toPerMetre, fitDefaultNonlinear, KMS_FLOOR } from '../sim/nonlinear.ts'
 import { boxCompliance } from './common.ts';
 import { polyAdd, polyMul } from '../filters/analog.ts';
 import type { BoxAcoustics, Chamber, ChamberContext, LinearRowsTarget } from './physics.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** Small signal of a one-chamber box whose outlet has admittance yo (null: closed). */
 export function oneChamberAcoustics(vb: number, ral: number, air: Air, w: number, yo: Complex | null): BoxAcoustics {
@@ -43,6 +44,7 @@ export abstract class OneChamber implements Chamber {
     this.h = ctx.h;
     this.cabH = this.cab / ctx.h;
     this.gOverCab = this.g / this.cab;
+    keepShape(this);
   }
 
   reset(): void {

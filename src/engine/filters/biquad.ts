@@ -1,6 +1,8 @@
 // Second-order sections (biquads) in direct form II transposed, Float64 state.
 // A section is 5 numbers [b0, b1, b2, a1, a2] with a0 = 1; a cascade packs them in one Float64Array.
 
+import { keepShape } from '../keep-shape.ts';
+
 /** Coefficients of an analog second-order section (b2 s^2 + b1 s + b0) / (a2 s^2 + a1 s + a0). */
 export interface AnalogSection {
   b: [number, number, number];
@@ -56,6 +58,7 @@ export class BiquadCascade {
     this.s1 = new Float64Array(this.n);
     this.s2 = new Float64Array(this.n);
     this.gain = gain;
+    keepShape(this);
   }
 
   reset(): void {

@@ -5,6 +5,7 @@
 // the taps, and the symmetric taps are folded.
 
 import { besselI0 } from './kaiser.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export interface HalfbandDesign {
   /** The odd-offset taps h[1], h[3], ..., h[M] (h[-k] = h[k]); the centre tap is 1/2. */
@@ -55,6 +56,7 @@ export class Upsampler2 {
     // History of 2t input samples, stored twice so a window is always contiguous.
     this.buf = new Float64Array(4 * this.t);
     this.centreDelay = (design.m - 1) / 2;
+    keepShape(this);
   }
 
   reset(): void {
@@ -93,6 +95,7 @@ export class Decimator2 {
     this.t = design.odd.length;
     this.ev = new Float64Array(4 * this.t);
     this.od = new Float64Array(4 * this.t);
+    keepShape(this);
   }
 
   reset(): void {

@@ -8,6 +8,8 @@
 // in dB, and only what is left counts as distortion. Every average is a one-pole filter with the
 // same time constant, so all the figures describe the same window.
 
+import { keepShape } from '../keep-shape.ts';
+
 export class ResidualMeter {
   private readonly alpha: number;
   eOut = 0;
@@ -22,6 +24,7 @@ export class ResidualMeter {
 
   constructor(sampleRate: number, windowS: number) {
     this.alpha = 1 - Math.exp(-1 / (windowS * sampleRate));
+    keepShape(this);
   }
 
   reset(): void {

@@ -5,6 +5,7 @@
 // at the peak and never steps.
 
 import { besselI0 } from '../filters/kaiser.ts';
+import { keepShape } from '../keep-shape.ts';
 
 const PHASES = 4;
 const TAPS = 12; // per phase
@@ -71,6 +72,7 @@ export class TruePeakGuard {
     this.avg = new Float64Array(this.lookahead).fill(1);
     this.avgSum = this.lookahead;
     this.loudRing = new Uint8Array(TAPS);
+    keepShape(this);
   }
 
   reset(): void {
@@ -183,18 +185,29 @@ export class TruePeakGuard {
   private delayBlock(input: Float64Array[], n: number, scale: number, out: (Float32Array | Float64Array)[], offset: number): void {
     const len = this.len,
       lat = this.latency;
-    let p = this.pos;
+    // Frame k leaves as frame k - lat came in: from the history for k < lat, else straight from the
+    // input (the same product the history would hold). Only the last len frames are kept.
+    const fromHistory = Math.min(n, lat),
+      keepFrom = Math.max(0, n - len);
+    const pos = this.pos;
+    let p = pos;
     for (let c = 0; c < this.channels; c++) {
       const h = this.hist[c],
         x = input[c],
         o = out[c];
-      p = this.pos;
-      for (let k = 0; k < n; k++) {
+      p = pos;
+      for (let k = 0; k < fromHistory; k++) {
+        p = p === 0 ? len - 1 : p - 1;
+        o[offset + k] = h[p + lat];
+      }
+      for (let k = lat; k < n; k++) o[offset + k] = x[k - lat] * scale;
+      // The ring one step down per frame: before frame keepFrom it stood keepFrom steps below pos.
+      p = (((pos - keepFrom) % len) + len) % len;
+      for (let k = keepFrom; k < n; k++) {
         p = p === 0 ? len - 1 : p - 1;
         const v = x[k] * scale;
         h[p] = v;
         h[p + len] = v;
-        o[offset + k] = h[p + lat];
       }
     }
     this.pos = p;

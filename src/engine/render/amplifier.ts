@@ -1,5 +1,7 @@
 // The amplifier's output stage: rail from rated power into the nominal load, hard or soft clipping.
 
+import { keepShape } from '../keep-shape.ts';
+
 /** Peak output voltage from rated power into the nominal load: V = sqrt(2·P·Z). */
 export function railVolts(powerW: number, loadOhm: number): number {
   return Math.sqrt(2 * powerW * loadOhm);
@@ -49,6 +51,7 @@ export class OversampledClipper {
     this.ev = new Float64Array(4 * this.t);
     this.od = new Float64Array(4 * this.t);
     this.span = 4 * this.t + 2;
+    keepShape(this);
   }
 
   reset(): void {

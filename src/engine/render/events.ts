@@ -2,6 +2,8 @@
 // source (a way, or the whole output for the distortion of the sum). Stored in preallocated typed
 // arrays (grown only when full), turned into objects on request.
 
+import { keepShape } from '../keep-shape.ts';
+
 export const EVENT_KINDS = [
   'excursion',
   'xlim',
@@ -74,14 +76,18 @@ export class EventLog {
   count = 0;
   /** Names of the sources so far (a way keeps its index while the renderer lives). */
   private names: string[] = [];
-  /** Index of the open (or last) record per source and kind, -1 if none. */
-  private last = new Map<number, number>();
-  /** Current limits per source and kind. */
-  private limits = new Map<number, number>();
+  /** Per slot (a source and a kind): index of its open (or last) record, -1 if none. */
+  private last = new Int32Array(8 * EVENT_KINDS.length).fill(-1);
+  /** Per slot: its current limit (0 if none was set). */
+  private limits = new Float64Array(8 * EVENT_KINDS.length);
+
+  constructor() {
+    keepShape(this);
+  }
 
   reset(): void {
     this.count = 0;
-    this.last.clear();
+    this.last.fill(-1);
   }
 
   /** The source index of a way's name (new names get the next index). */
@@ -96,18 +102,34 @@ export class EventLog {
     return (source + 1) * EVENT_KINDS.length + kind;
   }
 
+  /** Room for the slot of `source` (a new way's name gets a new source index). */
+  private reach(key: number): void {
+    if (key < this.last.length) return;
+    const n = 2 * (key + 1);
+    const last = new Int32Array(n).fill(-1);
+    last.set(this.last);
+    const limits = new Float64Array(n);
+    limits.set(this.limits);
+    this.last = last;
+    this.limits = limits;
+  }
+
   setLimit(source: number, kind: number, value: number): void {
-    this.limits.set(this.slot(source, kind), value);
+    const key = this.slot(source, kind);
+    this.reach(key);
+    this.limits[key] = value;
   }
 
   limitOf(source: number, kind: number): number {
-    return this.limits.get(this.slot(source, kind)) ?? 0;
+    const key = this.slot(source, kind);
+    return key < this.limits.length ? this.limits[key] : 0;
   }
 
   /** Condition of `kind` at `source` true at time t (s) with value `value` (larger = worse). */
   mark(source: number, kind: number, t: number, value: number): void {
     const key = this.slot(source, kind);
-    const li = this.last.get(key) ?? -1;
+    this.reach(key);
+    const li = this.last[key];
     if (li >= 0 && t - this.end[li] <= MERGE_GAP_S) {
       this.end[li] = t;
       if (value > this.peak[li]) this.peak[li] = value;
@@ -121,7 +143,16 @@ export class EventLog {
     this.end[k] = t;
     this.peak[k] = value;
     this.limit[k] = this.limitOf(source, kind);
-    this.last.set(key, k);
+    this.last[key] = k;
+  }
+
+  /**
+   * The condition true with the same value at every frame from tFirst to tLast (frames closer than
+   * MERGE_GAP_S): the same record as marking each frame, without the frames between.
+   */
+  markSpan(source: number, kind: number, tFirst: number, tLast: number, value: number): void {
+    this.mark(source, kind, tFirst, value);
+    this.end[this.last[this.slot(source, kind)]] = tLast;
   }
 
   private grow(): void {

@@ -6,6 +6,8 @@
 // loss; its delay is maximally flat at DC and drifts only near the Nyquist frequency. A whole
 // number of samples is an exact copy.
 
+import { keepShape } from '../keep-shape.ts';
+
 /** All-pass order used when the delay is long enough (stable for a delay above order - 1). */
 const THIRAN_ORDER = 3;
 
@@ -51,6 +53,7 @@ export class FractionalDelay {
     this.line = new Float64Array(this.whole + 1);
     this.xHist = new Float64Array(this.a.length);
     this.yHist = new Float64Array(this.a.length);
+    keepShape(this);
   }
 
   reset(): void {

@@ -14,6 +14,7 @@ import { speakerTransfer } from '../sim/transfer.ts';
 import { baffleStepSection, roomGainSection } from '../filters/room.ts';
 import { measuredCorrection } from '../response/frequency.ts';
 import { PartitionedConvolver } from '../fir/partitioned-convolver.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export interface LinearWayDesign {
   name: string;
@@ -75,6 +76,7 @@ export class LinearChain {
     readonly channels: number,
     private readonly voltsFs: number,
   ) {
+    keepShape(this);
     this.ways = designLinearChain(sys, sampleRate, sys.listening.channels === 'mono-sum' && channels > 1);
     this.lanes = this.ways.map((w) =>
       Array.from({ length: w.monoSum ? 1 : channels }, () => new BiquadCascade(w.coef, w.passive ? w.gain : w.gain * voltsFs)),

@@ -17,6 +17,7 @@ import { LinearRecurrence } from '../sim/linear.ts';
 import type { WooferParams } from '../sim/params.ts';
 import { WooferSim } from '../sim/woofer.ts';
 import { MAX_RATE_FACTOR, MIN_RATE_FACTOR } from './model-rate.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** Stopband of every resampling stage, dB (the drive beyond the band is already ALIAS_MARGIN_DB down). */
 const STAGE_ATTEN_DB = 70;
@@ -126,6 +127,7 @@ export class LowRateModel {
     if (this.heldMotion < factor - 1) throw new Error('low-rate model: interpolator shorter than its factor');
     this.fifoX = new Float64Array(maxBlock + upDelay + 2 * factor);
     this.fifoO = new Float64Array(maxBlock + upDelay + 2 * factor);
+    keepShape(this);
   }
 
   /**

@@ -11,6 +11,7 @@
 import type { DriverWay, SpeakerSystem } from '../system.ts';
 import { measuredCorrection } from '../response/frequency.ts';
 import { PartitionedConvolver, partitionFor } from '../fir/partitioned-convolver.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** Length of the crossfade from old taps to new, s (common practice for a click-free filter change, no source). */
 export const SWAP_FADE_S = 0.02;
@@ -35,6 +36,7 @@ export class MeasuredStage {
     this.leaving = replaces;
     this.fadeFrom = taps.length;
     this.fadeLength = Math.max(1, Math.round(SWAP_FADE_S * sampleRate));
+    keepShape(this);
   }
 
   process(pN: Float64Array, pL: Float64Array, n: number): void {

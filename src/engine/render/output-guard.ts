@@ -1,6 +1,7 @@
 // The output stage: seat pressure -> digital full scale by one calibration factor, then the
 // true-peak guard (one for the heard stream, and one each for the side streams when asked for).
 import { TruePeakGuard } from '../level/truepeak.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export type RenderMode = 'nonlinear' | 'linear' | 'residual';
 export type SampleBuffer = Float32Array | Float64Array;
@@ -19,6 +20,7 @@ export class OutputGuard {
     this.main = new TruePeakGuard(channels, sampleRate);
     this.linear = sideStreams ? new TruePeakGuard(channels, sampleRate) : null;
     this.residual = sideStreams ? new TruePeakGuard(channels, sampleRate) : null;
+    keepShape(this);
   }
 
   /** Frames of look-ahead delay. */

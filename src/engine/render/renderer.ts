@@ -17,6 +17,7 @@ import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
 import { lowRateLatency } from './low-rate-model.ts';
 import { assignLanes, channelsRead, exportLanes, helperLaneDoubles, importLanes } from './lane-share.ts';
 import type { SlotRing } from './slot-ring.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export type { RenderMode, SampleBuffer } from './output-guard.ts';
 export {
@@ -126,6 +127,7 @@ export class Renderer {
     if (!(Number.isInteger(opt.channels) && opt.channels >= 1 && opt.channels <= 8))
       throw new InputProblem(`the audio must have 1 to 8 channels, got ${opt.channels}`);
     if (!(opt.voltsFs > 0 && opt.voltsFs < MAX_VOLTS_FS)) throw new InputProblem(driveMessage(opt.voltsFs));
+    keepShape(this);
     this.system = sys;
     this.sampleRate = opt.sampleRate;
     this.channels = opt.channels;

@@ -18,6 +18,7 @@ import {
   OUTPUT_SOURCE,
 } from './events.ts';
 import { CHUNK } from './way-chain.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** The residual within this many dB of the output counts as audible distortion. */
 export const DISTORTION_WITHIN_DB = 20;
@@ -80,6 +81,7 @@ export class WayStress {
 
   constructor(name: string) {
     this.stats = emptyWayStats(name, null);
+    keepShape(this);
   }
 
   configure(sys: SpeakerSystem, way: DriverWay, p: WooferParams, events: EventLog): void {
@@ -132,10 +134,7 @@ export class WayStress {
     this.compressionDb = compDb;
     if (tempC > st.peakCoilTempC) st.peakCoilTempC = tempC;
     if (compDb > st.maxCompressionDb) st.maxCompressionDb = compDb;
-    // Worst lane per frame, and the chunk's maxima.
-    const xAbs = this.xAbs,
-      aux = this.aux,
-      dem = this.dem;
+    // The chunk's maxima over every lane and frame: all that is needed unless a limit is crossed.
     let peakX = 0,
       peakA = 0,
       peakD = 0;
@@ -144,23 +143,21 @@ export class WayStress {
       const lx = lane.x,
         lp = lane.outlet,
         ld = lane.uDel;
-      const first = w === 0;
       for (let k = 0; k < n; k++) {
-        const xv = lx[k] < 0 ? -lx[k] : lx[k];
-        const av = lp[k] < 0 ? -lp[k] : lp[k];
-        const dv = ld[k] < 0 ? -ld[k] : ld[k];
-        if (first || xv > xAbs[k]) xAbs[k] = xv;
-        if (first || av > aux[k]) aux[k] = av;
-        if (first || dv > dem[k]) dem[k] = dv;
+        const xv = Math.abs(lx[k]);
+        const av = Math.abs(lp[k]);
+        const dv = Math.abs(ld[k]);
         if (xv > peakX) peakX = xv;
         if (av > peakA) peakA = av;
         if (dv > peakD) peakD = dv;
       }
     }
-    const coilHot = tempC > this.coilMax,
-      compHot = rMax > this.r1dB;
-    const anyEvent = peakX > xmax || ((vented || radiator) && peakA * toUnit > outletLimit) || peakD > rail || coilHot || compHot;
-    if (anyEvent) {
+    // Frame by frame only where a per-frame limit is crossed somewhere in the chunk.
+    if (peakX > xmax || ((vented || radiator) && peakA * toUnit > outletLimit) || peakD > rail) {
+      this.worstLane(lanes, n);
+      const xAbs = this.xAbs,
+        aux = this.aux,
+        dem = this.dem;
       for (let k = 0; k < n; k++) {
         const t = t0 + k * dt;
         const xk = xAbs[k];
@@ -176,15 +173,41 @@ export class WayStress {
           st.ampClipFrames++;
           ev.mark(src, EV_CLIP, t, dem[k]);
         }
-        if (coilHot) ev.mark(src, EV_COIL, t, tempC);
-        if (compHot) ev.mark(src, EV_COMPRESSION, t, compDb);
       }
+    }
+    // The coil's heat and its compression hold for the whole chunk: every frame of it, one value.
+    if (n > 0) {
+      const tLast = t0 + (n - 1) * dt;
+      if (tempC > this.coilMax) ev.markSpan(src, EV_COIL, t0, tLast, tempC);
+      if (rMax > this.r1dB) ev.markSpan(src, EV_COMPRESSION, t0, tLast, compDb);
     }
     if (peakX * 1000 > st.peakExcursionMm) st.peakExcursionMm = peakX * 1000;
     if (vented && peakA * toUnit > st.peakPortSpeed) st.peakPortSpeed = peakA * toUnit;
     if (radiator && peakA * toUnit > st.peakRadiatorMm) st.peakRadiatorMm = peakA * toUnit;
     if (peakX > this.traceX) this.traceX = peakX;
     if (vented && peakA * toUnit > this.tracePort) this.tracePort = peakA * toUnit;
+  }
+
+  /** xAbs, aux, dem[k]: the worst lane's |excursion|, |outlet| and |demanded drive| in frame k (only when a limit is crossed). */
+  private worstLane(lanes: DriverLane[], n: number): void {
+    const xAbs = this.xAbs,
+      aux = this.aux,
+      dem = this.dem;
+    for (let w = 0; w < lanes.length; w++) {
+      const lane = lanes[w];
+      const lx = lane.x,
+        lp = lane.outlet,
+        ld = lane.uDel;
+      const first = w === 0;
+      for (let k = 0; k < n; k++) {
+        const xv = lx[k] < 0 ? -lx[k] : lx[k];
+        const av = lp[k] < 0 ? -lp[k] : lp[k];
+        const dv = ld[k] < 0 ? -ld[k] : ld[k];
+        if (first || xv > xAbs[k]) xAbs[k] = xv;
+        if (first || av > aux[k]) aux[k] = av;
+        if (first || dv > dem[k]) dem[k] = dv;
+      }
+    }
   }
 }
 
@@ -224,7 +247,9 @@ export class OutputDistortion {
   maxRatio = 0;
   private readonly ratioLim = Math.pow(10, -DISTORTION_WITHIN_DB / 10);
 
-  constructor(private readonly sampleRate: number) {}
+  constructor(private readonly sampleRate: number) {
+    keepShape(this);
+  }
 
   /** Fresh meters for `count` channels. */
   setChannels(count: number, events: EventLog): void {

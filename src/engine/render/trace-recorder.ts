@@ -1,6 +1,7 @@
 // Decimated traces for the stress strip: at each trace point, the worst value of the chunks that
 // ended in its interval, per driver way, and the residual level of the summed output.
 import type { OutputDistortion, WayStress } from './stress-meter.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** A growing Float32 series (doubling), viewed without copying. */
 class Series {
@@ -8,6 +9,7 @@ class Series {
   n = 0;
   constructor(cap: number) {
     this.data = new Float32Array(Math.max(16, cap));
+    keepShape(this);
   }
   push(v: number): void {
     if (this.n === this.data.length) {
@@ -49,7 +51,9 @@ class WaySeries {
   readonly t = new Series(1024);
   readonly p = new Series(1024);
   readonly c = new Series(1024);
-  constructor(public name: string) {}
+  constructor(public name: string) {
+    keepShape(this);
+  }
 }
 
 export class TraceRecorder {
@@ -63,6 +67,7 @@ export class TraceRecorder {
     traceHz: number,
   ) {
     this.every = Math.max(1, Math.round(sampleRate / traceHz));
+    keepShape(this);
   }
 
   /** The driver ways to record, by name (a way keeps its series across edits). */

@@ -19,6 +19,7 @@ import { FractionalDelay } from './fractional-delay.ts';
 import { LowRateModel, lowRateLatency } from './low-rate-model.ts';
 import { measuredStage, type MeasuredStage } from './measured-stage.ts';
 import { type ModelRate, modelRate } from './model-rate.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** Frames per internal chunk: every stage runs over a chunk before the next one starts. */
 export const CHUNK = 256;
@@ -113,6 +114,7 @@ export class DriverLane {
   readonly lowOut = { residual: this.pN, x: this.x, outlet: this.outlet };
 
   constructor(p: WooferParams) {
+    keepShape(this);
     this.sim = new WooferSim(p);
     this.lin = new LinearRecurrence(p);
   }
@@ -175,6 +177,7 @@ export class DriverWayChain {
     /** Models may run below the audio rate where the way's filter allows (model-rate.ts). */
     private readonly lowRate = false,
   ) {
+    keepShape(this);
     this.way = way;
     this.monoSum = monoSum;
     this.params = wayParams(sys, way, 1 / sampleRate);
@@ -340,6 +343,7 @@ export class FlatWayChain {
     private readonly sampleRate: number,
     private readonly lowRate = false,
   ) {
+    keepShape(this);
     this.way = way;
     this.out = Array.from({ length: channels }, () => new Float64Array(CHUNK));
     this.filters = this.out.map(() => null);

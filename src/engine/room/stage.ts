@@ -11,6 +11,7 @@ import type { SpeakerSystem } from '../system.ts';
 import { BiquadCascade } from '../filters/biquad.ts';
 import { wayFilterBiquads } from '../filters/way-filter.ts';
 import { roomModel, type RoomPath } from './modes.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** The low rate is at least this multiple of the transition frequency. */
 const LOW_RATE_TO_TRANSITION = 12;
@@ -62,6 +63,7 @@ export class RoomStage {
     this.low = new BiquadCascade(wayFilterBiquads(path.low, sampleRate)!);
     this.smooth = new BiquadCascade(wayFilterBiquads(path.smooth, sampleRate)!);
     this.high = new BiquadCascade(wayFilterBiquads(path.high, sampleRate)!);
+    keepShape(this);
   }
 
   /** The room over buf[0..n-1], in place. */
@@ -160,6 +162,7 @@ export class RoomStreams {
     const make = () => Array.from({ length: channels }, (_, c) => new RoomStage(paths[c % paths.length], sampleRate));
     this.nonlinear = make();
     this.linear = make();
+    keepShape(this);
   }
 
   /**

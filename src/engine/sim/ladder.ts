@@ -10,6 +10,7 @@
 import type { DriverWay, LadderPart, SpeakerSystem } from '../system.ts';
 import { wooferParams, type ParamOptions, type WooferParams } from './params.ts';
 import type { LinearRecurrence } from './linear.ts';
+import { keepShape } from '../keep-shape.ts';
 
 /** Below this the amplifier's output resistance is taken as this (a stiff source, far under any part). */
 const MIN_SOURCE_OHM = 1e-6;
@@ -155,6 +156,7 @@ export class LadderSim {
     }
     this.ginv = invert(G, nodes);
     this.rth = this.ginv[nodes * nodes - 1];
+    keepShape(this);
   }
 
   reset(): void {
@@ -245,6 +247,7 @@ export class LinearBehindLadder {
     h: number,
   ) {
     this.net = new LadderSim(parts, sourceOhm, h);
+    keepShape(this);
   }
 
   /** u[k] amplifier EMF, V; out[k] seat pressure, Pa (may be the same array). */

@@ -3,6 +3,7 @@
 //   (M/h - Theta·A)·y1 = (M/h + (I - Theta)·A)·y0 + Theta·b·u1 + (I - Theta)·b·u0
 // State order: [i, x, v, then the box's own states (box/physics.ts)].
 import type { WooferParams } from './params.ts';
+import { keepShape } from '../keep-shape.ts';
 
 export interface LinearModel {
   n: number;
@@ -129,6 +130,7 @@ export class LinearRecurrence {
     this.r2 = p.l2 > 0 ? p.r2 : 0;
     this.r = p.re0 + p.rs;
     this.rebuild(this.r);
+    keepShape(this);
   }
 
   /** Rebuilds the matrices for another coil resistance (R = Re(T) + Rs); the state is kept. */

@@ -22,6 +22,7 @@ import type { WooferParams } from './params.ts';
 import type { Chamber } from '../box/index.ts';
 import { BL_FLOOR, KMS_FLOOR, LE_FLOOR } from './nonlinear.ts';
 import type { LadderSim } from './ladder.ts';
+import { keepShape } from '../keep-shape.ts';
 
 const blFloor = BL_FLOOR;
 const kmsFloor = KMS_FLOOR;
@@ -62,6 +63,7 @@ export class WooferSim {
     this.p = p;
     this.chamber = p.newChamber();
     this.reset();
+    keepShape(this);
   }
 
   /** New constants (a parameter edit); the physical state carries on (the box's, if it is of the same kind). */
