@@ -88,23 +88,20 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
     const reads = channels.map((_, c) => c >= split);
     helper!({ kind: 'level', system: sys, sampleRate, channels: shareChannels(channels, reads), frames, ring: ring.buffers });
   }
+  // The blocks to add, in the order the energies have always been added: channel by channel, way
+  // by way; a helper's lanes are read where it left them in the ring.
+  const order: { w: number; c: number }[] = [];
+  for (let c = 0; c < nCh; c++) for (let w = 0; w < nWays; w++) if (c < out[w].length) order.push({ w, c });
+  const blocks: Float64Array[] = order.map(({ w, c }) => out[w][c]);
   let energy = 0;
   try {
     const scratch = channels.map(() => new Float32Array(LEVEL_BLOCK));
     forEachBlock(channels, frames, frames, LEVEL_BLOCK, scratch, (views, _s, n) => {
       seat.run(views, n, 0, split);
-      if (ring) {
-        const slot = ring.nextFull();
-        for (let k = 0; k < remote.length; k++) remote[k].set(slot.subarray(k * LEVEL_BLOCK, k * LEVEL_BLOCK + n));
-        ring.release();
-      }
-      for (let c = 0; c < nCh; c++) {
-        for (let w = 0; w < nWays; w++) {
-          if (c >= out[w].length) continue;
-          const o = out[w][c];
-          for (let j = 0; j < n; j++) energy += o[j] * o[j];
-        }
-      }
+      const slot = ring?.nextFull();
+      if (slot) for (let i = 0, k = 0; i < order.length; i++) if (order[i].c >= split) blocks[i] = slot.subarray(LEVEL_BLOCK * k++);
+      energy = addSquares(blocks, n, energy);
+      ring?.release();
       return true;
     });
   } finally {
@@ -113,6 +110,13 @@ export function seatLeqCPerVolt(sys: SpeakerSystem, channels: ArrayLike<number>[
   const ms = energy / frames;
   if (!(ms > 0)) throw new InputProblem('the audio is silent in the band the design plays: a level cannot be set from it');
   return splDbOfMeanSquare(ms);
+}
+
+/** energy + the squares of blocks[0][0..n-1], then of blocks[1], ..., added one by one in that order. */
+function addSquares(blocks: Float64Array[], n: number, energy: number): number {
+  let e = energy;
+  for (const o of blocks) for (let j = 0; j < n; j++) e += o[j] * o[j];
+  return e;
 }
 
 /** A helper thread's part of seatLeqCPerVolt: the upper channels' lanes, block by block into the ring. */

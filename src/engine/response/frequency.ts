@@ -8,7 +8,7 @@
 import type { ActiveFilter, Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { cachedCorrection, type MeasuredCorrection } from './measured.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import { add, cx, div, mul, scale, sub, type Complex } from '../complex.ts';
+import { add, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { ladderThevenin } from './ladder.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { baffleStepCorners } from '../filters/room.ts';
@@ -105,47 +105,133 @@ const filterAt = lastAt((filter: ActiveFilter, w) => wayFilterAt(filter, w));
 const theveninAt = lastAt((network: NonNullable<DriverWay['network']>, w, rs) => ladderThevenin(network, w, rs as number));
 const acousticsAt = lastAt((box: DriverWay['box'], w, air) => BOX_KINDS[box.type].acoustics(box, air as SpeakerSystem['air'], w));
 
-function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {
+/** Where `solve` leaves each phasor in `SOLVED`: its real part, its imaginary part next. */
+const enum At {
+  pressure = 0,
+  conePressure = 2,
+  outletPressure = 4,
+  coneVelocity = 6,
+  excursion = 8,
+  outletFlow = 10,
+  boxPressure = 12,
+  current = 14,
+  impedance = 16,
+  terminalVoltage = 18,
+}
+/** The last solution, overwritten by the next `solve` (read it before solving again). */
+const SOLVED = new Float64Array(20);
+
+/*
+ * The circuit is solved in real and imaginary parts rather than through complex.ts's objects: the
+ * analysis solves it some ten times per grid point (the coil heating up, the limits of a sine), and
+ * the objects were most of what it allocated. Each line does exactly the operations of the helper it
+ * stands for, in the same order (`div(a, b)`: (a.re·b.re + a.im·b.im)/d, (a.im·b.re − a.re·b.im)/d
+ * with d = b.re² + b.im²), so the numbers are the same to the last bit (test/analysis-identity.test.ts).
+ * The solution lands in `SOLVED`: `modelled` makes the response's phasors of it, `wayPressure` reads
+ * only the pressure.
+ */
+function solve(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): Float64Array {
   const { air, amplifier, listening } = system;
   const { driver: d, box } = way;
   const w = 2 * Math.PI * f;
-  const jw = cx(0, w);
-  let drive = scale(filterAt(way.filter, w), volts);
+  const filter = filterAt(way.filter, w);
+  // drive = filter·volts, through the network's Thevenin gain for a passive way
+  let driveRe = filter.re * volts;
+  let driveIm = filter.im * volts;
   const coil = coilImpedance(d, w);
-  let source = cx(amplifier.rs);
+  let sourceRe = amplifier.rs;
+  let sourceIm = 0;
   if (way.network) {
     // A passive way: the amplifier and its network seen from the driver terminals.
     const th = theveninAt(way.network, w, amplifier.rs);
-    drive = mul(drive, th.gain);
-    source = th.z;
+    const re = driveRe * th.gain.re - driveIm * th.gain.im;
+    driveIm = driveRe * th.gain.im + driveIm * th.gain.re;
+    driveRe = re;
+    sourceRe = th.z.re;
+    sourceIm = th.z.im;
   }
-  const ze = add(coil, source);
-  const zm = cx(d.rms, w * d.mms - 1 / (w * d.cms));
+  // ze = coil + source; zmTotal = (Rms + j(w·Mms − 1/(w·Cms))) + zLoad·Sd²
+  const zeRe = coil.re + sourceRe;
+  const zeIm = coil.im + sourceIm;
   const ac = acousticsAt(box, w, air);
-  const zmTotal = add(zm, scale(ac.zLoad, d.sd * d.sd));
-  const motional = div(cx(d.bl * d.bl), zmTotal);
-  const current = div(drive, add(ze, motional));
-  const coneVelocity = div(scale(current, d.bl), zmTotal);
-  const coneFlow = scale(coneVelocity, d.sd);
-  const boxPressure = mul(ac.chamber, coneFlow);
-  const outletFlow = mul(ac.outlet, coneFlow);
+  const sd2 = d.sd * d.sd;
+  const ztRe = d.rms + ac.zLoad.re * sd2;
+  const ztIm = w * d.mms - 1 / (w * d.cms) + ac.zLoad.im * sd2;
+  const zt2 = ztRe * ztRe + ztIm * ztIm;
+  // motional = Bl²/zmTotal
+  const bl2 = d.bl * d.bl;
+  const motionalRe = (bl2 * ztRe + 0 * ztIm) / zt2;
+  const motionalIm = (0 * ztRe - bl2 * ztIm) / zt2;
+  // current = drive/(ze + motional)
+  const zRe = zeRe + motionalRe;
+  const zIm = zeIm + motionalIm;
+  const z2 = zRe * zRe + zIm * zIm;
+  const currentRe = (driveRe * zRe + driveIm * zIm) / z2;
+  const currentIm = (driveIm * zRe - driveRe * zIm) / z2;
+  // coneVelocity = current·Bl/zmTotal; coneFlow = coneVelocity·Sd
+  const forceRe = currentRe * d.bl;
+  const forceIm = currentIm * d.bl;
+  const velocityRe = (forceRe * ztRe + forceIm * ztIm) / zt2;
+  const velocityIm = (forceIm * ztRe - forceRe * ztIm) / zt2;
+  const flowRe = velocityRe * d.sd;
+  const flowIm = velocityIm * d.sd;
+  const { chamber, outlet, leak } = ac;
+  const outletFlowRe = outlet.re * flowRe - outlet.im * flowIm;
+  const outletFlowIm = outlet.re * flowIm + outlet.im * flowRe;
   const k = (air.rho * (withRoomGain ? roomGain(f, listening.roomGainHz) : 1)) / (listening.omega * listening.distance);
   // Radiation: jw·rho/(Omega·r), times the baffle step of a free-standing cabinet.
-  const radiation = scale(mul(jw, baffleGain(w, listening.baffleWidth ?? 0)), k);
-  const conePressure = scale(mul(radiation, coneFlow), ac.cone);
-  const outletPressure = mul(radiation, outletFlow);
-  const leakPressure = mul(radiation, mul(ac.leak, coneFlow));
+  const baffle = baffleGain(w, listening.baffleWidth ?? 0);
+  const radiationRe = (0 * baffle.re - w * baffle.im) * k;
+  const radiationIm = (0 * baffle.im + w * baffle.re) * k;
+  const coneRe = (radiationRe * flowRe - radiationIm * flowIm) * ac.cone;
+  const coneIm = (radiationRe * flowIm + radiationIm * flowRe) * ac.cone;
+  const outletRe = radiationRe * outletFlowRe - radiationIm * outletFlowIm;
+  const outletIm = radiationRe * outletFlowIm + radiationIm * outletFlowRe;
+  const leakFlowRe = leak.re * flowRe - leak.im * flowIm;
+  const leakFlowIm = leak.re * flowIm + leak.im * flowRe;
+  const leakRe = radiationRe * leakFlowRe - radiationIm * leakFlowIm;
+  const leakIm = radiationRe * leakFlowIm + radiationIm * leakFlowRe;
+  // excursion = coneVelocity/jw
+  const w2 = 0 * 0 + w * w;
+  const out = SOLVED;
+  out[At.pressure] = coneRe + outletRe + leakRe;
+  out[At.pressure + 1] = coneIm + outletIm + leakIm;
+  out[At.conePressure] = coneRe;
+  out[At.conePressure + 1] = coneIm;
+  out[At.outletPressure] = outletRe;
+  out[At.outletPressure + 1] = outletIm;
+  out[At.coneVelocity] = velocityRe;
+  out[At.coneVelocity + 1] = velocityIm;
+  out[At.excursion] = (velocityRe * 0 + velocityIm * w) / w2;
+  out[At.excursion + 1] = (velocityIm * 0 - velocityRe * w) / w2;
+  out[At.outletFlow] = outletFlowRe;
+  out[At.outletFlow + 1] = outletFlowIm;
+  out[At.boxPressure] = chamber.re * flowRe - chamber.im * flowIm;
+  out[At.boxPressure + 1] = chamber.re * flowIm + chamber.im * flowRe;
+  out[At.current] = currentRe;
+  out[At.current + 1] = currentIm;
+  out[At.impedance] = coil.re + motionalRe;
+  out[At.impedance + 1] = coil.im + motionalIm;
+  out[At.terminalVoltage] = driveRe - (currentRe * sourceRe - currentIm * sourceIm);
+  out[At.terminalVoltage + 1] = driveIm - (currentRe * sourceIm + currentIm * sourceRe);
+  return out;
+}
+
+const phasor = (s: Float64Array, at: At): Complex => ({ re: s[at], im: s[at + 1] });
+
+function modelled(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain: boolean): PointResponse {
+  const s = solve(system, way, f, volts, withRoomGain);
   return {
-    pressure: add(add(conePressure, outletPressure), leakPressure),
-    conePressure,
-    outletPressure,
-    coneVelocity,
-    excursion: div(coneVelocity, jw),
-    outletFlow,
-    boxPressure,
-    current,
-    impedance: add(coil, motional),
-    terminalVoltage: sub(drive, mul(current, source)),
+    pressure: phasor(s, At.pressure),
+    conePressure: phasor(s, At.conePressure),
+    outletPressure: phasor(s, At.outletPressure),
+    coneVelocity: phasor(s, At.coneVelocity),
+    excursion: phasor(s, At.excursion),
+    outletFlow: phasor(s, At.outletFlow),
+    boxPressure: phasor(s, At.boxPressure),
+    current: phasor(s, At.current),
+    impedance: phasor(s, At.impedance),
+    terminalVoltage: phasor(s, At.terminalVoltage),
   };
 }
 
@@ -169,10 +255,14 @@ export const offsetDelay = (system: SpeakerSystem, way: Way): number => way.offs
  */
 export function wayPressure(system: SpeakerSystem, way: Way, f: number, volts: number, withRoomGain = true): Complex {
   const w = 2 * Math.PI * f;
+  // A driver way without a measured response needs only the pressure of the solution (no objects
+  // for the rest of it: the sum and its group delay solve every way twice per grid point).
   const own =
-    way.kind === 'driver'
-      ? respond(system, way, f, volts, withRoomGain).pressure
-      : mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0));
+    way.kind !== 'driver'
+      ? mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0))
+      : way.measured
+        ? respond(system, way, f, volts, withRoomGain).pressure
+        : phasor(solve(system, way, f, volts, withRoomGain), At.pressure);
   return placedInSum(system, way, own, f);
 }
 
