@@ -38,7 +38,8 @@ export function threadsOption(value: string | undefined): LaneHelper | undefined
 /** Reads any supported audio file; its warnings go to stderr. */
 export async function readInputAudio(path: string): Promise<WavAudio> {
   await checkReadable(path, 'audio file');
-  const audio = await readAudioInput(path, progressBar('reading'));
+  // In shared memory, so the second thread and the worker threads read it without a copy.
+  const audio = await readAudioInput(path, progressBar('reading'), { shared: true });
   for (const w of audio.warnings ?? []) process.stderr.write(`  warning: ${printable(w)}\n`);
   return audio;
 }
