@@ -11,7 +11,7 @@
 // runLaneJob(job) (lane-helper.ts) on another thread, and the engine waits on the ring for it.
 import type { SpeakerSystem } from '../system.ts';
 import type { SlotRingBuffers } from './slot-ring.ts';
-import { CHUNK, DriverWayChain, type FlatWayChain } from './way-chain.ts';
+import { CHUNK, type DriverLane, DriverWayChain, type FlatWayChain, type LaneBuffers } from './way-chain.ts';
 import type { DriverRate, RenderMode } from './renderer.ts';
 
 /** Starts runLaneJob(job) on another thread and returns at once. */
@@ -155,61 +155,76 @@ export function helperLaneDoubles(chains: WayChain[], lanes: boolean[][]): numbe
   return d;
 }
 
-function put(slot: Float64Array, at: number, src: Float64Array, n: number): void {
-  for (let k = 0; k < n; k++) slot[at + k] = src[k];
-}
-
-function take(slot: Float64Array, at: number, dst: Float64Array, n: number): void {
-  for (let k = 0; k < n; k++) dst[k] = slot[at + k];
+/** One slot seen as the helper's lanes: each driver lane's buffers and where its coil's R and rise go. */
+interface SlotViews {
+  drivers: { lane: DriverLane; buffers: LaneBuffers; coil: number }[];
+  flats: { out: Float64Array[]; c: number; view: Float64Array }[];
 }
 
 /**
- * The chunk's results of the helper's lanes between the lanes and a slot: into the slot on the
- * helper; out of it on the calling thread, whose copies of those lanes are not run: their buffers
- * and their coil's R and rise are what the sums and meters read.
+ * The helper's lanes in the ring's slots, without copying: for each chunk both threads point those
+ * lanes' result buffers at the chunk's slot (attach), the helper's stages write into it and the
+ * calling thread's sums and meters read from it; only the coil's R and rise are copied.
  */
-function moveLanes(chains: WayChain[], lanes: boolean[][], n: number, slot: Float64Array, intoSlot: boolean): void {
-  const move = intoSlot ? put : take;
-  let at = 0;
-  chains.forEach((chain, k) => {
-    const runs = lanes[k];
-    if (chain instanceof DriverWayChain) {
-      for (let w = 0; w < chain.lanes.length; w++) {
-        if (!runs[w]) continue;
-        const lane = chain.lanes[w];
-        move(slot, at, lane.pN, n);
-        move(slot, at + CHUNK, lane.pL, n);
-        move(slot, at + 2 * CHUNK, lane.x, n);
-        move(slot, at + 3 * CHUNK, lane.outlet, n);
-        move(slot, at + 4 * CHUNK, lane.uDel, n);
-        const coil = at + DRIVER_ARRAYS * CHUNK;
-        if (intoSlot) {
-          slot[coil] = lane.sim.r;
-          slot[coil + 1] = lane.sim.riseV;
-        } else {
-          lane.sim.r = slot[coil];
-          lane.sim.riseV = slot[coil + 1];
-        }
-        at += DRIVER_DOUBLES;
+export class LaneSlots {
+  private readonly views = new Map<Float64Array, SlotViews>();
+
+  constructor(
+    private readonly chains: WayChain[],
+    private readonly lanes: boolean[][],
+  ) {}
+
+  private viewsOf(slot: Float64Array): SlotViews {
+    let v = this.views.get(slot);
+    if (v) return v;
+    v = { drivers: [], flats: [] };
+    let at = 0;
+    const view = () => {
+      const a = slot.subarray(at, at + CHUNK);
+      at += CHUNK;
+      return a;
+    };
+    this.chains.forEach((chain, k) => {
+      const runs = this.lanes[k];
+      if (chain instanceof DriverWayChain) {
+        chain.lanes.forEach((lane, w) => {
+          if (!runs[w]) return;
+          const buffers = { pN: view(), pL: view(), x: view(), outlet: view(), uDel: view() };
+          v!.drivers.push({ lane, buffers, coil: at });
+          at += 2;
+        });
+      } else {
+        chain.out.forEach((_, c) => {
+          if (runs[c]) v!.flats.push({ out: chain.out, c, view: view() });
+        });
       }
-    } else {
-      for (let c = 0; c < chain.out.length; c++) {
-        if (!runs[c]) continue;
-        move(slot, at, chain.out[c], n);
-        at += CHUNK;
-      }
+    });
+    this.views.set(slot, v);
+    return v;
+  }
+
+  /** The helper's lanes write to, or are read from, this slot for the coming chunk. */
+  attach(slot: Float64Array): void {
+    const v = this.viewsOf(slot);
+    for (const d of v.drivers) d.lane.useBuffers(d.buffers);
+    for (const f of v.flats) f.out[f.c] = f.view;
+  }
+
+  /** Helper, after the chunk: its lanes' coil R and rise into the slot. */
+  writeCoils(slot: Float64Array): void {
+    for (const d of this.viewsOf(slot).drivers) {
+      slot[d.coil] = d.lane.sim.r;
+      slot[d.coil + 1] = d.lane.sim.riseV;
     }
-  });
-}
+  }
 
-/** Helper: its lanes' chunk into a slot. */
-export function exportLanes(chains: WayChain[], lanes: boolean[][], n: number, slot: Float64Array): void {
-  moveLanes(chains, lanes, n, slot, true);
-}
-
-/** Calling thread: the helper's lanes' chunk from a slot. */
-export function importLanes(chains: WayChain[], lanes: boolean[][], n: number, slot: Float64Array): void {
-  moveLanes(chains, lanes, n, slot, false);
+  /** Calling thread: the helper's lanes' coil R and rise, where the stress meter reads them. */
+  readCoils(slot: Float64Array): void {
+    for (const d of this.viewsOf(slot).drivers) {
+      d.lane.sim.r = slot[d.coil];
+      d.lane.sim.riseV = slot[d.coil + 1];
+    }
+  }
 }
 
 /**

@@ -15,7 +15,7 @@ import { TraceRecorder, type Traces } from './trace-recorder.ts';
 import { OutputGuard, type RenderMode, type SampleBuffer, type SideStreams } from './output-guard.ts';
 import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
 import { lowRateLatency } from './low-rate-model.ts';
-import { assignLanes, channelsRead, exportLanes, helperLaneDoubles, importLanes } from './lane-share.ts';
+import { assignLanes, channelsRead, helperLaneDoubles, LaneSlots } from './lane-share.ts';
 import type { SlotRing } from './slot-ring.ts';
 import { keepShape } from '../keep-shape.ts';
 
@@ -119,7 +119,7 @@ export class Renderer {
    * Lanes shared with a second thread (lane-share.ts): the helper's lanes[k][w], the ones this
    * renderer runs, and the ring between them.
    */
-  private share: { role: 'main' | 'helper'; lanes: boolean[][]; runs: boolean[][]; ring: SlotRing } | null = null;
+  private share: { role: 'main' | 'helper'; runs: boolean[][]; ring: SlotRing; slots: LaneSlots } | null = null;
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
@@ -165,7 +165,7 @@ export class Renderer {
    */
   shareLanes(role: 'main' | 'helper', ring: SlotRing, lanes: boolean[][]): void {
     const runs = role === 'helper' ? lanes : lanes.map((l) => l.map((h) => !h));
-    this.share = { role, lanes, runs, ring };
+    this.share = { role, runs, ring, slots: new LaneSlots(this.chains, lanes) };
   }
 
   /** Can the running ways take this design's constants while keeping their state? */
@@ -269,6 +269,15 @@ export class Renderer {
     this.limiterDb = this.guard.reductionDb();
   }
 
+  /** Step 1 of a chunk: every way's chain, or the lanes `runs` marks. */
+  private runChains(src: LaneSource, volts: number, frameEnd: number, runs: boolean[][] | undefined): void {
+    for (let k = 0; k < this.chains.length; k++) {
+      const chain = this.chains[k];
+      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, runs?.[k]);
+      else chain.process(src, volts, runs?.[k]);
+    }
+  }
+
   private chunk(inputs: ArrayLike<number>[], outputs: SampleBuffer[], s: number, n: number, extra?: SideStreams): void {
     const nCh = this.channels;
     const src = this.src;
@@ -280,23 +289,24 @@ export class Renderer {
     const volts = this.voltsFs;
     const frameEnd = this.frames + n;
     const share = this.share;
-    for (let k = 0; k < this.chains.length; k++) {
-      const chain = this.chains[k];
-      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, share?.runs[k]);
-      else chain.process(src, volts, share?.runs[k]);
-    }
-    if (share) {
-      if (share.role === 'helper') {
-        const slot = share.ring.nextFree();
-        if (slot) {
-          exportLanes(this.chains, share.lanes, n, slot);
-          share.ring.publish();
-        }
-        this.frames += n;
-        return;
+    if (share?.role === 'helper') {
+      // The helper's lanes write straight into the chunk's slot; a stopped ring wants no more.
+      const slot = share.ring.nextFree();
+      if (slot) {
+        share.slots.attach(slot);
+        this.runChains(src, volts, frameEnd, share.runs);
+        share.slots.writeCoils(slot);
+        share.ring.publish();
       }
-      importLanes(this.chains, share.lanes, n, share.ring.nextFull());
-      share.ring.release();
+      this.frames += n;
+      return;
+    }
+    this.runChains(src, volts, frameEnd, share?.runs);
+    if (share) {
+      // The helper's lanes of this chunk are read in the ring until the meters are done with them.
+      const slot = share.ring.nextFull();
+      share.slots.attach(slot);
+      share.slots.readCoils(slot);
     }
     // 2. The ways summed per channel: the full model, its linear part, and their difference (which
     // only driver ways have). The first way is copied, so one way passes through unchanged.
@@ -336,6 +346,7 @@ export class Renderer {
       dt = 1 / this.sampleRate;
     this.distortion.measure(outN, outL, outR, n, t0, dt, this.events);
     for (let w = 0; w < this.drivers.length; w++) this.stress[w].measure(this.drivers[w].lanes, n, t0, dt, this.events);
+    share?.ring.release();
     this.recorder.advance(n, this.stress, this.distortion);
     // The room changes what the listener hears, not what the drivers do: after the stress meters.
     this.room?.streams.process(this.streams, n, this.roomOnly);

@@ -74,6 +74,15 @@ function delayOrNull(old: FractionalDelay | null, samples: number): FractionalDe
   return old && old.samples === samples ? old : new FractionalDelay(samples);
 }
 
+/** A driver lane's per-chunk results (DriverLane.useBuffers). */
+export interface LaneBuffers {
+  uDel: Float64Array;
+  pN: Float64Array;
+  pL: Float64Array;
+  x: Float64Array;
+  outlet: Float64Array;
+}
+
 export class DriverLane {
   filter: BiquadCascade | null = null;
   drive: FractionalDelay | null = null;
@@ -102,16 +111,33 @@ export class DriverLane {
   readonly u = new Float64Array(CHUNK);
   /** Clipped drive, V (the model's input). */
   readonly uClip = new Float64Array(CHUNK);
-  /** Demanded drive, delayed like the clipped one, V. */
-  readonly uDel = new Float64Array(CHUNK);
-  /** Seat pressure of the full model and of its linear part, Pa (after polarity and offset). */
-  readonly pN = new Float64Array(CHUNK);
-  readonly pL = new Float64Array(CHUNK);
-  /** Cone excursion, m, and the outlet's flow (port, m^3/s) or travel (radiator, m). */
-  readonly x = new Float64Array(CHUNK);
-  readonly outlet = new Float64Array(CHUNK);
+  /**
+   * What the renderer reads of the lane after each chunk, written by its stages: the demanded
+   * drive delayed like the clipped one (V), the seat pressure of the full model and of its linear
+   * part (Pa, after polarity and offset), the cone excursion (m) and the outlet's flow (port, m^3/s)
+   * or travel (radiator, m). Their own buffers, or views into shared memory when the lane runs on
+   * another thread (useBuffers, lane-share.ts).
+   */
+  uDel: Float64Array = new Float64Array(CHUNK);
+  pN: Float64Array = new Float64Array(CHUNK);
+  pL: Float64Array = new Float64Array(CHUNK);
+  x: Float64Array = new Float64Array(CHUNK);
+  outlet: Float64Array = new Float64Array(CHUNK);
   /** Where the low-rate model writes: the residual into pN (the linear part is added after). */
-  readonly lowOut = { residual: this.pN, x: this.x, outlet: this.outlet };
+  readonly lowOut: { residual: Float64Array; x: Float64Array; outlet: Float64Array } = {
+    residual: this.pN,
+    x: this.x,
+    outlet: this.outlet,
+  };
+
+  /** The lane's results go to (or are read from) these buffers from now on. */
+  useBuffers(b: LaneBuffers): void {
+    this.uDel = b.uDel;
+    this.pN = this.lowOut.residual = b.pN;
+    this.pL = b.pL;
+    this.x = this.lowOut.x = b.x;
+    this.outlet = this.lowOut.outlet = b.outlet;
+  }
 
   constructor(p: WooferParams) {
     keepShape(this);
