@@ -11,7 +11,7 @@
 // runLaneJob(job) (lane-helper.ts) on another thread, and the engine waits on the ring for it.
 import type { SpeakerSystem } from '../system.ts';
 import type { SlotRingBuffers } from './slot-ring.ts';
-import { CHUNK, type DriverLane, DriverWayChain, type FlatWayChain, type LaneBuffers } from './way-chain.ts';
+import { CHUNK, type DriverLane, DriverWayChain, type FlatWayChain, type LaneBuffers, separateTwin } from './way-chain.ts';
 import type { DriverRate, RenderMode } from './renderer.ts';
 
 /** Starts runLaneJob(job) on another thread and returns at once. */
@@ -99,6 +99,8 @@ const NETWORK_EXTRA = 0.5;
 const MEASURED_EXTRA = 0.3;
 const FLAT_LANE = 0.05;
 const JOINING_PER_CHANNEL = 0.57;
+/** The linear twin's share of a driver lane (same profile: 0.38 s of the two woofer lanes' 2.9 s). */
+const TWIN_SHARE = 0.13;
 
 const lanesOf = (chain: WayChain) => (chain instanceof DriverWayChain ? chain.lanes.length : chain.out.length);
 
@@ -107,15 +109,18 @@ const lanesOf = (chain: WayChain) => (chain instanceof DriverWayChain ? chain.la
  * the thread with less work so far, the calling thread starting with the work that joins the lanes.
  */
 export function assignLanes(chains: WayChain[], channels: number): boolean[][] {
-  const units: { k: number; w: number; cost: number }[] = [];
+  // Each lane's cost, and the part of it (its linear twin) that stays here when the helper runs it.
+  const units: { k: number; w: number; cost: number; twin: number }[] = [];
   chains.forEach((chain, k) => {
     for (let w = 0; w < lanesOf(chain); w++) {
-      let cost = FLAT_LANE;
+      let cost = FLAT_LANE,
+        twin = 0;
       if (chain instanceof DriverWayChain) {
         const lane = chain.lanes[w];
         cost = DRIVER_LANE + (lane.net ? NETWORK_EXTRA : 0) + (lane.measured ? MEASURED_EXTRA : 0);
+        if (separateTwin(lane)) twin = TWIN_SHARE * cost;
       }
-      units.push({ k, w, cost });
+      units.push({ k, w, cost, twin });
     }
   });
   units.sort((a, b) => b.cost - a.cost || a.k - b.k || a.w - b.w);
@@ -125,7 +130,8 @@ export function assignLanes(chains: WayChain[], channels: number): boolean[][] {
   for (const u of units) {
     if (helper <= main) {
       lanes[u.k][u.w] = true;
-      helper += u.cost;
+      helper += u.cost - u.twin;
+      main += u.twin;
     } else main += u.cost;
   }
   return lanes;

@@ -119,7 +119,7 @@ export class Renderer {
    * Lanes shared with a second thread (lane-share.ts): the helper's lanes[k][w], the ones this
    * renderer runs, and the ring between them.
    */
-  private share: { role: 'main' | 'helper'; runs: boolean[][]; ring: SlotRing; slots: LaneSlots } | null = null;
+  private share: { role: 'main' | 'helper'; lanes: boolean[][]; runs: boolean[][]; ring: SlotRing; slots: LaneSlots } | null = null;
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
@@ -165,7 +165,7 @@ export class Renderer {
    */
   shareLanes(role: 'main' | 'helper', ring: SlotRing, lanes: boolean[][]): void {
     const runs = role === 'helper' ? lanes : lanes.map((l) => l.map((h) => !h));
-    this.share = { role, runs, ring, slots: new LaneSlots(this.chains, lanes) };
+    this.share = { role, lanes, runs, ring, slots: new LaneSlots(this.chains, lanes) };
   }
 
   /** Can the running ways take this design's constants while keeping their state? */
@@ -269,11 +269,11 @@ export class Renderer {
     this.limiterDb = this.guard.reductionDb();
   }
 
-  /** Step 1 of a chunk: every way's chain, or the lanes `runs` marks. */
-  private runChains(src: LaneSource, volts: number, frameEnd: number, runs: boolean[][] | undefined): void {
+  /** Step 1 of a chunk: every way's chain, or the lanes `runs` marks (with the twins that can run apart left out: `twinsElsewhere`). */
+  private runChains(src: LaneSource, volts: number, frameEnd: number, runs: boolean[][] | undefined, twinsElsewhere = false): void {
     for (let k = 0; k < this.chains.length; k++) {
       const chain = this.chains[k];
-      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, runs?.[k]);
+      if (chain instanceof DriverWayChain) chain.process(src, volts, frameEnd, runs?.[k], twinsElsewhere);
       else chain.process(src, volts, runs?.[k]);
     }
   }
@@ -294,7 +294,7 @@ export class Renderer {
       const slot = share.ring.nextFree();
       if (slot) {
         share.slots.attach(slot);
-        this.runChains(src, volts, frameEnd, share.runs);
+        this.runChains(src, volts, frameEnd, share.runs, true);
         share.slots.writeCoils(slot);
         share.ring.publish();
       }
@@ -307,6 +307,11 @@ export class Renderer {
       const slot = share.ring.nextFull();
       share.slots.attach(slot);
       share.slots.readCoils(slot);
+      // Their linear twins run here, which evens out the two threads' work.
+      for (let k = 0; k < this.chains.length; k++) {
+        const chain = this.chains[k];
+        if (chain instanceof DriverWayChain) chain.runTwins(n, frameEnd, share.lanes[k]);
+      }
     }
     // 2. The ways summed per channel: the full model, its linear part, and their difference (which
     // only driver ways have). The first way is copied, so one way passes through unchanged.

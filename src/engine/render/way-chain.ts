@@ -53,6 +53,18 @@ function fillLane(buf: Float64Array, src: LaneSource, lane: number, monoSum: boo
   }
 }
 
+/**
+ * A lane whose linear twin can run apart from its full model: no model below the audio rate (its
+ * full pressure takes the twin's) and no measured FIR (it filters both pressures together).
+ */
+export function separateTwin(lane: DriverLane): boolean {
+  return lane.low === null && lane.measured === null;
+}
+
+function negate(a: Float64Array, n: number): void {
+  for (let k = 0; k < n; k++) a[k] = -a[k];
+}
+
 export function replaceCascade(old: BiquadCascade | null, coef: Float64Array | null): BiquadCascade | null {
   if (!coef) return null;
   if (old && old.coef.length === coef.length) {
@@ -283,12 +295,12 @@ export class DriverWayChain {
 
   /**
    * One chunk of every lane, or of the lanes `runs` marks (lane-share.ts runs the others on a
-   * second thread). `frameEnd` is the renderer's frame count at the end of the chunk: the coil heats
-   * from the mean i^2 of each CHUNK frames of the renderer's own clock.
+   * second thread; with `twinsElsewhere` the linear twins of those lanes that allow it are left to
+   * runTwins there). `frameEnd` is the renderer's frame count at the end of the chunk: the coil
+   * heats from the mean i^2 of each CHUNK frames of the renderer's own clock.
    */
-  process(src: LaneSource, volts: number, frameEnd: number, runs?: readonly boolean[]): void {
+  process(src: LaneSource, volts: number, frameEnd: number, runs?: readonly boolean[], twinsElsewhere = false): void {
     const n = src.n;
-    const p = this.params;
     // Gain 1 leaves the drive exactly as the first version computed it.
     const drive = volts * this.gain;
     for (let w = 0; w < this.lanes.length; w++) {
@@ -302,6 +314,17 @@ export class DriverWayChain {
       for (let k = 0; k < n; k++) u[k] *= drive;
       lane.clip.process(u, n, this.rail, this.soft, lane.uClip, lane.uDel);
       const sim = lane.sim;
+      if (separateTwin(lane)) {
+        // The full model's path, then the twin's (pN and pL never meet in a lane): one after the
+        // other here, or the twin on the thread that sums them.
+        lane.i2 += sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet, lane.net ?? undefined);
+        lane.roomN?.processInPlace(lane.pN, 0, n);
+        this.heatCoil(lane, frameEnd);
+        if (this.polarity !== 1) negate(lane.pN, n);
+        lane.offsetN?.process(lane.pN, n);
+        if (!twinsElsewhere) this.runTwin(lane, n, frameEnd);
+        continue;
+      }
       let i2: number;
       if (lane.low) {
         // The residual from the low rate, the linear part at the audio rate on the demand in line with it.
@@ -321,29 +344,56 @@ export class DriverWayChain {
         lane.roomL!.processInPlace(lane.pL, 0, n);
       }
       lane.measured?.process(lane.pN, lane.pL, n);
-      // Coil heating from the mean i^2 of each CHUNK frames in the hot resistance; the exact two-node step.
       lane.i2 += i2;
-      if (frameEnd % CHUNK === 0) {
-        const pw = (lane.i2 / CHUNK) * p.re0 * (1 + p.alphaR * sim.riseV);
-        const th = this.th;
-        sim.setCoilRise(th.p11 * sim.riseV + th.p12 * sim.riseM + th.g1 * pw, th.p21 * sim.riseV + th.p22 * sim.riseM + th.g2 * pw);
-        lane.i2 = 0;
-        // The linear part follows the coil's resistance, so heat is not counted as distortion.
-        if ((frameEnd / CHUNK) % 4 === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) {
-          lane.lin.rebuild(sim.r);
-          lane.low?.lin.rebuild(sim.r);
-        }
-      }
+      if (this.heatCoil(lane, frameEnd)) this.followCoil(lane, frameEnd);
       if (this.polarity !== 1) {
-        const pN = lane.pN,
-          pL = lane.pL;
-        for (let k = 0; k < n; k++) {
-          pN[k] = -pN[k];
-          pL[k] = -pL[k];
-        }
+        negate(lane.pN, n);
+        negate(lane.pL, n);
       }
       lane.offsetN?.process(lane.pN, n);
       lane.offsetL?.process(lane.pL, n);
+    }
+  }
+
+  /** The linear twins of the lanes `runs` marks whose twin process() left to this thread (after their coil's R arrived). */
+  runTwins(n: number, frameEnd: number, runs: readonly boolean[]): void {
+    for (let w = 0; w < this.lanes.length; w++) if (runs[w] && separateTwin(this.lanes[w])) this.runTwin(this.lanes[w], n, frameEnd);
+  }
+
+  /** A lane's linear twin over the chunk, after the coil's heat of the chunk: the demand -> pL. */
+  private runTwin(lane: DriverLane, n: number, frameEnd: number): void {
+    if (lane.linNet) lane.linNet.processBlock(lane.uDel, lane.pL, n);
+    else lane.lin.processBlock(lane.uDel, lane.pL, n);
+    lane.roomL?.processInPlace(lane.pL, 0, n);
+    if (frameEnd % CHUNK === 0) this.followCoil(lane, frameEnd);
+    if (this.polarity !== 1) negate(lane.pL, n);
+    lane.offsetL?.process(lane.pL, n);
+  }
+
+  /**
+   * Coil heating from the mean i^2 of each CHUNK frames in the hot resistance (the exact two-node
+   * step), at the end of each CHUNK frames of the renderer's clock: true when it stepped.
+   */
+  private heatCoil(lane: DriverLane, frameEnd: number): boolean {
+    if (frameEnd % CHUNK !== 0) return false;
+    const p = this.params;
+    const sim = lane.sim;
+    const pw = (lane.i2 / CHUNK) * p.re0 * (1 + p.alphaR * sim.riseV);
+    const th = this.th;
+    sim.setCoilRise(th.p11 * sim.riseV + th.p12 * sim.riseM + th.g1 * pw, th.p21 * sim.riseV + th.p22 * sim.riseM + th.g2 * pw);
+    lane.i2 = 0;
+    return true;
+  }
+
+  /**
+   * The linear part follows the coil's resistance every fourth step of the heat, so heat is not
+   * counted as distortion. Called where a CHUNK of the renderer's clock ends.
+   */
+  private followCoil(lane: DriverLane, frameEnd: number): void {
+    const sim = lane.sim;
+    if ((frameEnd / CHUNK) % 4 === 0 && Math.abs(sim.r - lane.lin.r) > 1e-4 * lane.lin.r) {
+      lane.lin.rebuild(sim.r);
+      lane.low?.lin.rebuild(sim.r);
     }
   }
 
