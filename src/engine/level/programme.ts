@@ -65,11 +65,14 @@ export function programmeLeqCPerVolt(system: SpeakerSystem): number {
   return splDbOfMeanSquare(ms);
 }
 
-/** Channel volts rms of the stand-in for the design's planned level (volts mode: its full-scale peak). */
-export function programmeVoltsRms(system: SpeakerSystem): number {
+/**
+ * Channel volts rms of the stand-in for the design's planned level (volts mode: its full-scale
+ * peak); `leqCPerVoltDb` is programmeLeqCPerVolt(system) when the caller has it already.
+ */
+export function programmeVoltsRms(system: SpeakerSystem, leqCPerVoltDb?: number): number {
   const level = system.listening.level;
   if (level.mode === 'volts') return level.voltsFs / PROGRAMME_PEAK_FACTOR;
-  return 10 ** ((level.splDb - programmeLeqCPerVolt(system)) / 20);
+  return 10 ** ((level.splDb - (leqCPerVoltDb ?? programmeLeqCPerVolt(system))) / 20);
 }
 
 /** The stand-in's peak at a driver way's amplifier channel (after its filter), V, for `voltsRms` per channel. */

@@ -207,8 +207,8 @@ export function sumPassbandPerVolt(system: SpeakerSystem, distance = system.list
  * long-term C-weighted level at the seat is the planned SPL, or whose peaks reach the planned volts
  * at full scale. The renders use the track's own Leq,C the same way.
  */
-export function plannedVoltsRms(system: SpeakerSystem): number {
-  return programmeVoltsRms(system);
+export function plannedVoltsRms(system: SpeakerSystem, programmeLeqCPerVoltDb?: number): number {
+  return programmeVoltsRms(system, programmeLeqCPerVoltDb);
 }
 
 /**
@@ -700,8 +700,8 @@ function analyzeSum(
 }
 
 /** The planned level with the programme stand-in, and what the amplifier cannot give of it. */
-function plannedProgramme(system: SpeakerSystem, voltsRms: number): Analysis['programme'] {
-  return { voltsRms, leqCPerVoltDb: programmeLeqCPerVolt(system), shortfalls: amplifierShortfalls(system, voltsRms) };
+function plannedProgramme(system: SpeakerSystem, voltsRms: number, leqCPerVoltDb: number): Analysis['programme'] {
+  return { voltsRms, leqCPerVoltDb, shortfalls: amplifierShortfalls(system, voltsRms) };
 }
 
 function shortfallError(system: SpeakerSystem, s: AmplifierShortfall): Issue {
@@ -738,10 +738,12 @@ export function analyze(system: SpeakerSystem, options: AnalyzeOptions = {}): An
   const grid = [options.fMinHz ?? 10, fMax, options.pointsPerOctave ?? 48];
   const freqHz = logGrid(grid[0], grid[1], grid[2]);
   const sumPerVolt = sumPassbandPerVolt(system);
-  const planned = plannedVoltsRms(system);
+  // The stand-in's level per volt once: the planned volts and the planned level both take it.
+  const programmeLeqDb = programmeLeqCPerVolt(system);
+  const planned = plannedVoltsRms(system, programmeLeqDb);
   const onGrid = waysOnGridOf(system, freqHz, grid, driveV);
   const placed = onGrid.map((g) => g.placed);
-  const programme = plannedProgramme(system, planned);
+  const programme = plannedProgramme(system, planned, programmeLeqDb);
   // The planned level itself, as every figure quotes it: the stand-in's Leq,C at the seat.
   const plannedLevelDb = programme.leqCPerVoltDb + 20 * Math.log10(planned);
   const ways = driverWays.map((way) => {
