@@ -1,6 +1,6 @@
 // A second thread for the engine's renders and calibrations (engine/render/lane-share.ts): one
-// worker thread per process, started when a command asks for it, given each job in turn. It does not keep the
-// process alive. None on a machine with one core, where it could only slow the work down.
+// worker thread per process, started when a command asks for it, given each job in turn. It does
+// not keep the process alive. None on a machine with one core, where it could only slow the work.
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import type { LaneHelper, LaneJob } from '../engine/render/lane-share.ts';

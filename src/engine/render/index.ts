@@ -138,7 +138,7 @@ export interface LevelRequest {
   splDb?: number;
   /** The track's Leq,C at the seat per volt (seatLeqCPerVolt), dB: given, the calibration pass is not run again. */
   leqPerVoltDb?: number;
-  /** A second thread for the upper channels' lanes of the calibration and the render (lane-share.ts); same output. */
+  /** A second thread for a share of the lanes of the calibration and the render (lane-share.ts); same output. */
   helper?: LaneHelper;
 }
 

@@ -161,7 +161,7 @@ export class Renderer {
    * Splits the lanes with a second thread through `ring` (lane-share.ts): `lanes` are the helper's.
    * As 'main' this renderer runs the others and takes the helper's from the ring; as 'helper' it
    * runs only those into the ring (its outputs are not written). For fixed renders of whole
-   * buffers: the other side must be fed the same blocks, and neither is edited on the way.
+   * buffers: the other side must be fed the same blocks, and neither is edited or reset on the way.
    */
   shareLanes(role: 'main' | 'helper', ring: SlotRing, lanes: boolean[][]): void {
     const runs = role === 'helper' ? lanes : lanes.map((l) => l.map((h) => !h));
