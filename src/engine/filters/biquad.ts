@@ -241,3 +241,110 @@ export function cascadeResponse(coef: Float64Array, gain: number, f: number, sam
   }
   return [re, im];
 }
+
+/** A section that passes its input through unchanged (pads a joined cascade's last group). */
+const PASS_THROUGH = Float64Array.of(1, 0, 0, 0, 0);
+
+/**
+ * Cascades run one after the other as one cascade of groups of four sections per pass, each stage's
+ * gain applied before its first section and the last group padded with pass-through sections. One
+ * section alone waits on its own latency (about 2.4x the time per section of a group of four), so
+ * a way's chain followed by a weighting filter runs about twice as fast joined. Bit for bit the
+ * stages' processInPlace one after the other on a Float64 buffer: the same products in the same
+ * order (a gain of 1 and a pass-through section leave every value as it was, but for the sign of a
+ * zero).
+ */
+export class JoinedCascade {
+  private readonly coef: Float64Array;
+  /** Gain before each section: its stage's gain at the stage's first section, else 1. */
+  private readonly pre: Float64Array;
+  private readonly s1: Float64Array;
+  private readonly s2: Float64Array;
+
+  constructor(stages: BiquadCascade[]) {
+    const n = stages.reduce((m, s) => m + s.n, 0);
+    const padded = Math.ceil(n / 4) * 4;
+    const sections: Float64Array[] = [];
+    this.pre = new Float64Array(padded).fill(1);
+    for (const s of stages) {
+      if (s.n > 0) this.pre[sections.length] = s.gain;
+      for (let k = 0; k < s.n; k++) sections.push(s.coef.subarray(5 * k, 5 * k + 5));
+    }
+    while (sections.length < padded) sections.push(PASS_THROUGH);
+    this.coef = packSections(sections);
+    this.s1 = new Float64Array(padded);
+    this.s2 = new Float64Array(padded);
+    keepShape(this);
+  }
+
+  processInPlace(buf: Float64Array, start = 0, end = buf.length): void {
+    for (let k = 0; k < this.pre.length; k += 4) this.four(buf, k, start, end);
+  }
+
+  private four(buf: Float64Array, k: number, start: number, end: number): void {
+    const c = this.coef,
+      o = 5 * k,
+      s1 = this.s1,
+      s2 = this.s2,
+      pre = this.pre;
+    const p0 = pre[k],
+      p1 = pre[k + 1],
+      p2 = pre[k + 2],
+      p3 = pre[k + 3];
+    const b0 = c[o],
+      b1 = c[o + 1],
+      b2 = c[o + 2],
+      a1 = c[o + 3],
+      a2 = c[o + 4];
+    const c0 = c[o + 5],
+      c1 = c[o + 6],
+      c2 = c[o + 7],
+      d1 = c[o + 8],
+      d2 = c[o + 9];
+    const e0 = c[o + 10],
+      e1 = c[o + 11],
+      e2 = c[o + 12],
+      f1 = c[o + 13],
+      f2 = c[o + 14];
+    const g0 = c[o + 15],
+      g1 = c[o + 16],
+      g2 = c[o + 17],
+      h1 = c[o + 18],
+      h2 = c[o + 19];
+    let z1 = s1[k],
+      z2 = s2[k],
+      w1 = s1[k + 1],
+      w2 = s2[k + 1],
+      u1 = s1[k + 2],
+      u2 = s2[k + 2],
+      v1 = s1[k + 3],
+      v2 = s2[k + 3];
+    for (let j = start; j < end; j++) {
+      const x = buf[j] * p0;
+      const y = b0 * x + z1;
+      z1 = b1 * x - a1 * y + z2;
+      z2 = b2 * x - a2 * y;
+      const x2 = y * p1;
+      const y2 = c0 * x2 + w1;
+      w1 = c1 * x2 - d1 * y2 + w2;
+      w2 = c2 * x2 - d2 * y2;
+      const x3 = y2 * p2;
+      const y3 = e0 * x3 + u1;
+      u1 = e1 * x3 - f1 * y3 + u2;
+      u2 = e2 * x3 - f2 * y3;
+      const x4 = y3 * p3;
+      const y4 = g0 * x4 + v1;
+      v1 = g1 * x4 - h1 * y4 + v2;
+      v2 = g2 * x4 - h2 * y4;
+      buf[j] = y4;
+    }
+    s1[k] = z1;
+    s2[k] = z2;
+    s1[k + 1] = w1;
+    s2[k + 1] = w2;
+    s1[k + 2] = u1;
+    s2[k + 2] = u2;
+    s1[k + 3] = v1;
+    s2[k + 3] = v2;
+  }
+}

@@ -29,16 +29,19 @@ class WeightedSeatPressure {
   private readonly chain: LinearChain;
   /** out[w][lane]: one block of way w's weighted seat pressure in that lane, Pa. */
   readonly out: Float64Array[][];
-  private readonly weights: ReturnType<typeof cWeightingFilter>[][];
+  /** C weighting after the room (null without a room: the chain weights). */
+  private readonly weights: ReturnType<typeof cWeightingFilter>[][] | null;
   private readonly rooms: RoomStage[][] | null;
 
   constructor(sys: SpeakerSystem, sampleRate: number, nCh: number) {
-    const chain = new LinearChain(sys, sampleRate, nCh, 1);
-    this.chain = chain;
-    this.out = chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, () => new Float64Array(LEVEL_BLOCK)));
-    this.weights = chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, () => cWeightingFilter(sampleRate)));
     // The level at the seat is the level in the room when there is one (channel c from speaker c mod the pair).
     const paths = roomPaths(sys);
+    // Without a room between them, the chain runs the C weighting itself, joined to its cascades.
+    const weighting = () => cWeightingFilter(sampleRate);
+    const chain = new LinearChain(sys, sampleRate, nCh, 1, paths ? undefined : weighting);
+    this.chain = chain;
+    this.out = chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, () => new Float64Array(LEVEL_BLOCK)));
+    this.weights = paths ? chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, weighting)) : null;
     this.rooms =
       paths &&
       chain.ways.map((_, w) => Array.from({ length: chain.laneCount(w) }, (_, c) => new RoomStage(paths[c % paths.length], sampleRate)));
@@ -52,7 +55,7 @@ class WeightedSeatPressure {
       for (let c = from; c < end; c++) {
         const o = this.out[w][c];
         this.rooms?.[w][c].process(o, n);
-        this.weights[w][c].processInPlace(o, 0, n);
+        this.weights?.[w][c].processInPlace(o, 0, n);
       }
     }
   }

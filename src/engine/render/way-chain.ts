@@ -20,6 +20,7 @@ import { LowRateModel, lowRateLatency } from './low-rate-model.ts';
 import { measuredStage, type MeasuredStage } from './measured-stage.ts';
 import { type ModelRate, modelRate } from './model-rate.ts';
 import { keepShape } from '../keep-shape.ts';
+import { copySamples } from './copy-samples.ts';
 
 /** Frames per internal chunk: every stage runs over a chunk before the next one starts. */
 export const CHUNK = 256;
@@ -48,8 +49,7 @@ function fillLane(buf: Float64Array, src: LaneSource, lane: number, monoSum: boo
       buf[k] = sum / channels;
     }
   } else {
-    const x = inputs[lane < nIn ? lane : nIn - 1];
-    for (let k = 0; k < n; k++) buf[k] = x[s + k];
+    copySamples(buf, inputs[lane < nIn ? lane : nIn - 1], s, n);
   }
 }
 
