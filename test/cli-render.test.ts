@@ -10,6 +10,8 @@ import { join } from 'node:path';
 import wavefile from 'wavefile';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { passbandPaPerV } from '../src/engine/level/calibration.ts';
+import { renderBuffer } from '../src/engine/render/index.ts';
+import { readWav, writeWav } from '../src/cli/wav.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'preheard-render-'));
 const VENTED = 'public/examples/living-room-vented.json';
@@ -63,6 +65,24 @@ describe('preheard render', () => {
     expect(ch).toHaveLength(2);
     expect(ch[0].length).toBe(88200);
     expect(JSON.parse(readFileSync(events, 'utf8'))).toEqual(s.events);
+  });
+  it('writes during the render exactly the file the whole rendered buffer gives, in every mode and format', async () => {
+    const parsed = parseDesign(JSON.parse(readFileSync(VENTED, 'utf8')));
+    if (!parsed.ok) throw new Error('the example does not parse');
+    const source = await readWav(input);
+    for (const [mode, flag, format] of [
+      ['nonlinear', [], '16'],
+      ['residual', ['--residual'], '24'],
+      ['linear', ['--linear'], 'f32'],
+    ] as const) {
+      const out = join(dir, `streamed-${mode}.wav`),
+        whole = join(dir, `whole-${mode}.wav`);
+      const r = await runCli('render', VENTED, input, '-o', out, '--volts', '8', '--format', format, '--threads', '1', ...flag);
+      expect(r.status, r.stderr).toBe(0);
+      const result = renderBuffer(parsed.system, source.channels, source.sampleRate, { voltsFs: 8, mode });
+      await writeWav(whole, result.audio, source.sampleRate, format);
+      expect(Buffer.from(readFileSync(out)).equals(readFileSync(whole)), mode).toBe(true);
+    }
   });
   it('twice the volts gives 6 dB more drive and more excursion; --linear and --residual are accepted', async () => {
     const a = JSON.parse((await runCli('render', SEALED, input, '-o', join(dir, 'a.wav'), '--volts', '5', '--json')).stdout);

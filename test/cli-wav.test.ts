@@ -2,11 +2,11 @@
 // used before, both for the bytes written (old outputs stay bit-identical) and for the samples read;
 // the RIFF/WAVE layout (Microsoft/IBM Multimedia Programming Interface and Data Specifications 1.0, 1991).
 import { describe, expect, it } from 'vitest';
-import { closeSync, mkdirSync, mkdtempSync, openSync, readFileSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, mkdirSync, mkdtempSync, openSync, readdirSync, readFileSync, writeFileSync, writeSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import wavefile from 'wavefile';
-import { checkWavHeader, readWav, writeWav, type WavFormat } from '../src/cli/wav.ts';
+import { checkWavHeader, readWav, WavFileWriter, writeWav, type WavFormat } from '../src/cli/wav.ts';
 import { cannotRead } from '../src/cli/input-file.ts';
 import { InputError } from '../src/cli/command.ts';
 import { readAudioInput } from '../src/cli/audio-input.ts';
@@ -68,6 +68,34 @@ describe('WAV writer', () => {
   it('writes blocks larger than one write block (several MB) identically', async () => {
     const ch = signal(2, 48000 * 25, 7);
     expect(Buffer.from(await written(ch, 48000, '24')).equals(Buffer.from(wavefileBytes(ch, 48000, '24')))).toBe(true);
+  });
+  it('writes a file fed in uneven pieces (as a render feeds it) byte for byte as one whole write, then renames it into place', () => {
+    for (const format of ['16', '24', 'f32'] as const)
+      for (const nc of [1, 2]) {
+        const frames = 48000 * 12 + 5; // over one 4 MB block in every format
+        const ch = signal(nc, frames, 3);
+        const path = join(dir, `pieces-${format}-${nc}.wav`);
+        const w = new WavFileWriter(path, nc, 48000, format, frames);
+        let rand = 11;
+        for (let at = 0; at < frames; ) {
+          rand = (rand * 1103515245 + 12345) % 2147483648;
+          const n = Math.min(frames - at, 1 + (rand % 9000));
+          w.write(ch.map((c) => c.subarray(at, at + n)));
+          at += n;
+        }
+        expect(readdirSync(dir)).not.toContain(`pieces-${format}-${nc}.wav`);
+        w.finish();
+        expect(Buffer.from(readFileSync(path)).equals(Buffer.from(wavefileBytes(ch, 48000, format)))).toBe(true);
+      }
+  });
+  it('refuses more frames than announced, and a finish before all came; abort leaves nothing', () => {
+    const path = join(dir, 'short.wav');
+    const w = new WavFileWriter(path, 1, 44100, '16', 100);
+    expect(() => w.write([new Float32Array(101)])).toThrow(/more frames than the WAV header announced/);
+    w.write([new Float32Array(60)]);
+    expect(() => w.finish()).toThrow(/60 of the 100 frames/);
+    w.abort();
+    expect(readdirSync(dir).filter((f) => f.includes('short.wav'))).toEqual([]);
   });
   it('reports a folder that cannot be written with a message and leaves nothing', async () => {
     const err = await writeWav(join(dir, 'no-such-folder', 'x.wav'), signal(1, 10), 44100, '16').catch((e) => e);

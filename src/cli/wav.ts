@@ -294,37 +294,102 @@ export async function readWav(path: string, onProgress?: (fraction: number) => v
 }
 
 /**
- * Encodes and writes atomically: a temporary file in the same folder, renamed when complete. The
- * bytes are those of the canonical layout (44-byte header, no pad byte after an odd-sized data
- * chunk), the layout this CLI has always written.
+ * A WAV file written as its audio arrives, atomically: a temporary file in the same folder, renamed
+ * when every frame the header announced has come (`finish`), removed on `abort`. The bytes are
+ * those of the canonical layout (44-byte header, no pad byte after an odd-sized data chunk), the
+ * layout this CLI has always written. Frames are encoded into a block of about 4 MB and written
+ * when it fills.
  */
-export async function writeWav(path: string, channels: Float32Array[], sampleRate: number, format: WavFormat): Promise<void> {
-  const frames = channels[0]?.length ?? 0;
-  const stride = channels.length * (format === '16' ? 2 : format === '24' ? 3 : 4);
-  if (36 + frames * stride > 0xffffffff) throw new InputError(`cannot write ${path}: the audio is too long for one WAV file (4 GiB)`);
-  const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
-  let fd = -1;
-  try {
-    fd = openSync(tmp, 'w');
-    writeSync(fd, wavHeader(channels.length, sampleRate, format, frames));
-    const framesPerBlock = Math.max(1, Math.floor(BLOCK_BYTES / stride));
-    const block = new Uint8Array(Math.min(framesPerBlock, frames) * stride);
-    for (let at = 0; at < frames; at += framesPerBlock) {
-      const n = Math.min(framesPerBlock, frames - at);
-      encodeBlock(channels, format, at, n, block);
-      writeSync(fd, block, 0, n * stride);
+export class WavFileWriter {
+  private readonly tmp: string;
+  private readonly stride: number;
+  private readonly block: Uint8Array;
+  private fd = -1;
+  /** Frames waiting in the block, and frames written so far. */
+  private held = 0;
+  private done = 0;
+
+  constructor(
+    readonly path: string,
+    channels: number,
+    sampleRate: number,
+    private readonly format: WavFormat,
+    private readonly frames: number,
+  ) {
+    this.stride = channels * (format === '16' ? 2 : format === '24' ? 3 : 4);
+    if (36 + frames * this.stride > 0xffffffff)
+      throw new InputError(`cannot write ${path}: the audio is too long for one WAV file (4 GiB)`);
+    this.tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+    this.block = new Uint8Array(Math.max(1, Math.min(Math.floor(BLOCK_BYTES / this.stride), frames)) * this.stride);
+    this.guard(() => {
+      this.fd = openSync(this.tmp, 'w');
+      writeSync(this.fd, wavHeader(channels, sampleRate, format, frames));
+    });
+  }
+
+  /** The next frames: one array per channel, all of the same length. */
+  write(channels: Float32Array[]): void {
+    const n = channels[0]?.length ?? 0;
+    if (this.done + this.held + n > this.frames) throw new Error('more frames than the WAV header announced');
+    const capacity = this.block.length / this.stride;
+    for (let at = 0; at < n; ) {
+      const m = Math.min(capacity - this.held, n - at);
+      encodeBlock(channels, this.format, at, m, this.block.subarray(this.held * this.stride));
+      this.held += m;
+      at += m;
+      if (this.held === capacity) this.flush();
     }
-    closeSync(fd);
-    fd = -1;
-    renameSync(tmp, path);
-  } catch (e) {
-    if (fd >= 0) closeSync(fd);
+  }
+
+  /** Writes what is held, checks every frame came, and renames the file into place. */
+  finish(): void {
+    this.flush();
+    if (this.done !== this.frames) throw new Error(`${this.done} of the ${this.frames} frames the WAV header announced were written`);
+    this.guard(() => {
+      closeSync(this.fd);
+      this.fd = -1;
+      renameSync(this.tmp, this.path);
+    });
+  }
+
+  /** Leaves nothing behind (after a failed render or write). */
+  abort(): void {
+    if (this.fd >= 0) closeSync(this.fd);
+    this.fd = -1;
     try {
-      unlinkSync(tmp);
+      unlinkSync(this.tmp);
     } catch {
       // nothing was left behind
     }
-    throw new InputError(`cannot write ${path}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
+  }
+
+  private flush(): void {
+    if (this.held === 0) return;
+    this.guard(() => writeSync(this.fd, this.block, 0, this.held * this.stride));
+    this.done += this.held;
+    this.held = 0;
+  }
+
+  /** A file system failure: nothing left behind, one message naming the file and the reason. */
+  private guard(action: () => void): void {
+    try {
+      action();
+    } catch (e) {
+      this.abort();
+      throw new InputError(`cannot write ${this.path}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
+    }
+  }
+}
+
+/** Encodes and writes a whole WAV file atomically (WavFileWriter). */
+export async function writeWav(path: string, channels: Float32Array[], sampleRate: number, format: WavFormat): Promise<void> {
+  const writer = new WavFileWriter(path, channels.length, sampleRate, format, channels[0]?.length ?? 0);
+  try {
+    writer.write(channels);
+    writer.finish();
+  } catch (e) {
+    writer.abort();
+    throw e;
   }
 }
 

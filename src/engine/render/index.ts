@@ -92,6 +92,12 @@ export interface RenderBufferOptions extends LevelRequest {
   /** Skip writing audio (headroom search): only the summary. */
   analysisOnly?: boolean;
   /**
+   * Where the rendered audio goes as it is made, instead of into the result (whose `audio` is then
+   * empty): each call hands views of the next frames, from output frame `at` on (the CLI writes its
+   * file during the render, and holds no copy of the output).
+   */
+  onAudio?: (frames: Float32Array[], at: number) => void;
+  /**
    * Stop after the block in which the first stress event starts (with analysisOnly): the summary
    * then covers the track up to there. Events are marked as the frames go by and a start never
    * moves, so the first event (and any other starting in the same frame) is already final.
@@ -196,7 +202,7 @@ export function renderBuffer(
   const r = createRenderer(sys, { ...rendererOptions, paPerFs: opt.paPerFs });
   const lat = r.latencyFrames;
   const block = opt.blockFrames ?? 4096;
-  const keep = !opt.analysisOnly;
+  const keep = !opt.analysisOnly && !opt.onAudio;
   const audio = keep ? Array.from({ length: nCh }, () => new Float32Array(frames)) : [];
   const linear = keep && opt.extraStreams ? Array.from({ length: nCh }, () => new Float32Array(frames)) : null;
   const residual = keep && opt.extraStreams ? Array.from({ length: nCh }, () => new Float32Array(frames)) : null;
@@ -231,16 +237,19 @@ export function renderBuffer(
       r.process(views, outB, n, extra);
       ran = Math.min(frames, s + n);
       if (opt.stopAtFirstEvent && r.events.count > 0) return false;
-      if (keep) {
-        // Drop the first `lat` output frames: the result is aligned with the input.
-        const j0 = Math.max(0, lat - s),
-          j1 = Math.min(n, frames + lat - s);
-        if (j1 > j0) {
-          for (let c = 0; c < nCh; c++) {
-            audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
-            if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
-            if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
-          }
+      // Drop the first `lat` output frames: the result is aligned with the input.
+      const j0 = Math.max(0, lat - s),
+        j1 = Math.min(n, frames + lat - s);
+      if (opt.onAudio && !opt.analysisOnly && j1 > j0)
+        opt.onAudio(
+          outB.map((b) => b.subarray(j0, j1)),
+          s + j0 - lat,
+        );
+      if (keep && j1 > j0) {
+        for (let c = 0; c < nCh; c++) {
+          audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
+          if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
+          if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
         }
       }
       if (opt.onProgress && s - lastReport > sampleRate * 5) {
