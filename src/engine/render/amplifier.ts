@@ -100,24 +100,35 @@ export class OversampledClipper {
     const hl = this.hlen,
       hist = this.hist,
       d = this.delay,
-      pair = this.pair;
+      pair = this.pair,
+      span = this.span;
+    // The history's position and the hot count in locals (the idle path is most of the samples);
+    // the filters read the position from the field, so it is stored before they run.
+    let hpos = this.hpos,
+      hot = this.hot;
     for (let k = 0; k < n; k++) {
       const x = u[k];
-      this.hpos = this.hpos === 0 ? hl - 1 : this.hpos - 1;
-      hist[this.hpos] = x;
-      hist[this.hpos + hl] = x;
-      const old = hist[this.hpos + d];
+      hpos = hpos === 0 ? hl - 1 : hpos - 1;
+      hist[hpos] = x;
+      hist[hpos + hl] = x;
+      const old = hist[hpos + d];
       delayed[k] = old;
       if (x > thr || x < -thr) {
-        if (this.hot === 0) this.prime(rail, soft);
-        this.hot = this.span;
+        if (hot === 0) {
+          this.hpos = hpos;
+          this.prime(rail, soft);
+        }
+        hot = span;
       }
-      if (this.hot > 0) {
-        this.hot--;
+      if (hot > 0) {
+        hot--;
+        this.hpos = hpos;
         this.interp(0, pair);
         clipped[k] = this.decimate(clipVolts(pair[0], rail, soft), clipVolts(pair[1], rail, soft));
       } else clipped[k] = old;
     }
+    this.hpos = hpos;
+    this.hot = hot;
   }
 
   /** Fills the decimator's history with the interpolated (still linear) recent past. */
