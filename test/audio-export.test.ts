@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import { OfflineAudioContext } from 'node-web-audio-api';
 import { encodeWav } from '../src/audio/wav-export.ts';
-import { exportStream, levelsFor, renderBoth, TrackCalibration } from '../src/audio/jobs.ts';
+import { exportStream, levelsFor, renderBoth, TrackWork } from '../src/audio/jobs.ts';
 import { renderBuffer, resolveVolts } from '../src/engine/render/index.ts';
 import { exampleSystem } from './helpers/audio-bench.ts';
 
@@ -56,7 +56,7 @@ describe('offline jobs', () => {
   const systems = { a: exampleSystem('sealed'), b: exampleSystem('vented') };
 
   it('resolve each design’s planned level for the track as the render does', () => {
-    const lv = levelsFor(new TrackCalibration(track), systems);
+    const lv = levelsFor(new TrackWork(track), systems);
     for (const s of ['a', 'b'] as const) {
       const ref = resolveVolts(systems[s], track.channels, SR, {});
       expect(lv[s].voltsFs).toBe(ref.volts);
@@ -67,7 +67,7 @@ describe('offline jobs', () => {
 
   it('render both designs at their planned levels with progress, and export one stream the same length as the track', () => {
     const seen: number[] = [];
-    const cal = new TrackCalibration(track);
+    const cal = new TrackWork(track);
     const r = renderBoth(cal, systems, (f) => seen.push(f));
     expect(seen.at(-1)).toBe(1);
     expect(r.a.summary.events).toEqual(renderBuffer(systems.a, track.channels, SR, {}).summary.events);
@@ -78,7 +78,7 @@ describe('offline jobs', () => {
   });
 
   it('calibrate each design once per track: levels, render and export reuse it, with the same results', () => {
-    const cal = new TrackCalibration(track);
+    const cal = new TrackWork(track);
     const lv = levelsFor(cal, systems);
     expect(cal.passes).toBe(2);
     const r = renderBoth(cal, structuredClone(systems));
@@ -97,5 +97,30 @@ describe('offline jobs', () => {
     edited.listening.level = { mode: 'spl', splDb: 80 };
     levelsFor(cal, { a: edited, b: systems.b });
     expect(cal.passes).toBe(3);
+  });
+
+  it('after an edit of one design, render that design only; the other is kept, the same bit for bit', () => {
+    const work = new TrackWork(track);
+    const before: number[] = [];
+    const first = renderBoth(work, structuredClone(systems), (f) => before.push(f));
+    expect(work.renderRuns).toBe(2);
+    const edited = structuredClone(systems.b);
+    edited.listening.level = { mode: 'spl', splDb: 91 };
+    const seen: number[] = [];
+    const second = renderBoth(work, { a: structuredClone(systems.a), b: edited }, (f) => seen.push(f));
+    expect(work.renderRuns).toBe(3);
+    expect(second.a).toEqual(first.a);
+    const alone = renderBuffer(edited, track.channels, SR, { analysisOnly: true });
+    expect({ ...second.b.summary, realtime_factor: 0 }).toEqual({ ...alone.summary, realtime_factor: 0 });
+    expect(second.b.summary.peak_excursion_mm).toBeGreaterThan(first.b.summary.peak_excursion_mm * 1.5);
+    // The progress covers the renders that run: two halves, then the one render whole.
+    expect(before).toContain(0.5);
+    expect(before.at(-1)).toBe(1);
+    expect(seen).not.toContain(0.5);
+    expect(seen.at(-1)).toBe(1);
+    // Two equal designs render once; back to the first pair, nothing renders.
+    renderBoth(work, { a: edited, b: structuredClone(edited) });
+    renderBoth(work, structuredClone(systems));
+    expect(work.renderRuns).toBe(3);
   });
 });

@@ -14,21 +14,41 @@ export interface TrackData {
   sampleRate: number;
 }
 
+/** Results per design kept for the recent designs only (they come and go with edits), keyed by content. */
+class RecentByDesign<T> {
+  private readonly map = new Map<string, T>();
+  constructor(private readonly most: number) {}
+
+  get(key: string): T | undefined {
+    return this.map.get(key);
+  }
+
+  set(key: string, value: T): void {
+    if (this.map.size >= this.most && !this.map.has(key)) this.map.delete(this.map.keys().next().value as string);
+    this.map.set(key, value);
+  }
+}
+
+/** A design's content as a key: each message to the Worker brings a fresh copy of the designs. */
+const designKey = (system: SpeakerSystem) => JSON.stringify(system);
+
 /**
- * The track's calibration (its Leq,C at the seat per volt) for each design, measured once per design
- * and track: the levels, the render and the export of the same design reuse it (a calibration pass
- * costs about a tenth of a render). Keyed by the design's content, since each message to the Worker
- * brings a fresh copy of it.
+ * The work done on one track, per design, kept: its calibration (its Leq,C at the seat per volt,
+ * measured once per design and track; the levels, the render and the export of the same design
+ * reuse it, a pass costing about a tenth of a render) and its whole-track render (so after an edit
+ * of one design only that design renders again).
  */
-export class TrackCalibration {
-  private readonly byDesign = new Map<string, number | InputProblem>();
-  /** Calibration passes run so far (what the tests count). */
+export class TrackWork {
+  private readonly levels = new RecentByDesign<number | InputProblem>(16);
+  private readonly renders = new RecentByDesign<DesignRender>(4);
+  /** Calibration passes and whole-track renders run so far (what the tests count). */
   passes = 0;
+  renderRuns = 0;
   constructor(readonly track: TrackData) {}
 
   leqPerVoltDb(system: SpeakerSystem): number {
-    const key = JSON.stringify(system);
-    let l1 = this.byDesign.get(key);
+    const key = designKey(system);
+    let l1 = this.levels.get(key);
     if (l1 === undefined) {
       this.passes++;
       try {
@@ -37,14 +57,33 @@ export class TrackCalibration {
         if (!(e instanceof InputProblem)) throw e;
         l1 = e;
       }
-      // Designs come and go with edits: the cache keeps the recent ones only.
-      if (this.byDesign.size >= 16) this.byDesign.delete(this.byDesign.keys().next().value as string);
-      this.byDesign.set(key, l1);
+      this.levels.set(key, l1);
     }
     if (typeof l1 === 'number') return l1;
     // Silent audio: a drive given in volts still plays (with no SPL), as resolveVolts has it.
     if (system.listening.level.mode === 'volts') return -Infinity;
     throw l1;
+  }
+
+  /** The design's whole-track render (summary and traces), kept or made now. */
+  render(system: SpeakerSystem, onProgress?: (fraction: number) => void): DesignRender {
+    const key = designKey(system);
+    const kept = this.renders.get(key);
+    if (kept) return kept;
+    this.renderRuns++;
+    const r = renderBuffer(system, this.track.channels, this.track.sampleRate, {
+      leqPerVoltDb: this.leqPerVoltDb(system),
+      analysisOnly: true,
+      onProgress,
+    });
+    const made = { summary: r.summary, traces: r.traces };
+    this.renders.set(key, made);
+    return made;
+  }
+
+  /** Whether the design's render is kept. */
+  hasRender(system: SpeakerSystem): boolean {
+    return this.renders.get(designKey(system)) !== undefined;
   }
 }
 
@@ -54,10 +93,10 @@ export interface DesignLevel {
 }
 
 /** The planned level of each design, resolved for this track (SPL at the seat needs the whole track). */
-export function levelsFor(cal: TrackCalibration, systems: Record<DesignSlot, SpeakerSystem>): Record<DesignSlot, DesignLevel> {
-  const track = cal.track;
+export function levelsFor(work: TrackWork, systems: Record<DesignSlot, SpeakerSystem>): Record<DesignSlot, DesignLevel> {
+  const track = work.track;
   const one = (s: SpeakerSystem) => {
-    const r = resolveVolts(s, track.channels, track.sampleRate, { leqPerVoltDb: cal.leqPerVoltDb(s) });
+    const r = resolveVolts(s, track.channels, track.sampleRate, { leqPerVoltDb: work.leqPerVoltDb(s) });
     return { voltsFs: r.volts, splDb: r.spl };
   };
   return { a: one(systems.a), b: one(systems.b) };
@@ -68,34 +107,40 @@ export interface DesignRender {
   traces: Traces;
 }
 
-/** Both designs over the whole track at their planned levels, as `preheard render` does. */
+/**
+ * Both designs over the whole track at their planned levels, as `preheard render` does. A design
+ * rendered before on this track is not rendered again; the progress covers the renders that run.
+ */
 export function renderBoth(
-  cal: TrackCalibration,
+  work: TrackWork,
   systems: Record<DesignSlot, SpeakerSystem>,
   onProgress?: (fraction: number) => void,
 ): Record<DesignSlot, DesignRender> {
-  const one = (s: SpeakerSystem, base: number): DesignRender => {
-    const r = renderBuffer(s, cal.track.channels, cal.track.sampleRate, {
-      leqPerVoltDb: cal.leqPerVoltDb(s),
-      analysisOnly: true,
-      onProgress: onProgress && ((f) => onProgress(base + f / 2)),
-    });
-    return { summary: r.summary, traces: r.traces };
+  // Two equal designs render once.
+  const toRun = new Set([systems.a, systems.b].filter((s) => !work.hasRender(s)).map(designKey)).size;
+  let done = 0;
+  const one = (s: SpeakerSystem): DesignRender => {
+    if (work.hasRender(s)) return work.render(s);
+    const base = done++ / toRun;
+    return work.render(s, onProgress && ((f) => onProgress(base + f / toRun)));
   };
-  return { a: one(systems.a, 0), b: one(systems.b, 0.5) };
+  const a = one(systems.a);
+  const b = one(systems.b);
+  onProgress?.(1);
+  return { a, b };
 }
 
 export type ExportStream = RenderMode;
 
 /** One design's stream over the whole track, encoded as a WAV file. */
 export function exportStream(
-  cal: TrackCalibration,
+  work: TrackWork,
   system: SpeakerSystem,
   mode: ExportStream,
   format: ExportFormat,
   onProgress?: (fraction: number) => void,
 ): { bytes: Uint8Array; frames: number } {
-  const track = cal.track;
-  const r = renderBuffer(system, track.channels, track.sampleRate, { mode, onProgress, leqPerVoltDb: cal.leqPerVoltDb(system) });
+  const track = work.track;
+  const r = renderBuffer(system, track.channels, track.sampleRate, { mode, onProgress, leqPerVoltDb: work.leqPerVoltDb(system) });
   return { bytes: encodeWav(r.audio, track.sampleRate, format), frames: r.audio[0].length };
 }

@@ -1,11 +1,11 @@
 // The listening bench's Worker for offline work (imported with `?worker`): it keeps one copy of the
 // track and runs the jobs of jobs.ts on it. A job runs to the end once started; the page cancels one
 // by terminating this worker and starting a fresh one.
-import { exportStream, levelsFor, renderBoth, TrackCalibration } from './jobs.ts';
+import { exportStream, levelsFor, renderBoth, TrackWork } from './jobs.ts';
 import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
 
-// The track and its calibrations (one per design, reused by every job on this track).
-let track: TrackCalibration | null = null;
+// The track and the work done on it per design (calibrations and renders, reused by every job on this track).
+let track: TrackWork | null = null;
 
 const reply = (m: WorkerReply, transfer: Transferable[] = []) => (self as unknown as Worker).postMessage(m, transfer);
 
@@ -13,7 +13,7 @@ self.onmessage = (e: MessageEvent<WorkerRequest>) => {
   const m = e.data;
   try {
     if (m.type === 'track') {
-      track = new TrackCalibration({ channels: m.channels, sampleRate: m.sampleRate });
+      track = new TrackWork({ channels: m.channels, sampleRate: m.sampleRate });
       return;
     }
     if (!track) throw new RangeError('no track has been loaded into the render worker');
