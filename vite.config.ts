@@ -65,6 +65,13 @@ function contentSecurityPolicy(dev: boolean): string {
 
 const HEADER_ONLY = "; frame-ancestors 'none'";
 
+/**
+ * Cross-origin isolation: the page may then share memory with its Workers, which lets the render
+ * worker run a second thread (src/audio/lane-helper.ts). Everything the app loads is its own, so
+ * requiring same-origin resources costs nothing.
+ */
+const ISOLATION = { 'Cross-Origin-Opener-Policy': 'same-origin', 'Cross-Origin-Embedder-Policy': 'require-corp' };
+
 /** Puts the policy into index.html's meta tag for this mode. */
 function cspMeta(dev: boolean): Plugin {
   return {
@@ -106,11 +113,11 @@ export default defineConfig(({ mode, command }) => {
       host: '127.0.0.1',
       port: 5173,
       strictPort: true,
-      headers: { 'Content-Security-Policy': contentSecurityPolicy(true) + HEADER_ONLY },
+      headers: { 'Content-Security-Policy': contentSecurityPolicy(true) + HEADER_ONLY, ...ISOLATION },
     },
     preview: {
       host: '127.0.0.1',
-      headers: { 'Content-Security-Policy': contentSecurityPolicy(false) + HEADER_ONLY, 'X-Frame-Options': 'DENY' },
+      headers: { 'Content-Security-Policy': contentSecurityPolicy(false) + HEADER_ONLY, 'X-Frame-Options': 'DENY', ...ISOLATION },
     },
     build: { target: 'es2022', sourcemap: false, chunkSizeWarningLimit: 600 },
     test: {

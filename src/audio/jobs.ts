@@ -6,6 +6,7 @@ import { renderBuffer, resolveVolts, type RenderMode, type RenderSummary, type T
 import { seatLeqCPerVolt } from '../engine/level/calibration.ts';
 import { InputProblem } from '../engine/issues.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
+import type { LaneHelper } from '../engine/render/lane-share.ts';
 import { encodeWav, type ExportFormat } from './wav-export.ts';
 import type { DesignSlot } from './protocol.ts';
 
@@ -44,7 +45,11 @@ export class TrackWork {
   /** Calibration passes and whole-track renders run so far (what the tests count). */
   passes = 0;
   renderRuns = 0;
-  constructor(readonly track: TrackData) {}
+  /** `helper` gives a second thread for the renders and calibrations where there is one (lane-helper.ts). */
+  constructor(
+    readonly track: TrackData,
+    private readonly helper: () => LaneHelper | undefined = () => undefined,
+  ) {}
 
   leqPerVoltDb(system: SpeakerSystem): number {
     const key = designKey(system);
@@ -52,7 +57,7 @@ export class TrackWork {
     if (l1 === undefined) {
       this.passes++;
       try {
-        l1 = seatLeqCPerVolt(system, this.track.channels, this.track.sampleRate);
+        l1 = seatLeqCPerVolt(system, this.track.channels, this.track.sampleRate, this.laneHelper());
       } catch (e) {
         if (!(e instanceof InputProblem)) throw e;
         l1 = e;
@@ -71,14 +76,17 @@ export class TrackWork {
     const kept = this.renders.get(key);
     if (kept) return kept;
     this.renderRuns++;
-    const r = renderBuffer(system, this.track.channels, this.track.sampleRate, {
-      leqPerVoltDb: this.leqPerVoltDb(system),
-      analysisOnly: true,
-      onProgress,
-    });
-    const made = { summary: r.summary, traces: r.traces };
+    const leqPerVoltDb = this.leqPerVoltDb(system);
+    const helper = this.laneHelper();
+    const r = renderBuffer(system, this.track.channels, this.track.sampleRate, { leqPerVoltDb, analysisOnly: true, onProgress, helper });
+    const made = { summary: r.summary, traces: r.traces, threads: helper ? 2 : 1 };
     this.renders.set(key, made);
     return made;
+  }
+
+  /** The second thread, if there is one and it runs. */
+  laneHelper(): LaneHelper | undefined {
+    return this.helper();
   }
 
   /** Whether the design's render is kept. */
@@ -105,6 +113,8 @@ export function levelsFor(work: TrackWork, systems: Record<DesignSlot, SpeakerSy
 export interface DesignRender {
   summary: RenderSummary;
   traces: Traces;
+  /** Threads the render ran on (2 with a lane helper; absent in results kept by older versions). */
+  threads?: number;
 }
 
 /**
@@ -141,6 +151,11 @@ export function exportStream(
   onProgress?: (fraction: number) => void,
 ): { bytes: Uint8Array; frames: number } {
   const track = work.track;
-  const r = renderBuffer(system, track.channels, track.sampleRate, { mode, onProgress, leqPerVoltDb: work.leqPerVoltDb(system) });
+  const r = renderBuffer(system, track.channels, track.sampleRate, {
+    mode,
+    onProgress,
+    leqPerVoltDb: work.leqPerVoltDb(system),
+    helper: work.laneHelper(),
+  });
   return { bytes: encodeWav(r.audio, track.sampleRate, format), frames: r.audio[0].length };
 }

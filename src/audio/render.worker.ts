@@ -3,6 +3,10 @@
 // by terminating this worker and starting a fresh one.
 import { exportStream, levelsFor, renderBoth, TrackWork } from './jobs.ts';
 import type { WorkerReply, WorkerRequest } from './render-protocol.ts';
+import { startLaneHelper } from './lane-helper.ts';
+
+// A second thread for every render and calibration here, where the page allows one.
+const laneHelper = startLaneHelper();
 
 // The track and the work done on it per design (calibrations and renders, reused by every job on this track).
 let track: TrackWork | null = null;
@@ -13,7 +17,7 @@ self.onmessage = (e: MessageEvent<WorkerRequest>) => {
   const m = e.data;
   try {
     if (m.type === 'track') {
-      track = new TrackWork({ channels: m.channels, sampleRate: m.sampleRate });
+      track = new TrackWork({ channels: m.channels, sampleRate: m.sampleRate }, laneHelper);
       return;
     }
     if (!track) throw new RangeError('no track has been loaded into the render worker');

@@ -89,6 +89,11 @@ export const tests = [
       writeFileSync(join(dir, 'a.json'), await streamBytes(await dl.createReadStream()));
       await p.getByTestId('render-offline').click();
       await p.waitForSelector('[data-testid=offline-results]', { timeout: 30_000 });
+      // The page is cross-origin isolated, so on two cores or more the render worker runs a second
+      // thread (src/audio/lane-helper.ts); the events below are then those of the two-thread render.
+      const { isolated, cores } = await p.evaluate(() => ({ isolated: crossOriginIsolated, cores: navigator.hardwareConcurrency }));
+      assert.equal(isolated, true, 'the page is not cross-origin isolated');
+      assert.equal(await p.getByTestId('offline-results').getAttribute('data-threads'), cores > 1 ? '2' : '1');
       await tab(p, 'Stress strip');
       await p.waitForSelector('[data-testid=strip-source]:has-text("offline render")');
       const rows = await p

@@ -260,7 +260,11 @@ function OfflineCard(p: { bench: BenchAudio; state: BenchState }) {
       </div>
       <OfflineProgress bench={p.bench} state={p.state} />
       {r ? (
-        <table class={`figures bench-table${fresh ? '' : ' stale'}`} data-testid="offline-results">
+        <table
+          class={`figures bench-table${fresh ? '' : ' stale'}`}
+          data-testid="offline-results"
+          data-threads={Math.max(r.a.threads ?? 1, r.b.threads ?? 1)}
+        >
           <thead>
             <tr>
               <th />
