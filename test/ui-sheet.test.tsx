@@ -165,9 +165,9 @@ describe('Presentation mode', () => {
 describe('Headroom probe, page side', () => {
   /** A stand-in for the Worker that runs the worker's own code on the message it is sent. */
   function fakeWorkers() {
-    const made: { w: WorkerLike; terminated: boolean }[] = [];
+    const made: { w: WorkerLike; terminated: boolean; job?: HeadroomJob }[] = [];
     const factory = (): WorkerLike => {
-      const rec = { w: null as unknown as WorkerLike, terminated: false };
+      const rec = { w: null as unknown as WorkerLike, terminated: false, job: undefined as HeadroomJob | undefined };
       rec.w = {
         onmessage: null,
         onerror: null,
@@ -175,6 +175,7 @@ describe('Headroom probe, page side', () => {
           rec.terminated = true;
         },
         postMessage: (m: HeadroomJob) => {
+          rec.job = m;
           setTimeout(() => {
             const send = (r: HeadroomReply) => !rec.terminated && rec.w.onmessage?.({ data: r } as MessageEvent<HeadroomReply>);
             const result = probeHeadroom(m.system, m.channels, m.sampleRate, (passes, estimate) =>
@@ -222,6 +223,33 @@ describe('Headroom probe, page side', () => {
     expect(f[1]!.cleanSplDb).toBe(probe.state.slots.b.result!.clean_spl_db);
     expect(probe.findings(sys, {})).toBeUndefined();
     expect(probe.findings({ ...sys, a: systems().a }, track.key)).toBeUndefined();
+  });
+
+  it('searches again only the design that changed, and nothing when neither changed', async () => {
+    const { made, factory } = fakeWorkers();
+    const probe = new HeadroomProbe(factory);
+    const sys = systems();
+    probe.start(sys, track);
+    await vi.waitFor(() => expect(probe.state.status).toBe('done'), { timeout: 20_000 });
+    const first = probe.state.slots.a.result;
+    // B edited: only B runs; A keeps its finding.
+    const edited = { a: structuredClone(sys.a), b: structuredClone(sys.b) };
+    edited.b.listening.level = { mode: 'spl', splDb: 80 };
+    probe.start(edited, track);
+    expect(made.length).toBe(3);
+    expect(made[2].job?.system).toBe(edited.b);
+    await vi.waitFor(() => expect(probe.state.status).toBe('done'), { timeout: 20_000 });
+    expect(probe.state.slots.a.result).toBe(first);
+    expect(probe.state.slots.b.result).toEqual(probeHeadroom(edited.b, [tone], SR));
+    expect(probe.findings(edited, track.key)).toBeDefined();
+    // Neither changed (fresh copies of the same designs): done at once, no worker.
+    probe.start(structuredClone(edited), track);
+    expect(made.length).toBe(3);
+    expect(probe.state.status).toBe('done');
+    // Another track: both run again.
+    probe.start(edited, { ...track, key: {} });
+    expect(made.length).toBe(5);
+    probe.cancel();
   });
 
   it('cancel stops both workers and keeps nothing', () => {

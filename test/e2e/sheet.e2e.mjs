@@ -204,6 +204,27 @@ export const tests = [
       await tab(p, 'Headroom probe');
       await p.screenshot({ path: join(SHOTS, 'desktop-headroom-probe.png') });
       ctx.state.cliHeadroom = cli;
+      // B edited: only B is searched again; A keeps its finding, and B's is the CLI's on the edited file.
+      await tab(p, 'Cabinet');
+      await p.getByLabel('Net volume Vb, design B', { exact: true }).fill('30');
+      await p.locator('.menu > summary', { hasText: 'Files' }).click();
+      const [dlB] = await Promise.all([p.waitForEvent('download'), p.getByRole('menuitem', { name: 'Export design B' }).click()]);
+      const editedB = join(TMP, 'design-B-edited.json');
+      await dlB.saveAs(editedB);
+      const cliB = cliHeadroom(editedB, wav);
+      await tab(p, 'Headroom probe');
+      await p.getByTestId('probe-run').click();
+      await p.waitForFunction(
+        (old) => {
+          const t = document.querySelector('[data-testid=probe-results]');
+          return t && t.getAttribute('data-exact') !== old && !document.querySelector('[data-testid=probe-progress]');
+        },
+        exact,
+        { timeout: 60_000 },
+      );
+      const again = JSON.parse(await p.getByTestId('probe-results').getAttribute('data-exact'));
+      assert.deepEqual(again[0], cli[0], 'A keeps its finding');
+      assert.deepEqual(again[1], await cliB, 'the edited B gives the numbers of preheard headroom');
       assert.deepEqual(ctx.state.sheetErrors, []);
     },
   },

@@ -114,14 +114,33 @@ export class HeadroomProbe {
     return est > 0 ? Math.min(0.99, (s.a.passes + s.b.passes) / est) : 0;
   }
 
-  /** Searches both designs at once, one Worker each (the machine's cores work side by side). */
+  /**
+   * Searches both designs at once, one Worker each (the machine's cores work side by side). A design
+   * searched on this track before, unchanged since (after an edit of the other one), keeps its
+   * finding and is not searched again.
+   */
   start(systems: Record<Slot, SpeakerSystem>, track: ProbeTrack): void {
     this.stopWorkers();
+    const before = this.state;
+    const kept = (slot: Slot) =>
+      before.track?.key === track.key && before.systems !== null && before.slots[slot].status === 'done' && before.slots[slot].result
+        ? JSON.stringify(before.systems[slot]) === JSON.stringify(systems[slot])
+        : false;
+    const toRun = SLOTS.filter((slot) => !kept(slot));
     const run = ++this.run;
     const t0 = performance.now();
     const frames = track.channels[0]?.length ?? 0;
-    this.set({ ...initial(), status: 'running', systems, track: { name: track.name, durationS: track.durationS, frames, key: track.key } });
-    for (const slot of SLOTS) {
+    const slots = { ...initial().slots };
+    for (const slot of SLOTS) if (!toRun.includes(slot)) slots[slot] = before.slots[slot];
+    this.set({
+      ...initial(),
+      slots,
+      status: 'running',
+      systems,
+      track: { name: track.name, durationS: track.durationS, frames, key: track.key },
+    });
+    if (toRun.length === 0) this.settle(run, t0);
+    for (const slot of toRun) {
       const w = this.makeWorker();
       this.workers.push(w);
       this.setSlot(slot, { status: 'running', estimate: TYPICAL_PASSES });
