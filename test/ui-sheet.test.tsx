@@ -225,19 +225,20 @@ describe('Headroom probe, page side', () => {
     expect(probe.findings({ ...sys, a: systems().a }, track.key)).toBeUndefined();
   });
 
-  it('searches again only the design that changed, and nothing when neither changed', async () => {
+  it('searches again only the design that changed, alone on two threads where the page allows, and nothing when neither changed', async () => {
     const { made, factory } = fakeWorkers();
     const probe = new HeadroomProbe(factory);
     const sys = systems();
     probe.start(sys, track);
     await vi.waitFor(() => expect(probe.state.status).toBe('done'), { timeout: 20_000 });
     const first = probe.state.slots.a.result;
-    // B edited: only B runs; A keeps its finding.
+    // B edited: only B runs, alone, and may take a second thread; A keeps its finding.
     const edited = { a: structuredClone(sys.a), b: structuredClone(sys.b) };
     edited.b.listening.level = { mode: 'spl', splDb: 80 };
     probe.start(edited, track);
     expect(made.length).toBe(3);
     expect(made[2].job?.system).toBe(edited.b);
+    expect(made.map((m) => m.job?.threads)).toEqual([1, 1, 2]);
     await vi.waitFor(() => expect(probe.state.status).toBe('done'), { timeout: 20_000 });
     expect(probe.state.slots.a.result).toBe(first);
     expect(probe.state.slots.b.result).toEqual(probeHeadroom(edited.b, [tone], SR));

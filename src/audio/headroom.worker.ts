@@ -5,6 +5,8 @@
 // message handler is installed only inside a worker.
 import { findHeadroom } from '../engine/render/index.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
+import type { LaneHelper } from '../engine/render/lane-share.ts';
+import { startLaneHelper } from './lane-helper.ts';
 
 export interface HeadroomJob {
   type: 'headroom';
@@ -12,6 +14,8 @@ export interface HeadroomJob {
   system: SpeakerSystem;
   channels: Float32Array[];
   sampleRate: number;
+  /** 2: the search runs alone (the other design's finding was kept) and may take a second thread. */
+  threads?: number;
 }
 
 /** The same fields as `preheard headroom --json`, plus the renders it took and how far they ran. */
@@ -25,6 +29,8 @@ export interface HeadroomResult {
   renders: number;
   /** Runs through the track those renders made together (absent in findings kept by older versions). */
   passes?: number;
+  /** Threads the search ran on (absent in findings kept by older versions). */
+  threads?: number;
 }
 
 export type HeadroomReply =
@@ -50,8 +56,9 @@ export function probeHeadroom(
   channels: Float32Array[],
   sampleRate: number,
   onPasses?: (passes: number, estimate: number) => void,
+  helper?: LaneHelper,
 ): HeadroomResult {
-  const h = findHeadroom(system, channels, sampleRate, { onPasses: (passes) => onPasses?.(passes, passEstimate(passes)) });
+  const h = findHeadroom(system, channels, sampleRate, { onPasses: (passes) => onPasses?.(passes, passEstimate(passes)), helper });
   return {
     clean_volts: h.clean_volts,
     clean_spl_db: h.clean_spl_db,
@@ -63,6 +70,9 @@ export function probeHeadroom(
   };
 }
 
+/** How long a search that runs alone waits for its second thread to answer before it runs on one, ms. */
+const HELPER_START_MS = 3000;
+
 interface WorkerScope {
   postMessage(m: HeadroomReply): void;
   onmessage: ((e: MessageEvent<HeadroomJob>) => void) | null;
@@ -71,13 +81,23 @@ interface WorkerScope {
 const scope = globalThis as unknown as Partial<WorkerScope> & { WorkerGlobalScope?: unknown; document?: unknown };
 if (scope.WorkerGlobalScope !== undefined && scope.document === undefined) {
   const post = (m: HeadroomReply) => scope.postMessage!(m);
-  scope.onmessage = (e) => {
+  // A second thread, started with the worker; a search that runs alone waits for it to answer
+  // (up to HELPER_START_MS), then uses it where the page allows one.
+  const lanes = startLaneHelper();
+  scope.onmessage = async (e) => {
     const m = e.data;
     try {
       if (m?.type !== 'headroom') throw new RangeError(`unknown job type ${JSON.stringify(m?.type)}: expected "headroom"`);
-      const result = probeHeadroom(m.system, m.channels, m.sampleRate, (passes, estimate) =>
-        post({ type: 'progress', id: m.id, passes, estimate }),
+      if (m.threads === 2) await Promise.race([lanes.running, new Promise((r) => setTimeout(r, HELPER_START_MS))]);
+      const helper = m.threads === 2 ? lanes.helper() : undefined;
+      const result = probeHeadroom(
+        m.system,
+        m.channels,
+        m.sampleRate,
+        (passes, estimate) => post({ type: 'progress', id: m.id, passes, estimate }),
+        helper,
       );
+      result.threads = helper ? 2 : 1;
       post({ type: 'result', id: m.id, result });
     } catch (err) {
       post({ type: 'error', id: m?.id ?? -1, message: err instanceof Error ? err.message : String(err) });

@@ -17,7 +17,7 @@ self.onmessage = (e: MessageEvent<WorkerRequest>) => {
   const m = e.data;
   try {
     if (m.type === 'track') {
-      track = new TrackWork({ channels: m.channels, sampleRate: m.sampleRate }, laneHelper);
+      track = new TrackWork({ channels: m.channels, sampleRate: m.sampleRate }, laneHelper.helper);
       return;
     }
     if (!track) throw new RangeError('no track has been loaded into the render worker');

@@ -204,7 +204,7 @@ export const tests = [
       await tab(p, 'Headroom probe');
       await p.screenshot({ path: join(SHOTS, 'desktop-headroom-probe.png') });
       ctx.state.cliHeadroom = cli;
-      // B edited: only B is searched again; A keeps its finding, and B's is the CLI's on the edited file.
+      // B edited: only B is searched again, alone; A keeps its finding, and B's is the CLI's on the edited file.
       await tab(p, 'Cabinet');
       await p.getByLabel('Net volume Vb, design B', { exact: true }).fill('30');
       await p.locator('.menu > summary', { hasText: 'Files' }).click();
@@ -225,6 +225,10 @@ export const tests = [
       const again = JSON.parse(await p.getByTestId('probe-results').getAttribute('data-exact'));
       assert.deepEqual(again[0], cli[0], 'A keeps its finding');
       assert.deepEqual(again[1], await cliB, 'the edited B gives the numbers of preheard headroom');
+      // Searched alone, B took a second thread (src/audio/lane-helper.ts) on a machine with two cores.
+      const { isolated, cores } = await p.evaluate(() => ({ isolated: crossOriginIsolated, cores: navigator.hardwareConcurrency }));
+      assert.equal(isolated, true, 'the page is not cross-origin isolated');
+      assert.equal(await p.getByTestId('probe-results').getAttribute('data-threads'), cores > 1 ? '2' : '1');
       assert.deepEqual(ctx.state.sheetErrors, []);
     },
   },

@@ -84,6 +84,7 @@ export function HeadroomProbe() {
           <table
             class="figures probe-table"
             data-testid="probe-results"
+            data-threads={Math.max(...SLOTS.map((s) => probe.slots[s].result?.threads ?? 1))}
             data-exact={JSON.stringify(
               SLOTS.map((s) => {
                 const r = probe.slots[s].result;

@@ -165,6 +165,7 @@ export class HeadroomProbe {
         system: systems[slot],
         channels: track.channels.map((c) => c.slice()),
         sampleRate: track.sampleRate,
+        threads: toRun.length === 1 ? 2 : 1,
       });
     }
   }
