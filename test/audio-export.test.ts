@@ -75,6 +75,22 @@ describe('offline jobs', () => {
     const ex = exportStream(cal, systems.b, 'linear', '16');
     expect(ex.frames).toBe(SR);
     expect(ex.bytes.length).toBe(44 + SR * 2 * 2);
+    // Encoded while it renders: the bytes of the whole rendered stream encoded at once, in both formats.
+    for (const [mode, format] of [
+      ['linear', '16'],
+      ['nonlinear', 'f32'],
+      ['residual', '16'],
+    ] as const) {
+      const streamed = exportStream(cal, systems.b, mode, format).bytes;
+      const whole = renderBuffer(systems.b, track.channels, SR, { mode, leqPerVoltDb: cal.leqPerVoltDb(systems.b) }).audio;
+      expect(Buffer.from(streamed).equals(Buffer.from(encodeWav(whole, SR, format))), `${mode} ${format}`).toBe(true);
+    }
+    // A mono track: two bytes a frame, so most blocks start off a word boundary.
+    const mono = new TrackWork({ channels: [tone(1, 40, 0.8)], sampleRate: SR });
+    const monoWhole = renderBuffer(systems.a, mono.track.channels, SR, { leqPerVoltDb: mono.leqPerVoltDb(systems.a) }).audio;
+    expect(Buffer.from(exportStream(mono, systems.a, 'nonlinear', '16').bytes).equals(Buffer.from(encodeWav(monoWhole, SR, '16')))).toBe(
+      true,
+    );
   });
 
   it('calibrate each design once per track: levels, render and export reuse it, with the same results', () => {

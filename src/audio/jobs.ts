@@ -7,7 +7,7 @@ import { seatLeqCPerVolt } from '../engine/level/calibration.ts';
 import { InputProblem } from '../engine/issues.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
 import type { LaneHelper } from '../engine/render/lane-share.ts';
-import { encodeWav, type ExportFormat } from './wav-export.ts';
+import { wavFiller, type ExportFormat } from './wav-export.ts';
 import type { DesignSlot } from './protocol.ts';
 
 export interface TrackData {
@@ -142,7 +142,7 @@ export function renderBoth(
 
 export type ExportStream = RenderMode;
 
-/** One design's stream over the whole track, encoded as a WAV file. */
+/** One design's stream over the whole track, encoded as a WAV file while it renders (no float copy is held). */
 export function exportStream(
   work: TrackWork,
   system: SpeakerSystem,
@@ -151,11 +151,14 @@ export function exportStream(
   onProgress?: (fraction: number) => void,
 ): { bytes: Uint8Array; frames: number } {
   const track = work.track;
-  const r = renderBuffer(system, track.channels, track.sampleRate, {
+  const frames = track.channels[0]?.length ?? 0;
+  const wav = wavFiller(track.channels.length, track.sampleRate, format, frames);
+  renderBuffer(system, track.channels, track.sampleRate, {
     mode,
     onProgress,
     leqPerVoltDb: work.leqPerVoltDb(system),
     helper: work.laneHelper(),
+    onAudio: (views, at) => wav.write(views, at),
   });
-  return { bytes: encodeWav(r.audio, track.sampleRate, format), frames: r.audio[0].length };
+  return { bytes: wav.bytes, frames };
 }
