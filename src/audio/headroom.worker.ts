@@ -81,15 +81,15 @@ interface WorkerScope {
 const scope = globalThis as unknown as Partial<WorkerScope> & { WorkerGlobalScope?: unknown; document?: unknown };
 if (scope.WorkerGlobalScope !== undefined && scope.document === undefined) {
   const post = (m: HeadroomReply) => scope.postMessage!(m);
-  // A second thread, started with the worker; a search that runs alone waits for it to answer
-  // (up to HELPER_START_MS), then uses it where the page allows one.
-  const lanes = startLaneHelper();
   scope.onmessage = async (e) => {
     const m = e.data;
     try {
       if (m?.type !== 'headroom') throw new RangeError(`unknown job type ${JSON.stringify(m?.type)}: expected "headroom"`);
-      if (m.threads === 2) await Promise.race([lanes.running, new Promise((r) => setTimeout(r, HELPER_START_MS))]);
-      const helper = m.threads === 2 ? lanes.helper() : undefined;
+      // A search that runs alone starts a second thread, waits for it to answer (up to
+      // HELPER_START_MS) and uses it where the page allows one.
+      const lanes = m.threads === 2 ? startLaneHelper() : null;
+      if (lanes) await Promise.race([lanes.running, new Promise((r) => setTimeout(r, HELPER_START_MS))]);
+      const helper = lanes?.helper();
       const result = probeHeadroom(
         m.system,
         m.channels,
