@@ -12,7 +12,6 @@ import { parseDesign } from '../src/engine/design/validate.ts';
 import { passbandPaPerV } from '../src/engine/level/calibration.ts';
 import { renderBuffer } from '../src/engine/render/index.ts';
 import { readWav, writeWav } from '../src/cli/wav.ts';
-import { renderSide } from '../src/cli/compare-side.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'preheard-render-'));
 const VENTED = 'public/examples/living-room-vented.json';
@@ -67,7 +66,7 @@ describe('preheard render', () => {
     expect(ch[0].length).toBe(88200);
     expect(JSON.parse(readFileSync(events, 'utf8'))).toEqual(s.events);
   });
-  it('writes during the render exactly the file the whole rendered buffer gives, in every mode and format', async () => {
+  it("writes exactly the file the engine's whole rendered buffer gives, in every mode and format", async () => {
     const parsed = parseDesign(JSON.parse(readFileSync(VENTED, 'utf8')));
     if (!parsed.ok) throw new Error('the example does not parse');
     const source = await readWav(input);
@@ -84,20 +83,6 @@ describe('preheard render', () => {
       await writeWav(whole, result.audio, source.sampleRate, format);
       expect(Buffer.from(readFileSync(out)).equals(readFileSync(whole)), mode).toBe(true);
     }
-  });
-  it("compare's sides write their files during the render exactly as the whole rendered buffer gives them", async () => {
-    const parsed = parseDesign(JSON.parse(readFileSync(SEALED, 'utf8')));
-    if (!parsed.ok) throw new Error('the example does not parse');
-    const source = await readWav(input);
-    const level = { voltsFs: 6, paPerFs: 2.5, leqPerVoltDb: 60 };
-    const streamed = join(dir, 'side-streamed.wav'),
-      whole = join(dir, 'side-whole.wav');
-    const side = renderSide(parsed.system, source.channels, source.sampleRate, level, { path: streamed, format: '24' });
-    const result = renderBuffer(parsed.system, source.channels, source.sampleRate, level);
-    await writeWav(whole, result.audio, source.sampleRate, '24');
-    expect(Buffer.from(readFileSync(streamed)).equals(readFileSync(whole))).toBe(true);
-    expect({ ...side.summary, realtime_factor: 0 }).toEqual({ ...result.summary, realtime_factor: 0 });
-    expect(readdirSync(dir).filter((f) => f.endsWith('.tmp'))).toEqual([]);
   });
   it('twice the volts gives 6 dB more drive and more excursion; --linear and --residual are accepted', async () => {
     const a = JSON.parse((await runCli('render', SEALED, input, '-o', join(dir, 'a.wav'), '--volts', '5', '--json')).stdout);

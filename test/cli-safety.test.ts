@@ -189,6 +189,47 @@ describe('signals during the write leave nothing behind', () => {
   }
 });
 
+describe('a signal during the render', () => {
+  /** A 16-bit stereo 48 kHz WAV of a 50 Hz tone, written directly (a long file, built fast). */
+  function longWav(seconds: number): Uint8Array {
+    const frames = seconds * 48000;
+    const bytes = new Uint8Array(44 + frames * 4);
+    const v = new DataView(bytes.buffer);
+    bytes.set(new TextEncoder().encode('RIFF'), 0);
+    v.setUint32(4, 36 + frames * 4, true);
+    bytes.set(new TextEncoder().encode('WAVEfmt '), 8);
+    v.setUint32(16, 16, true);
+    v.setUint16(20, 1, true);
+    v.setUint16(22, 2, true);
+    v.setUint32(24, 48000, true);
+    v.setUint32(28, 48000 * 4, true);
+    v.setUint16(32, 4, true);
+    v.setUint16(34, 16, true);
+    bytes.set(new TextEncoder().encode('data'), 36);
+    v.setUint32(40, frames * 4, true);
+    const samples = new Int16Array(bytes.buffer, 44, frames * 2);
+    for (let k = 0; k < frames; k++) samples[2 * k] = samples[2 * k + 1] = Math.round(12000 * Math.sin((2 * Math.PI * 50 * k) / 48000));
+    return bytes;
+  }
+
+  // Rendering runs without a break, so a signal handler could only run once it ends: the output is
+  // not staged (and no handler installed) until the render is done, and Ctrl-C stops it at once.
+  it('SIGINT while the engine renders stops it at once and leaves nothing', async () => {
+    const { d, p } = folder();
+    writeFileSync(p('long.wav'), longWav(600));
+    const child = spawn(process.execPath, [...CLI, 'render', p('v.json'), p('long.wav'), '-o', p('out.wav')], { stdio: 'ignore' });
+    const exited = new Promise<[number | null, string | null]>((res) => child.on('exit', (c, s) => res([c, s])));
+    // Well into the work: 10 minutes of stereo take several seconds to render here.
+    await new Promise((r) => setTimeout(r, 3000));
+    const t0 = Date.now();
+    child.kill('SIGINT');
+    const [code, signal] = await exited;
+    expect(signal === 'SIGINT' || code === 130, `exit ${code} ${signal}`).toBe(true);
+    expect(Date.now() - t0).toBeLessThan(1500);
+    expect(readdirSync(d).filter((f) => !['v.json', 's.json', 'in.wav', 'long.wav'].includes(f))).toEqual([]);
+  }, 60_000);
+});
+
 describe('design files that never end, or cannot be read', () => {
   for (const source of ['/dev/zero', '/dev/urandom']) {
     it(`${source}: one message, no reading without limit`, () => {

@@ -7,6 +7,7 @@ import type { SpeakerSystem } from '../engine/system.ts';
 import { commonPaPerFs, laneGains } from '../engine/level/matching.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
+import { writeWav } from './wav.ts';
 import {
   checkVolts,
   INPUT_HELP,
@@ -20,7 +21,7 @@ import {
 } from './render-common.ts';
 import { planOutputs } from './output-files.ts';
 import { count, db, moment, printable, sig } from './user-text.ts';
-import { renderSide, type SideLevel, type SideOutput, type SideResult } from './compare-side.ts';
+import { renderSide, type SideLevel, type SideResult } from './compare-side.ts';
 import { sharedBuffers } from './shared-audio.ts';
 
 const HELP = `usage: preheard compare <a.json> <b.json> <in.wav> -o <prefix> [--volts V | --spl DB] [--no-match]
@@ -74,11 +75,10 @@ function sideInWorker(
   channels: Float32Array[],
   sampleRate: number,
   level: SideLevel,
-  output: SideOutput,
 ): { result: Promise<SideResult>; cancel: () => void } {
   const shared = sharedBuffers(channels);
   const w = new Worker(new URL('./compare-worker.mjs', import.meta.url), {
-    workerData: { designPath, channels: shared, sampleRate, level, output },
+    workerData: { designPath, channels: shared, sampleRate, level },
   });
   const result = new Promise<SideResult>((resolve, reject) => {
     w.once('message', (msg: { side?: SideResult; error?: string; problem?: boolean }) => {
@@ -142,6 +142,7 @@ export const compareCommand: Command = {
       const audio = await readInputAudio(inPath);
       const { channels, sampleRate } = audio;
       const sides: Side[] = [];
+      const rendered: Float32Array[][] = [];
       let matchDb = 0;
       try {
         // The two calibration passes use both cores (lane-helper.ts); the sides below do too.
@@ -163,15 +164,7 @@ export const compareCommand: Command = {
         matchDb = r2(20 * Math.log10(gains.b / gains.a));
         const long = channels[0].length > sampleRate * 30;
         // B in a worker thread on the other core while A runs here.
-        // Each side writes its file as it renders, under the staging names: both are put in place
-        // together below, only when both designs rendered.
-        const sideB = sideInWorker(
-          bPath,
-          channels,
-          sampleRate,
-          { voltsFs: vb, paPerFs: paB, leqPerVoltDb: lb.leqPerVoltDb },
-          { path: outputs.staging(outB), format: audio.format },
-        );
+        const sideB = sideInWorker(bPath, channels, sampleRate, { voltsFs: vb, paPerFs: paB, leqPerVoltDb: lb.leqPerVoltDb });
         const progress = progressCounter('finding headroom a', 'render');
         let sideA: SideResult;
         try {
@@ -180,7 +173,6 @@ export const compareCommand: Command = {
             channels,
             sampleRate,
             { voltsFs: va, paPerFs: paA, leqPerVoltDb: la.leqPerVoltDb },
-            { path: outputs.staging(outA), format: audio.format },
             { render: long ? progressBar('rendering a') : undefined, headroomTick: progress?.tick },
           );
         } catch (e) {
@@ -193,13 +185,16 @@ export const compareCommand: Command = {
           [A, sideA],
           [B, b],
         ] as const) {
+          rendered.push(side.audio);
           sides.push({ name: d.system.name, summary: side.summary, ...bassRelative(d.system), headroom: side.headroom });
         }
       } catch (e) {
         if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
-      // Both files are in place only now, together.
+      // Both files are written only when both designs rendered, and put in place together.
+      await writeWav(outputs.staging(outA), rendered[0], sampleRate, audio.format);
+      await writeWav(outputs.staging(outB), rendered[1], sampleRate, audio.format);
       outputs.commit();
       const [a, b] = sides;
       if (values.json) {

@@ -3,7 +3,7 @@ import { InputProblem } from '../engine/issues.ts';
 import { renderBuffer, renderWarnings, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
-import { WavFileWriter, writeTextAtomic, type WavFormat } from './wav.ts';
+import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
 import {
   checkVolts,
   INPUT_HELP,
@@ -117,36 +117,23 @@ export const renderCommand: Command = {
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
-      const format = (values.format as WavFormat | undefined) ?? audio.format;
       let result: ReturnType<typeof renderBuffer>;
-      let wav: WavFileWriter | null = null;
       try {
         const { volts, leqPerVoltDb } = resolveVolts(system, audio.channels, audio.sampleRate, { ...level, helper });
         checkVolts(volts, system);
-        // The file is written while the render runs (in the time the calling thread would wait on
-        // the helper), and no copy of the output is held.
-        const out = new WavFileWriter(
-          outputs.staging(values.output),
-          audio.channels.length,
-          audio.sampleRate,
-          format,
-          audio.channels[0].length,
-        );
-        wav = out;
         result = renderBuffer(system, audio.channels, audio.sampleRate, {
           voltsFs: volts,
           leqPerVoltDb,
           helper,
           mode: values.linear ? 'linear' : values.residual ? 'residual' : 'nonlinear',
           onProgress: audio.channels[0].length > audio.sampleRate * 30 ? progressBar('rendering') : undefined,
-          onAudio: (frames) => out.write(frames),
         });
-        out.finish();
       } catch (e) {
-        wav?.abort();
         if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
+      const format = (values.format as WavFormat | undefined) ?? audio.format;
+      await writeWav(outputs.staging(values.output), result.audio, audio.sampleRate, format);
       if (values.events) await writeTextAtomic(outputs.staging(values.events), `${JSON.stringify(result.summary.events, null, 2)}\n`);
       outputs.commit();
       if (values.json) process.stdout.write(`${JSON.stringify({ ...result.summary, warnings: renderWarnings(result.summary) })}\n`);
