@@ -66,7 +66,7 @@ describe('preheard render', () => {
     expect(ch[0].length).toBe(88200);
     expect(JSON.parse(readFileSync(events, 'utf8'))).toEqual(s.events);
   });
-  it("writes exactly the file the engine's whole rendered buffer gives, in every mode and format", async () => {
+  it('writes during the render exactly the file the whole rendered buffer gives, in every mode and format', async () => {
     const parsed = parseDesign(JSON.parse(readFileSync(VENTED, 'utf8')));
     if (!parsed.ok) throw new Error('the example does not parse');
     const source = await readWav(input);

@@ -9,7 +9,14 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDesign } from '../src/engine/design/validate.ts';
 import { synthesizeDemoTrack } from '../src/engine/demo/track.ts';
-import { createRenderer, findHeadroom, renderBuffer, type LaneJob, type RenderBufferOptions } from '../src/engine/render/index.ts';
+import {
+  createRenderer,
+  findHeadroom,
+  renderBuffer,
+  startRender,
+  type LaneJob,
+  type RenderBufferOptions,
+} from '../src/engine/render/index.ts';
 import { seatLeqCPerVolt } from '../src/engine/level/calibration.ts';
 import type { SpeakerSystem } from '../src/engine/system.ts';
 import { laneThread } from '../src/cli/lane-helper.ts';
@@ -105,6 +112,25 @@ describe('two threads render bit for bit as one', () => {
     expect(odd.two).toEqual(odd.one);
     const low = both(sys, stereo, { splDb: 100, driverRate: 'reduced' });
     expect(low.two).toEqual(low.one);
+  });
+
+  it('a render taken a few blocks at a time (startRender, as the CLI drives it), on one or two threads, and stopped at its first event', () => {
+    const stepped = (sys: SpeakerSystem, opt: RenderBufferOptions, blocks: number) => {
+      const run = startRender(sys, stereo, fs, opt);
+      let steps = 0;
+      while (run.step(blocks)) steps++;
+      return { r: fingerprint(run.finish()), steps };
+    };
+    const vented = load('living-room-vented.json');
+    const whole = fingerprint(renderBuffer(vented, stereo, fs, { splDb: 100, blockFrames: 1000, extraStreams: true }));
+    for (const threads of [undefined, helper]) {
+      const { r, steps } = stepped(vented, { splDb: 100, blockFrames: 1000, extraStreams: true, helper: threads }, 3);
+      expect(steps).toBeGreaterThan(40);
+      expect(r).toEqual(whole);
+    }
+    const sub = load('garage-subwoofer-bandpass.json');
+    const stopOpt = { splDb: 110, analysisOnly: true, stopAtFirstEvent: true };
+    expect(stepped(sub, { ...stopOpt, helper }, 1).r).toEqual(fingerprint(renderBuffer(sub, stereo, fs, stopOpt)));
   });
 
   it('a headroom search finds the same level with a helper', () => {

@@ -1,9 +1,9 @@
 // preheard render: a WAV file through a design's large-signal model, at a calibrated level.
 import { InputProblem } from '../engine/issues.ts';
-import { renderBuffer, renderWarnings, resolveVolts, type RenderSummary } from '../engine/render/index.ts';
+import { renderWarnings, resolveVolts, startRender, type RenderResult, type RenderSummary } from '../engine/render/index.ts';
 import { EXIT_OK, InputError, parseCommandArgs, runGuarded, UsageError, type Command } from './command.ts';
 import { formatIssue, loadDesignFile } from './design-file.ts';
-import { writeTextAtomic, writeWav, type WavFormat } from './wav.ts';
+import { WavFileWriter, writeTextAtomic, type WavFormat } from './wav.ts';
 import {
   checkVolts,
   INPUT_HELP,
@@ -84,6 +84,9 @@ export function summaryLines(s: RenderSummary): string[] {
   return lines;
 }
 
+/** Blocks (of 4096 frames) the render runs between two turns of the event loop: about 20 ms here. */
+const STEP_BLOCKS = 16;
+
 export const renderCommand: Command = {
   name: 'render',
   summary: 'play an audio file through a design at a calibrated level',
@@ -117,23 +120,40 @@ export const renderCommand: Command = {
       const { system, warnings } = await loadDesignFile(designPath);
       for (const w of warnings) process.stderr.write(`${formatIssue(w)}\n`);
       const audio = await readInputAudio(inPath);
-      let result: ReturnType<typeof renderBuffer>;
+      const format = (values.format as WavFormat | undefined) ?? audio.format;
+      let result: RenderResult;
+      let wav: WavFileWriter | null = null;
       try {
         const { volts, leqPerVoltDb } = resolveVolts(system, audio.channels, audio.sampleRate, { ...level, helper });
         checkVolts(volts, system);
-        result = renderBuffer(system, audio.channels, audio.sampleRate, {
+        // The file is written while the render runs (no copy of the output is held). Staging it arms
+        // the Ctrl-C guard (output-files.ts), whose handler runs only between tasks: the render
+        // gives the event loop a turn every STEP_BLOCKS blocks, so Ctrl-C stops it there and the
+        // staged file is removed.
+        const out = new WavFileWriter(
+          outputs.staging(values.output),
+          audio.channels.length,
+          audio.sampleRate,
+          format,
+          audio.channels[0].length,
+        );
+        wav = out;
+        const run = startRender(system, audio.channels, audio.sampleRate, {
           voltsFs: volts,
           leqPerVoltDb,
           helper,
           mode: values.linear ? 'linear' : values.residual ? 'residual' : 'nonlinear',
           onProgress: audio.channels[0].length > audio.sampleRate * 30 ? progressBar('rendering') : undefined,
+          onAudio: (frames) => out.write(frames),
         });
+        while (run.step(STEP_BLOCKS)) await new Promise((turn) => setImmediate(turn));
+        result = run.finish();
+        out.finish();
       } catch (e) {
+        wav?.abort();
         if (e instanceof InputProblem) throw new InputError(`${inPath}: ${e.message}`);
         throw e;
       }
-      const format = (values.format as WavFormat | undefined) ?? audio.format;
-      await writeWav(outputs.staging(values.output), result.audio, audio.sampleRate, format);
       if (values.events) await writeTextAtomic(outputs.staging(values.events), `${JSON.stringify(result.summary.events, null, 2)}\n`);
       outputs.commit();
       if (values.json) process.stdout.write(`${JSON.stringify({ ...result.summary, warnings: renderWarnings(result.summary) })}\n`);

@@ -178,12 +178,35 @@ export function resolveVolts(
 /** Chunks the helper thread may run ahead of the calling one (64 x 256 frames). */
 const HELPER_CHUNKS_AHEAD = 64;
 
+/** A whole-buffer render taken a few blocks at a time (startRender), so its caller can yield between. */
+export interface RenderRun {
+  /** Renders up to `blocks` more blocks; false once the render has ended (or stopped at its first event). */
+  step(blocks: number): boolean;
+  /** The result, once step() has returned false (or to end early: the frames so far). */
+  finish(): RenderResult;
+}
+
 export function renderBuffer(
   sys: SpeakerSystem,
   channels: ArrayLike<number>[],
   sampleRate: number,
   opt: RenderBufferOptions = {},
 ): RenderResult {
+  const run = startRender(sys, channels, sampleRate, opt);
+  while (run.step(Number.POSITIVE_INFINITY));
+  return run.finish();
+}
+
+/**
+ * renderBuffer in steps. The CLI gives the event loop a turn between steps, so Ctrl-C is handled
+ * while it writes its file during the render (output-files.ts).
+ */
+export function startRender(
+  sys: SpeakerSystem,
+  channels: ArrayLike<number>[],
+  sampleRate: number,
+  opt: RenderBufferOptions = {},
+): RenderRun {
   const nCh = channels.length;
   const frames = channels[0]?.length ?? 0;
   if (nCh === 0 || frames === 0) throw new InputProblem('the audio is empty');
@@ -232,56 +255,90 @@ export function renderBuffer(
     });
   }
   let ran = 0;
-  try {
-    forEachBlock(channels, frames, total, block, inB, (views, s, n) => {
-      r.process(views, outB, n, extra);
-      ran = Math.min(frames, s + n);
-      if (opt.stopAtFirstEvent && r.events.count > 0) return false;
-      // Drop the first `lat` output frames: the result is aligned with the input.
-      const j0 = Math.max(0, lat - s),
-        j1 = Math.min(n, frames + lat - s);
-      if (opt.onAudio && !opt.analysisOnly && j1 > j0)
-        opt.onAudio(
-          outB.map((b) => b.subarray(j0, j1)),
-          s + j0 - lat,
-        );
-      if (keep && j1 > j0) {
-        for (let c = 0; c < nCh; c++) {
-          audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
-          if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
-          if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
-        }
+  const runBlock = (views: ArrayLike<number>[], s: number, n: number): boolean => {
+    r.process(views, outB, n, extra);
+    ran = Math.min(frames, s + n);
+    if (opt.stopAtFirstEvent && r.events.count > 0) return false;
+    // Drop the first `lat` output frames: the result is aligned with the input.
+    const j0 = Math.max(0, lat - s),
+      j1 = Math.min(n, frames + lat - s);
+    if (opt.onAudio && !opt.analysisOnly && j1 > j0)
+      opt.onAudio(
+        outB.map((b) => b.subarray(j0, j1)),
+        s + j0 - lat,
+      );
+    if (keep && j1 > j0) {
+      for (let c = 0; c < nCh; c++) {
+        audio[c].set(outB[c].subarray(j0, j1), s + j0 - lat);
+        if (linear) linear[c].set(linB[c].subarray(j0, j1), s + j0 - lat);
+        if (residual) residual[c].set(resB[c].subarray(j0, j1), s + j0 - lat);
       }
-      if (opt.onProgress && s - lastReport > sampleRate * 5) {
-        lastReport = s;
-        opt.onProgress(s / total);
-      }
-      return true;
-    });
-  } finally {
-    ring?.stop();
-  }
-  opt.onProgress?.(1);
-  const seconds = (clock() - t0) / 1000;
-  const st = r.getStats();
-  const duration = frames / sampleRate;
-  const ways = st.ways.map((w) => waySummary(w, sampleRate));
-  const { name: _first, ...bass } = ways[0];
-  const summary: RenderSummary = {
-    duration_s: r3(duration),
-    sample_rate: sampleRate,
-    volts_fs: r3(volts),
-    spl_db: Number(spl.toFixed(2)),
-    pa_per_fs: Number(r.paPerFs.toPrecision(6)),
-    ...bass,
-    limiter_db: r3(st.limiterDb),
-    output_compression_db: r3(st.outputCompressionDb),
-    output_distortion_db: Number.isFinite(st.outputDistortionDb) ? Number(st.outputDistortionDb.toFixed(2)) : null,
-    events: r.events.list(1 / sampleRate),
-    realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
-    ways,
+    }
+    if (opt.onProgress && s - lastReport > sampleRate * 5) {
+      lastReport = s;
+      opt.onProgress(s / total);
+    }
+    return true;
   };
-  return { framesRun: ran, audio, linear, residual, summary, traces: r.traces() };
+  // Where the next step starts (a multiple of the block), and whether the render has ended.
+  let next = 0,
+    ended = false;
+  const step = (blocks: number): boolean => {
+    if (ended) return false;
+    let left = blocks,
+      paused = false;
+    try {
+      forEachBlock(
+        channels,
+        frames,
+        total,
+        block,
+        inB,
+        (views, s, n) => {
+          next = s + n;
+          if (!runBlock(views, s, n)) return false;
+          if (--left > 0 || next >= total) return true;
+          paused = true;
+          return false;
+        },
+        undefined,
+        next,
+      );
+    } catch (e) {
+      ended = true;
+      ring?.stop();
+      throw e;
+    }
+    if (!paused) ended = true;
+    return !ended;
+  };
+  return { step, finish: () => finish() };
+
+  function finish(): RenderResult {
+    ended = true;
+    ring?.stop();
+    opt.onProgress?.(1);
+    const seconds = (clock() - t0) / 1000;
+    const st = r.getStats();
+    const duration = frames / sampleRate;
+    const ways = st.ways.map((w) => waySummary(w, sampleRate));
+    const { name: _first, ...bass } = ways[0];
+    const summary: RenderSummary = {
+      duration_s: r3(duration),
+      sample_rate: sampleRate,
+      volts_fs: r3(volts),
+      spl_db: Number(spl.toFixed(2)),
+      pa_per_fs: Number(r.paPerFs.toPrecision(6)),
+      ...bass,
+      limiter_db: r3(st.limiterDb),
+      output_compression_db: r3(st.outputCompressionDb),
+      output_distortion_db: Number.isFinite(st.outputDistortionDb) ? Number(st.outputDistortionDb.toFixed(2)) : null,
+      events: r.events.list(1 / sampleRate),
+      realtime_factor: seconds > 0 ? Number((duration / seconds).toFixed(1)) : Infinity,
+      ways,
+    };
+    return { framesRun: ran, audio, linear, residual, summary, traces: r.traces() };
+  }
 }
 
 /** A render that clips its amplifier for more than this fraction of the track is warned about. */

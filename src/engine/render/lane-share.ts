@@ -236,7 +236,7 @@ export class LaneSlots {
 /**
  * Whole-buffer input block by block, as a renderer takes it: views into the channels where the block
  * lies inside them, zero-padded copies (in `scratch`) past their end; only the channels `reads`
- * marks (default: all). `each` returns false to stop.
+ * marks (default: all); from frame `from` on (a multiple of `block`). `each` returns false to stop.
  */
 export function forEachBlock(
   channels: ArrayLike<number>[],
@@ -246,10 +246,11 @@ export function forEachBlock(
   scratch: Float32Array[],
   each: (views: ArrayLike<number>[], s: number, n: number) => boolean,
   reads?: readonly boolean[],
+  from = 0,
 ): void {
   const nCh = channels.length;
   const views: ArrayLike<number>[] = new Array(nCh).fill(scratch[0]);
-  for (let s = 0; s < total; s += block) {
+  for (let s = from; s < total; s += block) {
     const n = Math.min(block, total - s);
     for (let c = 0; c < nCh; c++) {
       if (reads && !reads[c]) continue;
