@@ -7,6 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import wavefile from 'wavefile';
 import { STAGING_PREFIX } from '../src/cli/output-files.ts';
+import { wavHeader } from '../src/wav/encode.ts';
 import { MAX_LISTED, printable } from '../src/cli/user-text.ts';
 
 const CLI = ['src/cli/preheard.mjs'];
@@ -194,19 +195,7 @@ describe('a signal during the render', () => {
   function longWav(seconds: number): Uint8Array {
     const frames = seconds * 48000;
     const bytes = new Uint8Array(44 + frames * 4);
-    const v = new DataView(bytes.buffer);
-    bytes.set(new TextEncoder().encode('RIFF'), 0);
-    v.setUint32(4, 36 + frames * 4, true);
-    bytes.set(new TextEncoder().encode('WAVEfmt '), 8);
-    v.setUint32(16, 16, true);
-    v.setUint16(20, 1, true);
-    v.setUint16(22, 2, true);
-    v.setUint32(24, 48000, true);
-    v.setUint32(28, 48000 * 4, true);
-    v.setUint16(32, 4, true);
-    v.setUint16(34, 16, true);
-    bytes.set(new TextEncoder().encode('data'), 36);
-    v.setUint32(40, frames * 4, true);
+    bytes.set(wavHeader(2, 48000, '16', frames), 0);
     const samples = new Int16Array(bytes.buffer, 44, frames * 2);
     for (let k = 0; k < frames; k++) samples[2 * k] = samples[2 * k + 1] = Math.round(12000 * Math.sin((2 * Math.PI * 50 * k) / 48000));
     return bytes;

@@ -243,6 +243,8 @@ describe('Headroom probe, page side', () => {
     expect(probe.state.slots.a.result).toBe(first);
     expect(probe.state.slots.b.result).toEqual(probeHeadroom(edited.b, [tone], SR));
     expect(probe.findings(edited, track.key)).toBeDefined();
+    const done = probe.state.slots.b;
+    const keptTrack = probe.state.track!;
     // Neither changed (fresh copies of the same designs): done at once, no worker.
     probe.start(structuredClone(edited), track);
     expect(made.length).toBe(3);
@@ -250,6 +252,11 @@ describe('Headroom probe, page side', () => {
     // Another track: both run again.
     probe.start(edited, { ...track, key: {} });
     expect(made.length).toBe(5);
+    probe.cancel();
+    // Findings kept from an earlier visit (perhaps of an older app) are searched again when asked.
+    probe.state = { ...probe.state, status: 'done', slots: { a: done, b: done }, systems: edited, track: { ...keptTrack }, restored: true };
+    probe.start(edited, track);
+    expect(made.length).toBe(7);
     probe.cancel();
   });
 

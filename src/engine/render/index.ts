@@ -93,8 +93,8 @@ export interface RenderBufferOptions extends LevelRequest {
   analysisOnly?: boolean;
   /**
    * Where the rendered audio goes as it is made, instead of into the result (whose `audio` is then
-   * empty): each call hands views of the next frames, from output frame `at` on (the CLI writes its
-   * file during the render, and holds no copy of the output).
+   * empty, and no side streams are kept): each call hands views of the next frames, from output
+   * frame `at` on (the CLI writes its file during the render, and holds no copy of the output).
    */
   onAudio?: (frames: Float32Array[], at: number) => void;
   /**
@@ -312,7 +312,7 @@ export function startRender(
     if (!paused) ended = true;
     return !ended;
   };
-  return { step, finish: () => finish() };
+  return { step, finish };
 
   function finish(): RenderResult {
     ended = true;

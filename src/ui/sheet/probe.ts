@@ -122,8 +122,13 @@ export class HeadroomProbe {
   start(systems: Record<Slot, SpeakerSystem>, track: ProbeTrack): void {
     this.stopWorkers();
     const before = this.state;
+    // Only findings of this visit: kept ones may come from an older version of the app.
     const kept = (slot: Slot) =>
-      before.track?.key === track.key && before.systems !== null && before.slots[slot].status === 'done' && before.slots[slot].result
+      !before.restored &&
+      before.track?.key === track.key &&
+      before.systems !== null &&
+      before.slots[slot].status === 'done' &&
+      before.slots[slot].result
         ? JSON.stringify(before.systems[slot]) === JSON.stringify(systems[slot])
         : false;
     const toRun = SLOTS.filter((slot) => !kept(slot));
