@@ -3,6 +3,7 @@
 // TypeScript types are inferred from these schemas (document.ts), so there is one definition.
 import * as v from 'valibot';
 import { MAX_RESPONSE_POINTS } from '../fir/response-table.ts';
+import { MAX_COEFFICIENTS } from '../sim/nonlinear.ts';
 
 export const DESIGN_FORMAT = 'preheard-design';
 export const DESIGN_VERSION = 2;
@@ -24,7 +25,7 @@ export function num(min: number, max: number, unit = '') {
 export const int = (min: number, max: number) => v.pipe(num(min, max), v.integer(`must be a whole number from ${min} to ${max}`));
 const coefficients = v.pipe(
   v.array(num(-10, 10, 'per mm^k'), 'must be an array of numbers [c1, c2, ...]'),
-  v.maxLength(8, 'must have at most 8 coefficients'),
+  v.maxLength(MAX_COEFFICIENTS, `must have at most ${MAX_COEFFICIENTS} coefficients`),
 );
 const text = (max: number) => v.pipe(v.string('must be a text'), v.maxLength(max, `must be at most ${max} characters`));
 

@@ -16,6 +16,8 @@ export const LE_AT_XMAX = 0.75;
 export const BL_FLOOR = 0.15;
 export const KMS_FLOOR = 0.25;
 export const LE_FLOOR = 0.2;
+/** The most coefficients a polynomial may have after its constant 1 (the model unrolls its Horner loops to this). */
+export const MAX_COEFFICIENTS = 8;
 
 export interface FittedNonlinear {
   blRelPerMm: number[];
@@ -93,5 +95,6 @@ export function effectiveNonlinear(d: Driver): FittedNonlinear {
 export function toPerMetre(rel: number[]): Float64Array {
   const c = [1, ...rel.map((v, k) => v * Math.pow(1000, k + 1))];
   while (c.length > 1 && c[c.length - 1] === 0) c.pop();
+  if (c.length > MAX_COEFFICIENTS + 1) throw new Error(`a large-signal polynomial has more than ${MAX_COEFFICIENTS} coefficients`);
   return Float64Array.from(c);
 }
