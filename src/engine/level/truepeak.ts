@@ -7,7 +7,7 @@
 import { besselI0 } from '../filters/kaiser.ts';
 import { keepShape } from '../keep-shape.ts';
 
-const PHASES = 4;
+const PHASES = 4; // the peak estimate in processFrame runs phases 1 to 3 by hand
 const TAPS = 12; // per phase
 const HALF = TAPS / 2;
 
@@ -53,6 +53,8 @@ export class TruePeakGuard {
   private frame = 0;
   private loudCount = 0;
   private readonly loudRing: Uint8Array;
+  /** Where the next frame's loudness goes in loudRing (frame index modulo TAPS). */
+  private loudPos = 0;
   /** Smallest gain applied so far (1 = never acted). */
   minGain = 1;
   /** Frames during which the gain was below 1. */
@@ -86,6 +88,7 @@ export class TruePeakGuard {
     this.frame = 0;
     this.loudCount = 0;
     this.loudRing.fill(0);
+    this.loudPos = 0;
     this.minGain = 1;
     this.activeFrames = 0;
   }
@@ -106,9 +109,10 @@ export class TruePeakGuard {
       h[p + len] = x;
       if (x > 0.5 || x < -0.5) loud = 1;
     }
-    const lr = this.frame % TAPS;
+    const lr = this.loudPos;
     this.loudCount += loud - this.loudRing[lr];
     this.loudRing[lr] = loud;
+    this.loudPos = lr + 1 === TAPS ? 0 : lr + 1;
     // Peak estimate of the frame HALF-1 back (window hist[p .. p+TAPS-1] holds the newest TAPS frames).
     let peak = 0;
     if (this.loudCount > 0) {
@@ -117,25 +121,46 @@ export class TruePeakGuard {
         const s0 = h[p + HALF - 1];
         const a0 = s0 < 0 ? -s0 : s0;
         if (a0 > peak) peak = a0;
-        for (let ph = 1; ph < PHASES; ph++) {
-          let acc = 0;
-          const o = ph * TAPS;
-          // Taps run from newest (k = 0 -> offset -(HALF-1)) to oldest.
-          for (let k = 0; k < TAPS; k++) acc += TAP_TABLE[o + k] * h[p + k];
-          const a = acc < 0 ? -acc : acc;
-          if (a > peak) peak = a;
+        // Phases 1 to 3 side by side: three sums that do not wait on each other (one after the
+        // other, each tap waited for the last add; a loud frame took three times as long). Each is
+        // still added tap by tap, newest (k = 0 -> offset -(HALF-1)) to oldest.
+        let acc1 = 0,
+          acc2 = 0,
+          acc3 = 0;
+        for (let k = 0; k < TAPS; k++) {
+          const v = h[p + k];
+          acc1 += TAP_TABLE[TAPS + k] * v;
+          acc2 += TAP_TABLE[2 * TAPS + k] * v;
+          acc3 += TAP_TABLE[3 * TAPS + k] * v;
         }
+        const a1 = acc1 < 0 ? -acc1 : acc1,
+          a2 = acc2 < 0 ? -acc2 : acc2,
+          a3 = acc3 < 0 ? -acc3 : acc3;
+        if (a1 > peak) peak = a1;
+        if (a2 > peak) peak = a2;
+        if (a3 > peak) peak = a3;
       }
     }
     const need = peak > this.ceiling ? this.ceiling / peak : 1;
     // Running minimum over the last lookahead+2 needs: covers both output frames around each peak.
+    // The deque's indices step around a ring of `cap` entries (a compare, not a remainder: an
+    // integer division per step was a large part of a loud frame's cost).
     const f = this.frame;
     const cap = this.dqVal.length;
-    while (this.dqTail !== this.dqHead && this.dqVal[(this.dqTail - 1 + cap) % cap] >= need) this.dqTail = (this.dqTail - 1 + cap) % cap;
-    this.dqVal[this.dqTail] = need;
-    this.dqIdx[this.dqTail] = f;
-    this.dqTail = (this.dqTail + 1) % cap;
-    while (this.dqIdx[this.dqHead] < f - this.lookahead - 1) this.dqHead = (this.dqHead + 1) % cap;
+    let tail = this.dqTail,
+      head = this.dqHead;
+    for (;;) {
+      if (tail === head) break;
+      const last = tail === 0 ? cap - 1 : tail - 1;
+      if (this.dqVal[last] < need) break;
+      tail = last;
+    }
+    this.dqVal[tail] = need;
+    this.dqIdx[tail] = f;
+    tail = tail + 1 === cap ? 0 : tail + 1;
+    while (this.dqIdx[head] < f - this.lookahead - 1) head = head + 1 === cap ? 0 : head + 1;
+    this.dqTail = tail;
+    this.dqHead = head;
     const hmin = this.dqVal[this.dqHead];
     this.rel = hmin < this.rel ? hmin : this.rel + this.release * (hmin - this.rel);
     this.avgSum += this.rel - this.avg[this.avgPos];
@@ -219,6 +244,7 @@ export class TruePeakGuard {
     this.dqIdx[0] = f;
     this.frame = f + 1;
     this.loudRing.fill(0);
+    this.loudPos = this.frame % TAPS;
   }
 
   /** Largest gain reduction so far, dB (>= 0). */
