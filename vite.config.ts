@@ -50,7 +50,9 @@ function bundledWorkletInDev(): Plugin {
 function contentSecurityPolicy(dev: boolean): string {
   return [
     "default-src 'self'",
-    "script-src 'self' blob:",
+    // WebAssembly may be compiled (the engine's two-lane model loop, sim/woofer-pair.ts); eval and
+    // new Function stay refused.
+    "script-src 'self' blob: 'wasm-unsafe-eval'",
     "worker-src 'self' blob:",
     "style-src 'self' 'unsafe-inline'",
     "img-src 'self' data: blob:",

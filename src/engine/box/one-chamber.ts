@@ -21,6 +21,18 @@ export function oneChamberAcoustics(vb: number, ral: number, air: Air, w: number
 const TH = 0.5;
 const TT = TH * TH;
 
+/**
+ * A chamber the two-lane model loop (sim/woofer-pair.ts) can run: its kind there (0 closed, 1
+ * ported), its constants [cabH, g, cab, gOverCab, mapH, invMap, portLoss] and its state
+ * [pb, q, f4, f5, d5, p0, p1], each written to or read from `at + 2·j + lane` of an array.
+ */
+export interface PairedChamber {
+  readonly pairKind: 0 | 1;
+  writePairConstants(to: Float64Array, at: number, lane: number): void;
+  writePairState(to: Float64Array, at: number, lane: number): void;
+  readPairState(from: Float64Array, at: number, lane: number): void;
+}
+
 /** The chamber's own state and rows; subclasses add the outlet. */
 export abstract class OneChamber implements Chamber {
   abstract readonly states: number;
@@ -67,6 +79,14 @@ export abstract class OneChamber implements Chamber {
     return 0;
   }
 
+  /** The chamber's own constants for the two-lane loop: cabH, g, cab, gOverCab (see PairedChamber). */
+  protected writeChamberConstants(to: Float64Array, at: number, lane: number): void {
+    to[at + lane] = this.cabH;
+    to[at + 2 + lane] = this.g;
+    to[at + 4 + lane] = this.cab;
+    to[at + 6 + lane] = this.gOverCab;
+  }
+
   abstract prepare(): void;
   abstract advance(dv: number): void;
   abstract evaluate(v: number, dU: number): number;
@@ -99,8 +119,30 @@ const scalePoly = (p: number[], k: number) => p.map((x) => x * k);
 const polyTimesS = (p: number[]) => [0, ...p];
 
 /** A closed box: the chamber alone. */
-export class ClosedChamber extends OneChamber {
+export class ClosedChamber extends OneChamber implements PairedChamber {
   readonly states = 1;
+  readonly pairKind = 0;
+
+  writePairConstants(to: Float64Array, at: number, lane: number): void {
+    this.writeChamberConstants(to, at, lane);
+    to[at + 8 + lane] = to[at + 10 + lane] = to[at + 12 + lane] = 0;
+  }
+
+  writePairState(to: Float64Array, at: number, lane: number): void {
+    to[at + lane] = this.pb;
+    to[at + 2 + lane] = 0;
+    to[at + 4 + lane] = this.f4;
+    to[at + 6 + lane] = to[at + 8 + lane] = 0;
+    to[at + 10 + lane] = this.p0;
+    to[at + 12 + lane] = this.p1;
+  }
+
+  readPairState(from: Float64Array, at: number, lane: number): void {
+    this.pb = from[at + lane];
+    this.f4 = from[at + 4 + lane];
+    this.p0 = from[at + 10 + lane];
+    this.p1 = from[at + 12 + lane];
+  }
 
   prepare(): void {
     const d4 = this.cabH + TH * this.g;
@@ -123,8 +165,9 @@ export class ClosedChamber extends OneChamber {
 }
 
 /** A ported box: Map·Up' = pb - ½·rho·K·u·|u| with u = Up/Sv (port compression). */
-export class PortedChamber extends OneChamber {
+export class PortedChamber extends OneChamber implements PairedChamber {
   readonly states = 2;
+  readonly pairKind = 1;
   q = 0;
   private f5 = 0;
   private d5 = 0;
@@ -182,6 +225,33 @@ export class PortedChamber extends OneChamber {
 
   override probe(): number {
     return this.q;
+  }
+
+  writePairConstants(to: Float64Array, at: number, lane: number): void {
+    this.writeChamberConstants(to, at, lane);
+    to[at + 8 + lane] = this.mapH;
+    to[at + 10 + lane] = this.invMap;
+    to[at + 12 + lane] = this.portLoss;
+  }
+
+  writePairState(to: Float64Array, at: number, lane: number): void {
+    to[at + lane] = this.pb;
+    to[at + 2 + lane] = this.q;
+    to[at + 4 + lane] = this.f4;
+    to[at + 6 + lane] = this.f5;
+    to[at + 8 + lane] = this.d5;
+    to[at + 10 + lane] = this.p0;
+    to[at + 12 + lane] = this.p1;
+  }
+
+  readPairState(from: Float64Array, at: number, lane: number): void {
+    this.pb = from[at + lane];
+    this.q = from[at + 2 + lane];
+    this.f4 = from[at + 4 + lane];
+    this.f5 = from[at + 6 + lane];
+    this.d5 = from[at + 8 + lane];
+    this.p0 = from[at + 10 + lane];
+    this.p1 = from[at + 12 + lane];
   }
 
   override linearRows(t: LinearRowsTarget): void {

@@ -239,8 +239,8 @@ export function startRender(
   const plan = opt.helper ? r.helperPlan() : null;
   const ring = plan && plan.doubles > 0 ? new SlotRing(plan.doubles, HELPER_CHUNKS_AHEAD) : null;
   if (ring && plan) {
-    const lanes = plan.lanes;
-    r.shareLanes('main', ring, lanes);
+    const { lanes, twinsOnHelper } = plan;
+    r.shareLanes('main', ring, lanes, twinsOnHelper);
     opt.helper!({
       kind: 'render',
       system: sys,
@@ -250,6 +250,7 @@ export function startRender(
       ring: ring.buffers,
       renderer: rendererOptions,
       lanes,
+      twinsOnHelper,
       total,
       block,
     });

@@ -20,7 +20,7 @@ export function runLaneJob(job: LaneJob): void {
 
 function runRenderLanes(job: RenderLaneJob, ring: SlotRing): void {
   const r = createRenderer(job.system, job.renderer);
-  r.shareLanes('helper', ring, job.lanes);
+  r.shareLanes('helper', ring, job.lanes, job.twinsOnHelper);
   const reads = r.helperPlan(job.lanes).reads;
   const scratch = job.channels.map(() => new Float32Array(job.block));
   forEachBlock(

@@ -43,6 +43,8 @@ export interface RenderLaneJob extends LaneJobBase {
   renderer: HelperRendererOptions;
   /** lanes[k][w]: the helper runs lane w of way k (assignLanes). */
   lanes: boolean[][];
+  /** The helper runs its lanes' linear twins too (twinsOnHelper); else the calling thread does. */
+  twinsOnHelper: boolean;
   /** Frames fed in all (the input and the latency's zeros after it) and per block. */
   total: number;
   block: number;
@@ -89,18 +91,20 @@ const DRIVER_DOUBLES = DRIVER_ARRAYS * CHUNK + 2;
 
 /**
  * The work of one lane per frame, in driver lanes with an active filter (CPU profile of the vented
- * example's render: the cone model, its twin, filter and clipping 1.5 s per lane for 5 minutes of
- * stereo, a flat way's lane 0.08 s, the sums, meters and guard 0.57 s per channel and the file's
- * decoding and encoding 0.29 s per channel, which stay on the calling thread). A passive network
- * and a measured response add their circuit and convolution (estimates).
+ * example's render, 5 minutes of stereo: the cone model, its twin, filter and clipping 1.27 s per
+ * lane; a flat way's lane 0.06 s; the sums, meters, guard and the file's encoding 0.65 s per
+ * channel, which stay on the calling thread). A passive network and a measured response add their
+ * circuit and convolution (estimates).
  */
 const DRIVER_LANE = 1;
 const NETWORK_EXTRA = 0.5;
 const MEASURED_EXTRA = 0.3;
 const FLAT_LANE = 0.05;
-const JOINING_PER_CHANNEL = 0.57;
-/** The linear twin's share of a driver lane (same profile: 0.38 s of the two woofer lanes' 2.9 s). */
+const JOINING_PER_CHANNEL = 0.51;
+/** The linear twin's share of a driver lane (same profile: 0.17 s). */
 const TWIN_SHARE = 0.13;
+/** What each of two lanes saves when their models step together (sim/woofer-pair.ts; same profile: 0.56 s). */
+const PAIR_SAVING = 0.44;
 
 const lanesOf = (chain: WayChain) => (chain instanceof DriverWayChain ? chain.lanes.length : chain.out.length);
 
@@ -135,6 +139,35 @@ export function assignLanes(chains: WayChain[], channels: number): boolean[][] {
     } else main += u.cost;
   }
   return lanes;
+}
+
+/**
+ * Whether the helper should also run its lanes' linear twins: when that evens out the two
+ * threads' work (the twins stay on the calling thread by default, where the lanes are joined). The
+ * loads are assignLanes' own, with the saving of lanes whose models step together.
+ */
+export function twinsOnHelper(chains: WayChain[], lanes: boolean[][], channels: number): boolean {
+  let main = JOINING_PER_CHANNEL * channels,
+    helper = 0,
+    twins = 0;
+  chains.forEach((chain, k) => {
+    const paired = chain instanceof DriverWayChain && lanes[k].every(Boolean) && chain.pairsLanes();
+    for (let w = 0; w < lanesOf(chain); w++) {
+      let cost = FLAT_LANE,
+        twin = 0;
+      if (chain instanceof DriverWayChain) {
+        const lane = chain.lanes[w];
+        cost = DRIVER_LANE + (lane.net ? NETWORK_EXTRA : 0) + (lane.measured ? MEASURED_EXTRA : 0) - (paired ? PAIR_SAVING : 0);
+        if (separateTwin(lane)) twin = TWIN_SHARE * DRIVER_LANE;
+      }
+      if (!lanes[k][w]) main += cost;
+      else {
+        helper += cost - twin;
+        twins += twin;
+      }
+    }
+  });
+  return Math.max(helper + twins, main) < Math.max(helper, main + twins);
 }
 
 /** The input channels the helper's lanes read (a shared mono-sum lane reads them all). */

@@ -15,7 +15,7 @@ import { TraceRecorder, type Traces } from './trace-recorder.ts';
 import { OutputGuard, type RenderMode, type SampleBuffer, type SideStreams } from './output-guard.ts';
 import { roomStreamsFor, type RoomStreams } from '../room/stage.ts';
 import { lowRateLatency } from './low-rate-model.ts';
-import { assignLanes, channelsRead, helperLaneDoubles, LaneSlots } from './lane-share.ts';
+import { assignLanes, channelsRead, helperLaneDoubles, LaneSlots, twinsOnHelper } from './lane-share.ts';
 import type { SlotRing } from './slot-ring.ts';
 import { keepShape } from '../keep-shape.ts';
 
@@ -119,7 +119,14 @@ export class Renderer {
    * Lanes shared with a second thread (lane-share.ts): the helper's lanes[k][w], the ones this
    * renderer runs, and the ring between them.
    */
-  private share: { role: 'main' | 'helper'; lanes: boolean[][]; runs: boolean[][]; ring: SlotRing; slots: LaneSlots } | null = null;
+  private share: {
+    role: 'main' | 'helper';
+    lanes: boolean[][];
+    runs: boolean[][];
+    twinsOnHelper: boolean;
+    ring: SlotRing;
+    slots: LaneSlots;
+  } | null = null;
 
   constructor(sys: SpeakerSystem, opt: RendererOptions) {
     if (!(opt.sampleRate >= 8000 && opt.sampleRate <= 384000))
@@ -153,8 +160,18 @@ export class Renderer {
    * What a helper thread would best run (lane-share.ts), or runs given `lanes`: lanes[k][w] for
    * lane w of way k, the doubles per chunk they hand over (0: none) and the input channels they read.
    */
-  helperPlan(lanes = assignLanes(this.chains, this.channels)): { lanes: boolean[][]; doubles: number; reads: boolean[] } {
-    return { lanes, doubles: helperLaneDoubles(this.chains, lanes), reads: channelsRead(this.chains, lanes, this.channels) };
+  helperPlan(lanes = assignLanes(this.chains, this.channels)): {
+    lanes: boolean[][];
+    twinsOnHelper: boolean;
+    doubles: number;
+    reads: boolean[];
+  } {
+    return {
+      lanes,
+      twinsOnHelper: twinsOnHelper(this.chains, lanes, this.channels),
+      doubles: helperLaneDoubles(this.chains, lanes),
+      reads: channelsRead(this.chains, lanes, this.channels),
+    };
   }
 
   /**
@@ -162,10 +179,11 @@ export class Renderer {
    * As 'main' this renderer runs the others and takes the helper's from the ring; as 'helper' it
    * runs only those into the ring (its outputs are not written). For fixed renders of whole
    * buffers: the other side must be fed the same blocks, and neither is edited or reset on the way.
+   * With `twinsOnHelper` the helper runs its lanes' linear twins too.
    */
-  shareLanes(role: 'main' | 'helper', ring: SlotRing, lanes: boolean[][]): void {
+  shareLanes(role: 'main' | 'helper', ring: SlotRing, lanes: boolean[][], twinsOnHelper: boolean): void {
     const runs = role === 'helper' ? lanes : lanes.map((l) => l.map((h) => !h));
-    this.share = { role, lanes, runs, ring, slots: new LaneSlots(this.chains, lanes) };
+    this.share = { role, lanes, runs, twinsOnHelper, ring, slots: new LaneSlots(this.chains, lanes) };
   }
 
   /** Can the running ways take this design's constants while keeping their state? */
@@ -294,7 +312,7 @@ export class Renderer {
       const slot = share.ring.nextFree();
       if (slot) {
         share.slots.attach(slot);
-        this.runChains(src, volts, frameEnd, share.runs, true);
+        this.runChains(src, volts, frameEnd, share.runs, !share.twinsOnHelper);
         share.slots.writeCoils(slot);
         share.ring.publish();
       }
@@ -307,8 +325,8 @@ export class Renderer {
       const slot = share.ring.nextFull();
       share.slots.attach(slot);
       share.slots.readCoils(slot);
-      // Their linear twins run here, which evens out the two threads' work.
-      for (let k = 0; k < this.chains.length; k++) {
+      // Their linear twins run here unless the helper runs them (whichever evens out the threads' work).
+      for (let k = 0; k < this.chains.length && !share.twinsOnHelper; k++) {
         const chain = this.chains[k];
         if (chain instanceof DriverWayChain) chain.runTwins(n, frameEnd, share.lanes[k]);
       }

@@ -12,6 +12,7 @@ import { RENDER_HALFBAND } from '../filters/halfband.ts';
 import type { WooferParams } from '../sim/params.ts';
 import { LadderSim, LinearBehindLadder, wayParams } from '../sim/ladder.ts';
 import { WooferSim } from '../sim/woofer.ts';
+import { pairable, processPair } from '../sim/woofer-pair.ts';
 import { LinearRecurrence } from '../sim/linear.ts';
 import { thermalStep, type ThermalStep } from '../sim/thermal.ts';
 import { OversampledClipper } from './amplifier.ts';
@@ -204,6 +205,8 @@ export class DriverWayChain {
   private rail = 0;
   private soft = false;
   readonly th: ThermalStep = { p11: 1, p12: 0, p21: 0, p22: 1, g1: 0, g2: 0 };
+  /** Each lane's sum of i^2 from a chunk of the two-lane loop. */
+  private readonly pairSums = new Float64Array(2);
 
   constructor(
     sys: SpeakerSystem,
@@ -303,6 +306,8 @@ export class DriverWayChain {
     const n = src.n;
     // Gain 1 leaves the drive exactly as the first version computed it.
     const drive = volts * this.gain;
+    // A stereo pair of lanes that both run here steps its two models together (sim/woofer-pair.ts).
+    const pair = this.lanes.length === 2 && (!runs || (runs[0] && runs[1])) && this.pairsLanes();
     for (let w = 0; w < this.lanes.length; w++) {
       if (runs && !runs[w]) continue;
       const lane = this.lanes[w];
@@ -313,16 +318,16 @@ export class DriverWayChain {
       if (lane.drive) lane.drive.process(u, n);
       for (let k = 0; k < n; k++) u[k] *= drive;
       lane.clip.process(u, n, this.rail, this.soft, lane.uClip, lane.uDel);
+      if (pair) continue;
       const sim = lane.sim;
       if (separateTwin(lane)) {
-        // The full model's path, then the twin's (pN and pL never meet in a lane): one after the
-        // other here, or the twin on the thread that sums them.
-        lane.i2 += sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet, lane.net ?? undefined);
-        lane.roomN?.processInPlace(lane.pN, 0, n);
-        this.heatCoil(lane, frameEnd);
-        if (this.polarity !== 1) negate(lane.pN, n);
-        lane.offsetN?.process(lane.pN, n);
-        if (!twinsElsewhere) this.runTwin(lane, n, frameEnd);
+        this.afterModel(
+          lane,
+          sim.processBlock(lane.uClip, n, lane.pN, lane.x, lane.outlet, lane.net ?? undefined),
+          n,
+          frameEnd,
+          twinsElsewhere,
+        );
         continue;
       }
       let i2: number;
@@ -353,6 +358,34 @@ export class DriverWayChain {
       lane.offsetN?.process(lane.pN, n);
       lane.offsetL?.process(lane.pL, n);
     }
+    if (pair) {
+      const [a, b] = this.lanes;
+      processPair(a.sim, b.sim, a, b, n, this.pairSums);
+      this.afterModel(a, this.pairSums[0], n, frameEnd, twinsElsewhere);
+      this.afterModel(b, this.pairSums[1], n, frameEnd, twinsElsewhere);
+    }
+  }
+
+  /**
+   * Whether the two lanes' models can step together when both run on one thread: each on its own
+   * twin (separateTwin), without a passive network, in a box the two-lane loop knows.
+   */
+  pairsLanes(): boolean {
+    if (this.lanes.length !== 2) return false;
+    const [a, b] = this.lanes;
+    return separateTwin(a) && separateTwin(b) && !a.net && !b.net && pairable(a.sim, b.sim);
+  }
+
+  /** After a lane's model (on its own twin): the heat it made (i2), the room, polarity and offset, then the twin unless it runs elsewhere. */
+  private afterModel(lane: DriverLane, i2: number, n: number, frameEnd: number, twinsElsewhere: boolean): void {
+    // The full model's path, then the twin's (pN and pL never meet in a lane): one after the other
+    // here, or the twin on the thread that sums them.
+    lane.i2 += i2;
+    lane.roomN?.processInPlace(lane.pN, 0, n);
+    this.heatCoil(lane, frameEnd);
+    if (this.polarity !== 1) negate(lane.pN, n);
+    lane.offsetN?.process(lane.pN, n);
+    if (!twinsElsewhere) this.runTwin(lane, n, frameEnd);
   }
 
   /** The linear twins of the lanes `runs` marks whose twin process() left to this thread (after their coil's R arrived). */

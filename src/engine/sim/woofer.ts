@@ -20,7 +20,7 @@
 // state are carried between calls in fields.
 import type { WooferParams } from './params.ts';
 import type { Chamber } from '../box/index.ts';
-import { BL_FLOOR, KMS_FLOOR, LE_FLOOR } from './nonlinear.ts';
+import { BL_FLOOR, KMS_FLOOR, LE_FLOOR, MAX_COEFFICIENTS } from './nonlinear.ts';
 import type { LadderSim } from './ladder.ts';
 import { keepShape } from '../keep-shape.ts';
 
@@ -94,6 +94,77 @@ export class WooferSim {
     this.riseM = riseM;
     const p = this.p;
     this.r = p.re0 * (1 + p.alphaR * riseV) + p.rs;
+  }
+
+  /**
+   * For the two-lane loop (./woofer-pair.ts): the model's constants [h, te, R, Mms/h, Rms, Sd, Bl0,
+   * K0, Le0, Xlim, kOut, 1/Mms, the three floors, then Bl's, Kms's and Le's nine coefficients each,
+   * 0 past their ends], as processBlock computes them, to `at + 2·j + lane` of an array. R (j = 2)
+   * changes as the coil heats: `pairR`.
+   */
+  writePairConstants(to: Float64Array, at: number, lane: number): void {
+    const p = this.p;
+    const head = [
+      p.h,
+      p.thetaE,
+      this.r,
+      p.mms / p.h,
+      p.rms,
+      p.sd,
+      p.bl0,
+      p.k0,
+      p.le0,
+      p.xlim,
+      p.kOut,
+      1 / p.mms,
+      +BL_FLOOR,
+      +KMS_FLOOR,
+      +LE_FLOOR,
+    ];
+    let j = 0;
+    for (const value of head) to[at + 2 * j++ + lane] = value;
+    for (const c of [p.blC, p.kmsC, p.leC]) for (let t = 0; t <= MAX_COEFFICIENTS; t++) to[at + 2 * j++ + lane] = c[t] ?? 0;
+  }
+
+  /** Index of R among writePairConstants' values. */
+  static readonly pairR = 2;
+
+  /** The model's state [i, x, v, u0, f1, f2, f3, Le(x), Le'(x), j12, j13, j31, j32, out] for the two-lane loop. */
+  writePairState(to: Float64Array, at: number, lane: number): void {
+    const o = at + lane;
+    to[o] = this.i;
+    to[o + 2] = this.x;
+    to[o + 4] = this.v;
+    to[o + 6] = this.u0;
+    to[o + 8] = this.f1;
+    to[o + 10] = this.f2;
+    to[o + 12] = this.f3;
+    to[o + 14] = this.leNow;
+    to[o + 16] = this.le1;
+    to[o + 18] = this.j12;
+    to[o + 20] = this.j13;
+    to[o + 22] = this.j31;
+    to[o + 24] = this.j32;
+    to[o + 26] = this.out;
+  }
+
+  /** The state back from the two-lane loop (writePairState's order). */
+  readPairState(from: Float64Array, at: number, lane: number): void {
+    const o = at + lane;
+    this.i = from[o];
+    this.x = from[o + 2];
+    this.v = from[o + 4];
+    this.u0 = from[o + 6];
+    this.f1 = from[o + 8];
+    this.f2 = from[o + 10];
+    this.f3 = from[o + 12];
+    this.leNow = from[o + 14];
+    this.le1 = from[o + 16];
+    this.j12 = from[o + 18];
+    this.j13 = from[o + 20];
+    this.j31 = from[o + 22];
+    this.j32 = from[o + 24];
+    this.out = from[o + 26];
   }
 
   /** One step to input u1 (volts of amplifier EMF); returns the seat pressure, Pa. */
