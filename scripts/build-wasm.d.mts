@@ -1,5 +1,11 @@
-// Types of build-wasm.mjs for the tests that import it.
-export declare const WAT_PATH: string;
-export declare const WASM_TS_PATH: string;
-export declare function assembleWooferPair(): Promise<Buffer>;
-export declare function wasmModuleSource(bytes: Buffer): string;
+// Types of build-wasm.mjs for the test that imports it.
+export interface WasmModule {
+  wat: string;
+  ts: string;
+  name: string;
+  watPath: string;
+  tsPath: string;
+}
+export declare const MODULES: WasmModule[];
+export declare function assemble(module: WasmModule): Promise<Buffer>;
+export declare function moduleSource(module: WasmModule, bytes: Buffer): string;

@@ -2,12 +2,8 @@
 // stands in for: every sample and every state value bit for bit (Object.is, so even the sign of a
 // zero), for sealed and vented boxes, with and without a voice-coil inductance, polynomials of
 // every length, the cone driven into its end stops, lanes at different coil temperatures and blocks
-// of any length. And the committed module is the assembly of the committed .wat.
+// of any length.
 import { describe, expect, it } from 'vitest';
-import { assembleWooferPair, wasmModuleSource } from '../scripts/build-wasm.mjs';
-import { WOOFER_PAIR_WASM } from '../src/engine/sim/woofer-pair-wasm.ts';
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { wooferParams } from '../src/engine/sim/params.ts';
 import { WooferSim } from '../src/engine/sim/woofer.ts';
 import { pairable, processPair, PAIR_MAX_STEPS } from '../src/engine/sim/woofer-pair.ts';
@@ -84,14 +80,6 @@ function compare(sys: SpeakerSystem, volts: number, blocks: number[], frames = 9
 }
 
 describe('two woofer lanes in one WebAssembly loop', () => {
-  it('the committed module is the assembly of woofer-pair.wat', async () => {
-    const bytes = await assembleWooferPair();
-    expect(wasmModuleSource(bytes)).toBe(
-      readFileSync(fileURLToPath(new URL('../src/engine/sim/woofer-pair-wasm.ts', import.meta.url)), 'utf8'),
-    );
-    expect(Buffer.from(WOOFER_PAIR_WASM, 'base64').equals(bytes)).toBe(true);
-  });
-
   it('the vented example, driven into its end stops, blocks of 256 and of odd lengths', () => {
     const r = compare(exampleSystem('vented'), 90, [256, 1, 7, 255, 100]);
     expect(r.peakMm).toBeCloseTo(r.xlimMm, 9);

@@ -281,6 +281,35 @@ export class JoinedCascade {
     for (let k = 0; k < this.pre.length; k += 4) this.four(buf, k, start, end);
   }
 
+  /** Sections, a multiple of four (pass-through sections pad the last group). */
+  get sections(): number {
+    return this.pre.length;
+  }
+
+  /**
+   * For the two-lane loop (./cascade-pair.ts): section k's [gain, b0, b1, b2, a1, a2] to
+   * `at + 12·k + 2·j + lane` and its state [s1, s2] to `stateAt + 4·k + 2·j + lane`; sections past
+   * its own up to `sections` pass through from rest.
+   */
+  writePair(to: Float64Array, at: number, stateAt: number, lane: number, sections: number): void {
+    for (let k = 0; k < sections; k++) {
+      const own = k < this.pre.length;
+      const o = at + 12 * k + lane;
+      to[o] = own ? this.pre[k] : 1;
+      for (let j = 0; j < 5; j++) to[o + 2 * (j + 1)] = own ? this.coef[5 * k + j] : PASS_THROUGH[j];
+      to[stateAt + 4 * k + lane] = own ? this.s1[k] : 0;
+      to[stateAt + 4 * k + 2 + lane] = own ? this.s2[k] : 0;
+    }
+  }
+
+  /** Its sections' state back from the two-lane loop (writePair's layout). */
+  readPairState(from: Float64Array, stateAt: number, lane: number): void {
+    for (let k = 0; k < this.pre.length; k++) {
+      this.s1[k] = from[stateAt + 4 * k + lane];
+      this.s2[k] = from[stateAt + 4 * k + 2 + lane];
+    }
+  }
+
   private four(buf: Float64Array, k: number, start: number, end: number): void {
     const c = this.coef,
       o = 5 * k,

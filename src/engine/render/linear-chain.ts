@@ -5,6 +5,7 @@
 // subject against a native Web Audio implementation.
 import type { DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { BiquadCascade, JoinedCascade, packSections } from '../filters/biquad.ts';
+import { CASCADE_PAIR_MAX_FRAMES, cascadesPairable, processCascadePair } from '../filters/cascade-pair.ts';
 import { wayFilterBiquads } from '../filters/way-filter.ts';
 import { rationalToBiquads } from '../filters/analog.ts';
 import type { WooferParams } from '../sim/params.ts';
@@ -77,6 +78,8 @@ export class LinearChain {
   private readonly circuits: (LinearBehindLadder | null)[][];
   /** Per way, per lane: a measured response's FIR (null without one). */
   private readonly measured: (PartitionedConvolver | null)[][];
+  /** Ways run two at a time, channel by channel, in the two-lane loop (filters/cascade-pair.ts). */
+  private readonly pairs: [number, number][] = [];
 
   constructor(
     sys: SpeakerSystem,
@@ -105,6 +108,15 @@ export class LinearChain {
       const taps = correction?.taps(sampleRate);
       return this.lanes[k].map(() => (taps ? new PartitionedConvolver(taps) : null));
     });
+    // Ways of plain joined cascades, one lane per channel, go two by two.
+    const plain = this.ways.flatMap((w, k) => {
+      const first = this.lanes[k][0];
+      return !w.monoSum && !w.passive && !fir[k] && first instanceof JoinedCascade ? [k] : [];
+    });
+    for (let i = 0; i + 1 < plain.length; i += 2) {
+      const [a, b] = [plain[i], plain[i + 1]];
+      if (cascadesPairable(this.lanes[a][0] as JoinedCascade, this.lanes[b][0] as JoinedCascade)) this.pairs.push([a, b]);
+    }
   }
 
   /** A passive way's circuit over one lane's block, in place: full scale to volts to seat pressure. */
@@ -126,7 +138,18 @@ export class LinearChain {
    */
   process(inputs: ArrayLike<number>[], out: Float64Array[][], frames: number, from = 0, to = Infinity): void {
     const nIn = inputs.length;
+    const paired = frames <= CASCADE_PAIR_MAX_FRAMES;
+    if (paired) {
+      for (const [a, b] of this.pairs) {
+        const end = Math.min(to, this.lanes[a].length);
+        for (let c = from; c < end; c++) {
+          const inp = inputs[Math.min(c, nIn - 1)];
+          processCascadePair(this.lanes[a][c] as JoinedCascade, this.lanes[b][c] as JoinedCascade, inp, frames, out[a][c], out[b][c]);
+        }
+      }
+    }
     for (let w = 0; w < this.lanes.length; w++) {
+      if (paired && this.pairs.some((p) => p[0] === w || p[1] === w)) continue;
       const lanes = this.lanes[w];
       if (this.ways[w].monoSum) {
         if (from > 0) continue;

@@ -6,6 +6,7 @@
 // where WebAssembly's SIMD is missing, the caller runs processBlock lane by lane.
 import type { PairedChamber } from '../box/one-chamber.ts';
 import { WOOFER_PAIR_WASM } from './woofer-pair-wasm.ts';
+import { instantiateModule } from '../wasm-module.ts';
 import { WooferSim } from './woofer.ts';
 
 /** The loop's memory layout in doubles (see the .wat): constants, state, then the four streams, lane 0's 256 then lane 1's. */
@@ -30,39 +31,13 @@ interface PairLoop {
 
 let loop: PairLoop | null | undefined;
 
-function base64Bytes(text: string): Uint8Array<ArrayBuffer> {
-  const digits = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/';
-  const clean = text.replace(/=+$/, '');
-  const out = new Uint8Array(Math.floor((clean.length * 3) / 4));
-  let acc = 0,
-    bits = 0,
-    k = 0;
-  for (const ch of clean) {
-    acc = (acc << 6) | digits.indexOf(ch);
-    bits += 6;
-    if (bits >= 8) {
-      bits -= 8;
-      out[k++] = (acc >> bits) & 0xff;
-    }
-  }
-  return out;
-}
-
 /** The loop, compiled once per thread; null where WebAssembly or its SIMD is not available. */
 function pairLoop(): PairLoop | null {
   if (loop !== undefined) return loop;
-  loop = null;
-  try {
-    if (typeof WebAssembly !== 'object') return null;
-    const bytes = base64Bytes(WOOFER_PAIR_WASM);
-    if (!WebAssembly.validate(bytes)) return null;
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(bytes));
-    const { run, memory } = instance.exports as { run: PairLoop['run']; memory: WebAssembly.Memory };
-    loop = { run, mem: new Float64Array(memory.buffer), written: [null, null] };
-  } catch {
-    // A host that refuses to compile here (a page's main thread limits synchronous compiles): lane by lane.
-    loop = null;
-  }
+  const exports = instantiateModule(WOOFER_PAIR_WASM);
+  if (!exports) return (loop = null);
+  const { run, memory } = exports as { run: PairLoop['run']; memory: WebAssembly.Memory };
+  loop = { run, mem: new Float64Array(memory.buffer), written: [null, null] };
   return loop;
 }
 

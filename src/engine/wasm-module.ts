@@ -1,0 +1,36 @@
+// The engine's WebAssembly modules (hand-written .wat, assembled by scripts/build-wasm.mjs into
+// base64 text in a TypeScript file beside each): compiled synchronously where they are first
+// needed. Each stands in for TypeScript code that gives the same numbers bit for bit, so a host
+// without WebAssembly's SIMD, or one that refuses to compile, runs that code instead.
+
+function base64Bytes(text: string): Uint8Array<ArrayBuffer> {
+  const digits = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/';
+  const clean = text.replace(/=+$/, '');
+  const out = new Uint8Array(Math.floor((clean.length * 3) / 4));
+  let acc = 0,
+    bits = 0,
+    k = 0;
+  for (const ch of clean) {
+    acc = (acc << 6) | digits.indexOf(ch);
+    bits += 6;
+    if (bits >= 8) {
+      bits -= 8;
+      out[k++] = (acc >> bits) & 0xff;
+    }
+  }
+  return out;
+}
+
+/** The module's instance with its exports, or null where it cannot run here. */
+export function instantiateModule(base64: string): WebAssembly.Exports | null {
+  try {
+    if (typeof WebAssembly !== 'object') return null;
+    const bytes = base64Bytes(base64);
+    if (!WebAssembly.validate(bytes)) return null;
+    return new WebAssembly.Instance(new WebAssembly.Module(bytes)).exports;
+  } catch {
+    // A host that refuses to compile here (a page's main thread limits synchronous compiles, a
+    // Content-Security-Policy without 'wasm-unsafe-eval'): the TypeScript path.
+    return null;
+  }
+}
