@@ -27,7 +27,8 @@ let loop: CascadeLoop | null | undefined;
 function cascadeLoop(): CascadeLoop | null {
   if (loop !== undefined) return loop;
   const exports = instantiateModule(CASCADE_PAIR_WASM);
-  if (!exports) return (loop = null);
+  loop = null;
+  if (!exports) return null;
   const { run, memory } = exports as { run: CascadeLoop['run']; memory: WebAssembly.Memory };
   loop = { run, mem: new Float64Array(memory.buffer) };
   return loop;

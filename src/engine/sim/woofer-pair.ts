@@ -35,7 +35,8 @@ let loop: PairLoop | null | undefined;
 function pairLoop(): PairLoop | null {
   if (loop !== undefined) return loop;
   const exports = instantiateModule(WOOFER_PAIR_WASM);
-  if (!exports) return (loop = null);
+  loop = null;
+  if (!exports) return null;
   const { run, memory } = exports as { run: PairLoop['run']; memory: WebAssembly.Memory };
   loop = { run, mem: new Float64Array(memory.buffer), written: [null, null] };
   return loop;
