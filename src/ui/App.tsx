@@ -12,7 +12,7 @@ import { ConfirmDialog, ProblemsDialog, ShareDialog, type ConfirmQuestion, type 
 import { ProjectDialog } from './app/ProjectDialog.tsx';
 import { Glance } from './app/Glance.tsx';
 import { Header } from './app/Header.tsx';
-import { useNotices, useResolvedTheme, useSaveStatus, useStoreState, useUndoKeys } from './app/hooks.ts';
+import { useNotices, useResolvedTheme, useStoreState, useUndoKeys } from './app/hooks.ts';
 import { screenOf } from './app/screens.tsx';
 import { Tabs } from './app/Tabs.tsx';
 import {
@@ -32,7 +32,6 @@ export { SCREENS } from './app/screens.tsx';
 
 export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const state = useStoreState(store);
-  const status = useSaveStatus(autosave);
   const theme = useResolvedTheme(state.settings.theme);
   const [cautionsOpen, setCautionsOpen] = useState(!state.settings.cautionsDismissed);
   const [problems, setProblems] = useState<ProblemReport | null>(null);
@@ -87,9 +86,9 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           }}
         />
         <Tabs screen={current.id} go={go} />
-        <Banners update={update} status={status} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
+        <Banners update={update} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
         <StorageBanners
-          status={status}
+          autosave={autosave}
           onRetry={() => void retryStorage(store, autosave)}
           onExport={(slot) => exportDesign(deps, slot)}
           onKeepShared={() => void sharedView.keep()}
@@ -106,7 +105,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         </div>
 
         <footer class="status">
-          <SaveIndicator status={status} />
+          <SaveIndicator autosave={autosave} />
           <span>Runs on this machine only: nothing is uploaded. Curves are model estimates.</span>
           <span class="build" data-testid="build">
             preheard {__APP_VERSION__}

@@ -9,9 +9,18 @@ export function useStoreState(store: Store): AppState {
   return state;
 }
 
+/**
+ * The save status, read where it is shown (the banners, the footer) rather than by the page: a
+ * finished save then redraws those few elements, not every screen and chart.
+ */
 export function useSaveStatus(autosave: Autosave): SaveStatus {
   const [s, setS] = useState<SaveStatus>(autosave.status);
-  useEffect(() => autosave.onStatus(setS), [autosave]);
+  useEffect(() => {
+    const off = autosave.onStatus(setS);
+    // A change between the first render and this subscription is not missed.
+    setS(autosave.status);
+    return off;
+  }, [autosave]);
   return s;
 }
 
