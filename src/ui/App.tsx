@@ -1,6 +1,6 @@
 // The one page: header with the design pair's actions, the screens, a side panel of key figures.
 // Each part lives in its own module under app/; this file only puts them together.
-import { useMemo, useState } from 'preact/hooks';
+import { useCallback, useMemo, useState } from 'preact/hooks';
 import { AppContext, type AppView } from './context.ts';
 import { derive } from './engine.ts';
 import { CautionsPanel } from './Cautions.tsx';
@@ -64,8 +64,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
     setCautionsOpen(false);
     if (!state.settings.cautionsDismissed) store.dispatch({ type: 'settings', patch: { cautionsDismissed: true } });
   };
-  const go = (screen: ScreenId) => store.dispatch({ type: 'settings', patch: { screen } });
+  const go = useCallback((screen: ScreenId) => store.dispatch({ type: 'settings', patch: { screen } }), [store]);
   const current = screenOf(state.settings.screen);
+  // The same element while the screen is the same: an edit does not re-render the navigation.
+  const tabs = useMemo(() => <Tabs screen={current.id} go={go} />, [current.id, go]);
 
   return (
     <AppContext.Provider value={view}>
@@ -85,7 +87,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             openProject: () => setProjectOpen(true),
           }}
         />
-        <Tabs screen={current.id} go={go} />
+        {tabs}
         <Banners update={update} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
         <StorageBanners
           autosave={autosave}

@@ -1,5 +1,5 @@
 // The page's small hooks: the store's state, the save status, the theme in use, passing notices.
-import { useEffect, useRef, useState } from 'preact/hooks';
+import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import type { Autosave, SaveStatus } from '../persist.ts';
 import type { AppState, Store } from '../store.ts';
 
@@ -26,7 +26,8 @@ export function useSaveStatus(autosave: Autosave): SaveStatus {
 
 /** The theme asked for, "auto" resolved from the system's preference; set on the document. */
 export function useResolvedTheme(pref: AppState['settings']['theme']): 'light' | 'dark' {
-  const mq = typeof matchMedia === 'function' ? matchMedia('(prefers-color-scheme: dark)') : null;
+  // Asked once: the query list follows the system's preference by itself.
+  const mq = useMemo(() => (typeof matchMedia === 'function' ? matchMedia('(prefers-color-scheme: dark)') : null), []);
   const [dark, setDark] = useState(mq?.matches ?? false);
   useEffect(() => {
     if (!mq) return;
