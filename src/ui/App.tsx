@@ -1,6 +1,6 @@
 // The one page: header with the design pair's actions, the screens, a side panel of key figures.
 // Each part lives in its own module under app/; this file only puts them together.
-import { useMemo, useState } from 'preact/hooks';
+import { useCallback, useMemo, useState } from 'preact/hooks';
 import { AppContext, type AppView } from './context.ts';
 import { derive } from './engine.ts';
 import { CautionsPanel } from './Cautions.tsx';
@@ -12,7 +12,7 @@ import { ConfirmDialog, ProblemsDialog, ShareDialog, type ConfirmQuestion, type 
 import { ProjectDialog } from './app/ProjectDialog.tsx';
 import { Glance } from './app/Glance.tsx';
 import { Header } from './app/Header.tsx';
-import { useNotices, useResolvedTheme, useSaveStatus, useStoreState, useUndoKeys } from './app/hooks.ts';
+import { useNotices, useResolvedTheme, useStoreState, useUndoKeys } from './app/hooks.ts';
 import { screenOf } from './app/screens.tsx';
 import { Tabs } from './app/Tabs.tsx';
 import {
@@ -32,7 +32,6 @@ export { SCREENS } from './app/screens.tsx';
 
 export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
   const state = useStoreState(store);
-  const status = useSaveStatus(autosave);
   const theme = useResolvedTheme(state.settings.theme);
   const [cautionsOpen, setCautionsOpen] = useState(!state.settings.cautionsDismissed);
   const [problems, setProblems] = useState<ProblemReport | null>(null);
@@ -65,8 +64,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
     setCautionsOpen(false);
     if (!state.settings.cautionsDismissed) store.dispatch({ type: 'settings', patch: { cautionsDismissed: true } });
   };
-  const go = (screen: ScreenId) => store.dispatch({ type: 'settings', patch: { screen } });
+  const go = useCallback((screen: ScreenId) => store.dispatch({ type: 'settings', patch: { screen } }), [store]);
   const current = screenOf(state.settings.screen);
+  // The same element while the screen is the same: an edit does not re-render the navigation.
+  const tabs = useMemo(() => <Tabs screen={current.id} go={go} />, [current.id, go]);
 
   return (
     <AppContext.Provider value={view}>
@@ -86,10 +87,10 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
             openProject: () => setProjectOpen(true),
           }}
         />
-        <Tabs screen={current.id} go={go} />
-        <Banners update={update} status={status} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
+        {tabs}
+        <Banners update={update} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
         <StorageBanners
-          status={status}
+          autosave={autosave}
           onRetry={() => void retryStorage(store, autosave)}
           onExport={(slot) => exportDesign(deps, slot)}
           onKeepShared={() => void sharedView.keep()}
@@ -106,7 +107,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         </div>
 
         <footer class="status">
-          <SaveIndicator status={status} />
+          <SaveIndicator autosave={autosave} />
           <span>Runs on this machine only: nothing is uploaded. Curves are model estimates.</span>
           <span class="build" data-testid="build">
             preheard {__APP_VERSION__}

@@ -1,16 +1,17 @@
 // What the app says about its saved work when it is not simply saving: a slow or failed start-up
 // read (nothing is written, retry and export offered) and a shared link on view (keep it or go back).
-import type { SaveStatus } from './persist.ts';
+import type { Autosave } from './persist.ts';
+import { useSaveStatus } from './app/hooks.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from './store.ts';
 
 export function StorageBanners(p: {
-  status: SaveStatus;
+  autosave: Autosave;
   onRetry: () => void;
   onExport: (slot: Slot) => void;
   onKeepShared: () => void;
   onLeaveShared: () => void;
 }) {
-  const { status } = p;
+  const status = useSaveStatus(p.autosave);
   const exports = SLOTS.map((s) => (
     <button type="button" class="small" onClick={() => p.onExport(s)}>
       Export {SLOT_LABEL[s]}

@@ -4,6 +4,7 @@ import type { Autosave, SaveStatus } from '../persist.ts';
 import type { UpdateHandle } from '../pwa.ts';
 import { downloadText } from '../files.ts';
 import { SLOTS, SLOT_LABEL, type Slot } from '../store.ts';
+import { useSaveStatus } from './hooks.ts';
 
 async function downloadSetAside(autosave: Autosave) {
   const text = await autosave.setAsideText();
@@ -11,8 +12,9 @@ async function downloadSetAside(autosave: Autosave) {
   downloadText(text, 'preheard-unreadable-state.json');
 }
 
-export function Banners(p: { update: UpdateHandle | null; status: SaveStatus; autosave: Autosave; exportDesign: (slot: Slot) => void }) {
-  const { update, status, autosave } = p;
+export function Banners(p: { update: UpdateHandle | null; autosave: Autosave; exportDesign: (slot: Slot) => void }) {
+  const { update, autosave } = p;
+  const status = useSaveStatus(autosave);
   const storageTrouble = status.kind === 'full' || status.kind === 'unavailable' ? status : null;
   return (
     <>
@@ -61,7 +63,8 @@ const SAVE_WORDS: Record<Exclude<SaveStatus['kind'], 'saved'>, string> = {
   unavailable: 'Not saved: storage unavailable',
 };
 
-export function SaveIndicator({ status }: { status: SaveStatus }) {
+export function SaveIndicator({ autosave }: { autosave: Autosave }) {
+  const status = useSaveStatus(autosave);
   const text = status.kind === 'saved' ? `Saved on this device ${new Date(status.at).toLocaleTimeString()}` : SAVE_WORDS[status.kind];
   return (
     <span class={`save save-${status.kind}`} data-testid="save-status" data-state={status.kind}>

@@ -1,5 +1,5 @@
 // The page's small hooks: the store's state, the save status, the theme in use, passing notices.
-import { useEffect, useRef, useState } from 'preact/hooks';
+import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import type { Autosave, SaveStatus } from '../persist.ts';
 import type { AppState, Store } from '../store.ts';
 
@@ -9,15 +9,25 @@ export function useStoreState(store: Store): AppState {
   return state;
 }
 
+/**
+ * The save status, read where it is shown (the banners, the footer) rather than by the page: a
+ * finished save then redraws those few elements, not every screen and chart.
+ */
 export function useSaveStatus(autosave: Autosave): SaveStatus {
   const [s, setS] = useState<SaveStatus>(autosave.status);
-  useEffect(() => autosave.onStatus(setS), [autosave]);
+  useEffect(() => {
+    const off = autosave.onStatus(setS);
+    // A change between the first render and this subscription is not missed.
+    setS(autosave.status);
+    return off;
+  }, [autosave]);
   return s;
 }
 
 /** The theme asked for, "auto" resolved from the system's preference; set on the document. */
 export function useResolvedTheme(pref: AppState['settings']['theme']): 'light' | 'dark' {
-  const mq = typeof matchMedia === 'function' ? matchMedia('(prefers-color-scheme: dark)') : null;
+  // Asked once: the query list follows the system's preference by itself.
+  const mq = useMemo(() => (typeof matchMedia === 'function' ? matchMedia('(prefers-color-scheme: dark)') : null), []);
   const [dark, setDark] = useState(mq?.matches ?? false);
   useEffect(() => {
     if (!mq) return;

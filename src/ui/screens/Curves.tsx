@@ -1,8 +1,9 @@
 // Curves: the charts grouped by the question they answer, A and B overlaid with the ideal
 // reference and the limits, the key numbers as text; the user picks which charts appear.
 import { DistortionPanel } from '../components/DistortionPanel.tsx';
-import { useMemo, useState } from 'preact/hooks';
+import { useCallback, useMemo, useState } from 'preact/hooks';
 import { useApp } from '../context.ts';
+import type { Intent } from '../store.ts';
 import { Chart } from '../charts/Chart.tsx';
 import { buildCharts, CHART_GROUPS, CHART_IDS, TITLES, type ChartId, type ChartSpec } from '../charts/specs.ts';
 import '../charts/curves.css';
@@ -36,8 +37,9 @@ export function hiddenCharts(stored: unknown): Set<ChartId> {
   return new Set(Array.isArray(stored) ? (stored.filter((id) => (CHART_IDS as unknown[]).includes(id)) as ChartId[]) : []);
 }
 
-function ChartPicker({ hidden }: { hidden: Set<ChartId> }) {
-  const { dispatch } = useApp();
+type Dispatch = (intent: Intent) => void;
+
+function ChartPicker({ hidden, dispatch }: { hidden: Set<ChartId>; dispatch: Dispatch }) {
   const set = (ids: ChartId[], show: boolean) => {
     const next = new Set(hidden);
     for (const id of ids) show ? next.delete(id) : next.add(id);
@@ -147,15 +149,13 @@ export function ChartCard({ spec, height = 250, theme }: { spec: ChartSpec; heig
   );
 }
 
-function WaysToggle() {
-  const { state, dispatch } = useApp();
-  const many = state.designs.a.ways.length > 1 || state.designs.b.ways.length > 1;
+function WaysToggle({ many, showWays, dispatch }: { many: boolean; showWays: boolean; dispatch: Dispatch }) {
   return (
     <label class="check ways-toggle">
       <input
         type="checkbox"
         data-testid="show-ways"
-        checked={state.settings.showWays ?? false}
+        checked={showWays}
         disabled={!many}
         onChange={(e) => dispatch({ type: 'settings', patch: { showWays: (e.currentTarget as HTMLInputElement).checked } })}
       />{' '}
@@ -164,27 +164,42 @@ function WaysToggle() {
   );
 }
 
+function CurvesHead(p: { hidden: Set<ChartId>; many: boolean; showWays: boolean; dispatch: Dispatch }) {
+  return (
+    <div class="curves-head">
+      <h2 id="curves-h">Curves</h2>
+      <p class="sheet-intro">
+        Small-signal model. SPL (the sum of all ways at the seat), impedance and group delay at 2.83 V; excursion, port air speed, power and
+        the limits' shares for a sine at each design's planned level. Hover a chart for readouts; the charts follow one cursor.
+      </p>
+      <div class="curves-tools">
+        <WaysToggle many={p.many} showWays={p.showWays} dispatch={p.dispatch} />
+        <ChartPicker hidden={p.hidden} dispatch={p.dispatch} />
+      </div>
+    </div>
+  );
+}
+
 export function Curves({ theme }: { theme: string }) {
-  const { state } = useApp();
-  const hidden = hiddenCharts(state.settings.curvesHidden);
-  const hiddenKey = [...hidden].join(',');
+  const { state, store } = useApp();
+  const hiddenNow = hiddenCharts(state.settings.curvesHidden);
+  const hiddenKey = [...hiddenNow].join(',');
   // biome-ignore lint/correctness/useExhaustiveDependencies: the key stands for the set, which is new on every render
-  const shownIds = useMemo(() => CHART_IDS.filter((id) => !hidden.has(id)), [hiddenKey]);
+  const hidden = useMemo(() => hiddenNow, [hiddenKey]);
+  const shownIds = useMemo(() => CHART_IDS.filter((id) => !hidden.has(id)), [hidden]);
   const charts = useCharts(shownIds);
   const byId = new Map(charts.map((c) => [c.id, c]));
+  const many = state.designs.a.ways.length > 1 || state.designs.b.ways.length > 1;
+  const showWays = state.settings.showWays ?? false;
+  const dispatch = useCallback((intent: Intent) => store.dispatch(intent), [store]);
+  // The same element while its inputs are the same: an edit of a design re-renders only what shows it.
+  const head = useMemo(
+    () => <CurvesHead hidden={hidden} many={many} showWays={showWays} dispatch={dispatch} />,
+    [hidden, many, showWays, dispatch],
+  );
   return (
     <section class="curves" aria-labelledby="curves-h">
-      <div class="curves-head">
-        <h2 id="curves-h">Curves</h2>
-        <p class="sheet-intro">
-          Small-signal model. SPL (the sum of all ways at the seat), impedance and group delay at 2.83 V; excursion, port air speed, power
-          and the limits' shares for a sine at each design's planned level. Hover a chart for readouts; the charts follow one cursor.
-        </p>
-        <div class="curves-tools">
-          <WaysToggle />
-          <ChartPicker hidden={hidden} />
-        </div>
-      </div>
+      {head}
       <div class="curves-layout">
         <div class="curves-groups">
           {CHART_GROUPS.filter((g) => g.charts.some((id) => byId.has(id))).map((g) => (
