@@ -95,7 +95,9 @@ function lastAt<K extends object, V>(compute: (key: K, w: number, extra: unknown
   return (key, w, extra) => {
     if (key !== lastKey || w !== lastW || extra !== lastExtra) {
       last = compute(key, w, extra);
-      [lastKey, lastW, lastExtra] = [key, w, extra];
+      lastKey = key;
+      lastW = w;
+      lastExtra = extra;
     }
     return last;
   };
