@@ -34,3 +34,23 @@ export function instantiateModule(base64: string): WebAssembly.Exports | null {
     return null;
   }
 }
+
+/** A module's `run` export and its memory seen as doubles. */
+export interface WasmLoop<Run> {
+  run: Run;
+  mem: Float64Array;
+}
+
+/**
+ * The module's loop, compiled on the first call in each thread (and kept), or null where it cannot
+ * run here: the caller then takes the TypeScript path.
+ */
+export function loopOnce<Run>(base64: string): () => WasmLoop<Run> | null {
+  let loop: WasmLoop<Run> | null | undefined;
+  return () => {
+    if (loop !== undefined) return loop;
+    const exports = instantiateModule(base64);
+    loop = exports ? { run: exports.run as Run, mem: new Float64Array((exports.memory as WebAssembly.Memory).buffer) } : null;
+    return loop;
+  };
+}

@@ -4,7 +4,7 @@
 // zero aside, in the shorter way's padding); `npm run bench -- render` prints the time against
 // the two cascades one after the other. Where the loop is not available, or a cascade is longer
 // than it holds, the caller runs the cascades one by one.
-import { instantiateModule } from '../wasm-module.ts';
+import { loopOnce } from '../wasm-module.ts';
 import type { JoinedCascade } from './biquad.ts';
 import { CASCADE_PAIR_WASM } from './cascade-pair-wasm.ts';
 
@@ -17,22 +17,7 @@ const OUT = [25600, 33792];
 const MAX_SECTIONS = 40;
 export const CASCADE_PAIR_MAX_FRAMES = 8192;
 
-interface CascadeLoop {
-  run: (n: number, groups: number) => void;
-  mem: Float64Array;
-}
-
-let loop: CascadeLoop | null | undefined;
-
-function cascadeLoop(): CascadeLoop | null {
-  if (loop !== undefined) return loop;
-  const exports = instantiateModule(CASCADE_PAIR_WASM);
-  loop = null;
-  if (!exports) return null;
-  const { run, memory } = exports as { run: CascadeLoop['run']; memory: WebAssembly.Memory };
-  loop = { run, mem: new Float64Array(memory.buffer) };
-  return loop;
-}
+const cascadeLoop = loopOnce<(n: number, groups: number) => void>(CASCADE_PAIR_WASM);
 
 /** Whether a and b can run together (and the loop is there). */
 export function cascadesPairable(a: JoinedCascade, b: JoinedCascade): boolean {

@@ -6,7 +6,7 @@
 // where WebAssembly's SIMD is missing, the caller runs processBlock lane by lane.
 import type { PairedChamber } from '../box/one-chamber.ts';
 import { WOOFER_PAIR_WASM } from './woofer-pair-wasm.ts';
-import { instantiateModule } from '../wasm-module.ts';
+import { loopOnce, type WasmLoop } from '../wasm-module.ts';
 import { WooferSim } from './woofer.ts';
 
 /** The loop's memory layout in doubles (see the .wat): constants, state, then the four streams, lane 0's 256 then lane 1's. */
@@ -22,25 +22,13 @@ const OUTLET = 2048;
 /** Most steps per call. */
 export const PAIR_MAX_STEPS = 256;
 
-interface PairLoop {
-  run: (n: number, nBl: number, nK: number, nL: number, hasLe: number, ported: number) => void;
-  mem: Float64Array;
-  /** The constants last written for each lane (their parameters object): rewritten when it changes. */
-  written: [unknown, unknown];
-}
-
-let loop: PairLoop | null | undefined;
+type PairRun = (n: number, nBl: number, nK: number, nL: number, hasLe: number, ported: number) => void;
 
 /** The loop, compiled once per thread; null where WebAssembly or its SIMD is not available. */
-function pairLoop(): PairLoop | null {
-  if (loop !== undefined) return loop;
-  const exports = instantiateModule(WOOFER_PAIR_WASM);
-  loop = null;
-  if (!exports) return null;
-  const { run, memory } = exports as { run: PairLoop['run']; memory: WebAssembly.Memory };
-  loop = { run, mem: new Float64Array(memory.buffer), written: [null, null] };
-  return loop;
-}
+const pairLoop = loopOnce<PairRun>(WOOFER_PAIR_WASM);
+
+/** The constants last written for each lane (their parameters object): rewritten when it changes. */
+const written: [unknown, unknown] = [null, null];
 
 function chamberOf(sim: WooferSim): PairedChamber | null {
   const c = sim.chamber as Partial<PairedChamber>;
@@ -64,13 +52,13 @@ export interface PairLane {
 }
 
 /** A lane's constants (when its parameters changed), coil resistance, state and drive into the loop's memory. */
-function load(l: PairLoop, sim: WooferSim, from: PairLane, lane: number, n: number): void {
+function load(l: WasmLoop<PairRun>, sim: WooferSim, from: PairLane, lane: number, n: number): void {
   const mem = l.mem;
   const chamber = chamberOf(sim)!;
-  if (l.written[lane] !== sim.p) {
+  if (written[lane] !== sim.p) {
     sim.writePairConstants(mem, CONSTANTS, lane);
     chamber.writePairConstants(mem, CHAMBER_CONSTANTS, lane);
-    l.written[lane] = sim.p;
+    written[lane] = sim.p;
   }
   mem[CONSTANTS + 2 * WooferSim.pairR + lane] = sim.r;
   sim.writePairState(mem, STATE, lane);
@@ -79,7 +67,7 @@ function load(l: PairLoop, sim: WooferSim, from: PairLane, lane: number, n: numb
 }
 
 /** A lane's state and streams back from the loop's memory; returns its sum of i^2. */
-function store(l: PairLoop, sim: WooferSim, to: PairLane, lane: number, n: number): number {
+function store(l: WasmLoop<PairRun>, sim: WooferSim, to: PairLane, lane: number, n: number): number {
   const mem = l.mem;
   sim.readPairState(mem, STATE, lane);
   chamberOf(sim)!.readPairState(mem, CHAMBER_STATE, lane);
