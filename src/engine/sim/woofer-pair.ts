@@ -63,7 +63,19 @@ function load(l: WasmLoop<PairRun>, sim: WooferSim, from: PairLane, lane: number
   mem[CONSTANTS + 2 * WooferSim.pairR + lane] = sim.r;
   sim.writePairState(mem, STATE, lane);
   chamber.writePairState(mem, CHAMBER_STATE, lane);
-  mem.set(from.uClip.subarray(0, n), U + PAIR_MAX_STEPS * lane);
+  const u = from.uClip;
+  mem.set(u.length === n ? u : u.subarray(0, n), U + PAIR_MAX_STEPS * lane);
+}
+
+/** Whole-chunk views of each lane's output streams in the loop's memory, made once (a view per chunk is garbage). */
+let chunkViews: Float64Array[][] | null = null;
+
+function outputViews(mem: Float64Array, lane: number, n: number): Float64Array[] {
+  const at = PAIR_MAX_STEPS * lane;
+  const view = (base: number) => mem.subarray(base + at, base + at + n);
+  if (n !== PAIR_MAX_STEPS) return [view(P), view(X), view(OUTLET)];
+  chunkViews ??= [0, 1].map((k) => [P, X, OUTLET].map((base) => mem.subarray(base + PAIR_MAX_STEPS * k, base + PAIR_MAX_STEPS * (k + 1))));
+  return chunkViews[lane];
 }
 
 /** A lane's state and streams back from the loop's memory; returns its sum of i^2. */
@@ -71,10 +83,10 @@ function store(l: WasmLoop<PairRun>, sim: WooferSim, to: PairLane, lane: number,
   const mem = l.mem;
   sim.readPairState(mem, STATE, lane);
   chamberOf(sim)!.readPairState(mem, CHAMBER_STATE, lane);
-  const at = PAIR_MAX_STEPS * lane;
-  to.pN.set(mem.subarray(P + at, P + at + n));
-  to.x.set(mem.subarray(X + at, X + at + n));
-  to.outlet.set(mem.subarray(OUTLET + at, OUTLET + at + n));
+  const [p, x, outlet] = outputViews(mem, lane, n);
+  to.pN.set(p);
+  to.x.set(x);
+  to.outlet.set(outlet);
   return mem[I2 + lane];
 }
 
