@@ -1,14 +1,15 @@
 import { render } from 'preact';
 import { App } from './ui/App.tsx';
 import { demoPair } from './ui/demo.ts';
-import { Autosave, indexedDbBackend } from './ui/persist.ts';
+import { afterEditsPause, Autosave, indexedDbBackend } from './ui/persist.ts';
 import { Store } from './ui/store.ts';
 import { connectTabs } from './ui/tabsync.ts';
 import { flushOnLeave, startStorage } from './ui/startup.ts';
 import './ui/styles.css';
 
 const store = new Store(demoPair);
-const autosave = new Autosave(indexedDbBackend());
+// Saves wait for a pause in the edits; the journal keeps an edit not yet saved when the page goes.
+const autosave = new Autosave(indexedDbBackend(), Date.now, afterEditsPause());
 // A reload restores exactly what was there; a slow or failed read shows the demo pair, says so and
 // saves nothing over the stored designs.
 await startStorage(store, autosave);

@@ -226,6 +226,31 @@ export function afterPaint(): Promise<void> {
   });
 }
 
+/** A pause in the edits this long lets a save begin (typing or dragging lands in one write). */
+export const EDIT_PAUSE_MS = 600;
+/** Edits that never pause (a long drag) are still saved this long after the first unsaved one. */
+export const SAVE_WITHIN_MS = 2000;
+
+/**
+ * The app's save timing. A change that comes alone (the previous one at least `EDIT_PAUSE_MS`
+ * before) is saved at once, in idle time after its frame. Changes that follow each other faster
+ * (typing, dragging) are a burst: their save waits for the edits to pause, or `SAVE_WITHIN_MS` at
+ * most, so a burst costs a few writes, status changes and announcements to the other tabs rather
+ * than one per edit, and those stay out of the way of the redraws.
+ */
+export function afterEditsPause(now: () => number = Date.now): (lastEditAt: () => number, burst: boolean) => Promise<void> {
+  return async (lastEditAt, burst) => {
+    const start = now();
+    while (burst) {
+      const quiet = now() - lastEditAt();
+      const waited = now() - start;
+      if (quiet >= EDIT_PAUSE_MS || waited >= SAVE_WITHIN_MS) break;
+      await new Promise((r) => setTimeout(r, Math.min(EDIT_PAUSE_MS - quiet, SAVE_WITHIN_MS - waited)));
+    }
+    await afterPaint();
+  };
+}
+
 /** Settings as stored, with anything of the wrong type replaced by the default. */
 function checkedSettings(raw: unknown): Settings {
   const out: Settings = { ...DEFAULT_SETTINGS };
@@ -261,6 +286,8 @@ export class Autosave {
   status: SaveStatus = { kind: 'starting' };
   private pending: Promise<void> | null = null;
   private dirty = false;
+  /** When the store last changed (`now`'s clock): a burst's save waits for the edits to pause. */
+  private lastEditAt = Number.NEGATIVE_INFINITY;
   /** Whether the stored state has been read: until then nothing is written. */
   private read: 'no' | 'yes' | 'failed' = 'no';
   /** A shared link is on view: nothing is written until the user keeps it. */
@@ -276,8 +303,11 @@ export class Autosave {
   constructor(
     private readonly backend: StorageBackend,
     private readonly now: () => number = () => Date.now(),
-    /** Waits before a save begins (a burst of edits then lands in one write). */
-    private readonly settle: () => Promise<void> = afterPaint,
+    /**
+     * Waits before a save begins, told when the last edit came and whether the edits come in a burst
+     * (a burst of edits then lands in one write).
+     */
+    private readonly settle: (lastEditAt: () => number, burst: boolean) => Promise<void> = afterPaint,
   ) {}
 
   onStatus(fn: (s: SaveStatus) => void): () => void {
@@ -329,7 +359,7 @@ export class Autosave {
     this.holding = false;
     if (!save) this.dirty = false;
     this.setStatus(this.read === 'yes' ? { kind: 'saved', at: this.now() } : { kind: 'starting' });
-    if (save && this.store) this.request(this.store);
+    if (save && this.store) this.request(this.store, true);
   }
 
   get held(): boolean {
@@ -411,7 +441,7 @@ export class Autosave {
 
   /** Saves edits made while the read was slow (the caller first puts any state it read in the store). */
   saveNow(): void {
-    if (this.dirty && this.store) this.request(this.store);
+    if (this.dirty && this.store) this.request(this.store, true);
   }
 
   /** What was set aside as unreadable, as JSON text for download, or null. */
@@ -429,16 +459,23 @@ export class Autosave {
     return store.subscribe(() => this.request(store));
   }
 
-  private request(store: Store) {
+  /** A save of the store's state; `atOnce` for a step the user took on purpose (keeping a shared link). */
+  private request(store: Store, atOnce = false) {
+    const at = this.now();
+    let burst = !atOnce && at - this.lastEditAt < EDIT_PAUSE_MS;
+    this.lastEditAt = at;
     this.dirty = true;
     if (this.pending || this.read !== 'yes' || this.holding) return;
     // Shown at once (the edit's own render shows it): the edit is not stored until the save below.
     if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
     this.pending = (async () => {
-      // Let the edit draw, and a burst of edits land, first.
-      await this.settle();
       // A shared link may have come on view meanwhile: its designs are not the user's to save.
       while (this.dirty && !this.holding) {
+        // Let the edit draw, and a burst of edits land, first.
+        await this.settle(() => this.lastEditAt, burst);
+        if (this.holding) break;
+        // Edits that arrive while this one is written belong to a burst: the next save waits for a pause.
+        burst = true;
         this.dirty = false;
         const state = store.get();
         const value = savedState(state, this.now());

@@ -1,0 +1,83 @@
+// The app's save timing (persist.ts afterEditsPause): a change on its own is written at once; a burst
+// of edits is written after the edits pause, or within SAVE_WITHIN_MS when they never do; nothing is lost.
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEditsPause, Autosave, EDIT_PAUSE_MS, memoryBackend, SAVE_WITHIN_MS } from '../src/ui/persist.ts';
+import { Store } from '../src/ui/store.ts';
+import { demoPair } from '../src/ui/demo.ts';
+
+const volumeOf = (v: unknown) =>
+  (v as { state: { project: { variants: { design: { ways: { box: { vb_l: number } }[] } }[] } } }).state.project.variants[0].design.ways[0]
+    .box.vb_l;
+
+async function started() {
+  const backend = memoryBackend();
+  const save = new Autosave(backend, Date.now, afterEditsPause());
+  const store = new Store(demoPair);
+  await save.load();
+  save.attach(store);
+  const edit = (vb: number) => store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: vb });
+  return { backend, save, edit };
+}
+
+describe('saves wait for a pause in the edits', () => {
+  beforeEach(() => vi.useFakeTimers());
+  afterEach(() => vi.useRealTimers());
+
+  it('writes a change that comes alone at once', async () => {
+    const { backend, save, edit } = await started();
+    edit(12);
+    await vi.advanceTimersByTimeAsync(20);
+    expect(backend.writes).toBe(1);
+    expect(save.status.kind).toBe('saved');
+    expect(volumeOf(backend.value)).toBe(12);
+  });
+
+  it('writes the rest of a burst once, after the edits pause, with the last value', async () => {
+    const { backend, save, edit } = await started();
+    for (let i = 0; i < 10; i++) {
+      edit(10 + i);
+      await vi.advanceTimersByTimeAsync(100);
+    }
+    // One second of edits 100 ms apart: the first was written at once, the nine after it wait for a
+    // pause, and the status says so.
+    expect(backend.writes).toBe(1);
+    expect(volumeOf(backend.value)).toBe(10);
+    expect(save.status.kind).toBe('saving');
+    await vi.advanceTimersByTimeAsync(EDIT_PAUSE_MS + 50);
+    expect(backend.writes).toBe(2);
+    expect(save.status.kind).toBe('saved');
+    expect(volumeOf(backend.value)).toBe(19);
+  });
+
+  it('writes edits that never pause every SAVE_WITHIN_MS or so', async () => {
+    const { backend, edit } = await started();
+    const writesAt: number[] = [];
+    for (let t = 0; t < 3 * SAVE_WITHIN_MS; t += 50) {
+      edit(10 + t * 1e-4);
+      const before = backend.writes;
+      await vi.advanceTimersByTimeAsync(50);
+      if (backend.writes > before) writesAt.push(t + 50);
+    }
+    // Six seconds of edits 50 ms apart (120 edits): the first at once, then one write about every
+    // SAVE_WITHIN_MS, not one per edit.
+    expect(writesAt[0]).toBeLessThanOrEqual(50);
+    expect(writesAt.length).toBeGreaterThanOrEqual(3);
+    expect(writesAt.length).toBeLessThanOrEqual(4);
+    for (let k = 1; k < writesAt.length; k++) {
+      expect(writesAt[k] - writesAt[k - 1]).toBeGreaterThanOrEqual(SAVE_WITHIN_MS);
+      expect(writesAt[k] - writesAt[k - 1]).toBeLessThanOrEqual(SAVE_WITHIN_MS + 100);
+    }
+  });
+
+  it('keeps an edit not yet written in the journal when the page goes', async () => {
+    const { backend, save, edit } = await started();
+    edit(23);
+    await vi.advanceTimersByTimeAsync(100);
+    edit(23.5);
+    await vi.advanceTimersByTimeAsync(100);
+    // The second edit of the burst is not written yet; the page going journals it.
+    expect(volumeOf(backend.value)).toBe(23);
+    save.flushNow();
+    expect(volumeOf(backend.journaled)).toBe(23.5);
+  });
+});
