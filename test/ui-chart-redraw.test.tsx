@@ -83,3 +83,49 @@ describe('Curves: one draw per chart per frame', () => {
     expect(last[1][50]).toBeCloseTo(want[50], 9);
   });
 });
+
+describe('Curves: charts off screen are drawn in idle time, a few at a time', () => {
+  it('draws one chart per idle period when the period is short, and every chart in the end', async () => {
+    // Every chart off screen (an observer that never reports one in view), and idle periods that are
+    // always nearly over: the idle drawing must then do one chart per period and come back for the rest.
+    const idle: ((d: IdleDeadline) => void)[] = [];
+    vi.stubGlobal(
+      'IntersectionObserver',
+      class {
+        constructor(private readonly report: (entries: { isIntersecting: boolean }[]) => void) {}
+        observe() {
+          this.report([{ isIntersecting: false }]);
+        }
+        disconnect() {}
+      },
+    );
+    vi.stubGlobal('requestIdleCallback', (run: (d: IdleDeadline) => void) => idle.push(run));
+    try {
+      const store = new Store(demoPair);
+      store.dispatch({ type: 'settings', patch: { cautionsDismissed: true, screen: 'curves' } });
+      render(<App store={store} autosave={new Autosave(memoryBackend())} />);
+      await act(() => new Promise<void>((r) => requestAnimationFrame(() => r())));
+      idle.length = 0;
+      const before = drawn.length;
+      act(() => {
+        store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 13 });
+      });
+      // Nothing on screen, so the edit itself draws nothing.
+      expect(drawn.length - before).toBe(0);
+      const charts = document.querySelectorAll('[data-chart]').length;
+      expect(charts).toBeGreaterThan(3);
+      const short = { didTimeout: false, timeRemaining: () => 0.5 } as IdleDeadline;
+      const perPeriod: number[] = [];
+      for (let k = 0; k < 2 * charts && idle.length > 0; k++) {
+        const n = drawn.length;
+        act(() => idle.shift()!(short));
+        perPeriod.push(drawn.length - n);
+      }
+      expect(perPeriod.every((n) => n === 1)).toBe(true);
+      expect(drawn.length - before).toBe(charts);
+      expect(idle.length).toBe(0);
+    } finally {
+      vi.unstubAllGlobals();
+    }
+  });
+});

@@ -139,8 +139,9 @@ export async function bench(): Promise<BenchResult[]> {
     const allA: number[] = [];
     let mb: Measured | null = null;
     let ma: Measured | null = null;
-    // REDRAW_ROUNDS: more rounds of 20 edits each for a steadier p95 (4 by default).
-    const rounds = Number(process.env.REDRAW_ROUNDS ?? 4);
+    // REDRAW_ROUNDS rounds of 20 edits each (8 by default: the p95 of 160 edits is their eighth
+    // slowest; over 80 it was the fourth, which one stall of the machine moved by several ms).
+    const rounds = Number(process.env.REDRAW_ROUNDS ?? 8);
     for (let round = 0; round < rounds; round++) {
       mb = await measure(before, '[data-chart]', 20, 'store');
       ma = await measure(after, '[data-chart]', 20, 'store');

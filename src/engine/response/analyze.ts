@@ -398,6 +398,27 @@ function hotWay(way: DriverWay, riseK: number): DriverWay {
   return { ...way, driver: { ...d, re: d.re * (1 + d.thermal.alphaR * riseK) } };
 }
 
+/**
+ * One copy of a way whose coil resistance is set in place (`heat`), for the heating steps of
+ * `maxSine`: a copy of the way and its driver per step was most of what those steps cost. Only for
+ * a way without a measured response, whose correction is kept by the table and built against the
+ * way first asked for (response/measured.ts): a copy changed later must not be that way. A design's
+ * way is never changed, so its copy stays right for as long as the way lives.
+ */
+const heated = new WeakMap<DriverWay, DriverWay>();
+function heat(way: DriverWay, riseK: number): DriverWay {
+  if (riseK === 0 || way.measured) return hotWay(way, riseK);
+  let hot = heated.get(way);
+  if (!hot) {
+    hot = { ...way, driver: { ...way.driver } };
+    heated.set(way, hot);
+  }
+  const d = way.driver;
+  // The same expression as hotWay's, so the same resistance to the last bit.
+  hot.driver.re = d.re * (1 + d.thermal.alphaR * riseK);
+  return hot;
+}
+
 /** Power in the coil's resistance, W, for a response at some drive (rms current). */
 const coilPower = (way: DriverWay, r: PointResponse) => abs(r.current) ** 2 * way.driver.re;
 
@@ -417,31 +438,43 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
   // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
   const vAmp = system.amplifier.vPeak / (Math.SQRT2 * abs(wayFilterAt(way.filter, w)));
   // Thermal: the drive that holds the coil at its rating, with the coil's resistance at the rating.
-  const atMax = hotWay(way, riseMax);
+  const atMax = heat(way, riseMax);
   const rAtMax = respond(system, atMax, f, 1);
   const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, rAtMax)));
   let rise = 0;
-  let best = { v: vAmp, pa: 0, limit: 'amplifier' as MaxSplLimit };
+  // The best so far as plain numbers (no object per heating step).
+  let bestV = vAmp;
+  let bestPa = 0;
+  let bestLimit: MaxSplLimit = 'amplifier';
   for (let it = 0; it < 12; it++) {
-    const hot = hotWay(way, rise);
+    const hot = heat(way, rise);
     const r = respond(system, hot, f, 1);
-    best = { v: vAmp, pa: 0, limit: 'amplifier' };
-    const consider = (v: number, limit: MaxSplLimit) => {
-      if (v < best.v) best = { v, pa: 0, limit };
-    };
-    consider(d.xmax / (Math.SQRT2 * abs(r.excursion)), 'excursion');
+    bestV = vAmp;
+    bestPa = 0;
+    bestLimit = 'amplifier';
+    const vExcursion = d.xmax / (Math.SQRT2 * abs(r.excursion));
+    if (vExcursion < bestV) {
+      bestV = vExcursion;
+      bestLimit = 'excursion';
+    }
     const stress = outletStress(way.box, r.outletFlow, w);
-    if (stress) consider(stress.limit / stress.value, stress.kind === 'radiator' ? 'radiator' : 'port');
-    const riseHere = rth * coilPower(hot, r) * best.v * best.v;
-    if (riseHere >= riseMax || vThermal <= best.v) {
+    if (stress) {
+      const vStress = stress.limit / stress.value;
+      if (vStress < bestV) {
+        bestV = vStress;
+        bestLimit = stress.kind === 'radiator' ? 'radiator' : 'port';
+      }
+    }
+    const riseHere = rth * coilPower(hot, r) * bestV * bestV;
+    if (riseHere >= riseMax || vThermal <= bestV) {
       // The coil reaches its rating first: the drive that holds it there, with the hot coil's response.
       return { v: vThermal, pa: abs(rAtMax.pressure) * vThermal, limit: 'thermal' };
     }
-    best.pa = abs(r.pressure) * best.v;
+    bestPa = abs(r.pressure) * bestV;
     if (Math.abs(riseHere - rise) < 1e-3) break;
     rise = riseHere;
   }
-  return best;
+  return { v: bestV, pa: bestPa, limit: bestLimit };
 }
 
 /** A passive way's network on the grid: its transfer at the analysis drive, its parts at the planned drive. */

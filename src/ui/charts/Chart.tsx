@@ -251,10 +251,15 @@ function drawInFrame(u: uPlot, d: ChartData) {
 /**
  * Charts scrolled out of view are not drawn in the edit's task: they are marked and drawn when the
  * browser is idle or when they scroll into view, whichever comes first, so an edit pays only for
- * the charts on screen. Without IntersectionObserver every chart counts as on screen.
+ * the charts on screen. The idle drawing stops while less than `IDLE_SLICE_MS` of the idle period
+ * is left (at least one chart each time) and goes on in the next one, so a keystroke that comes
+ * meanwhile waits for one chart, not for all of them. Without IntersectionObserver every chart
+ * counts as on screen.
  */
 const offscreen = new Map<uPlot, ChartData>();
 let idleRequested = false;
+/** About twice what one chart takes to draw on a slow machine. */
+const IDLE_SLICE_MS = 2;
 function drawWhenSeen(u: uPlot, d: ChartData, visible: boolean) {
   if (visible) {
     offscreen.delete(u);
@@ -262,15 +267,23 @@ function drawWhenSeen(u: uPlot, d: ChartData, visible: boolean) {
     return;
   }
   offscreen.set(u, d);
+  drawWhenIdle();
+}
+
+function drawWhenIdle() {
   if (idleRequested) return;
   idleRequested = true;
-  const later = (run: () => void) =>
+  const later = (run: (deadline?: IdleDeadline) => void) =>
     typeof requestIdleCallback === 'function' ? requestIdleCallback(run, { timeout: 500 }) : setTimeout(run, 50);
-  later(() => {
+  later((deadline) => {
     idleRequested = false;
-    const due = [...offscreen];
-    offscreen.clear();
-    for (const [plot, data] of due) drawInFrame(plot, data);
+    for (const [plot, data] of offscreen) {
+      offscreen.delete(plot);
+      // In a batch the chart is drawn here and now (not in a microtask), so the deadline counts it.
+      plot.batch(() => drawInFrame(plot, data));
+      if (deadline && !deadline.didTimeout && deadline.timeRemaining() < IDLE_SLICE_MS) break;
+    }
+    if (offscreen.size > 0) drawWhenIdle();
   });
 }
 
