@@ -30,7 +30,16 @@ export function amplifierPowerW(
 
 /** The amplifier's output, V rms, for `voltsRms` at its input: through an active way's filter. */
 export function amplifierVolts(way: DriverWay, freqHz: Float64Array, voltsRms: number): Float64Array {
-  return Float64Array.from(freqHz, (f) => voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * f)));
+  const out = new Float64Array(freqHz.length);
+  for (let i = 0; i < out.length; i++) out[i] = voltsRms * abs(wayFilterAt(way.filter, 2 * Math.PI * freqHz[i]));
+  return out;
+}
+
+/** Each value as a percentage of `limit` (a loop: `Float64Array.from` with a map goes through an iterator). */
+function percentOf(v: ArrayLike<number>, limit: number): Float64Array {
+  const out = new Float64Array(v.length);
+  for (let i = 0; i < out.length; i++) out[i] = (100 * v[i]) / limit;
+  return out;
 }
 
 const net = (c: Curves) => c.network !== null;
@@ -79,11 +88,10 @@ export function limitUse(
   voltsRms: number,
   drive = net(curves) ? null : amplifierVolts(way, curves.freqHz, voltsRms),
 ): LimitUse {
-  const pct = (v: ArrayLike<number>, limit: number) => Float64Array.from(v, (x) => (100 * x) / limit);
   const xmaxMm = way.unit.xmax * 1000;
   return {
-    excursionPct: pct(curves.plannedExcursionMm, xmaxMm),
-    portPct: curves.plannedPortAirSpeed ? pct(curves.plannedPortAirSpeed, PORT_SPEED_LIMIT) : null,
-    heatPct: way.driver.pe > 0 ? pct(coilHeatW(system, way, curves, voltsRms, drive), way.driver.pe) : null,
+    excursionPct: percentOf(curves.plannedExcursionMm, xmaxMm),
+    portPct: curves.plannedPortAirSpeed ? percentOf(curves.plannedPortAirSpeed, PORT_SPEED_LIMIT) : null,
+    heatPct: way.driver.pe > 0 ? percentOf(coilHeatW(system, way, curves, voltsRms, drive), way.driver.pe) : null,
   };
 }
