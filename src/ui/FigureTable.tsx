@@ -1,6 +1,5 @@
 // The figures a designer reads first, for A and B side by side: the system as a whole (the sum of
 // its ways at the seat), then the way shown on the Driver sheet and Cabinet.
-import { Component } from 'preact';
 import type { Analysis, Figures } from '../engine/response/types.ts';
 import type { DesignDoc } from '../engine/design/document.ts';
 import type { SpeakerSystem } from '../engine/system.ts';
@@ -84,36 +83,6 @@ function contextOf(analysis: Analysis, system: SpeakerSystem | null, doc: Design
   };
 }
 
-interface CellProps {
-  testid: string;
-  text: string;
-  unit: string;
-  over: boolean;
-  stale: boolean;
-}
-
-/**
- * One figure as text. Drawn again only when that text changes: an edit of A leaves B's column and
- * A's unchanged figures as they are (Preact would otherwise compare every cell of the table).
- */
-class FigureCell extends Component<CellProps> {
-  override shouldComponentUpdate(next: CellProps): boolean {
-    const now = this.props;
-    return (
-      next.text !== now.text || next.unit !== now.unit || next.over !== now.over || next.stale !== now.stale || next.testid !== now.testid
-    );
-  }
-  render({ testid, text, unit, over, stale }: CellProps) {
-    return (
-      <td class={`n${over ? ' over' : ''}${stale ? ' stale' : ''}`} data-testid={testid}>
-        {text}
-        {unit ? <span class="u"> {unit}</span> : null}
-        {over ? <span class="visually-hidden"> (over the limit)</span> : null}
-      </td>
-    );
-  }
-}
-
 /**
  * `compact`: the side panel's few rows. `paper`: the client sheet's, where the parameters table above
  * already gives each way's enclosure and Xmax, and the way is the first driver way (the woofer).
@@ -140,13 +109,11 @@ export function FigureTable(p: { compact?: boolean; paper?: boolean }) {
       const unit = displayUnit(r.unit, units);
       const v = raw === null || raw === undefined ? raw : unit.fromFile(raw);
       return (
-        <FigureCell
-          testid={`fig-${s}-${r.id}`}
-          text={num(v, r.digits ?? 3)}
-          unit={v !== null && v !== undefined ? unit.label : ''}
-          over={over}
-          stale={derived[s].stale}
-        />
+        <td class={`n${over ? ' over' : ''}${derived[s].stale ? ' stale' : ''}`} data-testid={`fig-${s}-${r.id}`}>
+          {num(v, r.digits ?? 3)}
+          {v !== null && v !== undefined && unit.label ? <span class="u"> {unit.label}</span> : null}
+          {over ? <span class="visually-hidden"> (over the limit)</span> : null}
+        </td>
       );
     });
   return (
