@@ -1,12 +1,12 @@
 // The one page: header with the design pair's actions, the screens, a side panel of key figures.
 // Each part lives in its own module under app/; this file only puts them together.
-import { useCallback, useMemo, useRef, useState } from 'preact/hooks';
+import { useCallback, useMemo, useState } from 'preact/hooks';
 import { AppContext, type AppView } from './context.ts';
 import { derive } from './engine.ts';
 import { CautionsPanel } from './Cautions.tsx';
 import type { Autosave } from './persist.ts';
 import { registerServiceWorker, type UpdateHandle } from './pwa.ts';
-import type { ScreenId, Slot, Store } from './store.ts';
+import type { ScreenId, Store } from './store.ts';
 import { Banners, SaveIndicator } from './app/Banners.tsx';
 import { ConfirmDialog, ProblemsDialog, ShareDialog, type ConfirmQuestion, type ProblemReport } from './app/dialogs.tsx';
 import { ProjectDialog } from './app/ProjectDialog.tsx';
@@ -57,27 +57,6 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
     confirm,
   };
 
-  // The banners and the save status read the latest deps when clicked, so their elements can stay
-  // the same across edits (an edit then re-renders neither: they follow the save status themselves).
-  const depsNow = useRef(deps);
-  depsNow.current = deps;
-  const banners = useMemo(() => {
-    const exportNow = (slot: Slot) => exportDesign(depsNow.current, slot);
-    return (
-      <>
-        <Banners update={update} autosave={autosave} exportDesign={exportNow} />
-        <StorageBanners
-          autosave={autosave}
-          onRetry={() => void retryStorage(store, autosave)}
-          onExport={exportNow}
-          onKeepShared={() => void sharedView.keep()}
-          onLeaveShared={() => void sharedView.leave()}
-        />
-      </>
-    );
-  }, [update, autosave, store, sharedView]);
-  const saveIndicator = useMemo(() => <SaveIndicator autosave={autosave} />, [autosave]);
-
   useShareLinks(deps, () => registerServiceWorker((u) => setUpdate(u)));
   useUndoKeys(store);
 
@@ -109,7 +88,14 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
           }}
         />
         {tabs}
-        {banners}
+        <Banners update={update} autosave={autosave} exportDesign={(slot) => exportDesign(deps, slot)} />
+        <StorageBanners
+          autosave={autosave}
+          onRetry={() => void retryStorage(store, autosave)}
+          onExport={(slot) => exportDesign(deps, slot)}
+          onKeepShared={() => void sharedView.keep()}
+          onLeaveShared={() => void sharedView.leave()}
+        />
 
         <div class="body">
           <main>
@@ -121,7 +107,7 @@ export function App({ store, autosave }: { store: Store; autosave: Autosave }) {
         </div>
 
         <footer class="status">
-          {saveIndicator}
+          <SaveIndicator autosave={autosave} />
           <span>Runs on this machine only: nothing is uploaded. Curves are model estimates.</span>
           <span class="build" data-testid="build">
             preheard {__APP_VERSION__}
