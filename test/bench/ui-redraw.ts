@@ -9,6 +9,7 @@ import { existsSync, mkdirSync, rmSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildApp, ensureChromium, launchBrowser, ROOT, startPreview } from '../e2e/harness.mjs';
+import { EDIT_MEASURE, tracedEdits } from './edit-trace.ts';
 
 export interface BenchResult {
   name: string;
@@ -29,7 +30,7 @@ function quantile(xs: number[], q: number): number {
  * time returned), then until every chart has (off-screen ones included: `all`). Kept as source text:
  * tsx's transform adds helpers to compiled functions that do not exist inside the page.
  */
-const MEASURE = String.raw`async ({ selector, n, how }) => {
+const MEASURE = String.raw`async ({ selector, n, how, mark }) => {
   const store = window.__preheard.store;
   const charts = [...document.querySelectorAll(selector)];
   const onScreen = charts.map((c) => { const r = c.getBoundingClientRect(); return r.bottom > 0 && r.top < innerHeight && r.right > 0 && r.left < innerWidth; });
@@ -58,6 +59,7 @@ const MEASURE = String.raw`async ({ selector, n, how }) => {
     void document.body.offsetHeight;
     const t1 = performance.now();
     if (pending(after, true)) throw new Error('edit ' + i + ': not every chart on screen redrew');
+    if (mark) performance.measure(mark + '-' + i, { start: t0, end: t1 });
     times.push(t1 - t0);
     while (pending(after, false) && performance.now() - t0 < 3000) { await new Promise((r) => setTimeout(r, 1)); after = draws(); }
     if (pending(after, false)) throw new Error('edit ' + i + ': an off-screen chart never redrew');
@@ -76,8 +78,9 @@ interface Measured {
 
 type Page = Awaited<ReturnType<Awaited<ReturnType<typeof launchBrowser>>['context']['newPage']>>;
 
-function measure(page: Page, selector: string, n: number, how: 'store' | 'input'): Promise<Measured> {
-  return page.evaluate(`(${MEASURE})(${JSON.stringify({ selector, n, how })})`) as Promise<Measured>;
+/** `mark`: each edit also gets a `performance.measure` of that name (for a trace). */
+function measure(page: Page, selector: string, n: number, how: 'store' | 'input', mark = ''): Promise<Measured> {
+  return page.evaluate(`(${MEASURE})(${JSON.stringify({ selector, n, how, mark })})`) as Promise<Measured>;
 }
 
 /** The commit before the redraw work (issue 13's Curves part): the "before" of the side-by-side rows. */
@@ -181,6 +184,42 @@ export async function bench(): Promise<BenchResult[]> {
       row('every Curves chart redrawn (off-screen ones when idle), median', allA, now, 'for reference'),
     );
     await before.close();
+
+    // A traced round of the new build alone, after the measured ones: the page's own CPU time per
+    // edit beside the wall time (edit-trace.ts). Its wall times are not in the rows above (tracing
+    // slows the page a little).
+    const cdp = await browser.context.newCDPSession(after);
+    const costs = await tracedEdits(cdp, () => measure(after, '[data-chart]', 80, 'store', EDIT_MEASURE));
+    await cdp.detach();
+    if (costs.length > 0) {
+      const cpu = costs.map((c) => c.cpu);
+      const slowest = [...costs].sort((x, y) => y.wall - x.wall).slice(0, Math.max(1, Math.round(costs.length / 10)));
+      const waited = slowest.reduce((acc, c) => acc + c.wall, 0) / slowest.reduce((acc, c) => acc + c.cpu, 0);
+      results.push(
+        {
+          name: `ui: Curves edit, the page's main-thread CPU time, median (traced, ${costs.length} edits)`,
+          value: quantile(cpu, 0.5),
+          unit: 'ms',
+          target: 'for reference',
+        },
+        { name: "ui: Curves edit, the page's main-thread CPU time, p95", value: quantile(cpu, 0.95), unit: 'ms', target: 'for reference' },
+        {
+          name: 'ui: Curves edit, wall time of the same traced edits, median (tracing slows them)',
+          value: quantile(
+            costs.map((c) => c.wall),
+            0.5,
+          ),
+          unit: 'ms',
+          target: 'for reference',
+        },
+        {
+          name: 'ui: Curves edit, slowest tenth: wall time / main-thread CPU time',
+          value: waited,
+          unit: 'x',
+          target: 'for reference (over 1: the edit waited for a core)',
+        },
+      );
+    }
 
     // Typing into the Cabinet sheet: the input event, the sheet and the side panel's charts.
     const page = after;
