@@ -251,7 +251,7 @@ function drawInFrame(u: uPlot, d: ChartData) {
 /**
  * Charts scrolled out of view are not drawn in the edit's task: they are marked and drawn when the
  * browser is idle or when they scroll into view, whichever comes first, so an edit pays only for
- * the charts on screen. The idle drawing stops while less than `IDLE_SLICE_MS` of the idle period
+ * the charts on screen. The idle drawing stops when less than `IDLE_SLICE_MS` of the idle period
  * is left (at least one chart each time) and goes on in the next one, so a keystroke that comes
  * meanwhile waits for one chart, not for all of them. Without IntersectionObserver every chart
  * counts as on screen.
