@@ -69,6 +69,19 @@ describe('saves wait for a pause in the edits', () => {
     }
   });
 
+  it('still writes a burst when the clock is set back an hour in the middle of it', async () => {
+    const { backend, edit } = await started();
+    edit(10);
+    await vi.advanceTimersByTimeAsync(100);
+    edit(11);
+    await vi.advanceTimersByTimeAsync(100);
+    // Set back while the burst's save waits for its pause: measured by the clock, the last edit now
+    // lies an hour ahead.
+    vi.setSystemTime(Date.now() - 3_600_000);
+    await vi.advanceTimersByTimeAsync(SAVE_WITHIN_MS + 100);
+    expect(volumeOf(backend.value)).toBe(11);
+  });
+
   it('keeps an edit not yet written in the journal when the page goes', async () => {
     const { backend, save, edit } = await started();
     edit(23);

@@ -244,7 +244,8 @@ export function afterEditsPause(now: () => number = Date.now): (lastEditAt: () =
     while (burst) {
       const quiet = now() - lastEditAt();
       const waited = now() - start;
-      if (quiet >= EDIT_PAUSE_MS || waited >= SAVE_WITHIN_MS) break;
+      // A clock set back meanwhile (negative times) ends the wait too: the save must not wait for it.
+      if (quiet >= EDIT_PAUSE_MS || waited >= SAVE_WITHIN_MS || quiet < 0 || waited < 0) break;
       await new Promise((r) => setTimeout(r, Math.min(EDIT_PAUSE_MS - quiet, SAVE_WITHIN_MS - waited)));
     }
     await afterPaint();
