@@ -9,14 +9,13 @@ const volumeOf = (v: unknown) =>
   (v as { state: { project: { variants: { design: { ways: { box: { vb_l: number } }[] } }[] } } }).state.project.variants[0].design.ways[0]
     .box.vb_l;
 
-async function started() {
-  const backend = memoryBackend();
+async function started(backend = memoryBackend()) {
   const save = new Autosave(backend, Date.now, afterEditsPause());
   const store = new Store(demoPair);
   await save.load();
   save.attach(store);
   const edit = (vb: number) => store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: vb });
-  return { backend, save, edit };
+  return { backend, save, store, edit };
 }
 
 describe('saves wait for a pause in the edits', () => {
@@ -92,5 +91,63 @@ describe('saves wait for a pause in the edits', () => {
     expect(volumeOf(backend.value)).toBe(23);
     save.flushNow();
     expect(volumeOf(backend.journaled)).toBe(23.5);
+  });
+
+  it('says "saving" while edits made during a slow write are not yet written', async () => {
+    // A backend that takes 80 ms per write; edits every 40 ms.
+    const slow = memoryBackend();
+    const write = slow.save.bind(slow);
+    slow.save = async (value, good) => {
+      await new Promise((r) => setTimeout(r, 80));
+      await write(value, good);
+    };
+    const { backend, save, edit } = await started(slow);
+    const seen: { t: number; status: string; stored: number | undefined }[] = [];
+    for (let t = 0; t < 1200; t += 40) {
+      edit(10 + t / 40);
+      await vi.advanceTimersByTimeAsync(40);
+      seen.push({ t, status: save.status.kind, stored: backend.value === undefined ? undefined : volumeOf(backend.value) });
+    }
+    const last = 10 + 1160 / 40;
+    // Never "saved" while the stored value is behind the last edit.
+    for (const x of seen) if (x.status === 'saved') expect(x.stored).toBe(10 + x.t / 40);
+    await vi.advanceTimersByTimeAsync(SAVE_WITHIN_MS + 500);
+    expect(save.status.kind).toBe('saved');
+    expect(volumeOf(backend.value)).toBe(last);
+  });
+
+  it('writes nothing when a shared link is put on view and left during a burst\'s wait', async () => {
+    const { backend, save, store, edit } = await started();
+    edit(10);
+    await vi.advanceTimersByTimeAsync(100);
+    const writes = backend.writes;
+    edit(11);
+    save.hold();
+    // The link's designs come on view, then the user leaves without keeping them.
+    store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 99 });
+    save.release(false);
+    await vi.advanceTimersByTimeAsync(SAVE_WITHIN_MS + 500);
+    expect(backend.writes).toBe(writes);
+    expect(volumeOf(backend.value)).toBe(10);
+    // The burst's unwritten edit was journalled when the link came on view.
+    expect(volumeOf(backend.journaled)).toBe(11);
+  });
+
+  it('starts a waiting save at once when the page is hidden or an update reloads it', async () => {
+    const { backend, save, edit } = await started();
+    edit(10);
+    await vi.advanceTimersByTimeAsync(100);
+    edit(11);
+    await vi.advanceTimersByTimeAsync(10);
+    expect(volumeOf(backend.value)).toBe(10);
+    save.flushNow();
+    await vi.advanceTimersByTimeAsync(5);
+    expect(volumeOf(backend.value)).toBe(11);
+    edit(12);
+    await vi.advanceTimersByTimeAsync(10);
+    const done = save.flush();
+    await vi.advanceTimersByTimeAsync(5);
+    await done;
+    expect(volumeOf(backend.value)).toBe(12);
   });
 });

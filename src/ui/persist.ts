@@ -236,19 +236,25 @@ export const SAVE_WITHIN_MS = 2000;
  * before) is saved at once, in idle time after its frame. Changes that follow each other faster
  * (typing, dragging) are a burst: their save waits for the edits to pause, or `SAVE_WITHIN_MS` at
  * most, so a burst costs a few writes, status changes and announcements to the other tabs rather
- * than one per edit, and those stay out of the way of the redraws.
+ * than one per edit, and those stay out of the way of the redraws. `cut` ends the wait at once (the
+ * page is being hidden, an update is about to reload it): then the write starts without waiting
+ * for idle time either.
  */
-export function afterEditsPause(now: () => number = Date.now): (lastEditAt: () => number, burst: boolean) => Promise<void> {
-  return async (lastEditAt, burst) => {
+export function afterEditsPause(
+  now: () => number = Date.now,
+): (sinceLastEdit: () => number, burst: boolean, cut: Promise<void>) => Promise<void> {
+  return async (sinceLastEdit, burst, cut) => {
     const start = now();
+    const cutNow = cut.then(() => true);
     while (burst) {
-      const quiet = now() - lastEditAt();
+      const quiet = sinceLastEdit();
       const waited = now() - start;
       // A clock set back meanwhile (negative times) ends the wait too: the save must not wait for it.
       if (quiet >= EDIT_PAUSE_MS || waited >= SAVE_WITHIN_MS || quiet < 0 || waited < 0) break;
-      await new Promise((r) => setTimeout(r, Math.min(EDIT_PAUSE_MS - quiet, SAVE_WITHIN_MS - waited)));
+      const pause = new Promise<boolean>((r) => setTimeout(() => r(false), Math.min(EDIT_PAUSE_MS - quiet, SAVE_WITHIN_MS - waited)));
+      if (await Promise.race([pause, cutNow])) return;
     }
-    await afterPaint();
+    if (await Promise.race([afterPaint().then(() => false), cutNow])) return;
   };
 }
 
@@ -282,13 +288,18 @@ export function usableState(v: unknown): { savedAt: number; state: AppState } | 
   return r.ok ? { savedAt: v.savedAt, state: stateOf(r.project, settings) } : null;
 }
 
-/** Connects a store to a backend: every change is saved (coalesced until idle time after the edit's frame). */
+/**
+ * Connects a store to a backend: every change is saved, after its frame and, for a burst of edits,
+ * after the edits pause (`settle`: the app's timing is `afterEditsPause`).
+ */
 export class Autosave {
   status: SaveStatus = { kind: 'starting' };
   private pending: Promise<void> | null = null;
   private dirty = false;
   /** When the store last changed (`now`'s clock): a burst's save waits for the edits to pause. */
   private lastEditAt = Number.NEGATIVE_INFINITY;
+  /** Ends the wait of the save under way (see `hurry`). */
+  private cutWait: (() => void) | null = null;
   /** Whether the stored state has been read: until then nothing is written. */
   private read: 'no' | 'yes' | 'failed' = 'no';
   /** A shared link is on view: nothing is written until the user keeps it. */
@@ -305,10 +316,10 @@ export class Autosave {
     private readonly backend: StorageBackend,
     private readonly now: () => number = () => Date.now(),
     /**
-     * Waits before a save begins, told when the last edit came and whether the edits come in a burst
-     * (a burst of edits then lands in one write).
+     * Waits before a save begins, told how long ago the last edit came, whether the edits come in a
+     * burst (a burst then lands in one write) and, by `cut`, when to stop waiting at once.
      */
-    private readonly settle: (lastEditAt: () => number, burst: boolean) => Promise<void> = afterPaint,
+    private readonly settle: (sinceLastEdit: () => number, burst: boolean, cut: Promise<void>) => Promise<void> = afterPaint,
   ) {}
 
   onStatus(fn: (s: SaveStatus) => void): () => void {
@@ -372,6 +383,8 @@ export class Autosave {
    * or unloaded, when an IndexedDB write still under way may be dropped.
    */
   flushNow(): void {
+    // A page that is only hidden lives on: its save, if waiting for a pause, starts now.
+    this.hurry();
     if (!this.store || this.read !== 'yes' || this.holding || !this.backend.journal) return;
     const state = this.store.get();
     if (state === this.lastWritten || state === this.journaled) return;
@@ -466,15 +479,26 @@ export class Autosave {
     let burst = !atOnce && at - this.lastEditAt < EDIT_PAUSE_MS;
     this.lastEditAt = at;
     this.dirty = true;
-    if (this.pending || this.read !== 'yes' || this.holding) return;
-    // Shown at once (the edit's own render shows it): the edit is not stored until the save below.
+    if (this.read !== 'yes' || this.holding) return;
+    // Shown at once (the edit's own render shows it), also while an earlier write is under way: the
+    // edit is not stored until the save below.
     if (this.status.kind === 'saved' || this.status.kind === 'starting') this.setStatus({ kind: 'saving' });
+    if (this.pending) {
+      // A step taken on purpose does not wait for the burst before it to pause.
+      if (atOnce) this.hurry();
+      return;
+    }
     this.pending = (async () => {
       // A shared link may have come on view meanwhile: its designs are not the user's to save.
       while (this.dirty && !this.holding) {
         // Let the edit draw, and a burst of edits land, first.
-        await this.settle(() => this.lastEditAt, burst);
-        if (this.holding) break;
+        const cut = new Promise<void>((resolve) => {
+          this.cutWait = resolve;
+        });
+        await this.settle(() => this.now() - this.lastEditAt, burst, cut);
+        this.cutWait = null;
+        // A link put on view, or left without keeping it, while this save waited: nothing to write.
+        if (this.holding || !this.dirty) break;
         // Edits that arrive while this one is written belong to a burst: the next save waits for a pause.
         burst = true;
         this.dirty = false;
@@ -488,8 +512,9 @@ export class Autosave {
             this.backend.journal?.clear();
             this.journaled = null;
           }
-          // A recovery notice stays up until the user has seen it; saving goes on underneath.
-          if (this.status.kind !== 'recovered') this.setStatus({ kind: 'saved', at: value.savedAt });
+          // A recovery notice stays up until the user has seen it; saving goes on underneath. Edits
+          // made while this was written are not saved yet: the status says so until they are.
+          if (this.status.kind !== 'recovered') this.setStatus(this.dirty ? { kind: 'saving' } : { kind: 'saved', at: value.savedAt });
           for (const fn of this.savedListeners) fn(value);
         } catch (e) {
           this.setStatus(describeFailure(e));
@@ -501,6 +526,12 @@ export class Autosave {
 
   /** Resolves when everything dispatched so far has been written (or has failed). */
   async flush(): Promise<void> {
+    this.hurry();
     while (this.pending) await this.pending;
+  }
+
+  /** The save under way stops waiting for a pause in the edits or for idle time and writes now. */
+  private hurry(): void {
+    this.cutWait?.();
   }
 }

@@ -194,7 +194,9 @@ export async function bench(): Promise<BenchResult[]> {
     if (costs.length > 0) {
       const cpu = costs.map((c) => c.cpu);
       const slowest = [...costs].sort((x, y) => y.wall - x.wall).slice(0, Math.max(1, Math.round(costs.length / 10)));
-      const waited = slowest.reduce((acc, c) => acc + c.wall, 0) / slowest.reduce((acc, c) => acc + c.cpu, 0);
+      const slowestCpu = slowest.reduce((acc, c) => acc + c.cpu, 0);
+      // No CPU time at all would mean the trace missed the page's thread: say so rather than divide by it.
+      const waited = slowestCpu > 0 ? slowest.reduce((acc, c) => acc + c.wall, 0) / slowestCpu : Number.NaN;
       results.push(
         {
           name: `ui: Curves edit, the page's main-thread CPU time, median (traced, ${costs.length} edits)`,

@@ -253,7 +253,8 @@ function drawInFrame(u: uPlot, d: ChartData) {
  * browser is idle or when they scroll into view, whichever comes first, so an edit pays only for
  * the charts on screen. The idle drawing stops when less than `IDLE_SLICE_MS` of the idle period
  * is left (at least one chart each time) and goes on in the next one, so a keystroke that comes
- * meanwhile waits for one chart, not for all of them. Without IntersectionObserver every chart
+ * meanwhile waits for one chart, not for all of them; when the browser found no idle time within
+ * the callback's timeout, the rest are drawn at once. Without IntersectionObserver every chart
  * counts as on screen.
  */
 const offscreen = new Map<uPlot, ChartData>();
@@ -287,6 +288,13 @@ function drawWhenIdle() {
   });
 }
 
+/** A plot about to be destroyed leaves the queues of draws to come. */
+function forget(u: uPlot) {
+  offscreen.delete(u);
+  waiting.delete(u);
+  drewThisFrame.delete(u);
+}
+
 export interface ChartProps {
   spec: ChartSpec;
   height: number;
@@ -316,6 +324,7 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
       if (data.current.update(spec)) drawWhenSeen(plot.current, data.current, visible.current);
       return;
     }
+    if (plot.current) forget(plot.current);
     plot.current?.destroy();
     const width = Math.max(200, el.clientWidth || 600);
     const onDraw = () => {
@@ -356,11 +365,7 @@ export function Chart({ spec, height, theme, syncKey = 'preheard-freq', exportab
 
   useEffect(
     () => () => {
-      if (plot.current) {
-        offscreen.delete(plot.current);
-        waiting.delete(plot.current);
-        drewThisFrame.delete(plot.current);
-      }
+      if (plot.current) forget(plot.current);
       plot.current?.destroy();
       plot.current = null;
     },
