@@ -116,7 +116,7 @@ describe('saves wait for a pause in the edits', () => {
     expect(volumeOf(backend.value)).toBe(last);
   });
 
-  it('writes nothing when a shared link is put on view and left during a burst\'s wait', async () => {
+  it("writes nothing when a shared link is put on view and left during a burst's wait", async () => {
     const { backend, save, store, edit } = await started();
     edit(10);
     await vi.advanceTimersByTimeAsync(100);
