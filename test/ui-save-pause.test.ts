@@ -116,21 +116,25 @@ describe('saves wait for a pause in the edits', () => {
     expect(volumeOf(backend.value)).toBe(last);
   });
 
-  it("writes nothing when a shared link is put on view and left during a burst's wait", async () => {
-    const { backend, save, store, edit } = await started();
+  it("writes the user's own last edit, never the link's designs, when a shared link comes on view during a burst's wait", async () => {
+    // No journal (localStorage unavailable): the write at hold() is all that keeps the edit.
+    const bare = memoryBackend();
+    bare.journal = undefined;
+    const { backend, save, store, edit } = await started(bare);
     edit(10);
     await vi.advanceTimersByTimeAsync(100);
-    const writes = backend.writes;
     edit(11);
     save.hold();
     // The link's designs come on view, then the user leaves without keeping them.
     store.dispatch({ type: 'edit', slot: 'a', path: 'ways.0.box.vb_l', value: 99 });
+    await vi.advanceTimersByTimeAsync(50);
+    expect(volumeOf(backend.value)).toBe(11);
+    expect(save.status.kind).toBe('held');
+    const writes = backend.writes;
     save.release(false);
     await vi.advanceTimersByTimeAsync(SAVE_WITHIN_MS + 500);
     expect(backend.writes).toBe(writes);
-    expect(volumeOf(backend.value)).toBe(10);
-    // The burst's unwritten edit was journalled when the link came on view.
-    expect(volumeOf(backend.journaled)).toBe(11);
+    expect(volumeOf(backend.value)).toBe(11);
   });
 
   it('starts a waiting save at once when the page is hidden or an update reloads it', async () => {

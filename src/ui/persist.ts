@@ -355,9 +355,16 @@ export class Autosave {
 
   /** Stops saving while a shared link is on view (storage and the other tabs stay as they were). */
   hold(): void {
-    // An edit not yet saved (the save waits for idle time) is journalled first: the saved designs
-    // the user goes back to, or keeps the link's beside, include it.
-    if (!this.holding) this.flushNow();
+    // An edit not yet saved (the save waits for idle time or a pause) is journalled and written
+    // first, as the user's own state before the link's designs replace it: the saved designs the
+    // user goes back to, or keeps the link's beside, include it, journal or not.
+    if (!this.holding) {
+      this.flushNow();
+      if (this.dirty && this.store && this.read === 'yes') {
+        this.dirty = false;
+        void this.write(this.store.get());
+      }
+    }
     this.holding = true;
     this.setStatus({
       kind: 'held',
@@ -502,26 +509,31 @@ export class Autosave {
         // Edits that arrive while this one is written belong to a burst: the next save waits for a pause.
         burst = true;
         this.dirty = false;
-        const state = store.get();
-        const value = savedState(state, this.now());
-        try {
-          await this.backend.save(value, designsValid(state));
-          this.lastWritten = state;
-          // The journal is dropped once IndexedDB holds what it held (not a newer edit it caught).
-          if (this.journaled === state) {
-            this.backend.journal?.clear();
-            this.journaled = null;
-          }
-          // A recovery notice stays up until the user has seen it; saving goes on underneath. Edits
-          // made while this was written are not saved yet: the status says so until they are.
-          if (this.status.kind !== 'recovered') this.setStatus(this.dirty ? { kind: 'saving' } : { kind: 'saved', at: value.savedAt });
-          for (const fn of this.savedListeners) fn(value);
-        } catch (e) {
-          this.setStatus(describeFailure(e));
-        }
+        await this.write(store.get());
       }
       this.pending = null;
     })();
+  }
+
+  /** Writes `state` and says how it went (not while a shared link is on view: that says itself). */
+  private async write(state: AppState): Promise<void> {
+    const value = savedState(state, this.now());
+    try {
+      await this.backend.save(value, designsValid(state));
+      this.lastWritten = state;
+      // The journal is dropped once IndexedDB holds what it held (not a newer edit it caught).
+      if (this.journaled === state) {
+        this.backend.journal?.clear();
+        this.journaled = null;
+      }
+      // A recovery notice stays up until the user has seen it; saving goes on underneath. Edits
+      // made while this was written are not saved yet: the status says so until they are.
+      if (this.status.kind !== 'recovered' && !this.holding)
+        this.setStatus(this.dirty ? { kind: 'saving' } : { kind: 'saved', at: value.savedAt });
+      for (const fn of this.savedListeners) fn(value);
+    } catch (e) {
+      if (!this.holding) this.setStatus(describeFailure(e));
+    }
   }
 
   /** Resolves when everything dispatched so far has been written (or has failed). */
