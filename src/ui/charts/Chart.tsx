@@ -5,6 +5,7 @@ import { useEffect, useLayoutEffect, useRef } from 'preact/hooks';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { ChartSpec, Role } from './specs.ts';
+import { simplifiedLine } from './line-path.ts';
 import { num } from '../format.ts';
 import { downloadBlob } from '../files.ts';
 
@@ -126,27 +127,8 @@ export class ChartData {
 }
 
 export function shapeKey(spec: ChartSpec): string {
-  return (
-    spec.series.map((s) => `${s.role}:${s.label}:${s.values ? 1 : 0}${s.flat ? ':flat' : ''}`).join('|') +
-    `|${spec.yMin ?? ''}|${spec.yMax ?? ''}`
-  );
+  return spec.series.map((s) => `${s.role}:${s.label}:${s.values ? 1 : 0}`).join('|') + `|${spec.yMin ?? ''}|${spec.yMax ?? ''}`;
 }
-
-/**
- * A limit line (the same value at every frequency) as one segment from the first point to the last:
- * the line uPlot's own builder draws through every point, without a point per frequency to place and
- * stroke on each redraw. The values stay in the data, so the hover readout is unchanged.
- */
-const flatLine: uPlot.Series.PathBuilder = (u, seriesIdx, idx0, idx1) => {
-  const y = u.data[seriesIdx][idx0];
-  if (y == null) return null;
-  const x = u.data[0];
-  const py = u.valToPos(y, 'y', true);
-  const stroke = new Path2D();
-  stroke.moveTo(u.valToPos(x[idx0], 'x', true), py);
-  stroke.lineTo(u.valToPos(x[idx1], 'x', true), py);
-  return { stroke, fill: null, clip: null, band: null, flags: 0 };
-};
 
 function options(spec: ChartSpec, width: number, height: number, p: Palette, onDraw: () => void, syncKey: string): uPlot.Options {
   const axisFont = '12px system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
@@ -183,7 +165,7 @@ function options(spec: ChartSpec, width: number, height: number, p: Palette, onD
           stroke: st.stroke,
           width: st.width,
           dash: st.dash,
-          paths: s.flat ? flatLine : undefined,
+          paths: simplifiedLine,
           points: { show: false },
           value: (_u: uPlot, v: number | null, _si: number, idx: number | null) =>
             v == null || !Number.isFinite(v)

@@ -35,8 +35,6 @@ export interface SeriesSpec {
   longLabel?: string;
   /** Text beside the value in the hover readout (e.g. what limits max SPL). */
   annotate?: (index: number) => string;
-  /** One value at every frequency (a limit line): the chart draws it as one straight segment. */
-  flat?: boolean;
 }
 
 export interface ChartSpec {
@@ -355,7 +353,7 @@ export function buildCharts(models: Pair, options: ChartOptions = {}): ChartSpec
       ? [
           ...per((a) => a.curves.plannedPortAirSpeed),
           ...perWay((c) => c.plannedPortAirSpeed),
-          { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT), flat: true },
+          { label: `limit ${PORT_SPEED_LIMIT} m/s`, role: 'limit', values: constant(n, PORT_SPEED_LIMIT) },
         ]
       : [],
     summary: present.map((s) => {
@@ -510,7 +508,7 @@ function limitUseChart(models: Pair, f: Float64Array): ChartSpec {
         `${SLOT_LABEL[s]}: ${worst[0]} comes closest, ${num(worst[1]!.value, 3)} % of its limit at ${num(an.curves.freqHz[worst[1]!.index], 3)} Hz${worst[1]!.value > 100 ? ' — over it' : ''}.`,
       );
   }
-  if (series.length) series.push({ label: 'the limit, 100 %', role: 'limit', values: constant(f.length, 100), flat: true });
+  if (series.length) series.push({ label: 'the limit, 100 %', role: 'limit', values: constant(f.length, 100) });
   return { id: 'limit-use', title: TITLES['limit-use'], unit: '%', digits: 3, yMin: 0, freqHz: f, series, summary };
 }
 
@@ -564,8 +562,8 @@ function measuredSeries(models: Pair, f: Float64Array): SeriesSpec[] {
 
 function limitLines(pair: Pair, n: number, pick: (m: Model) => number, label: string, role: 'limit' | 'limit-hard'): SeriesSpec[] {
   const vals = SLOTS.filter((s) => pair[s] !== null).map((s) => ({ s, v: pick(pair[s]!) }));
-  if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role, values: constant(n, vals[0].v), flat: true }];
-  return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `${role}-${x.s}` as Role, values: constant(n, x.v), flat: true }));
+  if (vals.length === 2 && Math.abs(vals[0].v - vals[1].v) < 1e-9) return [{ label, role, values: constant(n, vals[0].v) }];
+  return vals.map((x) => ({ label: `${SLOT_LABEL[x.s]} ${label}`, role: `${role}-${x.s}` as Role, values: constant(n, x.v) }));
 }
 
 function sameValues(a: ArrayLike<number>, b: ArrayLike<number>) {
