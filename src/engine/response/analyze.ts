@@ -8,7 +8,16 @@ import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
 import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
-import { offsetDelay, passbandPressure, placedInSum, respond, systemPressure, wayPressure, type PointResponse } from './frequency.ts';
+import {
+  offsetDelay,
+  passbandPressure,
+  placedInSum,
+  respond,
+  sineParts,
+  systemPressure,
+  wayPressure,
+  type SineParts,
+} from './frequency.ts';
 import { byContent } from './by-content.ts';
 import { ladderInputImpedance, ladderStates, ladderThevenin, partLabel, partPower } from './ladder.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
@@ -154,7 +163,7 @@ function wayOnGrid(system: SpeakerSystem, way: Way, freqHz: Float64Array, volts:
     curves.coneSplDb[k] = splDb(abs(r.conePressure));
     if (curves.portSplDb) curves.portSplDb[k] = splDb(abs(r.outletPressure));
     curves.excursionMm[k] = Math.SQRT2 * abs(r.excursion) * 1000;
-    const stress = outletStress(box, r.outletFlow, 2 * Math.PI * f);
+    const stress = outletStress(box, abs(r.outletFlow), 2 * Math.PI * f);
     if (curves.radiatorExcursionMm && stress) curves.radiatorExcursionMm[k] = stress.value;
     // What the amplifier sees: the drivers, or their network loaded by them.
     const load = way.network ? ladderInputImpedance(way.network, 2 * Math.PI * f, r.impedance) : r.impedance;
@@ -382,12 +391,11 @@ function boxFigures(system: SpeakerSystem, way: DriverWay): Pick<Figures, 'fcHz'
  * The box's stress for an rms outlet flow at w, as its kind's probe measures it in the
  * large-signal model (peak values): port air speed in m/s, or radiator travel in mm.
  */
-function outletStress(box: Box, outletFlow: Complex, w: number): { kind: BoxProbe['kind']; value: number; limit: number } | null {
+function outletStress(box: Box, outletFlow: number, w: number): { kind: BoxProbe['kind']; value: number; limit: number } | null {
   const probe = BOX_KINDS[box.type].probe(box);
   if (!probe) return null;
-  // The port probe reads the ports' volume velocity; the radiator's reads its excursion U/(jw·Sp).
-  const quantity =
-    probe.kind === 'port-speed' ? abs(outletFlow) : box.type === 'passive-radiator' ? abs(outletFlow) / (w * box.sp) : Number.NaN;
+  // The port probe reads the ports' volume velocity |U|; the radiator's reads its excursion |U|/(w·Sp).
+  const quantity = probe.kind === 'port-speed' ? outletFlow : box.type === 'passive-radiator' ? outletFlow / (w * box.sp) : Number.NaN;
   return { kind: probe.kind, value: Math.SQRT2 * quantity * probe.toUnit, limit: probe.limit };
 }
 
@@ -419,8 +427,11 @@ function heat(way: DriverWay, riseK: number): DriverWay {
   return hot;
 }
 
-/** Power in the coil's resistance, W, for a response at some drive (rms current). */
-const coilPower = (way: DriverWay, r: PointResponse) => abs(r.current) ** 2 * way.driver.re;
+/** Power in the coil's resistance, W, for a coil current (rms). */
+const coilPower = (way: DriverWay, current: number) => current ** 2 * way.driver.re;
+
+/** The response parts each heating step reads, filled in place (maxSine runs one at a time). */
+const step: SineParts = { pressure: 0, excursion: 0, outletFlow: 0, current: 0 };
 
 /**
  * The largest drive (V rms at the way's input) and the seat pressure there (Pa rms) for a sine at f
@@ -438,9 +449,11 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
   // The filter sits in front of the amplifier: its gain sets how much input reaches the rail.
   const vAmp = system.amplifier.vPeak / (Math.SQRT2 * abs(wayFilterAt(way.filter, w)));
   // Thermal: the drive that holds the coil at its rating, with the coil's resistance at the rating.
+  // (Read now: the heating steps below reuse `heat`'s copy of the way and `step`.)
   const atMax = heat(way, riseMax);
-  const rAtMax = respond(system, atMax, f, 1);
-  const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, rAtMax)));
+  sineParts(system, atMax, f, 1, step);
+  const paAtMax = step.pressure;
+  const vThermal = Math.sqrt(riseMax / (rth * coilPower(atMax, step.current)));
   let rise = 0;
   // The best so far as plain numbers (no object per heating step).
   let bestV = vAmp;
@@ -448,11 +461,11 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
   let bestLimit: MaxSplLimit = 'amplifier';
   for (let it = 0; it < 12; it++) {
     const hot = heat(way, rise);
-    const r = respond(system, hot, f, 1);
+    const r = sineParts(system, hot, f, 1, step);
     bestV = vAmp;
     bestPa = 0;
     bestLimit = 'amplifier';
-    const vExcursion = d.xmax / (Math.SQRT2 * abs(r.excursion));
+    const vExcursion = d.xmax / (Math.SQRT2 * r.excursion);
     if (vExcursion < bestV) {
       bestV = vExcursion;
       bestLimit = 'excursion';
@@ -465,12 +478,12 @@ export function maxSine(system: SpeakerSystem, way: DriverWay, f: number): { v: 
         bestLimit = stress.kind === 'radiator' ? 'radiator' : 'port';
       }
     }
-    const riseHere = rth * coilPower(hot, r) * bestV * bestV;
+    const riseHere = rth * coilPower(hot, r.current) * bestV * bestV;
     if (riseHere >= riseMax || vThermal <= bestV) {
       // The coil reaches its rating first: the drive that holds it there, with the hot coil's response.
-      return { v: vThermal, pa: abs(rAtMax.pressure) * vThermal, limit: 'thermal' };
+      return { v: vThermal, pa: paAtMax * vThermal, limit: 'thermal' };
     }
-    bestPa = abs(r.pressure) * bestV;
+    bestPa = r.pressure * bestV;
     if (Math.abs(riseHere - rise) < 1e-3) break;
     rise = riseHere;
   }
