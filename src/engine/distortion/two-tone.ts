@@ -9,7 +9,7 @@
 //   total = sqrt(IM2^2 + IM3^2), each as a percent and in dB (20·log10 of the ratio),
 // and each product alone in dB relative to f2. A quadratic term in the model makes IM2, a cubic IM3.
 // f2 must not be a whole multiple of f1: a harmonic of the low tone would then sit on a product.
-import { abs, add, cx, type Complex } from '../complex.ts';
+import { abs, add, cx, hypot, type Complex } from '../complex.ts';
 import { wayFilterAt } from '../filters/way-filter.ts';
 import { wayPressure } from '../response/frequency.ts';
 import { wooferParams } from '../sim/params.ts';
@@ -98,7 +98,7 @@ export function binPhasor(x: ArrayLike<number>, start: number, perPeriod: number
 export function imFigureOf(f1Hz: number, f2Hz: number, atF2: number, products: number[]): IntermodulationFigure {
   const im2 = (products[1] + products[2]) / atF2;
   const im3 = (products[0] + products[3]) / atF2;
-  const total = Math.hypot(im2, im3);
+  const total = hypot(im2, im3);
   const db = (r: number) => 20 * Math.log10(Math.max(r, 1e-15));
   return {
     f1Hz,

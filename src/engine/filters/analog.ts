@@ -1,6 +1,7 @@
 // Rational analog transfer functions: polynomial arithmetic, roots, and conversion to biquads.
 // Polynomials are number[] in ascending powers of s: [c0, c1, c2, ...].
 import { bilinearK, bilinearSection, packSections, type AnalogSection } from './biquad.ts';
+import { hypot } from '../complex.ts';
 
 export type Poly = number[];
 
@@ -87,14 +88,14 @@ export function polyRoots(pIn: Poly): Root[] {
         ci = (ni * dr - nr * di) / d2;
       zr[k] -= cr;
       zi[k] -= ci;
-      moved = Math.max(moved, Math.hypot(cr, ci));
+      moved = Math.max(moved, hypot(cr, ci));
     }
     if (moved < 1e-15) break;
   }
   for (let k = 0; k < n; k++) {
     let re = zr[k] * scale,
       im = zi[k] * scale;
-    if (Math.abs(im) < 1e-9 * Math.hypot(re, im)) im = 0;
+    if (Math.abs(im) < 1e-9 * hypot(re, im)) im = 0;
     roots.push({ re, im });
   }
   return roots;

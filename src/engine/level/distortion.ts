@@ -9,6 +9,7 @@
 // same time constant, so all the figures describe the same window.
 
 import { keepShape } from '../keep-shape.ts';
+import { hypot } from '../complex.ts';
 
 export class ResidualMeter {
   private readonly alpha: number;
@@ -120,5 +121,5 @@ export function toneAmplitude(x: ArrayLike<number>, start: number, length: numbe
     c += v * Math.cos(w * k);
     s += v * Math.sin(w * k);
   }
-  return (2 * Math.hypot(c, s)) / length;
+  return (2 * hypot(c, s)) / length;
 }

@@ -13,6 +13,7 @@ import { KEPT_BAND } from '../filters/multirate.ts';
 import { polyEval } from '../filters/analog.ts';
 import { wayParams } from '../sim/ladder.ts';
 import { speakerTransfer } from '../sim/transfer.ts';
+import { hypot } from '../complex.ts';
 
 /** What the way plays above the kept band stays at least this far below its passband, dB. */
 export const ALIAS_MARGIN_DB = 60;
@@ -37,7 +38,7 @@ function wayMagnitude(filter: DriverWay['filter'], num: number[], den: number[],
   const h = wayFilterAt(filter, w);
   const [nr, ni] = polyEval(num, 0, w);
   const [dr, di] = polyEval(den, 0, w);
-  return Math.hypot(h.re, h.im) * Math.sqrt((nr * nr + ni * ni) / (dr * dr + di * di));
+  return hypot(h.re, h.im) * Math.sqrt((nr * nr + ni * ni) / (dr * dr + di * di));
 }
 
 /**

@@ -5,7 +5,7 @@ import type { Box, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import type { BoxFigure, BoxProbe } from '../box/physics.ts';
 import { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb } from '../units.ts';
-import { abs, add, arg, cx, div, mul, scale, type Complex } from '../complex.ts';
+import { abs, add, arg, cx, div, hypot, mul, scale, type Complex } from '../complex.ts';
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
 import {
@@ -725,7 +725,7 @@ function analyzeSum(
       const p = placed[j];
       const hereRe = p.at[2 * k],
         hereIm = p.at[2 * k + 1];
-      curves.ways[j].splDb[k] = splDb(Math.hypot(hereRe, hereIm));
+      curves.ways[j].splDb[k] = splDb(hypot(hereRe, hereIm));
       belowRe += p.below[2 * k];
       belowIm += p.below[2 * k + 1];
       atRe += hereRe;
@@ -733,7 +733,7 @@ function analyzeSum(
       aboveRe += p.above[2 * k];
       aboveIm += p.above[2 * k + 1];
     }
-    curves.splDb[k] = splDb(Math.hypot(atRe, atIm));
+    curves.splDb[k] = splDb(hypot(atRe, atIm));
     curves.phaseDeg[k] = (Math.atan2(atIm, atRe) * 180) / Math.PI;
     curves.groupDelayMs[k] = groupDelayFrom(cx(belowRe, belowIm), cx(aboveRe, aboveIm), freqHz[k]) * 1000;
   }

@@ -8,7 +8,7 @@
 import type { ActiveFilter, Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { cachedCorrection, type MeasuredCorrection } from './measured.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import { add, cx, div, mul, scale, type Complex } from '../complex.ts';
+import { add, cx, div, hypot, mul, scale, type Complex } from '../complex.ts';
 import { ladderThevenin } from './ladder.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { baffleStepCorners } from '../filters/room.ts';
@@ -235,7 +235,7 @@ export interface SineParts {
 
 /**
  * `respond`'s pressure, excursion, outlet flow and current as magnitudes, written into `out`: the
- * same numbers to the last bit (the same operations, `abs` being Math.hypot of the parts), without
+ * same numbers to the last bit (the same operations, `abs` being `hypot` of the parts), without
  * the eleven objects of a response. The largest sine solves each grid point up to thirteen times.
  */
 export function sineParts(system: SpeakerSystem, way: DriverWay, f: number, volts: number, out: SineParts): SineParts {
@@ -249,10 +249,10 @@ export function sineParts(system: SpeakerSystem, way: DriverWay, f: number, volt
     pIm = pRe * c.im + pIm * c.re;
     pRe = re;
   }
-  out.pressure = Math.hypot(pRe, pIm);
-  out.excursion = Math.hypot(s[At.excursion], s[At.excursion + 1]);
-  out.outletFlow = Math.hypot(s[At.outletFlow], s[At.outletFlow + 1]);
-  out.current = Math.hypot(s[At.current], s[At.current + 1]);
+  out.pressure = hypot(pRe, pIm);
+  out.excursion = hypot(s[At.excursion], s[At.excursion + 1]);
+  out.outletFlow = hypot(s[At.outletFlow], s[At.outletFlow + 1]);
+  out.current = hypot(s[At.current], s[At.current + 1]);
   return out;
 }
 

@@ -4,7 +4,7 @@
 // V2/V1 = ZL/(A·ZL + B) and Zin = (A·ZL + B)/(C·ZL + D) (standard two-port circuit theory).
 // Seen from its output, the source behind the ladder is a Thevenin source V1/A with impedance B/A.
 import type { LadderPart } from '../system.ts';
-import { add, cx, div, inv, mul, type Complex } from '../complex.ts';
+import { add, cx, div, hypot, inv, mul, type Complex } from '../complex.ts';
 
 export interface Abcd {
   a: Complex;
@@ -118,7 +118,7 @@ export function partLabel(p: LadderPart, index: number): string {
 export function ladderPassesBass(parts: readonly LadderPart[]): boolean {
   const at = (f: number) => {
     const g = ladderThevenin(parts, 2 * Math.PI * f, 0).gain;
-    return Math.hypot(g.re, g.im);
+    return hypot(g.re, g.im);
   };
   return at(20) >= at(20000);
 }

@@ -5,7 +5,7 @@
 // up draws less current, so this errs on the safe side). With several drivers `way.driver` is
 // their combination (its Re and its Pe are the whole way's), so the share is each driver's too.
 // The drive is the rms volts at the amplifier's input: an active way's filter comes first.
-import { abs } from '../complex.ts';
+import { abs, hypot } from '../complex.ts';
 import { wayFilterAt } from '../filters/way-filter.ts';
 import { PORT_SPEED_LIMIT } from '../units.ts';
 import type { DriverWay, SpeakerSystem } from '../system.ts';
@@ -64,7 +64,7 @@ export function coilHeatW(
     if (net) current = (voltsRms * 10 ** (net.transferDb[i] / 20)) / net.driverImpedanceOhm[i];
     else {
       const ph = (phaseDeg[i] * Math.PI) / 180;
-      current = drive![i] / Math.hypot(z[i] * Math.cos(ph) + rs, z[i] * Math.sin(ph));
+      current = drive![i] / hypot(z[i] * Math.cos(ph) + rs, z[i] * Math.sin(ph));
     }
     out[i] = current * current * way.driver.re;
   }
