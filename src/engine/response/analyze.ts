@@ -42,11 +42,18 @@ export interface AnalyzeOptions {
 export { PORT_SPEED_LIMIT, SENSITIVITY_VOLTS, splDb };
 
 export function logGrid(fMin: number, fMax: number, perOctave: number): Float64Array {
+  const last = lastGrids.find((g) => g.fMin === fMin && g.fMax === fMax && g.perOctave === perOctave);
+  // A copy: the caller owns its grid (an analysis keeps it as its curves' frequencies).
+  if (last) return last.grid.slice();
   const n = Math.ceil(Math.log2(fMax / fMin) * perOctave) + 1;
   const grid = new Float64Array(n);
   for (let k = 0; k < n; k++) grid[k] = fMin * 2 ** (Math.log2(fMax / fMin) * (k / (n - 1)));
-  return grid;
+  lastGrids.unshift({ fMin, fMax, perOctave, grid });
+  lastGrids.length = Math.min(lastGrids.length, 4);
+  return grid.slice();
 }
+/** The last few grids made: every analysis makes the same two or three (a power per point each). */
+const lastGrids: { fMin: number; fMax: number; perOctave: number; grid: Float64Array }[] = [];
 
 /** The first driver way: the first version's woofer, and the way the single-way views show. */
 export function firstDriverWay(system: SpeakerSystem): DriverWay {

@@ -8,7 +8,7 @@
 import type { ActiveFilter, Driver, DriverWay, SpeakerSystem, Way } from '../system.ts';
 import { cachedCorrection, type MeasuredCorrection } from './measured.ts';
 import { delayAt, wayFilterAt } from '../filters/way-filter.ts';
-import { add, cx, div, hypot, mul, scale, type Complex } from '../complex.ts';
+import { add, cx, hypot, mul, scale, type Complex } from '../complex.ts';
 import { ladderThevenin } from './ladder.ts';
 import { BOX_KINDS } from '../box/index.ts';
 import { baffleStepCorners } from '../filters/room.ts';
@@ -38,11 +38,20 @@ export interface PointResponse {
  * L2R2 lossy-inductance model: eddy currents make the coil's inductance fall and its resistance rise
  * with frequency).
  */
-export function coilImpedance(d: Pick<Driver, 're' | 'le' | 'l2' | 'r2'>, w: number): Complex {
-  const z = cx(d.re, w * d.le);
-  if (!(d.l2 > 0)) return z;
-  const jwl2 = cx(0, w * d.l2);
-  return add(z, div(scale(jwl2, d.r2), add(cx(d.r2), jwl2)));
+export function coilImpedance(d: Pick<Driver, 're' | 'le' | 'l2' | 'r2'>, w: number, out: Complex = cx(0)): Complex {
+  out.re = d.re;
+  out.im = w * d.le;
+  if (!(d.l2 > 0)) return out;
+  // add(z, div(scale(jwL2, R2), add(cx(R2), jwL2))) written out, in the helpers' order of operations.
+  const wl2 = w * d.l2;
+  const numRe = 0 * d.r2;
+  const numIm = wl2 * d.r2;
+  const denRe = d.r2 + 0;
+  const denIm = 0 + wl2;
+  const den2 = denRe * denRe + denIm * denIm;
+  out.re += (numRe * denRe + numIm * denIm) / den2;
+  out.im += (numIm * denRe - numRe * denIm) / den2;
+  return out;
 }
 
 /** Room or cabin gain: a 12 dB/octave rise below the corner (common practice, no source). */
@@ -51,10 +60,20 @@ export function roomGain(f: number, cornerHz: number): number {
 }
 
 /** The baffle step (1 + s/wz)/(1 + s/wp) at w, with the corners of filters/room.ts; 1 when off. */
-export function baffleGain(w: number, widthM: number): Complex {
-  if (!(widthM > 0)) return cx(1);
+export function baffleGain(w: number, widthM: number, out: Complex = cx(0)): Complex {
+  if (!(widthM > 0)) {
+    out.re = 1;
+    out.im = 0;
+    return out;
+  }
   const { wz, wp } = baffleStepCorners(widthM);
-  return div(cx(1, w / wz), cx(1, w / wp));
+  // div(cx(1, w/wz), cx(1, w/wp)) written out, in the helper's order of operations.
+  const a = w / wz;
+  const b = w / wp;
+  const d = 1 * 1 + b * b;
+  out.re = (1 * 1 + a * b) / d;
+  out.im = (a * 1 - 1 * b) / d;
+  return out;
 }
 
 /**
@@ -122,6 +141,9 @@ const enum At {
 }
 /** The last solution, overwritten by the next `solve` (read it before solving again). */
 const SOLVED = new Float64Array(20);
+/** `solve`'s coil impedance and baffle step at the frequency being solved (read within the call). */
+const COIL = cx(0);
+const BAFFLE = cx(0);
 
 /*
  * The circuit is solved in real and imaginary parts rather than through complex.ts's objects: the
@@ -140,7 +162,7 @@ function solve(system: SpeakerSystem, way: DriverWay, f: number, volts: number, 
   // drive = filter·volts, through the network's Thevenin gain for a passive way
   let driveRe = filter.re * volts;
   let driveIm = filter.im * volts;
-  const coil = coilImpedance(d, w);
+  const coil = coilImpedance(d, w, COIL);
   let sourceRe = amplifier.rs;
   let sourceIm = 0;
   if (way.network) {
@@ -182,7 +204,7 @@ function solve(system: SpeakerSystem, way: DriverWay, f: number, volts: number, 
   const outletFlowIm = outlet.re * flowIm + outlet.im * flowRe;
   const k = (air.rho * (withRoomGain ? roomGain(f, listening.roomGainHz) : 1)) / (listening.omega * listening.distance);
   // Radiation: jw·rho/(Omega·r), times the baffle step of a free-standing cabinet.
-  const baffle = baffleGain(w, listening.baffleWidth ?? 0);
+  const baffle = baffleGain(w, listening.baffleWidth ?? 0, BAFFLE);
   const radiationRe = (0 * baffle.re - w * baffle.im) * k;
   const radiationIm = (0 * baffle.im + w * baffle.re) * k;
   const coneRe = (radiationRe * flowRe - radiationIm * flowIm) * ac.cone;
