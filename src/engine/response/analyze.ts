@@ -9,6 +9,7 @@ import { abs, add, arg, cx, div, hypot, mul, scale, type Complex } from '../comp
 import { error, fmt, warning, type Issue } from '../issues.ts';
 import { type AmplifierShortfall, amplifierShortfalls, programmeLeqCPerVolt, programmeVoltsRms } from '../level/programme.ts';
 import {
+  drivenPressure,
   offsetDelay,
   passbandPressure,
   placedInSum,
@@ -279,7 +280,7 @@ export function rolloffHz(system: SpeakerSystem, way: DriverWay, dropDb: number)
 /** `rolloffHz` for several drops at once: the way's level at each frequency solved once for all. */
 export function rolloffsHz(system: SpeakerSystem, way: DriverWay, dropsDb: number[]): number[] {
   const low = withoutLowpass(way);
-  const level = remembered((f: number) => splDb(abs(respond(system, low, f, 1, false).pressure)));
+  const level = remembered((f: number) => splDb(abs(drivenPressure(system, low, f, 1, false))));
   const scanFrom = scanStartHz(system, way);
   const passband = splDb(wayPassbandPerVolt(system, way));
   let fromPeak: { start: number; ref: number } | null = null;

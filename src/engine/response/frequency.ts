@@ -60,13 +60,20 @@ export function roomGain(f: number, cornerHz: number): number {
 }
 
 /** The baffle step (1 + s/wz)/(1 + s/wp) at w, with the corners of filters/room.ts; 1 when off. */
+/** The last baffle width's step corners: a design has one width, asked for at every solve. */
+const cornersOf = { widthM: Number.NaN, corners: { wz: 0, wp: 0 } };
+
 export function baffleGain(w: number, widthM: number, out: Complex = cx(0)): Complex {
   if (!(widthM > 0)) {
     out.re = 1;
     out.im = 0;
     return out;
   }
-  const { wz, wp } = baffleStepCorners(widthM);
+  if (widthM !== cornersOf.widthM) {
+    cornersOf.widthM = widthM;
+    cornersOf.corners = baffleStepCorners(widthM);
+  }
+  const { wz, wp } = cornersOf.corners;
   // div(cx(1, w/wz), cx(1, w/wp)) written out, in the helper's order of operations.
   const a = w / wz;
   const b = w / wp;
@@ -319,10 +326,19 @@ export function wayPressure(system: SpeakerSystem, way: Way, f: number, volts: n
   const own =
     way.kind !== 'driver'
       ? mul(scale(wayFilterAt(way.filter, w), way.paPerV * volts), baffleGain(w, system.listening.baffleWidth ?? 0))
-      : way.measured
-        ? respond(system, way, f, volts, withRoomGain).pressure
-        : phasor(solve(system, way, f, volts, withRoomGain), At.pressure);
+      : drivenPressure(system, way, f, volts, withRoomGain);
   return placedInSum(system, way, own, f);
+}
+
+/**
+ * `respond(...).pressure` (a measured way's correction included) without the rest of the response:
+ * the pressure read from the solution, one object instead of eleven. The sum, its group delay and
+ * the ways' f3 scans ask for nothing else.
+ */
+export function drivenPressure(system: SpeakerSystem, way: DriverWay, f: number, volts: number, withRoomGain = true): Complex {
+  return way.measured
+    ? respond(system, way, f, volts, withRoomGain).pressure
+    : phasor(solve(system, way, f, volts, withRoomGain), At.pressure);
 }
 
 /** A way's own pressure at f as it enters the sum: its polarity and its offset's delay applied. */
