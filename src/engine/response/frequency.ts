@@ -59,10 +59,10 @@ export function roomGain(f: number, cornerHz: number): number {
   return cornerHz > 0 ? Math.sqrt(1 + (cornerHz / f) ** 4) : 1;
 }
 
-/** The baffle step (1 + s/wz)/(1 + s/wp) at w, with the corners of filters/room.ts; 1 when off. */
-/** The last baffle width's step corners: a design has one width, asked for at every solve. */
+/** The last baffle width's step corners (they depend on the width alone): a design has one width, asked for at every solve. */
 const cornersOf = { widthM: Number.NaN, corners: { wz: 0, wp: 0 } };
 
+/** The baffle step (1 + s/wz)/(1 + s/wp) at w, with the corners of filters/room.ts; 1 when off. */
 export function baffleGain(w: number, widthM: number, out: Complex = cx(0)): Complex {
   if (!(widthM > 0)) {
     out.re = 1;
