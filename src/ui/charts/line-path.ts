@@ -44,7 +44,8 @@ export function lineRuns(xs: ArrayLike<number>, ys: ArrayLike<number | null>, to
   return runs;
 }
 
-function sameValues(a: ArrayLike<number | null>, b: ArrayLike<number | null>): boolean {
+/** The same values, element for element (null included), with no tolerance. */
+function sameExactly(a: ArrayLike<number | null>, b: ArrayLike<number | null>): boolean {
   if (a === b) return true;
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
@@ -67,7 +68,7 @@ function xPixelsOf(u: uPlot): Float64Array {
     kept.max === sx.max &&
     kept.left === u.bbox.left &&
     kept.width === u.bbox.width &&
-    sameValues(kept.freq, xs)
+    sameExactly(kept.freq, xs)
   ) {
     kept.freq = xs;
     return kept.px;
@@ -113,7 +114,7 @@ export const simplifiedLine: uPlot.Series.PathBuilder = (u, seriesIdx, idx0, idx
     kept.max === sy.max &&
     kept.top === u.bbox.top &&
     kept.height === u.bbox.height &&
-    sameValues(kept.values, values)
+    sameExactly(kept.values, values)
   )
     return kept.paths;
   const py = values.map((v) => (v === null ? null : u.valToPos(v, yScale, true)));
