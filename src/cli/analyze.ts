@@ -319,8 +319,6 @@ function tonePair(value: string | undefined): [number, number] | null {
 }
 
 export const analyzeCommand: Command = {
-  name: 'analyze',
-  summary: 'small-signal figures and curves of a design',
   run: (argv) =>
     runGuarded('analyze', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

@@ -7,9 +7,8 @@ export const EXIT_OK = 0;
 export const EXIT_BAD_INPUT = 1;
 export const EXIT_USAGE = 2;
 
+/** A command: its name and its line in the usage are in main.ts's table. */
 export interface Command {
-  name: string;
-  summary: string;
   run(argv: string[]): Promise<number>;
 }
 

@@ -111,8 +111,6 @@ function sideJson(s: Side) {
 }
 
 export const compareCommand: Command = {
-  name: 'compare',
-  summary: 'two designs on one track, same calibration, levels matched',
   run: (argv) =>
     runGuarded('compare', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

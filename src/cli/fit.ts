@@ -138,8 +138,6 @@ function curveCsv(fit: ImpedanceFit): string {
 }
 
 export const fitCommand: Command = {
-  name: 'fit',
-  summary: 'driver parameters from measured impedance sweeps',
   run: (argv) =>
     runGuarded('fit', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

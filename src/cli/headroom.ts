@@ -26,8 +26,6 @@ exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
 `;
 
 export const headroomCommand: Command = {
-  name: 'headroom',
-  summary: 'the loudest clean level of a design on a track, and its first limit',
   run: (argv) =>
     runGuarded('headroom', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

@@ -50,8 +50,6 @@ exit codes: 0 ok, 1 bad input (message on stderr), 2 usage
 const TABLE_KIND = { noun: 'response table', maxBytes: 8 << 20, sizeWords: '8 MiB', typical: 'a response is a few hundred kB at most' };
 
 export const measuredCommand: Command = {
-  name: 'measured',
-  summary: 'attach a measured frequency response to a way (writes a new design file)',
   run: (argv) =>
     runGuarded('measured', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

@@ -88,8 +88,6 @@ export function summaryLines(s: RenderSummary): string[] {
 const STEP_BLOCKS = 16;
 
 export const renderCommand: Command = {
-  name: 'render',
-  summary: 'play an audio file through a design at a calibrated level',
   run: (argv) =>
     runGuarded('render', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {

@@ -113,8 +113,6 @@ function table(rows: SweepRow[], vented: boolean): string {
 }
 
 export const sweepCommand: Command = {
-  name: 'sweep',
-  summary: 'f3, first limit and headroom on a track across box volumes and tunings',
   run: (argv) =>
     runGuarded('sweep', HELP, async () => {
       const { values, positionals } = parseCommandArgs(argv, {
