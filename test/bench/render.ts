@@ -361,11 +361,12 @@ function lowRateModels(): BenchResult[] {
 
 /**
  * A render after the previous render's objects were collected (four full collections between
- * renders) against renders back to back, CPU time, best of 3 each after two warm-ups. V8 gives a
+ * renders) against renders back to back, CPU time, best of 5 each in turns after two warm-ups
+ * (best of 3 read 1.22 once on 4 December among runs of 0.96-1.0: one slow spell of the machine). V8 gives a
  * class's objects a shape that compiled code is specialised to and drops the shape with the last
  * object: without engine/keep-shape.ts every compiled loop was thrown away between such renders and
  * compiled again (this ratio read 1.13-1.38 before it, 0.99-1.15 with it; four runs each, 3 December
- * 2026). Classes of the renderer and the way chains do not keep their objects yet.
+ * 2026; the renderer's and the way chains' classes keep theirs too since).
  */
 function afterCollection(): BenchResult[] {
   setFlagsFromString('--expose-gc');
@@ -387,7 +388,7 @@ function afterCollection(): BenchResult[] {
   render();
   let together = Infinity,
     apart = Infinity;
-  for (let k = 0; k < 3; k++) {
+  for (let k = 0; k < 5; k++) {
     together = Math.min(together, cpu(false));
     apart = Math.min(apart, cpu(true));
   }
