@@ -341,26 +341,11 @@ export class Renderer {
       let firstWay = true,
         firstDriver = true;
       for (const chain of this.chains) {
-        let pN: Float64Array, pL: Float64Array;
         if (chain instanceof DriverWayChain) {
           const lane = chain.laneFor(c);
-          pN = lane.pN;
-          pL = lane.pL;
-          if (firstDriver) for (let k = 0; k < n; k++) or[k] = pN[k] - pL[k];
-          else for (let k = 0; k < n; k++) or[k] += pN[k] - pL[k];
+          addDriverWay(lane.pN, lane.pL, n, on, ol, or, firstWay, firstDriver);
           firstDriver = false;
-        } else pN = pL = chain.out[c];
-        if (firstWay) {
-          for (let k = 0; k < n; k++) {
-            on[k] = pN[k];
-            ol[k] = pL[k];
-          }
-        } else {
-          for (let k = 0; k < n; k++) {
-            on[k] += pN[k];
-            ol[k] += pL[k];
-          }
-        }
+        } else addFlatWay(chain.out[c], n, on, ol, firstWay);
         firstWay = false;
       }
     }
@@ -409,6 +394,61 @@ export class Renderer {
   lane(k = 0, way = 0): Pick<DriverLane, 'sim' | 'lin'> {
     const lane = this.drivers[way].lanes[k];
     return { sim: lane.sim, lin: lane.lin };
+  }
+}
+
+/**
+ * A driver way's lane into a channel's sums in one pass: the full model's output into `on`, its
+ * linear twin's into `ol`, their difference into `or` (each written where the way is the first of
+ * its kind, added to otherwise: every element the same additions as three passes made).
+ */
+function addDriverWay(
+  pN: Float64Array,
+  pL: Float64Array,
+  n: number,
+  on: Float64Array,
+  ol: Float64Array,
+  or: Float64Array,
+  firstWay: boolean,
+  firstDriver: boolean,
+): void {
+  if (firstWay) {
+    for (let k = 0; k < n; k++) {
+      const a = pN[k],
+        b = pL[k];
+      or[k] = a - b;
+      on[k] = a;
+      ol[k] = b;
+    }
+  } else if (firstDriver) {
+    for (let k = 0; k < n; k++) {
+      const a = pN[k],
+        b = pL[k];
+      or[k] = a - b;
+      on[k] += a;
+      ol[k] += b;
+    }
+  } else {
+    for (let k = 0; k < n; k++) {
+      const a = pN[k],
+        b = pL[k];
+      or[k] += a - b;
+      on[k] += a;
+      ol[k] += b;
+    }
+  }
+}
+
+/** A way without a driver model (its output is its own linear part) into a channel's sums. */
+function addFlatWay(p: Float64Array, n: number, on: Float64Array, ol: Float64Array, firstWay: boolean): void {
+  if (firstWay) {
+    for (let k = 0; k < n; k++) on[k] = ol[k] = p[k];
+  } else {
+    for (let k = 0; k < n; k++) {
+      const a = p[k];
+      on[k] += a;
+      ol[k] += a;
+    }
   }
 }
 
