@@ -64,18 +64,23 @@ function bestMs(n: number, run: () => void): number {
   return ms;
 }
 
-/** Best time of each run, ms, over n rounds that take them in turn (a slow spell falls on all alike). */
-function bestsInTurns(n: number, runs: (() => void)[]): number[] {
-  const best = runs.map(() => Infinity);
+/**
+ * Times of each run, ms, over n rounds that take them in turn (so a slow spell of the machine falls
+ * on all alike), each run's times reduced to one figure by `pick` (best, median).
+ */
+function inTurns(n: number, runs: (() => void)[], pick: (times: number[]) => number): number[] {
+  const times: number[][] = runs.map(() => []);
   for (let k = 0; k < n; k++) {
     runs.forEach((run, i) => {
       const t0 = now();
       run();
-      best[i] = Math.min(best[i], now() - t0);
+      times[i].push(now() - t0);
     });
   }
-  return best;
+  return times.map(pick);
 }
+const best = (xs: number[]) => Math.min(...xs);
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
 async function bestAsync(n: number, run: () => Promise<unknown>): Promise<number> {
   let ms = Infinity;
@@ -85,19 +90,6 @@ async function bestAsync(n: number, run: () => Promise<unknown>): Promise<number
     ms = Math.min(ms, now() - t0);
   }
   return ms;
-}
-
-/** Median time of each run, ms, over n rounds that take them in turn (so a slow spell of the machine falls on all alike). */
-function mediansMs(n: number, runs: (() => void)[]): number[] {
-  const xs: number[][] = runs.map(() => []);
-  for (let k = 0; k < n; k++) {
-    runs.forEach((run, i) => {
-      const t0 = now();
-      run();
-      xs[i].push(now() - t0);
-    });
-  }
-  return xs.map((x) => x.sort((a, b) => a - b)[Math.floor(n / 2)]);
 }
 
 function mustRun(cmd: string, args: string[]): void {
@@ -164,17 +156,25 @@ export async function bench(): Promise<BenchResult[]> {
     };
     // In turns, best of 3 each: measured one after the other (best of 2), compare / render read
     // 2.40 to 3.02 in six runs on 4 December while the machine's speed moved.
-    const [renderMinMs, headroomMs, compareMs] = bestsInTurns(3, [
-      cli(['render', design, minuteIn, '-o', join(dir, 'm.wav')]),
-      cli(['headroom', design, minuteIn]),
-      cli(['compare', design, sealed, minuteIn, '-o', join(dir, 'cmp')]),
-    ]);
+    const [renderMinMs, headroomMs, compareMs] = inTurns(
+      3,
+      [
+        cli(['render', design, minuteIn, '-o', join(dir, 'm.wav')]),
+        cli(['headroom', design, minuteIn]),
+        cli(['compare', design, sealed, minuteIn, '-o', join(dir, 'cmp')]),
+      ],
+      best,
+    );
 
-    const [helpBundle, bareNode, helpTsx] = mediansMs(9, [
-      () => mustRun(process.execPath, [BUNDLE, '--help']),
-      () => mustRun(process.execPath, ['-e', '0']),
-      () => mustRun(process.execPath, [join(ROOT, 'src/cli/preheard.mjs'), '--help']),
-    ]);
+    const [helpBundle, bareNode, helpTsx] = inTurns(
+      9,
+      [
+        () => mustRun(process.execPath, [BUNDLE, '--help']),
+        () => mustRun(process.execPath, ['-e', '0']),
+        () => mustRun(process.execPath, [join(ROOT, 'src/cli/preheard.mjs'), '--help']),
+      ],
+      median,
+    );
 
     // Garbage from one render of the minute: what V8's young-generation collections free, summed
     // from its --trace-gc lines ("Scavenge 8.1 (10.7) -> 6.2 (10.7) MB": 1.9 MB freed). Their count
